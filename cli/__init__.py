@@ -1,0 +1,1 @@
+"""The ``realquad`` command line (installed as the package ``realquad_cli``)."""

@@ -1,0 +1,9 @@
+"""One module per command; :data:`COMMANDS` lists them for the entry point."""
+
+from __future__ import annotations
+
+import click
+
+from realquad_cli.commands import cfrac, pell, unit
+
+COMMANDS: list[click.Command] = [cfrac.command, pell.command, unit.command]

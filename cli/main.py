@@ -1,0 +1,87 @@
+"""Entry point of the ``realquad`` command line.
+
+``main(argv)`` runs one command in-process and returns its exit status; errors
+become one ``realquad: error: …`` line on stderr with status 2, never a
+traceback (set ``REALQUAD_DEBUG=1`` to see one for an internal error).
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from collections.abc import Sequence
+
+import click
+
+import realquad
+from realquad.errors import RealquadError
+from realquad_cli.commands import COMMANDS
+
+CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+
+
+def _version_text() -> str:
+    from realquad._backend import BACKEND, BUILD_NOTE
+
+    note = f" ({BUILD_NOTE})" if BUILD_NOTE else ""
+    return f"realquad {realquad.__version__}, kernels: {BACKEND}{note}"
+
+
+@click.group(context_settings=CONTEXT)
+@click.version_option(message="%(version)s", version=_version_text(), prog_name="realquad")
+def cli() -> None:
+    """Exact computation in real quadratic fields: Pell equations, units, regulators."""
+
+
+for _command in COMMANDS:
+    cli.add_command(_command)
+
+
+def error(message: str) -> int:
+    first = " ".join(str(message).split()) or "unknown error"
+    click.echo(f"realquad: error: {first}", err=True)
+    return 2
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line on ``argv`` (default ``sys.argv[1:]``); return the exit status."""
+    args = list(sys.argv[1:] if argv is None else argv)
+    try:
+        cli.main(args=args, prog_name="realquad", standalone_mode=False)
+    except click.exceptions.NoArgsIsHelpError as exc:
+        click.echo(exc.ctx.get_help() if exc.ctx else "", err=True)
+        return 2
+    except click.UsageError as exc:
+        return error(exc.format_message())
+    except click.exceptions.Exit as exc:
+        return int(exc.exit_code)
+    except click.Abort:
+        click.echo("realquad: interrupted", err=True)
+        return 130
+    except click.ClickException as exc:
+        return error(exc.format_message())
+    except RealquadError as exc:
+        return error(str(exc))
+    except KeyboardInterrupt:
+        click.echo("realquad: interrupted", err=True)
+        return 130
+    except BrokenPipeError:
+        try:
+            sys.stdout = open(os.devnull, "w")  # noqa: SIM115
+        except OSError:
+            pass
+        return 0
+    except RecursionError:
+        return error("input nested too deeply")
+    except MemoryError:
+        return error("out of memory")
+    except Exception as exc:  # pragma: no cover - a bug, reported without a traceback
+        if os.environ.get("REALQUAD_DEBUG"):
+            raise
+        return error(f"internal error ({type(exc).__name__}: {exc}); please report it")
+    return 0
+
+
+def run() -> None:
+    """Console-script entry point."""
+    sys.exit(main())
