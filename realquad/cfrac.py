@@ -82,6 +82,18 @@ class QuadraticIrrational:
         P, Q, r = self.P, self.Q, isqrt(self.D)
         return Q > 0 and P <= r and r >= Q - P and r < P + Q
 
+    def same_number(self, other: QuadraticIrrational) -> bool:
+        """Whether both normal forms denote the same real number.
+
+        >>> QuadraticIrrational(0, 8, 2).same_number(QuadraticIrrational(0, 2, 1))
+        True
+        """
+        return (
+            Fraction(self.P, self.Q) == Fraction(other.P, other.Q)
+            and Fraction(self.D, self.Q * self.Q) == Fraction(other.D, other.Q * other.Q)
+            and (self.Q > 0) == (other.Q > 0)
+        )
+
     def as_number(self) -> QuadraticNumber:
         return QuadraticNumber(self.P, 1, self.Q, self.D)
 
