@@ -12,10 +12,10 @@ import sys
 from collections.abc import Sequence
 
 import click
+from realquad_cli.commands import COMMANDS
 
 import realquad
 from realquad.errors import RealquadError
-from realquad_cli.commands import COMMANDS
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 

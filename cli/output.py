@@ -95,7 +95,9 @@ def check_output_path(path: str | None) -> None:
 
 
 def json_option(f: F) -> F:
-    return click.option("--json", "as_json", is_flag=True, help="Print one JSON object instead of text.")(f)
+    return click.option(
+        "--json", "as_json", is_flag=True, help="Print one JSON object instead of text."
+    )(f)
 
 
 def size_options(f: F) -> F:

@@ -9,7 +9,13 @@
 
 from realquad._backend import BACKEND
 from realquad.arith import Order, field, kronecker
-from realquad.cfrac import ContinuedFraction, QuadraticIrrational, continued_fraction, convergents, from_periodic
+from realquad.cfrac import (
+    ContinuedFraction,
+    QuadraticIrrational,
+    continued_fraction,
+    convergents,
+    from_periodic,
+)
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
 from realquad.pell import PellSolution, pell
 from realquad.quadratic_number import QuadraticNumber

@@ -19,7 +19,8 @@ Springer 1993, §5.1–5.2.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field as dataclass_field
+from dataclasses import dataclass
+from dataclasses import field as dataclass_field
 from functools import cached_property
 
 import gmpy2

@@ -237,7 +237,9 @@ def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> Continu
     )
 
 
-def convergents(x: object, count: int | None = None, bound: int | None = None) -> Iterator[tuple[int, int]]:
+def convergents(
+    x: object, count: int | None = None, bound: int | None = None
+) -> Iterator[tuple[int, int]]:
     """Convergents ``(p_k, q_k)`` of ``x``: at most ``count`` of them, or while ``q_k ≤ bound``."""
     cf = continued_fraction(x)
     p0, p1, q0, q1 = 1, 0, 0, 1

@@ -20,14 +20,14 @@ from __future__ import annotations
 
 from fractions import Fraction
 from functools import total_ordering
-from typing import Union
+from typing import Any
 
 import gmpy2
 import mpmath
 
 from realquad.errors import DomainError, InputError
 
-Rational = Union[int, Fraction]
+Rational = int | Fraction
 
 
 def _sign_of(x: int, y: int, d: int) -> int:
@@ -77,8 +77,10 @@ class QuadraticNumber:
             if other.d != self.d:
                 raise DomainError(f"cannot combine elements of Q(√{self.d}) and Q(√{other.d})")
             return other
-        if isinstance(other, (int, Fraction)) or type(other).__name__ == "mpz":
-            return QuadraticNumber.rational(Fraction(int(other)) if not isinstance(other, Fraction) else other, self.d)  # type: ignore[arg-type]
+        if isinstance(other, Fraction):
+            return QuadraticNumber.rational(other, self.d)
+        if isinstance(other, int) or type(other).__name__ == "mpz":
+            return QuadraticNumber.rational(int(other), self.d)  # type: ignore[call-overload]
         return None
 
     # -- arithmetic ---------------------------------------------------------
@@ -86,7 +88,9 @@ class QuadraticNumber:
         o = self._coerce(other)
         if o is None:
             return NotImplemented
-        return QuadraticNumber(self.x * o.c + o.x * self.c, self.y * o.c + o.y * self.c, self.c * o.c, self.d)
+        return QuadraticNumber(
+            self.x * o.c + o.x * self.c, self.y * o.c + o.y * self.c, self.c * o.c, self.d
+        )
 
     __radd__ = __add__
 
@@ -211,7 +215,11 @@ class QuadraticNumber:
             x, y = self.x, self.y
             if x != 0 and y != 0 and (x > 0) != (y > 0):
                 n = x * x - self.d * y * y
-                return mpmath.log(abs(mpmath.mpf(n))) - _log_abs_sum(-x, -y, self.d, prec) - mpmath.log(mpmath.mpf(self.c))
+                return (
+                    mpmath.log(abs(mpmath.mpf(n)))
+                    - _log_abs_sum(-x, -y, self.d, prec)
+                    - mpmath.log(mpmath.mpf(self.c))
+                )
             return _log_abs_sum(x, y, self.d, prec) - mpmath.log(mpmath.mpf(self.c))
 
     # -- display -------------------------------------------------------------
@@ -225,11 +233,15 @@ class QuadraticNumber:
         else:
             ytxt = "" if abs(y) == 1 else f"{abs(y)}"
             op = "+" if y > 0 else "−"
-            body = f"{self.x} {op} {ytxt}√{self.d}" if self.x != 0 else f"{'' if y > 0 else '−'}{ytxt}√{self.d}"
+            body = (
+                f"{self.x} {op} {ytxt}√{self.d}"
+                if self.x != 0
+                else f"{'' if y > 0 else '−'}{ytxt}√{self.d}"
+            )
         return body if self.c == 1 else f"({body})/{self.c}"
 
 
-def _log_abs_sum(x: object, y: object, d: int, prec: int) -> mpmath.mpf:
+def _log_abs_sum(x: Any, y: Any, d: int, prec: int) -> mpmath.mpf:
     """log |x + y√d| for x, y of equal sign (no cancellation), at ``prec`` bits."""
     x, y = abs(gmpy2.mpz(x)), abs(gmpy2.mpz(y))
     shift = max(0, max(x.bit_length(), y.bit_length()) - prec - 16)

@@ -36,7 +36,9 @@ class Regulator:
     proof: Proof = "unconditional"
 
     def __str__(self) -> str:
-        return mpmath.nstr(self.value, self.digits, strip_zeros=False, min_fixed=-mpmath.inf, max_fixed=mpmath.inf)
+        return mpmath.nstr(
+            self.value, self.digits, strip_zeros=False, min_fixed=-mpmath.inf, max_fixed=mpmath.inf
+        )
 
     def __float__(self) -> float:
         return float(self.value)

@@ -34,7 +34,7 @@ from dataclasses import dataclass
 import gmpy2
 import mpmath
 
-from realquad._backend import kernels
+from realquad._backend import kernels, pure
 from realquad.arith import Order
 from realquad.errors import TooLargeError
 from realquad.product_tree import matrix_product
@@ -70,12 +70,10 @@ def principal_half_cycle(D: int, max_period: int = DEFAULT_MAX_PERIOD) -> Princi
 
     Raises :class:`TooLargeError` when the period exceeds ``max_period``.
     """
-    walk = kernels.principal_half_cycle
-    if kernels.__name__.endswith("_ckernels") and D > kernels.MAX_WORD_DISCRIMINANT:
-        from realquad._kernels import _pure
-
-        walk = _pure.principal_half_cycle
-    found = walk(D, max_period)
+    try:
+        found = kernels.principal_half_cycle(D, max_period)
+    except OverflowError:  # beyond the compiled kernel's word size
+        found = pure.principal_half_cycle(D, max_period)
     if found is None:
         raise TooLargeError(_too_long_message(D, max_period))
     quotients, parity, q_mid, steps = found
@@ -213,7 +211,9 @@ def fundamental_unit(order: Order | int, max_period: int = DEFAULT_MAX_PERIOD) -
     return _cycle_unit(order, principal_half_cycle(order.discriminant, max_period))
 
 
-def regulator(order: Order | int, digits: int = 30, max_period: int = DEFAULT_MAX_PERIOD) -> Regulator:
+def regulator(
+    order: Order | int, digits: int = 30, max_period: int = DEFAULT_MAX_PERIOD
+) -> Regulator:
     """The regulator ``log ε`` of an order to ``digits`` significant digits.
 
     >>> str(regulator(5, 20))

@@ -12,9 +12,15 @@ from hypothesis import HealthCheck, settings
 
 from realquad._backend import BACKEND, BUILD_NOTE
 
-settings.register_profile("quick", max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-settings.register_profile("ci", max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-settings.register_profile("thorough", max_examples=2000, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+settings.register_profile(
+    "quick", max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
+settings.register_profile(
+    "ci", max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
+settings.register_profile(
+    "thorough", max_examples=2000, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
 settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "quick"))
 
 DATA_DIRS = [

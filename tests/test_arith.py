@@ -18,7 +18,7 @@ from realquad.factoring import factorize, squarefree_decomposition
 from realquad.textio import decimal_digits
 
 
-@given(st.integers(-10**6, 10**6), st.integers(1, 10**4))
+@given(st.integers(-(10**6), 10**6), st.integers(1, 10**4))
 def test_kronecker_against_sympy(a, n):
     # sympy's jacobi_symbol for odd n (reference library); Kronecker extends it multiplicatively
     if n % 2:
@@ -62,7 +62,12 @@ def test_as_integer():
             as_integer(bad)
 
 
-@given(st.integers(-1000, 1000), st.integers(-1000, 1000), st.integers(1, 50), st.sampled_from([2, 3, 5, 13, 61, 94]))
+@given(
+    st.integers(-1000, 1000),
+    st.integers(-1000, 1000),
+    st.integers(1, 50),
+    st.sampled_from([2, 3, 5, 13, 61, 94]),
+)
 def test_quadratic_number_field_laws(x, y, c, d):
     a = QuadraticNumber(x, y, c, d)
     b = QuadraticNumber(y + 1, x, c + 1, d)

@@ -28,7 +28,38 @@ def test_sqrt_examples_from_textbooks():
 
 def test_period_lengths_oeis_a003285():
     # OEIS A003285: period of the continued fraction of √n (0 for squares), n = 1..30
-    a003285 = [0, 1, 2, 0, 1, 2, 4, 2, 0, 1, 2, 2, 5, 4, 2, 0, 1, 2, 6, 2, 6, 6, 4, 2, 0, 1, 2, 4, 5, 2]
+    a003285 = [
+        0,
+        1,
+        2,
+        0,
+        1,
+        2,
+        4,
+        2,
+        0,
+        1,
+        2,
+        2,
+        5,
+        4,
+        2,
+        0,
+        1,
+        2,
+        6,
+        2,
+        6,
+        6,
+        4,
+        2,
+        0,
+        1,
+        2,
+        4,
+        5,
+        2,
+    ]
     for n, length in enumerate(a003285, start=1):
         cf = continued_fraction(f"sqrt({n})")
         assert len(cf.period) == length, n
@@ -71,7 +102,11 @@ def test_expansion_and_inverse_roundtrip(p, k, n, q):
     assert cf.period[-1] >= 1
 
 
-@given(st.lists(st.integers(1, 30), min_size=0, max_size=5), st.lists(st.integers(1, 30), min_size=1, max_size=6), st.integers(-5, 5))
+@given(
+    st.lists(st.integers(1, 30), min_size=0, max_size=5),
+    st.lists(st.integers(1, 30), min_size=1, max_size=6),
+    st.integers(-5, 5),
+)
 def test_inverse_then_expand(pre, per, a0):
     preperiod = [a0, *pre]
     x = from_periodic(preperiod, per)
@@ -105,7 +140,9 @@ def test_parser(text, expected):
     assert parse_real_quadratic(text) == expected
 
 
-@pytest.mark.parametrize("text", ["", "sqrt(", "(1+sqrt(2)", "1//2", "sqrt(-3)", "x", "1/0", "sqrt(2)+sqrt(3)", "((1))"])
+@pytest.mark.parametrize(
+    "text", ["", "sqrt(", "(1+sqrt(2)", "1//2", "sqrt(-3)", "x", "1/0", "sqrt(2)+sqrt(3)", "((1))"]
+)
 def test_parser_errors(text):
     with pytest.raises(InputError):
         continued_fraction(text)
@@ -122,5 +159,7 @@ def test_parser_fuzz(text):
 def test_reducedness():
     assert QuadraticIrrational(0, 61, 1).is_reduced() is False  # √61: conjugate ≈ −7.8
     assert QuadraticIrrational(7, 61, 1).is_reduced() is True  # 7 + √61 ≈ 14.8, conjugate ≈ −0.81
-    assert QuadraticIrrational(7, 61, 12).is_reduced() is True  # (7 + √61)/12 ≈ 1.23, conjugate ≈ −0.07
+    assert (
+        QuadraticIrrational(7, 61, 12).is_reduced() is True
+    )  # (7 + √61)/12 ≈ 1.23, conjugate ≈ −0.07
     assert QuadraticIrrational(1, 5, 2).is_reduced() is True

@@ -10,7 +10,6 @@ import sys
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-
 from realquad_cli.main import main
 
 
@@ -47,7 +46,11 @@ def test_pell_negative_norm(capsys):
 
 def test_unit_94(capsys):
     data = run_json(capsys, "unit", "94")
-    assert data["unit"] == {"x": 2143295, "y": 221064, "denominator": 1}  # 2143295² − 94·221064² = 1
+    assert data["unit"] == {
+        "x": 2143295,
+        "y": 221064,
+        "denominator": 1,
+    }  # 2143295² − 94·221064² = 1
     assert 2143295**2 - 94 * 221064**2 == 1
     assert data["norm"] == 1 and data["radicand"] == 94 and data["discriminant"] == 376
     assert data["regulator"].startswith("15.27100210303118")
@@ -70,7 +73,9 @@ def test_cfrac(capsys):
 
 def test_max_digits_and_output(capsys, tmp_path):
     out_file = tmp_path / "x.txt"
-    data = run_json(capsys, "pell", "410286423278424", "--max-digits", "50", "--output", str(out_file))
+    data = run_json(
+        capsys, "pell", "410286423278424", "--max-digits", "50", "--output", str(out_file)
+    )
     assert data["x"] is None and data["truncated"] is True
     digits = data["x_summary"]["digits"]
     assert digits == data["x_digits"] and digits > 1000
@@ -156,12 +161,23 @@ def capsys_fuzz(capsys):
 )
 def test_subprocess_smoke(args):
     env = dict(os.environ)
-    proc = subprocess.run([sys.executable, "-m", "realquad", *args], capture_output=True, text=True, env=env, timeout=120)
+    proc = subprocess.run(
+        [sys.executable, "-m", "realquad", *args],
+        capture_output=True,
+        text=True,
+        env=env,
+        timeout=120,
+    )
     assert proc.returncode == 0, proc.stderr
     assert proc.stdout.strip()
 
 
 def test_subprocess_error_exit_status():
-    proc = subprocess.run([sys.executable, "-m", "realquad", "pell", "-5"], capture_output=True, text=True, timeout=120)
+    proc = subprocess.run(
+        [sys.executable, "-m", "realquad", "pell", "-5"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
     assert proc.returncode == 2
     assert proc.stderr.startswith("realquad: error:") and "Traceback" not in proc.stderr

@@ -111,12 +111,17 @@ def test_solution_satisfies_equation(d, N):
 
 def test_known_small_cases():
     assert (pell(61).x, pell(61).y) == (1766319049, 226153980)  # OEIS A002350/A002349, n = 61
-    assert (pell(61, -1).x, pell(61, -1).y) == (29718, 3805)  # 29718² − 61·3805² = −1, checked below
+    assert (pell(61, -1).x, pell(61, -1).y) == (
+        29718,
+        3805,
+    )  # 29718² − 61·3805² = −1, checked below
     assert 29718**2 - 61 * 3805**2 == -1
     assert (pell(13, -4).x, pell(13, -4).y) == (3, 1)  # 9 − 13 = −4
     assert (pell(5, 4).x, pell(5, 4).y) == (3, 1)  # 9 − 5 = 4
     assert not pell(3, -1).solvable  # −1 is not a square mod 3
-    assert not pell(34, -1).solvable  # period of √34 is even (4), though −1 is a square mod 34... by brute force above
+    assert not pell(
+        34, -1
+    ).solvable  # period of √34 is even (4), though −1 is a square mod 34... by brute force above
     assert not pell(7, -4).solvable
 
 

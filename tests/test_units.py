@@ -79,14 +79,21 @@ def test_regulator_is_log_of_unit(D):
     assert exact.is_integral()
     with mpmath.workdps(60):
         log_eps = exact.log_abs_mpf(50)
-        assert abs(reg.value - log_eps) <= reg.error_bound + mpmath.mpf(10) ** (-45) * max(1, abs(log_eps))
+        assert abs(reg.value - log_eps) <= reg.error_bound + mpmath.mpf(10) ** (-45) * max(
+            1, abs(log_eps)
+        )
         assert reg.error_bound < mpmath.mpf(10) ** (-38) * max(1, abs(log_eps))
 
 
 def test_regulator_digits():
-    assert str(regulator(5, 30)) == "0.481211825059603447497758913424"  # log((1+√5)/2), from memory; recomputed below
+    assert (
+        str(regulator(5, 30)) == "0.481211825059603447497758913424"
+    )  # log((1+√5)/2), from memory; recomputed below
     with mpmath.workdps(40):
-        assert mpmath.nstr(mpmath.log((1 + mpmath.sqrt(5)) / 2), 30) == "0.481211825059603447497758913424"
+        assert (
+            mpmath.nstr(mpmath.log((1 + mpmath.sqrt(5)) / 2), 30)
+            == "0.481211825059603447497758913424"
+        )
     assert str(regulator(8, 10)) == "0.8813735870"  # log(1 + √2) = asinh(1)
     assert len(str(regulator(4 * 61, 200)).replace(".", "")) == 200
 
@@ -99,7 +106,7 @@ def _least_power_in_order(D0: int, f: int) -> int:
         # p = (x + y√r)/c; write as (u + v√D0)/2
         r = p.d
         scale = math.isqrt(D0 // r)
-        u2, v2 = 2 * p.x // p.c, 2 * p.y // (p.c * scale)
+        v2 = 2 * p.y // (p.c * scale)
         if v2 % f == 0:
             return k
         k += 1

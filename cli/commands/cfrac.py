@@ -5,17 +5,25 @@ from __future__ import annotations
 from typing import Any
 
 import click
+from realquad_cli.output import check_output_path, emit, json_option, write_atomically
 
 from realquad.cfrac import continued_fraction
-from realquad_cli.output import check_output_path, emit, json_option, write_atomically
 
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
 @click.argument("expr", type=str)
-@click.option("--max-terms", type=click.IntRange(min=0), default=1000, show_default=True, help="Most partial quotients printed (0 = no limit).")
-@click.option("--output", type=str, default=None, metavar="FILE", help="Write all partial quotients to FILE.")
+@click.option(
+    "--max-terms",
+    type=click.IntRange(min=0),
+    default=1000,
+    show_default=True,
+    help="Most partial quotients printed (0 = no limit).",
+)
+@click.option(
+    "--output", type=str, default=None, metavar="FILE", help="Write all partial quotients to FILE."
+)
 @json_option
 def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> None:
     """Continued fraction of d (meaning √d), sqrt(d), (P+sqrt(D))/Q or a/b.
@@ -41,7 +49,11 @@ def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> Non
     payload["preperiod_length"] = len(cf.preperiod)
     payload["period_length"] = len(cf.period)
     payload["truncated"] = cut
-    payload["method"] = "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q" if not cf.is_rational else "Euclidean algorithm"
+    payload["method"] = (
+        "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q"
+        if not cf.is_rational
+        else "Euclidean algorithm"
+    )
     payload["proof"] = "unconditional"
     if cut:
         shown = ", ".join(map(str, (cf.preperiod + cf.period)[:max_terms]))
@@ -50,7 +62,14 @@ def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> Non
         text = f"{cf.value} = {cf}"
     lines = [text, f"pre-period length {len(cf.preperiod)}, period length {len(cf.period)}"]
     if output is not None:
-        write_atomically(output, "preperiod " + " ".join(map(str, cf.preperiod)) + "\nperiod " + " ".join(map(str, cf.period)) + "\n")
+        write_atomically(
+            output,
+            "preperiod "
+            + " ".join(map(str, cf.preperiod))
+            + "\nperiod "
+            + " ".join(map(str, cf.period))
+            + "\n",
+        )
         payload["output"] = output
         lines.append(f"all terms written to {output}")
     emit(payload, "\n".join(lines), as_json)

@@ -5,10 +5,6 @@ from __future__ import annotations
 from typing import Any
 
 import click
-
-from realquad.arith import as_integer
-from realquad.pell import pell
-from realquad.textio import decimal_digits, to_decimal
 from realquad_cli.output import (
     check_output_path,
     emit,
@@ -19,12 +15,18 @@ from realquad_cli.output import (
     write_atomically,
 )
 
+from realquad.arith import as_integer
+from realquad.pell import pell
+from realquad.textio import decimal_digits, to_decimal
+
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 
 @click.command("pell", context_settings=ACCEPT_NEGATIVE)
 @click.argument("d", type=str)
-@click.option("--norm", "norm", type=str, default="1", show_default=True, help="N: one of 1, -1, 4, -4.")
+@click.option(
+    "--norm", "norm", type=str, default="1", show_default=True, help="N: one of 1, -1, 4, -4."
+)
 @json_option
 @size_options
 def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | None) -> None:
@@ -46,7 +48,10 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
         cut = put_integers(payload, {"x": sol.x, "y": sol.y}, max_digits)
         payload["x_digits"] = decimal_digits(sol.x)
         payload["truncated"] = cut
-        lines += [f"x = {integer_text(sol.x, max_digits)}", f"y = {integer_text(sol.y, max_digits)}"]
+        lines += [
+            f"x = {integer_text(sol.x, max_digits)}",
+            f"y = {integer_text(sol.y, max_digits)}",
+        ]
         lines.append(f"x has {payload['x_digits']} digits")
     else:
         payload.update({"x": None, "y": None, "x_digits": None})

@@ -5,11 +5,6 @@ from __future__ import annotations
 from typing import Any
 
 import click
-
-from realquad.arith import Order, as_integer, field
-from realquad.errors import InputError
-from realquad.textio import decimal_digits, to_decimal
-from realquad.units import fundamental_unit
 from realquad_cli.output import (
     check_output_path,
     emit,
@@ -19,6 +14,11 @@ from realquad_cli.output import (
     size_options,
     write_atomically,
 )
+
+from realquad.arith import Order, as_integer, field
+from realquad.errors import InputError
+from realquad.textio import decimal_digits, to_decimal
+from realquad.units import fundamental_unit
 
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
@@ -34,11 +34,21 @@ def order_from_options(d: str | None, disc: str | None) -> Order:
 
 @click.command("unit", context_settings=ACCEPT_NEGATIVE)
 @click.argument("d", type=str, required=False)
-@click.option("--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d.")
-@click.option("--digits", type=click.IntRange(1, 100_000), default=30, show_default=True, help="Significant digits of the regulator.")
+@click.option(
+    "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
+)
+@click.option(
+    "--digits",
+    type=click.IntRange(1, 100_000),
+    default=30,
+    show_default=True,
+    help="Significant digits of the regulator.",
+)
 @json_option
 @size_options
-def command(d: str | None, disc: str | None, digits: int, as_json: bool, max_digits: int, output: str | None) -> None:
+def command(
+    d: str | None, disc: str | None, digits: int, as_json: bool, max_digits: int, output: str | None
+) -> None:
     """Fundamental unit ε = (x + y√d)/c and regulator log ε of Q(√d), or of the order of discriminant D.
 
     Example: realquad unit 94; realquad unit --disc 52
@@ -77,7 +87,10 @@ def command(d: str | None, disc: str | None, digits: int, as_json: bool, max_dig
         f"method: {eps.method}; proof: {eps.proof}",
     ]
     if output is not None:
-        write_atomically(output, f"# fundamental unit of discriminant {order.discriminant}: (x + y sqrt({r}))/{c}\nx = {to_decimal(x)}\ny = {to_decimal(y)}\n")
+        write_atomically(
+            output,
+            f"# fundamental unit of discriminant {order.discriminant}: (x + y sqrt({r}))/{c}\nx = {to_decimal(x)}\ny = {to_decimal(y)}\n",
+        )
         payload["output"] = output
         lines.append(f"full values written to {output}")
     emit(payload, "\n".join(lines), as_json)
