@@ -34,7 +34,8 @@ from dataclasses import dataclass
 import gmpy2
 import mpmath
 
-from realquad._backend import kernels, pure
+from realquad._backend import kernels
+from realquad._kernels import _pure as pure
 from realquad.arith import Order
 from realquad.errors import TooLargeError
 from realquad.product_tree import matrix_product
