@@ -4,6 +4,6 @@ from __future__ import annotations
 
 import click
 
-from realquad_cli.commands import cfrac, pell, unit
+from realquad_cli.commands import cfrac, pell, survey, unit
 
-COMMANDS: list[click.Command] = [cfrac.command, pell.command, unit.command]
+COMMANDS: list[click.Command] = [cfrac.command, pell.command, unit.command, survey.command]

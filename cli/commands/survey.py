@@ -1,0 +1,391 @@
+"""``realquad survey run/query/report``: tabulate fields over a range, query the table, statistics."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from typing import Any
+
+import click
+from realquad_cli.output import emit, json_option
+
+from realquad.arith import as_integer
+from realquad.errors import InputError
+from realquad.survey.executors import make_executor
+from realquad.survey.progress import choose_mode
+from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
+from realquad.survey.stats import SurveyReport, survey_report
+from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
+from realquad.survey.tabulate import tabulate
+
+DEFAULT_DB = "realquad-survey.sqlite"
+ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
+
+#: Largest d (or D) a survey accepts: rows keep d and D in SQLite's 64-bit integers.
+MAX_BOUND = 10**15
+
+
+def _db_option(f: Any) -> Any:
+    return click.option(
+        "--db",
+        "db",
+        type=str,
+        default=DEFAULT_DB,
+        show_default=True,
+        metavar="FILE",
+        help="The survey database (SQLite).",
+    )(f)
+
+
+def _bound(value: str | None, name: str, default: int | None = None) -> int | None:
+    if value is None:
+        return default
+    n = as_integer(value, name)
+    if n < 1:
+        raise InputError(f"{name} must be a positive integer, got {n}")
+    if n > MAX_BOUND:
+        raise InputError(f"{name} must be at most {MAX_BOUND:,}, got {n}")
+    return n
+
+
+def _range_options(f: Any) -> Any:
+    f = click.option(
+        "--d-max",
+        "d_max",
+        type=str,
+        default=None,
+        metavar="N",
+        help="Largest d (with --discriminants: largest D).",
+    )(f)
+    f = click.option(
+        "--d-min",
+        "d_min",
+        type=str,
+        default=None,
+        metavar="N",
+        help="Smallest d (with --discriminants: smallest D).",
+    )(f)
+    return f
+
+
+@click.group("survey")
+def command() -> None:
+    """Tabulate every real quadratic field Q(√d) in a range into a database; query it; report on it.
+
+    Example: realquad survey run --d-max 10000; realquad survey query --class-number 1; realquad survey report
+    """
+
+
+@command.command("run", context_settings=ACCEPT_NEGATIVE)
+@_range_options
+@click.option(
+    "--discriminants", is_flag=True, help="Bound the fundamental discriminant D instead of d."
+)
+@_db_option
+@click.option(
+    "--workers",
+    type=str,
+    default=None,
+    metavar="N",
+    help="Local worker processes (default: all cores).",
+)
+@click.option(
+    "--scheduler",
+    type=str,
+    default=None,
+    metavar="ADDRESS",
+    help="Run the chunks on the Dask cluster of this scheduler.",
+)
+@click.option(
+    "--chunk-size",
+    type=str,
+    default=None,
+    metavar="N",
+    help=f"Width of a chunk of d (default {DEFAULT_CHUNK_SIZE}).",
+)
+@json_option
+def run_command(
+    d_min: str | None,
+    d_max: str | None,
+    discriminants: bool,
+    db: str,
+    workers: str | None,
+    scheduler: str | None,
+    chunk_size: str | None,
+    as_json: bool,
+) -> None:
+    """Compute h, h⁺, Cl⁺, unit norm, regulator, period and digits of ε for every field in the range.
+
+    Rerun the same command to resume after an interruption: finished chunks are skipped.
+    Example: realquad survey run --d-min 2 --d-max 100000 --workers 2
+    """
+    lo = _bound(d_min, "--d-min", 2)
+    hi = _bound(d_max, "--d-max")
+    if hi is None:
+        raise InputError("give --d-max N (the largest d of the survey)")
+    size = _bound(chunk_size, "--chunk-size", DEFAULT_CHUNK_SIZE)
+    count = _bound(workers, "--workers") if workers is not None else None
+    assert lo is not None and size is not None
+    if count is not None and count > 1024:
+        raise InputError(f"--workers must be at most 1024, got {count}")
+    survey_range = SurveyRange("D" if discriminants else "d", lo, hi)
+    if scheduler is not None and not scheduler.strip():
+        raise InputError("--scheduler needs an address such as tcp://127.0.0.1:8786")
+    # Check the database before anything else touches it, then reach the workers, then open it.
+    SurveyStore.check_writable(db)
+    executor = make_executor(count, scheduler)
+    try:
+        store = SurveyStore.open_for_writing(db)
+    except BaseException:
+        executor.close()
+        raise
+    with store:
+        outcome = tabulate(survey_range, store, executor, size, choose_mode(as_json))
+    name = "D" if discriminants else "d"
+    payload = {
+        "database": db,
+        "range": {"kind": name, "min": lo, "max": hi},
+        "fields": outcome.total_fields,
+        "computed": outcome.computed_fields,
+        "skipped": outcome.skipped_fields,
+        "chunks_computed": outcome.computed_chunks,
+        "chunks_skipped": outcome.skipped_chunks,
+        "seconds": round(outcome.seconds, 3),
+        "fields_per_second": round(outcome.rate, 1),
+        "executor": outcome.executor,
+    }
+    text = (
+        f"survey of {outcome.total_fields:,} fields with {name} in [{lo}, {hi}] in {db}: "
+        f"{outcome.computed_fields:,} computed in {outcome.seconds:.1f} s "
+        f"({outcome.rate:,.0f} fields/s, {outcome.executor}), {outcome.skipped_fields:,} already there"
+    )
+    emit(payload, text, as_json)
+
+
+def _row_filter(
+    class_number: str | None,
+    narrow: str | None,
+    unit_norm: str | None,
+    d_min: str | None,
+    d_max: str | None,
+) -> RowFilter:
+    norm = None
+    if unit_norm is not None:
+        norm = as_integer(unit_norm, "--unit-norm")
+        if norm not in (1, -1):
+            raise InputError(f"--unit-norm must be +1 or -1, got {norm}")
+    lo, hi = _bound(d_min, "--d-min"), _bound(d_max, "--d-max")
+    if lo is not None and hi is not None and lo > hi:
+        raise InputError(f"empty range: --d-min {lo} is larger than --d-max {hi}")
+    return RowFilter(
+        class_number=_bound(class_number, "--class-number"),
+        narrow_class_number=_bound(narrow, "--narrow-class-number"),
+        unit_norm=norm,
+        d_min=lo,
+        d_max=hi,
+    )
+
+
+def _filter_options(f: Any) -> Any:
+    f = _range_options(f)
+    f = click.option(
+        "--unit-norm",
+        type=str,
+        default=None,
+        metavar="±1",
+        help="Only fields whose fundamental unit has this norm.",
+    )(f)
+    f = click.option(
+        "--narrow-class-number",
+        "narrow",
+        type=str,
+        default=None,
+        metavar="K",
+        help="Only fields with h⁺ = K.",
+    )(f)
+    f = click.option(
+        "--class-number", type=str, default=None, metavar="K", help="Only fields with h = K."
+    )(f)
+    return f
+
+
+def _json_row(row: dict[str, Any]) -> dict[str, Any]:
+    out = dict(row)
+    for key in ("class_group", "narrow_class_group"):
+        out[key] = json.loads(row[key])
+    return out
+
+
+@command.command("query", context_settings=ACCEPT_NEGATIVE)
+@_filter_options
+@_db_option
+@click.option(
+    "--limit",
+    type=click.IntRange(min=0),
+    default=1000,
+    show_default=True,
+    help="Most rows printed (0 = all).",
+)
+@click.option(
+    "--csv", "as_csv", is_flag=True, help="Print CSV (a header line, then one line per field)."
+)
+@json_option
+def query_command(
+    class_number: str | None,
+    narrow: str | None,
+    unit_norm: str | None,
+    d_min: str | None,
+    d_max: str | None,
+    db: str,
+    limit: int,
+    as_csv: bool,
+    as_json: bool,
+) -> None:
+    """Print the surveyed fields that match every condition given, in increasing d.
+
+    Example: realquad survey query --class-number 1 --unit-norm -1 --d-max 1000
+    """
+    if as_csv and as_json:
+        raise InputError("give --csv or --json, not both")
+    where = _row_filter(class_number, narrow, unit_norm, d_min, d_max)
+    with SurveyStore.open_for_reading(db) as store:
+        matching = store.count(where)
+        rows = list(store.rows(where, limit or None))
+    if as_csv:
+        buffer = io.StringIO()
+        writer = csv.writer(buffer, lineterminator="\n")
+        writer.writerow(COLUMNS)
+        writer.writerows([row[k] for k in COLUMNS] for row in rows)
+        click.echo(buffer.getvalue(), nl=False)
+        if len(rows) < matching:
+            click.echo(
+                f"realquad: {matching - len(rows):,} more rows not printed (--limit 0 prints all)",
+                err=True,
+            )
+        return
+    payload = {
+        "database": db,
+        "matching": matching,
+        "shown": len(rows),
+        "rows": [_json_row(r) for r in rows],
+    }
+    lines = [
+        f"{'d':>10} {'D':>11} {'h':>5} {'h+':>5} {'Cl+':>10} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
+    ]
+    for r in rows:
+        lines.append(
+            f"{r['d']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
+            f"{_structure(r['narrow_class_group']):>10} {r['unit_norm']:>+5d} {r['regulator']:>20} "
+            f"{r['period_length']:>7} {r['unit_digits']:>7}"
+        )
+    lines.append(
+        f"{matching:,} matching fields"
+        + (f", first {len(rows):,} shown (--limit 0 for all)" if len(rows) < matching else "")
+    )
+    emit(payload, "\n".join(lines), as_json)
+
+
+def _structure(invariants: str) -> str:
+    values = json.loads(invariants)
+    if values is None:
+        return "?"
+    return "×".join(f"C{n}" for n in values) if values else "1"
+
+
+def _percent(share: float | None) -> str:
+    return "—" if share is None else f"{100 * share:.3f}%"
+
+
+def _report_payload(report: SurveyReport, db: str) -> dict[str, Any]:
+    return {
+        "database": db,
+        "fields": report.fields,
+        "d_min": report.d_min,
+        "d_max": report.d_max,
+        "class_number_one": {
+            "count": report.class_number_one,
+            "share": report.class_number_one_share,
+        },
+        "prime_discriminants": {
+            "fields": report.prime_fields,
+            "class_number_one": report.prime_class_number_one,
+            "share": report.prime_share,
+            "cohen_lenstra_prediction": report.prediction,
+            "prediction_source": report.prediction_source,
+        },
+        "class_number_distribution": {str(k): v for k, v in report.class_number_counts.items()},
+        "odd_part_distribution": {str(k): v for k, v in report.odd_part_counts.items()},
+        "unit_norm_minus_one": {
+            "count": report.unit_norm_minus_one,
+            "share": report.unit_norm_minus_one_share,
+        },
+        "largest_regulators": report.largest_regulators,
+        "proof": report.proof,
+    }
+
+
+def _distribution_text(counts: dict[int, int], total: int, shown: int = 12) -> str:
+    items = list(counts.items())
+    parts = [f"{k}: {v:,} ({100 * v / total:.2f}%)" for k, v in items[:shown]]
+    if len(items) > shown:
+        parts.append(f"… {len(items) - shown} more values up to {items[-1][0]}")
+    return "; ".join(parts)
+
+
+@command.command("report", context_settings=ACCEPT_NEGATIVE)
+@_range_options
+@_db_option
+@click.option(
+    "--top",
+    type=click.IntRange(1, 1000),
+    default=10,
+    show_default=True,
+    help="How many of the largest regulators to list.",
+)
+@click.option(
+    "--plot",
+    "plot",
+    type=str,
+    default=None,
+    metavar="FILE.png",
+    help="Also draw the statistics into a PNG file (needs matplotlib).",
+)
+@json_option
+def report_command(
+    d_min: str | None, d_max: str | None, db: str, top: int, plot: str | None, as_json: bool
+) -> None:
+    """Statistics of the surveyed fields: h = 1, Cohen–Lenstra, distribution of h, unit norms, regulators.
+
+    Example: realquad survey report --plot survey.png
+    """
+    where = _row_filter(None, None, None, d_min, d_max)
+    if plot is not None:
+        from realquad.survey.plots import check_plot_path
+
+        check_plot_path(plot)
+    with SurveyStore.open_for_reading(db) as store:
+        report = survey_report(store, where, top)
+        if report.fields == 0:
+            raise InputError(f"no surveyed fields in {db!r} match the range")
+        if plot is not None:
+            from realquad.survey.plots import plot_report
+
+            plot_report(report, store, plot, where)
+    payload = _report_payload(report, db)
+    n = report.fields
+    lines = [
+        f"{n:,} fields with d in [{report.d_min}, {report.d_max}] ({db}); proof: {report.proof}",
+        f"class number 1: {report.class_number_one:,} ({_percent(report.class_number_one_share)})",
+        f"prime d ≡ 1 (mod 4): {report.prime_fields:,} fields, h = 1 for {report.prime_class_number_one:,} "
+        f"({_percent(report.prime_share)}); Cohen–Lenstra prediction {100 * report.prediction:.3f}%",
+        f"unit norm −1: {report.unit_norm_minus_one:,} ({_percent(report.unit_norm_minus_one_share)})",
+        "h: " + _distribution_text(report.class_number_counts, n),
+        "odd part of h: " + _distribution_text(report.odd_part_counts, n),
+        "largest regulators: "
+        + ", ".join(f"d = {r['d']}: {r['regulator']}" for r in report.largest_regulators),
+    ]
+    if plot is not None:
+        payload["plot"] = plot
+        lines.append(f"plot written to {plot}")
+    emit(payload, "\n".join(lines), as_json)

@@ -1,0 +1,139 @@
+"""Where the chunks of a survey are computed: this process, local worker processes, or Dask.
+
+Every executor takes the chunks still to do and yields ``(chunk, rows,
+seconds)`` as chunks finish, in any order; only the calling process writes
+to the store. Stopping an executor (``close``, also on Ctrl-C) ends its
+workers at once: the chunks they were computing are simply not saved, and
+rerunning the survey computes them again.
+
+>>> from realquad.survey.ranges import Chunk
+>>> with InProcessExecutor() as ex:
+...     [(c.lo, len(rows)) for c, rows, _ in ex.map_unordered([Chunk("d", 2, 9)], _count_chunk)]
+[(2, 5)]
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import os
+import signal
+import time
+from collections.abc import Callable, Iterable, Iterator
+from types import TracebackType
+from typing import Any
+
+from realquad.errors import InputError
+from realquad.survey.ranges import Chunk
+
+ChunkFunction = Callable[[Chunk], list[Any]]
+Finished = tuple[Chunk, list[Any], float]
+
+
+def _count_chunk(chunk: Chunk) -> list[int]:
+    """The radicands of a chunk (a cheap chunk function for examples and tests)."""
+    return chunk.radicands()
+
+
+def _timed(job: tuple[ChunkFunction, Chunk]) -> Finished:
+    function, chunk = job
+    start = time.perf_counter()
+    rows = function(chunk)
+    return chunk, rows, time.perf_counter() - start
+
+
+def _ignore_interrupts() -> None:
+    """Worker initializer: Ctrl-C is handled by the parent, which ends the workers."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+class InProcessExecutor:
+    """Compute the chunks one after the other in this process."""
+
+    description = "this process"
+
+    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
+        for chunk in chunks:
+            yield _timed((function, chunk))
+
+    def close(self) -> None:
+        pass
+
+    def __enter__(self) -> InProcessExecutor:
+        return self
+
+    def __exit__(
+        self,
+        kind: type[BaseException] | None,
+        value: BaseException | None,
+        tb: TracebackType | None,
+    ) -> None:
+        self.close()
+
+
+class ProcessPoolExecutor(InProcessExecutor):
+    """Compute the chunks in ``workers`` local processes."""
+
+    def __init__(self, workers: int) -> None:
+        self.workers = workers
+        self.description = f"{workers} local processes"
+        self._pool = multiprocessing.get_context("spawn" if os.name != "posix" else "fork").Pool(
+            workers, initializer=_ignore_interrupts
+        )
+
+    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
+        yield from self._pool.imap_unordered(_timed, [(function, c) for c in chunks], chunksize=1)
+
+    def close(self) -> None:
+        self._pool.terminate()
+        self._pool.join()
+
+
+class DaskExecutor(InProcessExecutor):
+    """Compute the chunks on the Dask distributed cluster whose scheduler is at ``address``."""
+
+    def __init__(self, address: str, timeout: float = 10.0) -> None:
+        try:
+            from distributed import Client
+        except ImportError:
+            raise InputError(
+                "--scheduler needs the package 'distributed' (pip install 'realquad[survey]')"
+            ) from None
+        self.address = address
+        self.description = f"Dask scheduler {address}"
+        self._futures: list[Any] = []
+        try:
+            self._client = Client(address, timeout=timeout, set_as_default=False)
+        except (OSError, TimeoutError, ValueError, TypeError) as exc:
+            detail = " ".join(str(exc).split()) or type(exc).__name__
+            raise InputError(f"cannot reach the Dask scheduler at {address!r}: {detail}") from None
+
+    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
+        from distributed import as_completed
+
+        jobs = [(function, c) for c in chunks]
+        if not jobs:
+            return
+        self._futures = self._client.map(_timed, jobs, pure=False)
+        for future in as_completed(self._futures):
+            yield future.result()
+
+    def close(self) -> None:
+        try:
+            if self._futures:
+                self._client.cancel(self._futures)
+        finally:
+            self._client.close()
+
+
+def make_executor(workers: int | None = None, scheduler: str | None = None) -> InProcessExecutor:
+    """The executor for ``--workers N`` (default: all cores) or ``--scheduler ADDRESS``."""
+    if scheduler is not None:
+        if workers is not None:
+            raise InputError("give --workers or --scheduler, not both")
+        return DaskExecutor(scheduler)
+    count = workers if workers is not None else (os.cpu_count() or 1)
+    if count < 1:
+        raise InputError(f"--workers must be at least 1, got {count}")
+    if count == 1:
+        return InProcessExecutor()
+    return ProcessPoolExecutor(count)

@@ -1,0 +1,343 @@
+"""The survey store: one SQLite file, one row per field, committed chunk by chunk.
+
+Schema (version :data:`SCHEMA_VERSION`, also in ``PRAGMA user_version``; the
+file is marked with ``PRAGMA application_id`` = :data:`APPLICATION_ID`):
+
+``meta(key TEXT PRIMARY KEY, value TEXT)``
+    ``schema_version``, ``created`` (UTC time), ``realquad_version``.
+``fields``
+    one row per field, keyed by the squarefree radicand ``d``: ``d``,
+    ``discriminant`` (unique), ``class_number``, ``narrow_class_number``,
+    ``class_group`` and ``narrow_class_group`` (invariant factors as a JSON
+    list), ``unit_norm`` (±1), ``regulator`` (decimal text, 17 significant
+    digits), ``period_length``, ``unit_digits``, ``method``, ``proof``,
+    ``chunk`` (the chunk that wrote it).
+``chunks``
+    one row per completed chunk: ``id``, ``kind`` (``'d'`` or ``'D'``),
+    ``lo``, ``hi`` (inclusive bounds), ``fields``, ``seconds``,
+    ``finished`` (UTC time).
+
+A chunk's rows and its ``chunks`` row are written in one transaction, so a
+run killed at any instant leaves each chunk either complete or absent; the
+primary key on ``d`` makes a duplicate row impossible. The journal is in WAL
+mode, so ``query`` and ``report`` can read while a run writes. One writer at
+a time: :meth:`SurveyStore.open_for_writing` takes an exclusive lock on the
+side file ``FILE-lock`` (released by the system when the process dies, even
+by ``kill -9``) and refuses when another run holds it.
+
+>>> import os, tempfile
+>>> from realquad.survey.ranges import Chunk
+>>> path = os.path.join(tempfile.mkdtemp(), "demo.sqlite")
+>>> with SurveyStore.open_for_writing(path) as store:
+...     store.is_done(Chunk("d", 2, 9))
+False
+>>> with SurveyStore.open_for_reading(path) as store:
+...     store.count()
+0
+"""
+
+from __future__ import annotations
+
+import fcntl
+import os
+import sqlite3
+import time
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass, fields
+from types import TracebackType
+from typing import Any
+
+from realquad.errors import InputError
+from realquad.survey.compute import FieldRecord
+from realquad.survey.ranges import Chunk
+
+SCHEMA_VERSION = 1
+#: ``PRAGMA application_id`` of a survey store ("RQSV").
+APPLICATION_ID = 0x52515356
+
+COLUMNS = [f.name for f in fields(FieldRecord)]
+
+_SCHEMA = f"""
+CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+CREATE TABLE chunks (
+    id INTEGER PRIMARY KEY,
+    kind TEXT NOT NULL CHECK (kind IN ('d', 'D')),
+    lo INTEGER NOT NULL,
+    hi INTEGER NOT NULL,
+    fields INTEGER NOT NULL,
+    seconds REAL NOT NULL,
+    finished TEXT NOT NULL,
+    UNIQUE (kind, lo, hi)
+);
+CREATE TABLE fields (
+    d INTEGER PRIMARY KEY,
+    discriminant INTEGER NOT NULL UNIQUE,
+    class_number INTEGER NOT NULL,
+    narrow_class_number INTEGER NOT NULL,
+    class_group TEXT NOT NULL,
+    narrow_class_group TEXT NOT NULL,
+    unit_norm INTEGER NOT NULL CHECK (unit_norm IN (-1, 1)),
+    regulator TEXT NOT NULL,
+    period_length INTEGER NOT NULL,
+    unit_digits INTEGER NOT NULL,
+    method TEXT NOT NULL,
+    proof TEXT NOT NULL CHECK (proof IN ('unconditional', 'GRH')),
+    chunk INTEGER NOT NULL REFERENCES chunks (id)
+);
+CREATE INDEX fields_class_number ON fields (class_number);
+PRAGMA user_version = {SCHEMA_VERSION};
+PRAGMA application_id = {APPLICATION_ID};
+"""
+
+
+@dataclass(frozen=True)
+class RowFilter:
+    """Conditions on survey rows; ``None`` means no condition."""
+
+    class_number: int | None = None
+    narrow_class_number: int | None = None
+    unit_norm: int | None = None
+    d_min: int | None = None
+    d_max: int | None = None
+
+    def where(self) -> tuple[str, list[int]]:
+        """The SQL ``WHERE`` clause (possibly empty) and its parameters."""
+        terms: list[str] = []
+        params: list[int] = []
+        for column in ("class_number", "narrow_class_number", "unit_norm"):
+            value = getattr(self, column)
+            if value is not None:
+                terms.append(f"{column} = ?")
+                params.append(value)
+        if self.d_min is not None:
+            terms.append("d >= ?")
+            params.append(self.d_min)
+        if self.d_max is not None:
+            terms.append("d <= ?")
+            params.append(self.d_max)
+        return (" WHERE " + " AND ".join(terms)) if terms else "", params
+
+
+def _utc_now() -> str:
+    return time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime())
+
+
+def _check_schema(connection: sqlite3.Connection, path: str) -> None:
+    """Raise :class:`InputError` unless ``connection`` is a survey store of our schema version."""
+    try:
+        app = connection.execute("PRAGMA application_id").fetchone()[0]
+        version = connection.execute("PRAGMA user_version").fetchone()[0]
+    except sqlite3.DatabaseError as exc:
+        raise InputError(f"{path!r} is not a survey database ({exc})") from None
+    if app != APPLICATION_ID:
+        raise InputError(f"{path!r} is not a survey database (it has another schema)")
+    if version != SCHEMA_VERSION:
+        raise InputError(
+            f"{path!r} is a survey database of schema version {version}; "
+            f"this realquad reads version {SCHEMA_VERSION} only"
+        )
+
+
+def _connect_read_only(path: str) -> sqlite3.Connection:
+    if not os.path.exists(path):
+        raise InputError(f"no survey database {path!r} (run 'realquad survey run' first)")
+    if os.path.isdir(path):
+        raise InputError(f"{path!r} is a directory, not a survey database")
+    try:
+        connection = sqlite3.connect(f"file:{_uri_path(path)}?mode=ro", uri=True, timeout=30)
+    except sqlite3.Error as exc:
+        raise InputError(f"cannot open {path!r}: {exc}") from None
+    try:
+        _check_schema(connection, path)
+    except BaseException:
+        connection.close()
+        raise
+    return connection
+
+
+def _uri_path(path: str) -> str:
+    from urllib.parse import quote
+
+    return quote(os.path.abspath(path))
+
+
+class SurveyStore:
+    """An open survey database; use :meth:`open_for_reading` or :meth:`open_for_writing`."""
+
+    def __init__(
+        self, connection: sqlite3.Connection, path: str, lock_fd: int | None = None
+    ) -> None:
+        self.connection = connection
+        self.path = path
+        self._lock_fd = lock_fd
+
+    @classmethod
+    def open_for_reading(cls, path: str) -> SurveyStore:
+        """Open an existing store read-only (fails with :class:`InputError` if it is not one)."""
+        return cls(_connect_read_only(path), path)
+
+    @staticmethod
+    def check_writable(path: str) -> None:
+        """Raise :class:`InputError` unless ``path`` is a survey store or can become one (read-only check)."""
+        if os.path.exists(path):
+            _connect_read_only(path).close()
+            if not os.access(path, os.W_OK):
+                raise InputError(f"cannot write {path!r}: permission denied")
+            return
+        directory = os.path.dirname(os.path.abspath(path))
+        if not os.path.isdir(directory):
+            raise InputError(f"cannot create {path!r}: no such directory")
+        if not os.access(directory, os.W_OK):
+            raise InputError(f"cannot create {path!r}: permission denied")
+
+    @classmethod
+    def open_for_writing(cls, path: str) -> SurveyStore:
+        """Open or create a store for one writer; refuse if another run is writing it.
+
+        An existing file is checked read-only first, so a file of another kind
+        is never modified.
+        """
+        cls.check_writable(path)
+        lock_fd = _lock(path)
+        try:
+            connection = sqlite3.connect(path, timeout=30, isolation_level=None)
+            connection.execute("PRAGMA journal_mode = WAL")
+            connection.execute("PRAGMA synchronous = NORMAL")
+            if connection.execute("PRAGMA application_id").fetchone()[0] == 0:
+                _create(connection)
+            _check_schema(connection, path)
+        except sqlite3.Error as exc:
+            os.close(lock_fd)
+            raise InputError(f"cannot open {path!r} for writing: {exc}") from None
+        except BaseException:
+            os.close(lock_fd)
+            raise
+        return cls(connection, path, lock_fd)
+
+    def __enter__(self) -> SurveyStore:
+        return self
+
+    def __exit__(
+        self,
+        kind: type[BaseException] | None,
+        value: BaseException | None,
+        tb: TracebackType | None,
+    ) -> None:
+        self.close()
+
+    def close(self) -> None:
+        self.connection.close()
+        if self._lock_fd is not None:
+            os.close(self._lock_fd)
+            self._lock_fd = None
+
+    # -- chunks -----------------------------------------------------------------
+
+    def is_done(self, chunk: Chunk) -> bool:
+        """Whether a completed chunk of the same kind covers ``chunk``."""
+        found = self.connection.execute(
+            "SELECT 1 FROM chunks WHERE kind = ? AND lo <= ? AND hi >= ? LIMIT 1",
+            (chunk.kind, chunk.lo, chunk.hi),
+        ).fetchone()
+        return found is not None
+
+    def save_chunk(self, chunk: Chunk, rows: Iterable[FieldRecord], seconds: float) -> int:
+        """Write the rows of ``chunk`` and mark it complete, in one transaction; return the row count."""
+        rows = list(rows)
+        c = self.connection
+        c.execute("BEGIN IMMEDIATE")
+        try:
+            if self.is_done(chunk):
+                c.execute("ROLLBACK")
+                return 0
+            cursor = c.execute(
+                "INSERT INTO chunks (kind, lo, hi, fields, seconds, finished) VALUES (?, ?, ?, ?, ?, ?)",
+                (chunk.kind, chunk.lo, chunk.hi, len(rows), seconds, _utc_now()),
+            )
+            chunk_id = cursor.lastrowid
+            marks = ", ".join("?" for _ in range(len(COLUMNS) + 1))
+            c.executemany(
+                f"INSERT OR IGNORE INTO fields ({', '.join(COLUMNS)}, chunk) VALUES ({marks})",
+                [(*(getattr(r, k) for k in COLUMNS), chunk_id) for r in rows],
+            )
+            c.execute("COMMIT")
+        except BaseException:
+            c.execute("ROLLBACK")
+            raise
+        return len(rows)
+
+    def completed_chunks(self) -> list[tuple[str, int, int]]:
+        return [
+            tuple(r)
+            for r in self.connection.execute("SELECT kind, lo, hi FROM chunks ORDER BY kind, lo")
+        ]
+
+    # -- rows -------------------------------------------------------------------
+
+    def count(self, where: RowFilter | None = None) -> int:
+        clause, params = (where or RowFilter()).where()
+        return int(
+            self.connection.execute(f"SELECT COUNT(*) FROM fields{clause}", params).fetchone()[0]
+        )
+
+    def rows(
+        self, where: RowFilter | None = None, limit: int | None = None
+    ) -> Iterator[dict[str, Any]]:
+        """Rows in increasing ``d`` as dictionaries with the :data:`COLUMNS` keys."""
+        clause, params = (where or RowFilter()).where()
+        sql = f"SELECT {', '.join(COLUMNS)} FROM fields{clause} ORDER BY d"
+        if limit is not None:
+            sql += f" LIMIT {int(limit)}"
+        for values in self.connection.execute(sql, params):
+            yield dict(zip(COLUMNS, values, strict=True))
+
+    def column_values(
+        self, columns: list[str], where: RowFilter | None = None
+    ) -> list[tuple[Any, ...]]:
+        """Selected columns of every matching row, in increasing ``d``."""
+        unknown = [c for c in columns if c not in COLUMNS]
+        if unknown:
+            raise InputError(f"unknown column {unknown[0]!r}")
+        clause, params = (where or RowFilter()).where()
+        sql = f"SELECT {', '.join(columns)} FROM fields{clause} ORDER BY d"
+        return list(self.connection.execute(sql, params))
+
+
+def _create(connection: sqlite3.Connection) -> None:
+    from realquad import __version__
+
+    connection.execute("BEGIN IMMEDIATE")
+    try:
+        for statement in _SCHEMA.split(";"):
+            if statement.strip():
+                connection.execute(statement)
+        connection.executemany(
+            "INSERT INTO meta (key, value) VALUES (?, ?)",
+            [
+                ("schema_version", str(SCHEMA_VERSION)),
+                ("created", _utc_now()),
+                ("realquad_version", __version__),
+            ],
+        )
+        connection.execute("COMMIT")
+    except BaseException:
+        if connection.in_transaction:
+            connection.execute("ROLLBACK")
+        raise
+
+
+def _lock(path: str) -> int:
+    """Take the exclusive writer lock of ``path`` or raise :class:`InputError`."""
+    lock_path = path + "-lock"
+    try:
+        fd = os.open(lock_path, os.O_RDWR | os.O_CREAT, 0o644)
+    except OSError as exc:
+        raise InputError(f"cannot lock {path!r}: {exc.strerror}") from None
+    try:
+        fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
+    except OSError:
+        os.close(fd)
+        raise InputError(
+            f"{path!r} is being written by another survey run; wait for it to finish or use another --db"
+        ) from None
+    return fd

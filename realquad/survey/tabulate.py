@@ -1,0 +1,86 @@
+"""Run a survey: compute every field of a range into the store, resumably.
+
+:func:`tabulate` skips the chunks the store has already completed, sends the
+others to an executor (this process, local processes or Dask) and writes
+each finished chunk in one transaction from this process. Interrupting it
+(Ctrl-C, or a kill at any instant) loses at most the chunks in flight; the
+same call again resumes.
+
+>>> import os, tempfile
+>>> path = os.path.join(tempfile.mkdtemp(), "demo.sqlite")
+>>> with SurveyStore.open_for_writing(path) as store:
+...     first = tabulate(SurveyRange("d", 2, 30), store, chunk_size=10)
+...     again = tabulate(SurveyRange("d", 2, 30), store, chunk_size=10)
+>>> (first.total_fields, first.computed_fields, first.computed_chunks)
+(18, 18, 4)
+>>> (again.computed_fields, again.skipped_fields, again.skipped_chunks)
+(0, 18, 4)
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+from realquad.survey.compute import survey_chunk
+from realquad.survey.executors import InProcessExecutor
+from realquad.survey.progress import Mode, SurveyProgress
+from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, Chunk, SurveyRange
+from realquad.survey.store import SurveyStore
+
+
+@dataclass
+class SurveyOutcome:
+    """What a run did: ``computed`` fields in ``seconds``, ``skipped`` ones found in the store."""
+
+    database: str
+    total_fields: int
+    computed_fields: int = 0
+    skipped_fields: int = 0
+    computed_chunks: int = 0
+    skipped_chunks: int = 0
+    seconds: float = 0.0
+    executor: str = ""
+
+    @property
+    def rate(self) -> float:
+        return self.computed_fields / self.seconds if self.seconds > 0 else 0.0
+
+
+def tabulate(
+    survey_range: SurveyRange,
+    store: SurveyStore,
+    executor: InProcessExecutor | None = None,
+    chunk_size: int = DEFAULT_CHUNK_SIZE,
+    progress: Mode = "quiet",
+    chunk_function: Callable[[Chunk], list[Any]] = survey_chunk,
+) -> SurveyOutcome:
+    """Compute the missing chunks of ``survey_range`` into ``store``.
+
+    ``store`` must be open for writing (it holds the writer lock); the
+    executor is closed at the end. On ``KeyboardInterrupt`` the executor's
+    workers are ended and the interrupt is raised again: every chunk saved
+    so far stays saved.
+    """
+    executor = executor or InProcessExecutor()
+    try:
+        chunks = list(survey_range.chunks(chunk_size))
+        counts = {c: len(c.radicands()) for c in chunks}
+        todo = [c for c in chunks if not store.is_done(c)]
+        outcome = SurveyOutcome(store.path, sum(counts.values()), executor=executor.description)
+        outcome.skipped_chunks = len(chunks) - len(todo)
+        outcome.skipped_fields = outcome.total_fields - sum(counts[c] for c in todo)
+        start = time.perf_counter()
+        with SurveyProgress(outcome.total_fields, progress, done=outcome.skipped_fields) as bar:
+            try:
+                for chunk, rows, seconds in executor.map_unordered(todo, chunk_function):
+                    outcome.computed_fields += store.save_chunk(chunk, rows, seconds)
+                    outcome.computed_chunks += 1
+                    bar.advance(len(rows))
+            finally:
+                outcome.seconds = time.perf_counter() - start
+    finally:
+        executor.close()
+    return outcome
