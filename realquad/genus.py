@@ -1,0 +1,108 @@
+"""Genus theory of the narrow class group: genus characters, genera, the 2-rank.
+
+For a discriminant ``D`` the *assigned characters* are ``χ_p(m) = (m/p)`` for
+the odd primes ``p | D`` and, when ``D = 4n``, according to ``n`` modulo 8:
+``δ(m) = (−1)^{(m−1)/2}`` for ``n ≡ 3 (mod 4)`` or ``n ≡ 4 (mod 8)``,
+``ε(m) = (−1)^{(m²−1)/8}`` for ``n ≡ 2 (mod 8)``, ``δε`` for ``n ≡ 6 (mod 8)``,
+both ``δ`` and ``ε`` for ``n ≡ 0 (mod 8)``, none for ``n ≡ 1 (mod 4)``.
+Each character, evaluated at any number ``m`` prime to ``2D`` represented by
+a form, depends only on its class; with ``μ`` characters there are
+``2^{μ−1}`` genera, the principal genus is ``Cl⁺²``, so the 2-rank of
+``Cl⁺`` is ``μ − 1`` (for fundamental ``D``, ``μ`` is the number of prime
+divisors of ``D``).
+
+>>> from realquad.classgroup import class_group
+>>> g = class_group(4 * 15).genus           # Q(√15): D = 60 = 4·3·5
+>>> g.characters, g.number_of_genera, g.two_rank
+(['(·/3)', '(·/5)', 'δ'], 4, 2)
+
+References: D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §3.B
+(Theorem 3.15, assigned characters; stated there for D < 0, the same for
+D > 0 and proper equivalence); D. A. Buell, *Binary Quadratic Forms*,
+Springer 1989, ch. 4; C. F. Gauss, *Disquisitiones Arithmeticae*, art. 229–287.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from math import gcd
+from typing import TYPE_CHECKING
+
+from realquad.arith import kronecker
+from realquad.factoring import factorize
+from realquad.forms import Form
+
+if TYPE_CHECKING:
+    from realquad.classgroup import ClassGroup
+
+
+@dataclass(frozen=True)
+class Genera:
+    """The genus characters of ``D``, the character vector of every narrow class, the genera."""
+
+    discriminant: int
+    characters: list[str]
+    class_characters: list[tuple[int, ...]]
+    number_of_genera: int
+    two_rank: int
+
+    @property
+    def classes_per_genus(self) -> int:
+        return len(self.class_characters) // self.number_of_genera
+
+
+def assigned_characters(D: int) -> list[str]:
+    """Names of the assigned characters of ``D``: ``'(·/p)'``, ``'δ'``, ``'ε'``, ``'δε'``.
+
+    >>> assigned_characters(8), assigned_characters(24), assigned_characters(5 * 13)
+    (['ε'], ['(·/3)', 'δε'], ['(·/5)', '(·/13)'])
+    """
+    names = [f"(·/{p})" for p in sorted(factorize(D)) if p != 2]
+    if D % 4 == 0:
+        n = D // 4
+        if n % 4 == 3 or n % 8 == 4:
+            names.append("δ")
+        elif n % 8 == 2:
+            names.append("ε")
+        elif n % 8 == 6:
+            names.append("δε")
+        elif n % 8 == 0:
+            names += ["δ", "ε"]
+    return names
+
+
+def character_value(name: str, m: int) -> int:
+    """The value ``±1`` of an assigned character at an integer ``m`` prime to ``2D``."""
+    if name == "δ":
+        return -1 if m % 4 == 3 else 1
+    if name == "ε":
+        return -1 if m % 8 in (3, 5) else 1
+    if name == "δε":
+        return character_value("δ", m) * character_value("ε", m)
+    p = int(name[3:-1])
+    return kronecker(m, p)
+
+
+def represented_prime_to(form: Form, modulus: int) -> int:
+    """A value ``F(x, y)`` with ``gcd(x, y) = 1`` prime to ``modulus`` (a primitive form has one)."""
+    bound = 1
+    while True:
+        for x in range(0, bound + 1):
+            for y in range(-bound, bound + 1):
+                if max(abs(x), abs(y)) == bound and gcd(x, y) == 1:
+                    m = form.value(x, y)
+                    if m and gcd(m, modulus) == 1:
+                        return m
+        bound += 1
+
+
+def genera(group: ClassGroup) -> Genera:
+    """Genus characters of every narrow class of ``group``, and the genus count."""
+    D = group.discriminant
+    names = assigned_characters(D)
+    vectors = []
+    for rep in group.table.representatives:
+        m = represented_prime_to(Form._raw(*rep), 2 * D)
+        vectors.append(tuple(character_value(name, m) for name in names))
+    two_rank = sum(1 for d in group.narrow_invariants if d % 2 == 0)
+    return Genera(D, names, vectors, len(set(vectors)), two_rank)
