@@ -181,3 +181,22 @@ def test_subprocess_error_exit_status():
     )
     assert proc.returncode == 2
     assert proc.stderr.startswith("realquad: error:") and "Traceback" not in proc.stderr
+
+
+def test_ctrl_c_exits_cleanly():
+    """SIGINT during a long continued-fraction walk: status 130, one line, no traceback."""
+    import signal
+    import time
+
+    # d = 10²⁰ + 3 (discriminant beyond the compiled kernels' word size): a period of ~10¹⁰ steps
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "realquad", "unit", str(10**20 + 3)],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
+    time.sleep(2.0)
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=60)
+    assert proc.returncode == 130, (proc.returncode, err)
+    assert err.strip() == "realquad: interrupted"
