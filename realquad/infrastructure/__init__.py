@@ -1,0 +1,13 @@
+"""The infrastructure of a real quadratic order: reduced principal ideals with distances.
+
+Modules: :mod:`ideals` (reduced ideals, baby steps, composition, reduction),
+:mod:`distances` (reaching a given distance by doubling, exact relative
+generators), :mod:`regulator_bsgs` (the regulator by baby-step giant-step),
+:mod:`compact` (compact representations of units), :mod:`lfunction` (the
+``h·R`` estimate that sizes the search).
+"""
+
+from realquad.infrastructure.ideals import Cycle
+from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
+
+__all__ = ["BSGSResult", "Cycle", "regulator_bsgs"]

@@ -1,0 +1,211 @@
+"""Baby-step giant-step regulators against the continued fraction and brute force."""
+
+from __future__ import annotations
+
+import math
+
+import gmpy2
+import mpmath
+import pytest
+from hypothesis import example, given
+from hypothesis import strategies as st
+
+from realquad.infrastructure.distances import exact_principal_at, log_of_product, walk_to
+from realquad.infrastructure.ideals import Cycle, giant_step_float
+from realquad.infrastructure.lfunction import estimate_hR, primes_below
+from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+from realquad.units import regulator as regulator_cfrac
+
+
+def discriminant_near(n: int) -> int:
+    """A non-square discriminant ``≥ n`` (the first one, 0 or 1 mod 4)."""
+    D = max(n, 5)
+    while D % 4 not in (0, 1) or gmpy2.is_square(D):
+        D += 1
+    return D
+
+
+def principal_cycle(cycle: Cycle) -> list[tuple[tuple[int, int], float]]:
+    """Brute force: the whole principal cycle by baby steps, with float distances."""
+    ideal, dist, out = cycle.principal, 0.0, []
+    while True:
+        out.append((ideal, dist))
+        nxt = cycle.rho(*ideal)
+        dist += cycle.rho_log_float(*ideal, *nxt)
+        ideal = nxt
+        if ideal == cycle.principal:
+            return out
+
+
+# -- regulator agreement with the continued fraction (realquad.units, independent code) --
+
+
+@given(st.integers(5, 10**9))
+@example(5)
+@example(8)
+@example(12)
+@example(13)
+@example(4 * 61)
+@example(380)
+def test_bsgs_regulator_matches_continued_fraction_small(n: int) -> None:
+    D = discriminant_near(n)
+    assert str(regulator_bsgs(D, 35).regulator) == str(regulator_cfrac(D, 35))
+
+
+@given(st.integers(10**9, 10**12))
+def test_bsgs_regulator_matches_continued_fraction_medium(n: int) -> None:
+    D = discriminant_near(n)
+    assert str(regulator_bsgs(D, 30).regulator) == str(regulator_cfrac(D, 30))
+
+
+@pytest.mark.slow
+@given(st.integers(10**12, 10**13))
+def test_bsgs_regulator_matches_continued_fraction_large(n: int) -> None:
+    D = discriminant_near(n)
+    assert str(regulator_bsgs(D, 30).regulator) == str(regulator_cfrac(D, 30))
+
+
+@pytest.mark.parametrize("table", [64, 300, 5000])
+def test_small_tables_force_doubling_and_stay_correct(table: int) -> None:
+    D = 4 * (10**12 + 39)
+    res = regulator_bsgs(D, 30, max_table=table, estimate=10.0)
+    assert str(res.regulator) == str(regulator_cfrac(D, 30))
+
+
+def test_regulator_to_many_digits() -> None:
+    D = 4 * (10**9 + 7)
+    res = regulator_bsgs(D, 120)
+    assert str(res.regulator) == str(regulator_cfrac(D, 120))
+    assert res.regulator.error_bound < mpf_pow10(-125)
+    assert res.regulator.proof == "unconditional"
+    assert "baby-step giant-step" in res.regulator.method
+
+
+def mpf_pow10(k: int) -> mpmath.mpf:
+    return mpmath.mpf(10) ** k
+
+
+def test_known_regulators() -> None:
+    # Q(√94): ε = 2143295 + 221064√94 (from memory; also in realquad/__init__.py's doctest)
+    assert (
+        abs(
+            float(regulator_bsgs(4 * 94, 20).regulator) - math.log(2143295 + 221064 * math.sqrt(94))
+        )
+        < 1e-9
+    )
+    # Z[√61]: ε = 29718 + 3805√61, the least solution of x² − 61y² = −1 (from memory)
+    assert (
+        abs(float(regulator_bsgs(4 * 61, 20).regulator) - math.log(29718 + 3805 * math.sqrt(61)))
+        < 1e-9
+    )
+
+
+# -- the moves on reduced ideals --
+
+
+@given(st.integers(5, 10**7))
+def test_cycle_moves_are_consistent(n: int) -> None:
+    D = discriminant_near(n)
+    cyc = Cycle(D)
+    cycle = principal_cycle(cyc)[:400]
+    for (a, b), _ in cycle:
+        assert cyc.is_reduced(a, b) and cyc.normalize(a, b) == b
+        assert (b * b - D) % (4 * a) == 0
+        assert cyc.rho_inverse(*cyc.rho(a, b)) == (a, b)
+        # the conjugate of a reduced ideal is reduced (1 is a minimum of both)
+        assert cyc.is_reduced(a, cyc.conjugate(a, b))
+
+
+def lattice_hnf(vectors: list[tuple[int, int]]) -> tuple[int, int, int]:
+    """Brute force: the Hermite normal form ``(n, m, k)`` of the Z-span of integer vectors.
+
+    The lattice is ``Z(n, 0) + Z(m, k)`` with ``k > 0`` the gcd of the second
+    coordinates and ``0 ≤ m < n``.
+    """
+    acc_x, acc_y = 0, 0
+    for x, y in vectors:
+        g, s, t = gmpy2.gcdext(acc_y, y)
+        acc_x, acc_y = int(s * acc_x + t * x), int(g)
+    k = acc_y
+    n = 0
+    for x, y in vectors:
+        n = math.gcd(n, x - (y // k) * acc_x)
+    return n, acc_x % n, k
+
+
+def test_composition_is_ideal_multiplication() -> None:
+    # Brute force: span of the four products of Z-bases versus d·[a3, (b3+√D)/2],
+    # coordinates (x, y) for (x + y√D)/2.
+    for D in (4000012, 10**7 + 1, 5 * 10**6 + 1, 29745716, 1001 * 4):
+        cyc = Cycle(D)
+        cycle = [ideal for ideal, _ in principal_cycle(cyc)][:60]
+        for (a1, b1), (a2, b2) in zip(cycle, reversed(cycle), strict=False):
+            d, a3, b3 = cyc.multiply(a1, b1, a2, b2)
+
+            def mul(p: tuple[int, int], q: tuple[int, int], D: int = D) -> tuple[int, int]:
+                # (x1 + y1√D)/2 · (x2 + y2√D)/2 = ((x1x2 + D y1y2)/2 + (x1y2 + x2y1)/2 √D)/2
+                return ((p[0] * q[0] + D * p[1] * q[1]) // 2, (p[0] * q[1] + p[1] * q[0]) // 2)
+
+            basis1, basis2 = [(2 * a1, 0), (b1, 1)], [(2 * a2, 0), (b2, 1)]
+            product = [mul(p, q) for p in basis1 for q in basis2]
+            expected = [(2 * d * a3, 0), (d * b3, d)]
+            assert lattice_hnf(product) == lattice_hnf(expected)
+
+
+@given(st.integers(10**6, 10**20), st.integers(0, 2**32))
+def test_fused_giant_step_matches_composition_and_reduction(n: int, seed: int) -> None:
+    D = discriminant_near(n)
+    cyc = Cycle(D)
+    I1, I2 = cyc.principal, cyc.principal
+    for _ in range(seed % 50):
+        I1 = cyc.rho(*I1)
+    for _ in range((seed >> 8) % 70):
+        I2 = cyc.rho(*I2)
+    d, a3, b3 = cyc.multiply(*I1, *I2)
+    a, b, shift = cyc.reduce_float(a3, b3)
+    a_, b_, mu = cyc.reduce_exact(a3, b3)
+    got = giant_step_float(D, cyc.root, cyc.sqrt_float, *I1, *I2)
+    assert got[:2] == (a, b) == (a_, b_)
+    assert abs(got[2] - (math.log(I1[0] * I2[0] / (d * a3)) + shift)) < 1e-8
+    assert abs(float(mu.log_abs_mpf(20)) - shift) < 1e-8
+
+
+def test_composition_and_reduction_follow_distances() -> None:
+    # Brute force: every product of two cycle ideals lands on the cycle at δ₁ + δ₂ + correction (mod R).
+    for D in (4000012, 10**7 + 1, 40000076, 5000001):
+        cyc = Cycle(D)
+        cycle = principal_cycle(cyc)
+        where = dict(cycle)
+        R = float(regulator_cfrac(D, 20))
+        for (I1, d1), (I2, d2) in zip(cycle[::7], cycle[3::11], strict=False):
+            a, b, c = giant_step_float(D, cyc.root, cyc.sqrt_float, *I1, *I2)
+            diff = (d1 + d2 + c - where[(a, b)]) % R
+            assert min(diff, R - diff) < 1e-6
+
+
+def test_walk_to_lands_below_target() -> None:
+    cyc = Cycle(4 * (10**12 + 39))
+    for x in (0.0, 3.0, 50.0, 1234.5, 98765.4):
+        near = walk_to(cyc, x, exact=True)
+        assert near.distance <= x + 1e-9
+        nxt = cyc.rho(*near.ideal)
+        assert near.distance + cyc.rho_log_float(*near.ideal, *nxt) > x - 1e-9
+        assert near.factors is not None
+        value, bound = log_of_product(near.factors, 30)
+        assert abs(float(value) - near.distance) < 1e-6
+
+
+def test_exact_principal_gives_the_unit() -> None:
+    D = 4 * (10**9 + 7)
+    R = float(regulator_cfrac(D, 20))
+    factors = exact_principal_at(Cycle(D), R)
+    value, _ = log_of_product(factors, 40)
+    assert abs(value - regulator_cfrac(D, 40).value) < 1e-35
+
+
+def test_estimate_of_hR_is_close_for_a_class_number_one_field() -> None:
+    # h(4·(10⁹+7)) = 1: the estimate should be within a few percent of R.
+    D = 4 * (10**9 + 7)
+    e = estimate_hR(D)
+    assert abs(e.value / float(regulator_cfrac(D, 20)) - 1) < 0.05
+    assert primes_below(30) == (2, 3, 5, 7, 11, 13, 17, 19, 23, 29)  # OEIS A000040
