@@ -45,8 +45,9 @@ from dataclasses import dataclass
 from dataclasses import field as dataclass_field
 from functools import cached_property
 from math import gcd
+from typing import Any
 
-from realquad._backend import kernels
+from realquad._backend import kernels, pure
 from realquad.arith import Order, isqrt
 from realquad.errors import TooLargeError
 from realquad.forms import Form, prime_form
@@ -139,8 +140,8 @@ class ClassTable:
 
     def class_index(self, form: Form) -> int:
         """The class number of a primitive form of discriminant ``D``."""
-        a, b, _ = kernels.form_reduce(form.a, form.b, form.c, self.D, isqrt(self.D))
-        return self.index[(a, b)]
+        G = form.reduced()
+        return self.index[(G.a, G.b)]
 
 
 def class_table(
@@ -149,9 +150,25 @@ def class_table(
     max_forms: int = DEFAULT_MAX_FORMS,
     progress: Callable[[int], None] | None = None,
 ) -> ClassTable:
-    """Build the table of all narrow classes of discriminant ``D`` (see the module notes)."""
+    """Build the table of all narrow classes of discriminant ``D`` (see the module notes).
+
+    Uses the compiled kernels within their word size and the pure twin beyond.
+    """
+    try:
+        return _class_table(D, conductor, max_forms, progress, kernels)
+    except OverflowError:
+        return _class_table(D, conductor, max_forms, progress, pure)
+
+
+def _class_table(
+    D: int,
+    conductor: int,
+    max_forms: int,
+    progress: Callable[[int], None] | None,
+    ops: Any,
+) -> ClassTable:
     r = isqrt(D)
-    reduce, cycle, compose = kernels.form_reduce, kernels.form_cycle, kernels.form_compose
+    reduce, cycle, compose = ops.form_reduce, ops.form_cycle, ops.form_compose
     one = Form.identity(D)
     start = (one.a, one.b, one.c)
     walk = cycle(one.a, one.b, one.c, D, r, max_forms)

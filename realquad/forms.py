@@ -35,13 +35,22 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from math import gcd
+from typing import Any
 
-from realquad._backend import kernels
+from realquad._backend import kernels, pure
 from realquad.arith import as_integer, is_square, isqrt
 from realquad.errors import DomainError, InputError
 
 Matrix = tuple[int, int, int, int]
 IDENTITY_MATRIX: Matrix = (1, 0, 0, 1)
+
+
+def call_kernel(name: str, *args: int) -> Any:
+    """Call a form kernel: the compiled one within its word size, else the pure twin."""
+    try:
+        return getattr(kernels, name)(*args)
+    except OverflowError:
+        return getattr(pure, name)(*args)
 
 
 def matrix_product(M: Matrix, N: Matrix) -> Matrix:
@@ -132,7 +141,7 @@ class Form:
         >>> Form(1, 16, -15).is_reduced(), Form(1, 0, -79).is_reduced()
         (True, False)
         """
-        return kernels.form_is_reduced(self.a, self.b, isqrt(self.discriminant))
+        return call_kernel("form_is_reduced", self.a, self.b, isqrt(self.discriminant))
 
     def value(self, x: int, y: int) -> int:
         """``F(x, y)``."""
@@ -155,7 +164,7 @@ class Form:
         (Form(-15, 14, 2), (0, -1, 1, -1))
         """
         D = self.discriminant
-        t = kernels.form_rho_b(self.b, self.c, isqrt(D))
+        t = call_kernel("form_rho_b", self.b, self.c, isqrt(D))
         s = (t + self.b) // (2 * self.c)
         return Form._raw(self.c, t, (t * t - D) // (4 * self.c)), (0, -1, 1, s)
 
@@ -169,8 +178,8 @@ class Form:
         r = isqrt(D)
         a, b, c = self.a, self.b, self.c
         al, be, ga, de = IDENTITY_MATRIX
-        while not kernels.form_is_reduced(a, b, r):
-            t = kernels.form_rho_b(b, c, r)
+        while not call_kernel("form_is_reduced", a, b, r):
+            t = call_kernel("form_rho_b", b, c, r)
             s = (t + b) // (2 * c)
             a, b, c = c, t, (t * t - D) // (4 * c)
             al, be, ga, de = be, be * s - al, de, de * s - ga
@@ -179,7 +188,7 @@ class Form:
     def reduced(self) -> Form:
         """The reduced form reached by rho steps (without the matrix)."""
         D = self.discriminant
-        return Form._raw(*kernels.form_reduce(self.a, self.b, self.c, D, isqrt(D)))
+        return Form._raw(*call_kernel("form_reduce", self.a, self.b, self.c, D, isqrt(D)))
 
     def cycle(self, max_length: int = 10_000_000) -> list[Form]:
         """The rho cycle of the reduced form reached from ``F`` (it starts there).
@@ -193,8 +202,8 @@ class Form:
 
         D = self.discriminant
         r = isqrt(D)
-        a, b, c = kernels.form_reduce(self.a, self.b, self.c, D, r)
-        walk = kernels.form_cycle(a, b, c, D, r, max_length)
+        a, b, c = call_kernel("form_reduce", self.a, self.b, self.c, D, r)
+        walk = call_kernel("form_cycle", a, b, c, D, r, max_length)
         if walk is None:
             raise TooLargeError(f"the cycle of {self} is longer than {max_length:,} forms")
         return [Form._raw(x, y, (y * y - D) // (4 * x)) for x, y in walk]
@@ -222,7 +231,7 @@ class Form:
         Form(9, 1, -2)
         """
         D = self._check_same(other)
-        A, B, C = kernels.form_compose(self.a, self.b, other.a, other.b, D)
+        A, B, C = call_kernel("form_compose", self.a, self.b, other.a, other.b, D)
         F = Form._raw(A, B, C)
         return F.reduced() if reduce else F
 
@@ -303,7 +312,7 @@ def _nucomp(a1: int, b1: int, c1: int, a2: int, b2: int, c2: int, D: int) -> tup
         a1, b1, c1, a2, b2, c2 = a2, b2, c2, a1, b1, c1
     s = (b1 + b2) // 2
     m = b2 - s
-    F, b, c = kernels.extended_gcd(a2, a1)  # F = b a2 + c a1
+    F, b, c = call_kernel("extended_gcd", a2, a1)  # F = b a2 + c a1
     if s % F == 0:
         G = F
         Bx = m * b
@@ -311,7 +320,7 @@ def _nucomp(a1: int, b1: int, c1: int, a2: int, b2: int, c2: int, D: int) -> tup
         Cy = a2 // G
         Dy = s // G
     else:
-        G, x, y = kernels.extended_gcd(F, s)  # G = x F + y s
+        G, x, y = call_kernel("extended_gcd", F, s)  # G = x F + y s
         H = F // G
         By = a1 // G
         Cy = a2 // G

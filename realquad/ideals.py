@@ -25,10 +25,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from realquad._backend import kernels
 from realquad.arith import as_integer, isqrt
 from realquad.errors import DomainError
-from realquad.forms import Form
+from realquad.forms import Form, call_kernel
 
 
 @dataclass(frozen=True)
@@ -96,7 +95,7 @@ class Ideal:
         if other.discriminant != self.discriminant:
             raise DomainError("ideals of different orders")
         D = self.discriminant
-        A, B, _ = kernels.form_compose(self.a, self.b, other.a, other.b, D)
+        A, B, _ = call_kernel("form_compose", self.a, self.b, other.a, other.b, D)
         e = isqrt(self.a * other.a // A)  # a1 a2 = e² A, e the gcd step
         return Ideal(D, self.scale * other.scale * e, abs(A), B)
 
