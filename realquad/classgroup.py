@@ -147,13 +147,16 @@ class ClassTable:
 def class_table(
     D: int,
     conductor: int,
-    max_forms: int = DEFAULT_MAX_FORMS,
+    max_forms: int | None = None,
     progress: Callable[[int], None] | None = None,
 ) -> ClassTable:
     """Build the table of all narrow classes of discriminant ``D`` (see the module notes).
 
     Uses the compiled kernels within their word size and the pure twin beyond.
+    ``max_forms`` defaults to :data:`DEFAULT_MAX_FORMS`.
     """
+    if max_forms is None:
+        max_forms = DEFAULT_MAX_FORMS
     try:
         return _class_table(D, conductor, max_forms, progress, kernels)
     except OverflowError:
@@ -228,7 +231,7 @@ def _too_large(D: int, max_forms: int) -> str:
     )
 
 
-def class_numbers(order: Order | int, max_forms: int = DEFAULT_MAX_FORMS) -> tuple[int, int, int]:
+def class_numbers(order: Order | int, max_forms: int | None = None) -> tuple[int, int, int]:
     """``(h, h⁺, N(ε))`` of an order: the lean path for tabulating many fields.
 
     ``N(ε)`` is read off the principal cycle (``(−1, b₀, c₀)`` lies in it
@@ -333,7 +336,7 @@ class ClassGroup:
 
 def class_group(
     order: Order | int,
-    max_forms: int = DEFAULT_MAX_FORMS,
+    max_forms: int | None = None,
     progress: Callable[[int], None] | None = None,
 ) -> ClassGroup:
     """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant).

@@ -72,16 +72,23 @@ class PrimeDecomposition:
 
 
 class _PrincipalCycle:
-    """The reduced forms of the principal class with matrices ``N``, ``(1, b₀, c₀)·N = G``."""
+    """The reduced forms ``G`` of the principal class with ``N``, ``(1, b₀, c₀)·N = G``.
+
+    The matrices grow like the fundamental unit along the cycle, so they are
+    made lazily: only as far along the cycle as a principal prime needs.
+    """
 
     def __init__(self, D: int) -> None:
-        self.matrices: dict[Form, Matrix] = {}
-        start = Form.identity(D)
-        current, N = start, IDENTITY_MATRIX
-        while current not in self.matrices:
-            self.matrices[current] = N
-            current, R = current.rho()
-            N = matrix_product(N, R)
+        self.position = {G: k for k, G in enumerate(Form.identity(D).cycle())}
+        self.matrices: list[Matrix] = [IDENTITY_MATRIX]
+        self.current = Form.identity(D)
+
+    def matrix(self, G: Form) -> Matrix:
+        k = self.position[G]
+        while len(self.matrices) <= k:
+            self.current, R = self.current.rho()
+            self.matrices.append(matrix_product(self.matrices[-1], R))
+        return self.matrices[k]
 
 
 def _check_prime(p: object) -> int:
@@ -134,7 +141,7 @@ def decompose_prime(
     principal = group.is_narrowly_principal(F)
     if principal:
         cycle = _cycle if _cycle is not None else _PrincipalCycle(D)
-        N = matrix_product(cycle.matrices[G], matrix_inverse(M))  # (1, b₀, c₀)·N = F
+        N = matrix_product(cycle.matrix(G), matrix_inverse(M))  # (1, b₀, c₀)·N = F
         x, y = N[0], N[2]
     else:
         x, y = M[3], -M[2]

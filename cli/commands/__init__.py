@@ -3,7 +3,13 @@
 from __future__ import annotations
 
 import click
+from realquad_cli.commands import cfrac, classgroup, pell, split, survey, unit
 
-from realquad_cli.commands import cfrac, pell, survey, unit
-
-COMMANDS: list[click.Command] = [cfrac.command, pell.command, unit.command, survey.command]
+COMMANDS: list[click.Command] = [
+    cfrac.command,
+    pell.command,
+    unit.command,
+    survey.command,
+    classgroup.command,
+    split.command,
+]
