@@ -20,7 +20,7 @@ from realquad.errors import DomainError, InputError, RealquadError, TooLargeErro
 from realquad.pell import PellSolution, pell
 from realquad.quadratic_number import QuadraticNumber
 from realquad.results import Regulator, Unit
-from realquad.units import fundamental_unit, regulator
+from realquad.dispatch import fundamental_unit, regulator
 
 __version__ = "0.1.0"
 

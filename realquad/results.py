@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 import mpmath
 
@@ -61,6 +61,11 @@ class Unit:
     _expander: Callable[[], tuple[int, int]] = field(repr=False)
     _regulator: Callable[[int], Regulator] = field(repr=False)
     _cache: dict[str, object] = field(default_factory=dict, repr=False)
+    _compact: Callable[[], Any] | None = field(default=None, repr=False)
+
+    def compact(self) -> Any:
+        """The compact representation of ``ε`` (units found in the infrastructure), else ``None``."""
+        return None if self._compact is None else self._compact()
 
     def half_integer_coordinates(self) -> tuple[int, int]:
         """``(u, v)`` with ``ε = (u + v√D)/2`` and ``u² − D v² = ±4``."""

@@ -1,0 +1,244 @@
+"""Compact representations of units (Buchmann–Thiel–Williams).
+
+A unit found in the infrastructure comes as one or more *chains*
+``γ₀^{2^k} α₁^{2^{k−1}} ⋯ α_k`` of numbers of small height (see
+:mod:`realquad.infrastructure.distances`), each raised to an integer power,
+times a sign. The size is ``O(log R)`` numbers of ``O(log D)`` bits, while the
+expanded unit has about ``R/log 10`` digits. Everything below works on the
+chains without expanding them: sign and norm exactly, the logarithm to any
+precision, the unit modulo an integer, products and powers; exact expansion
+(Horner's rule on each chain, so intermediate sizes double per level) only on
+request.
+
+>>> from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+>>> D = 4 * 61
+>>> eps = CompactRepresentation.from_factors(D, regulator_bsgs(D, 20).factors)
+>>> eps.norm, eps.expand()
+(-1, (59436, 3805))
+>>> (eps * eps).expand() == eps.power(2).expand()
+True
+>>> half = pow(2, -1, 101)
+>>> eps.modulo(101) == (59436 * half % 101, 3805 * half % 101)
+True
+
+Reference: J. Buchmann, C. Thiel and H. C. Williams, "Short representation of
+quadratic integers", in *Computational Algebra and Number Theory* (Sydney
+1992), Kluwer 1995, 159–185; Jacobson–Williams 2009, ch. 12.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+
+import gmpy2
+import mpmath
+
+from realquad.errors import DomainError, TooLargeError
+from realquad.infrastructure.distances import Factors, log_of_product
+from realquad.quadratic_number import QuadraticNumber
+
+
+@dataclass(frozen=True)
+class Chain:
+    """``∏ α^e`` for ``(α, e)`` in ``factors`` (exponents ``2^k, …, 2, 1``), raised to ``power``."""
+
+    factors: tuple[tuple[QuadraticNumber, int], ...]
+    power: int = 1
+
+
+@dataclass(frozen=True)
+class CompactRepresentation:
+    """``sign · ∏ chains`` — a unit of the order of discriminant ``discriminant``."""
+
+    discriminant: int
+    chains: tuple[Chain, ...]
+    sign: int = 1
+
+    @classmethod
+    def from_factors(cls, D: int, factors: Factors) -> CompactRepresentation:
+        """The positive unit ``|∏ α^e|`` for factors from the doubling walk."""
+        chain = Chain(tuple(factors))
+        raw = cls(D, (chain,), 1)
+        out = cls(D, (chain,), raw._raw_sign())
+        out._check_norm()
+        return out
+
+    # -- exact invariants ------------------------------------------------------
+    def _raw_sign(self) -> int:
+        sign = 1
+        for chain in self.chains:
+            for alpha, e in chain.factors:
+                if (e * chain.power) % 2 and alpha.sign() < 0:
+                    sign = -sign
+        return sign
+
+    def _norm_terms(self) -> list[tuple[Fraction, int]]:
+        return [
+            (alpha.norm(), e * chain.power) for chain in self.chains for alpha, e in chain.factors
+        ]
+
+    def _check_norm(self) -> None:
+        if abs_product_is_one(self._norm_terms()) is False:
+            raise ArithmeticError("internal error: compact representation is not a unit")
+
+    @property
+    def norm(self) -> int:
+        """The norm ``±1``, decided exactly from the factors' norms."""
+        sign = 1
+        for n, e in self._norm_terms():
+            if e % 2 and n < 0:
+                sign = -sign
+        return sign
+
+    @property
+    def size(self) -> int:
+        """Number of stored factors."""
+        return sum(len(c.factors) for c in self.chains)
+
+    def log(self, digits: int = 30) -> tuple[mpmath.mpf, mpmath.mpf]:
+        """``(log |ε|, error bound)`` to ``digits`` significant digits."""
+        terms = [(alpha, e * chain.power) for chain in self.chains for alpha, e in chain.factors]
+        pos = [(a, e) for a, e in terms if e > 0]
+        neg = [(a, -e) for a, e in terms if e < 0]
+        v1, b1 = log_of_product(pos, digits)
+        if not neg:
+            return v1, b1
+        v2, b2 = log_of_product(neg, digits)
+        return v1 - v2, b1 + b2
+
+    def digits_estimate(self) -> int:
+        """About how many decimal digits ``ε`` has (from its logarithm)."""
+        return int(float(self.log(15)[0]) / math.log(10)) + 1
+
+    # -- arithmetic --------------------------------------------------------------
+    def __mul__(self, other: CompactRepresentation) -> CompactRepresentation:
+        if other.discriminant != self.discriminant:
+            raise DomainError("units of different orders cannot be multiplied")
+        return CompactRepresentation(
+            self.discriminant, self.chains + other.chains, self.sign * other.sign
+        )
+
+    def power(self, k: int) -> CompactRepresentation:
+        """``ε^k`` (``k`` any integer), still compact."""
+        chains = tuple(Chain(c.factors, c.power * k) for c in self.chains)
+        return CompactRepresentation(self.discriminant, chains, self.sign ** (k % 2))
+
+    def modulo(self, m: int) -> tuple[int, int]:
+        """``(x mod m, y mod m)`` with ``ε ≡ x + y√D`` in ``(Z/mZ)[√D]``.
+
+        Needs every denominator (and 2) invertible modulo ``m``; raises
+        :class:`DomainError` otherwise.
+        """
+        if m < 2:
+            raise DomainError("modulus must be at least 2")
+        D = self.discriminant % m
+        x, y = 1, 0
+        for chain in self.chains:
+            cx, cy = 1, 0
+            for alpha, e in chain.factors:
+                z = int(alpha.c)
+                if math.gcd(z, m) != 1:
+                    raise DomainError(
+                        f"modulus {m} shares a factor with a denominator ({z}) of the compact representation"
+                    )
+                inv = pow(z, -1, m)
+                ax, ay = int(alpha.x) * inv % m, int(alpha.y) * inv % m
+                px, py = _power_mod(ax, ay, e, D, m)
+                cx, cy = (cx * px + D * cy * py) % m, (cx * py + cy * px) % m
+            if chain.power < 0:
+                cx, cy = _inverse_mod(cx, cy, D, m)
+            px, py = _power_mod(cx, cy, abs(chain.power), D, m)
+            x, y = (x * px + D * y * py) % m, (x * py + y * px) % m
+        return (self.sign * x) % m, (self.sign * y) % m
+
+    def expand(self, max_digits: int = 0) -> tuple[int, int]:
+        """Exact ``(u, v)`` with ``ε = (u + v√D)/2``.
+
+        Refused with :class:`TooLargeError` when ``ε`` would have more than
+        ``max_digits`` digits (0: no limit).
+        """
+        if max_digits:
+            n = self.digits_estimate()
+            if n > max_digits:
+                raise TooLargeError(
+                    f"the unit has about {n} digits, more than --max-digits {max_digits}; it stays in compact form"
+                )
+        D = self.discriminant
+        total = QuadraticNumber(self.sign, 0, 1, D)
+        for chain in self.chains:
+            gamma = QuadraticNumber(1, 0, 1, D)
+            for alpha, _ in chain.factors:  # exponents 2^k, …, 1: Horner's rule
+                gamma = gamma * gamma * alpha
+            total = total * gamma**chain.power
+        # (x + y√D)/c = (u + v√D)/2 with u = 2x/c, v = 2y/c integers for a unit of the order
+        u, v = gmpy2.mpz(2) * total.x, gmpy2.mpz(2) * total.y
+        if u % total.c or v % total.c:
+            raise ArithmeticError("internal error: expanded unit is not in the order")
+        return int(u // total.c), int(v // total.c)
+
+
+def _power_mod(x: int, y: int, e: int, D: int, m: int) -> tuple[int, int]:
+    rx, ry = 1, 0
+    while e:
+        if e & 1:
+            rx, ry = (rx * x + D * ry * y) % m, (rx * y + ry * x) % m
+        x, y = (x * x + D * y * y) % m, (2 * x * y) % m
+        e >>= 1
+    return rx, ry
+
+
+def _inverse_mod(x: int, y: int, D: int, m: int) -> tuple[int, int]:
+    n = (x * x - D * y * y) % m
+    if math.gcd(n, m) != 1:
+        raise DomainError(f"the unit is not invertible modulo {m}")
+    inv = pow(n, -1, m)
+    return x * inv % m, -y * inv % m
+
+
+def coprime_base(numbers: list[int]) -> list[int]:
+    """A set of pairwise coprime integers ``> 1`` that multiplicatively generates every number.
+
+    >>> sorted(coprime_base([12, 18]))
+    [2, 3]
+    """
+    base: list[int] = []
+    for n in numbers:
+        n = abs(n)
+        pending = [n] if n > 1 else []
+        while pending:
+            x = pending.pop()
+            for i, b in enumerate(base):
+                g = math.gcd(x, b)
+                if g > 1:
+                    base.pop(i)
+                    pending.extend(v for v in (g, b // g, x // g) if v > 1)
+                    break
+            else:
+                base.append(x)
+    return base
+
+
+def _valuation(n: int, p: int) -> int:
+    k = 0
+    while n % p == 0:
+        n //= p
+        k += 1
+    return k
+
+
+def abs_product_is_one(terms: list[tuple[Fraction, int]]) -> bool:
+    """Whether ``∏ |r|^e = 1`` exactly (exponents may be huge), by a coprime base.
+
+    >>> abs_product_is_one([(Fraction(4, 9), 1), (Fraction(3, 2), 2)])
+    True
+    """
+    base = coprime_base([t.numerator for t, _ in terms] + [t.denominator for t, _ in terms])
+    for p in base:
+        total = 0
+        for t, e in terms:
+            total += e * (_valuation(abs(t.numerator), p) - _valuation(t.denominator, p))
+        if total:
+            return False
+    return True
