@@ -17,7 +17,7 @@ from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
 from realquad.survey.stats import SurveyReport, survey_report
 from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
-from realquad.survey.tabulate import tabulate
+from realquad.survey.tabulate import SurveyInterrupted, tabulate
 
 DEFAULT_DB = "realquad-survey.sqlite"
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
@@ -141,7 +141,17 @@ def run_command(
         executor.close()
         raise
     with store:
-        outcome = tabulate(survey_range, store, executor, size, choose_mode(as_json))
+        try:
+            outcome = tabulate(survey_range, store, executor, size, choose_mode(as_json))
+        except SurveyInterrupted as stop:
+            done = stop.outcome
+            click.echo(
+                f"realquad: survey stopped; {done.computed_fields:,} fields of this run saved in {db} "
+                f"({done.skipped_fields + done.computed_fields:,} of {done.total_fields:,} in all); "
+                "rerun the same command to resume",
+                err=True,
+            )
+            raise
     name = "D" if discriminants else "d"
     payload = {
         "database": db,

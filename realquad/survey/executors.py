@@ -17,6 +17,7 @@ from __future__ import annotations
 import multiprocessing
 import os
 import signal
+import sys
 import time
 from collections.abc import Callable, Iterable, Iterator
 from types import TracebackType
@@ -42,8 +43,22 @@ def _timed(job: tuple[ChunkFunction, Chunk]) -> Finished:
 
 
 def _ignore_interrupts() -> None:
-    """Worker initializer: Ctrl-C is handled by the parent, which ends the workers."""
+    """Worker initializer: Ctrl-C is handled by the parent, which ends the workers.
+
+    On Linux the worker also asks to be killed when its parent dies, so a
+    ``kill -9`` of the run leaves no orphan computing for nobody.
+    """
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    if sys.platform.startswith("linux"):
+        try:
+            import ctypes
+
+            libc = ctypes.CDLL(None, use_errno=True)
+            libc.prctl(1, int(signal.SIGKILL))  # PR_SET_PDEATHSIG
+        except (OSError, AttributeError):  # pragma: no cover - depends on the C library
+            pass
+        if os.getppid() == 1:  # pragma: no cover - the parent died before prctl
+            os._exit(1)
 
 
 class InProcessExecutor:
@@ -101,8 +116,9 @@ class DaskExecutor(InProcessExecutor):
         self.address = address
         self.description = f"Dask scheduler {address}"
         self._futures: list[Any] = []
+        _check_reachable(address, timeout)
         try:
-            self._client = Client(address, timeout=timeout, set_as_default=False)
+            self._client = Client(address, timeout=timeout)
         except (OSError, TimeoutError, ValueError, TypeError) as exc:
             detail = " ".join(str(exc).split()) or type(exc).__name__
             raise InputError(f"cannot reach the Dask scheduler at {address!r}: {detail}") from None
@@ -123,6 +139,26 @@ class DaskExecutor(InProcessExecutor):
                 self._client.cancel(self._futures)
         finally:
             self._client.close()
+
+
+def _check_reachable(address: str, timeout: float) -> None:
+    """Fail at once, with a clear message, when nothing listens at a ``tcp://host:port`` address."""
+    import socket
+    from urllib.parse import urlsplit
+
+    text = address if "://" in address else "tcp://" + address
+    try:
+        parts = urlsplit(text)
+        scheme, host, port = parts.scheme, parts.hostname, parts.port
+    except ValueError:
+        scheme, host, port = "", None, None
+    if scheme not in ("tcp", "tls") or not host or port is None:
+        raise InputError(f"--scheduler must look like tcp://HOST:PORT, got {address!r}")
+    try:
+        socket.create_connection((host, port), timeout=timeout).close()
+    except OSError as exc:
+        detail = exc.strerror or type(exc).__name__
+        raise InputError(f"cannot reach the Dask scheduler at {address!r}: {detail}") from None
 
 
 def make_executor(workers: int | None = None, scheduler: str | None = None) -> InProcessExecutor:

@@ -234,12 +234,19 @@ class SurveyStore:
     # -- chunks -----------------------------------------------------------------
 
     def is_done(self, chunk: Chunk) -> bool:
-        """Whether a completed chunk of the same kind covers ``chunk``."""
-        found = self.connection.execute(
-            "SELECT 1 FROM chunks WHERE kind = ? AND lo <= ? AND hi >= ? LIMIT 1",
+        """Whether completed chunks of the same kind cover ``chunk`` (whatever their size)."""
+        overlapping = self.connection.execute(
+            "SELECT lo, hi FROM chunks WHERE kind = ? AND hi >= ? AND lo <= ? ORDER BY lo",
             (chunk.kind, chunk.lo, chunk.hi),
-        ).fetchone()
-        return found is not None
+        )
+        needed = chunk.lo
+        for lo, hi in overlapping:
+            if lo > needed:
+                return False
+            needed = max(needed, hi + 1)
+            if needed > chunk.hi:
+                return True
+        return False
 
     def save_chunk(self, chunk: Chunk, rows: Iterable[FieldRecord], seconds: float) -> int:
         """Write the rows of ``chunk`` and mark it complete, in one transaction; return the row count."""

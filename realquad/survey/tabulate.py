@@ -49,6 +49,14 @@ class SurveyOutcome:
         return self.computed_fields / self.seconds if self.seconds > 0 else 0.0
 
 
+class SurveyInterrupted(KeyboardInterrupt):
+    """Ctrl-C during :func:`tabulate`; ``outcome`` says what was saved before it."""
+
+    def __init__(self, outcome: SurveyOutcome) -> None:
+        super().__init__("survey interrupted")
+        self.outcome = outcome
+
+
 def tabulate(
     survey_range: SurveyRange,
     store: SurveyStore,
@@ -79,6 +87,8 @@ def tabulate(
                     outcome.computed_fields += store.save_chunk(chunk, rows, seconds)
                     outcome.computed_chunks += 1
                     bar.advance(len(rows))
+            except KeyboardInterrupt:
+                raise SurveyInterrupted(outcome) from None
             finally:
                 outcome.seconds = time.perf_counter() - start
     finally:
