@@ -204,19 +204,21 @@ def _units(d: int) -> _Units:
     return _Units(d, (one.x, one.y), minus, log_plus)
 
 
-def _mul(a: Point, b: Point, d: int) -> Point:
-    return (a[0] * b[0] + d * a[1] * b[1], a[0] * b[1] + a[1] * b[0])
+def _mul(a: Point, b: Point, d: int, den: int = 1) -> Point:
+    """``(a₀ + a₁√d)(b₀ + b₁√d)/den`` (exact for the elements it is used on)."""
+    return ((a[0] * b[0] + d * a[1] * b[1]) // den, (a[0] * b[1] + a[1] * b[0]) // den)
 
 
-def _unit_power(e: Point, k: int, d: int) -> Point:
+def _unit_power(e: Point, k: int, d: int, den: int = 1) -> Point:
+    """``(G, H)`` with ``((e₀ + e₁√d)/den)^k = (G + H√d)/den`` (``e`` of norm ``den²``)."""
     if k < 0:
         e, k = (e[0], -e[1]), -k
-    out: Point = (1, 0)
+    out: Point = (den, 0)
     base = e
     while k:
         if k & 1:
-            out = _mul(out, base, d)
-        base = _mul(base, base, d)
+            out = _mul(out, base, d, den)
+        base = _mul(base, base, d, den)
         k >>= 1
     return out
 
@@ -240,8 +242,12 @@ def balanced_representative(
     n: int,
     d: int,
     key: Callable[[Point], tuple] = _nagell_key,
+    den: int = 1,
+    signs: bool = True,
 ) -> Point:
-    """The member of ``{±v εᵏ}`` with the least ``key`` (``ε = unit``, of norm +1).
+    """The member of ``{±v εᵏ}`` with the least ``key`` (``ε = unit/den``, of norm +1).
+
+    Without ``signs`` only ``{v εᵏ}``. Every member must be integral.
 
     ``|y|`` along ``v εᵏ`` is ``|A εᵏ − B ε^{−k}|``: unimodal in ``k``, so the
     minimum lies next to the balance point ``|v εᵏ| = |v' ε^{−k}|``, which the
@@ -249,20 +255,22 @@ def balanced_representative(
     """
     la, lc = _log_sizes(v, n, d)
     k = round((lc - la) / (2 * log_unit))
-    w = _mul(v, _unit_power(unit, k, d), d)
-    cands = {j: _mul(w, _unit_power(unit, j, d), d) for j in (-2, -1, 0, 1, 2)}
+    w = _mul(v, _unit_power(unit, k, d, den), d, den)
+    cands = {j: _mul(w, _unit_power(unit, j, d, den), d, den) for j in (-2, -1, 0, 1, 2)}
     lo, hi = -2, 2
     while True:
         best = min(cands, key=lambda j: abs(cands[j][1]))
         if best == lo:
             lo -= 1
-            cands[lo] = _mul(cands[lo + 1], (unit[0], -unit[1]), d)
+            cands[lo] = _mul(cands[lo + 1], (unit[0], -unit[1]), d, den)
         elif best == hi:
             hi += 1
-            cands[hi] = _mul(cands[hi - 1], unit, d)
+            cands[hi] = _mul(cands[hi - 1], unit, d, den)
         else:
             break
-    pool = [c for c in cands.values()] + [(-c[0], -c[1]) for c in cands.values()]
+    pool = list(cands.values())
+    if signs:
+        pool += [(-c[0], -c[1]) for c in pool]
     return min(pool, key=key)
 
 

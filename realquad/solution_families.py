@@ -109,7 +109,7 @@ class OrbitFamily:
     center: tuple[Fraction, Fraction]
     reflection: bool = False
     unit: tuple[int, int, int] | None = None
-    kind: str = field(default="orbit", init=False)
+    kind: str = field(default="orbit", init=False, repr=False)
 
     def mirror(self, v: Point) -> Point:
         """``2C − v``, the point reflection through the centre."""
@@ -173,7 +173,7 @@ class LineFamily:
 
     point: Point
     direction: Point
-    kind: str = field(default="line", init=False)
+    kind: str = field(default="line", init=False, repr=False)
 
     @property
     def fundamental(self) -> Point:
@@ -203,7 +203,7 @@ class ParabolaFamily:
 
     x_polynomial: tuple[int, int, int]
     y_polynomial: tuple[int, int, int]
-    kind: str = field(default="parabola", init=False)
+    kind: str = field(default="parabola", init=False, repr=False)
 
     @property
     def fundamental(self) -> Point:
