@@ -116,7 +116,7 @@ def fundamental_unit(
     order: Order | int,
     method: Method | str = "auto",
     *,
-    max_period: int = units.DEFAULT_MAX_PERIOD,
+    max_period: int | None = None,
     progress: Progress | None = None,
 ) -> Unit:
     """The fundamental unit ``ε > 1`` of an order (an :class:`Order` or its discriminant).
@@ -127,6 +127,8 @@ def fundamental_unit(
     """
     order = _as_order(order)
     if choose_method(order, method, UNIT_PERIOD_LIMIT) == "cfrac":
+        if max_period is None:
+            return units.fundamental_unit(order)
         return units.fundamental_unit(order, max_period)
     return _bsgs_unit(order, progress)
 
@@ -136,7 +138,7 @@ def regulator(
     digits: int = 30,
     method: Method | str = "auto",
     *,
-    max_period: int = units.DEFAULT_MAX_PERIOD,
+    max_period: int | None = None,
     progress: Progress | None = None,
 ) -> Regulator:
     """The regulator ``log ε`` of an order to ``digits`` significant digits.
@@ -148,6 +150,8 @@ def regulator(
     """
     order = _as_order(order)
     if choose_method(order, method) == "cfrac":
+        if max_period is None:
+            return units.regulator(order, digits)
         return units.regulator(order, digits, max_period)
     D = order.discriminant
     return regulator_bsgs(D, digits, progress=progress).regulator

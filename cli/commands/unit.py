@@ -2,9 +2,12 @@
 
 from __future__ import annotations
 
+import sys
+import time
 from typing import Any
 
 import click
+import mpmath
 from realquad_cli.output import (
     check_output_path,
     emit,
@@ -16,9 +19,11 @@ from realquad_cli.output import (
 )
 
 from realquad.arith import Order, as_integer, field
-from realquad.errors import InputError
+from realquad.dispatch import METHODS, fundamental_unit
+from realquad.errors import InputError, TooLargeError
+from realquad.infrastructure.compact import CompactRepresentation
+from realquad.results import Unit
 from realquad.textio import decimal_digits, to_decimal
-from realquad.units import fundamental_unit
 
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
@@ -44,49 +49,96 @@ def order_from_options(d: str | None, disc: str | None) -> Order:
     show_default=True,
     help="Significant digits of the regulator.",
 )
+@click.option(
+    "--method",
+    type=click.Choice(METHODS),
+    default="auto",
+    show_default=True,
+    help="cfrac: continued fraction; bsgs: baby-step giant-step in the infrastructure; auto: by size.",
+)
+@click.option(
+    "--compact",
+    is_flag=True,
+    help="Also print the unit in compact form (a short product of small numbers).",
+)
 @json_option
 @size_options
 def command(
-    d: str | None, disc: str | None, digits: int, as_json: bool, max_digits: int, output: str | None
+    d: str | None,
+    disc: str | None,
+    digits: int,
+    method: str,
+    compact: bool,
+    as_json: bool,
+    max_digits: int,
+    output: str | None,
 ) -> None:
     """Fundamental unit ε = (x + y√d)/c and regulator log ε of Q(√d), or of the order of discriminant D.
 
-    Example: realquad unit 94; realquad unit --disc 52
+    Example: realquad unit 94; realquad unit --disc 52; realquad unit --disc 100000000000000000129
     """
     order = order_from_options(d, disc)
     check_output_path(output)
-    eps = fundamental_unit(order)
-    reg = eps.regulator(digits)
-    exact = eps.expand()
-    x, y, c = int(exact.x), int(exact.y), int(exact.c)
+    if compact and method == "cfrac":
+        raise InputError(
+            "the compact form comes from the infrastructure: use --method bsgs or auto"
+        )
+    if compact:
+        method = "bsgs"
+    with Progress() as progress:
+        eps = fundamental_unit(order, method, progress=progress)
+        reg = eps.regulator(digits)
+    form = eps.compact()
+    expanded = form is None or _fits(form, max_digits, output)
     payload: dict[str, Any] = {
         "radicand": order.radicand,
         "discriminant": order.discriminant,
         "conductor": order.conductor,
     }
     unit_obj: dict[str, Any] = {}
-    cut = put_integers(unit_obj, {"x": x, "y": y}, max_digits)
+    r = order.radicand
+    if expanded:
+        exact = eps.expand()
+        x, y, c = int(exact.x), int(exact.y), int(exact.c)
+        cut = put_integers(unit_obj, {"x": x, "y": y}, max_digits)
+        n_digits = decimal_digits(x)
+    else:
+        x = y = 0
+        c = None
+        n_digits = _digits_from_regulator(eps)
+        unit_obj.update(x=None, y=None, x_summary={"digits": n_digits, "exact": False})
+        cut = True
     unit_obj["denominator"] = c
     payload["unit"] = unit_obj
     payload["norm"] = eps.norm
     payload["regulator"] = str(reg)
-    payload["digits"] = decimal_digits(x)
+    payload["digits"] = n_digits
     payload["period_length"] = eps.period_length
     payload["truncated"] = cut
     payload["method"] = eps.method
     payload["proof"] = eps.proof
-    r = order.radicand
-    shape = f"(x + y√{r})/{c}" if c != 1 else f"x + y√{r}"
+    shape = f"x + y√{r}" if c == 1 else f"(x + y√{r})/{c or 'c, c ∈ {1, 2}'}"
     lines = [
         f"order of discriminant {order.discriminant} in Q(√{r}), conductor {order.conductor}",
         f"fundamental unit ε = {shape}",
-        f"  x = {integer_text(x, max_digits)}",
-        f"  y = {integer_text(y, max_digits)}",
-        f"norm {eps.norm:+d}; x has {payload['digits']} digits; period length {eps.period_length}",
+    ]
+    if expanded:
+        lines += [f"  x = {integer_text(x, max_digits)}", f"  y = {integer_text(y, max_digits)}"]
+    else:
+        lines.append(
+            f"  not expanded: about {n_digits} digits, more than --max-digits {max_digits}"
+            " (--compact prints the compact form)"
+        )
+    period = "" if eps.period_length is None else f"; period length {eps.period_length}"
+    lines += [
+        f"norm {eps.norm:+d}; x has {'about ' if not expanded else ''}{n_digits} digits{period}",
         f"regulator log ε = {reg}",
         f"method: {eps.method}; proof: {eps.proof}",
     ]
-    if output is not None:
+    if compact:
+        payload["compact"] = _compact_payload(form)
+        lines.append(_compact_text(form))
+    if output is not None and expanded:
         write_atomically(
             output,
             f"# fundamental unit of discriminant {order.discriminant}: (x + y sqrt({r}))/{c}\nx = {to_decimal(x)}\ny = {to_decimal(y)}\n",
@@ -94,3 +146,74 @@ def command(
         payload["output"] = output
         lines.append(f"full values written to {output}")
     emit(payload, "\n".join(lines), as_json)
+
+
+#: Largest unit expanded for ``--output`` when ``--max-digits`` is smaller.
+OUTPUT_DIGITS_LIMIT = 20_000_000
+
+
+def _fits(form: CompactRepresentation, max_digits: int, output: str | None) -> bool:
+    n = form.digits_estimate()
+    if output is not None:
+        if n > OUTPUT_DIGITS_LIMIT:
+            raise TooLargeError(
+                f"the unit has about {n} digits, too many to write out "
+                f"(limit {OUTPUT_DIGITS_LIMIT:,}); --compact prints it in compact form"
+            )
+        return True
+    return max_digits == 0 and n <= OUTPUT_DIGITS_LIMIT or n <= max_digits
+
+
+def _digits_from_regulator(eps: Unit) -> int:
+    """Decimal digits of ``ε ≈ x`` from ``log ε`` (``x`` may have one digit fewer when ``c = 1``)."""
+    with mpmath.workdps(40):
+        return int(mpmath.floor(eps.regulator(40).value / mpmath.log(10))) + 1
+
+
+def _compact_payload(form: CompactRepresentation) -> dict[str, Any]:
+    return {
+        "sign": form.sign,
+        "chains": [
+            {
+                "power": chain.power,
+                "factors": [
+                    {"x": int(a.x), "y": int(a.y), "denominator": int(a.c), "exponent": e}
+                    for a, e in chain.factors
+                ],
+            }
+            for chain in form.chains
+        ],
+        "meaning": "ε = sign · ∏ over chains (∏ ((x + y√D)/denominator)^exponent)^power, D the discriminant",
+    }
+
+
+def _compact_text(form: CompactRepresentation) -> str:
+    D = form.discriminant
+    sign = "−" if form.sign < 0 else ""
+    lines = [f"compact form: ε = {sign}∏ αᵢ^eᵢ over {form.size} factor(s) αᵢ = (x + y√{D})/z:"]
+    for chain in form.chains:
+        for a, e in chain.factors:
+            op = "−" if a.y < 0 else "+"
+            lines.append(f"  ({a.x} {op} {abs(a.y)}√{D})/{a.c} ^ {e}")
+    return "\n".join(lines)
+
+
+class Progress:
+    """Shows how far the giant steps have gone on stderr, for runs longer than a few seconds."""
+
+    def __init__(self) -> None:
+        self.start = time.monotonic()
+        self.shown = False
+
+    def __enter__(self) -> Progress:
+        return self
+
+    def __call__(self, distance: float) -> None:
+        if time.monotonic() - self.start < 3 or not sys.stderr.isatty():
+            return
+        click.echo(f"\rbaby-step giant-step: distance {distance:.4g} searched", nl=False, err=True)
+        self.shown = True
+
+    def __exit__(self, *exc: object) -> None:
+        if self.shown:
+            click.echo("", err=True)
