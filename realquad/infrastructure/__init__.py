@@ -8,6 +8,5 @@ generators), :mod:`regulator_bsgs` (the regulator by baby-step giant-step),
 """
 
 from realquad.infrastructure.ideals import Cycle
-from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
 
-__all__ = ["BSGSResult", "Cycle", "regulator_bsgs"]
+__all__ = ["Cycle"]

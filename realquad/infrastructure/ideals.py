@@ -182,41 +182,46 @@ def giant_step_float(
 
     The same arithmetic as :meth:`Cycle.multiply` followed by
     :meth:`Cycle.reduce_float`, in one loop of plain integers (the hot loop of
-    the giant steps; ``r = ⌊√D⌋``, ``sq ≈ √D``).
+    the giant steps; ``r = ⌊√D⌋``, ``sq ≈ √D``). For coprime norms the
+    composition is the Chinese remainder step ``b₃ ≡ b (2a)``, ``b₃ ≡ b₂ (2a₂)``;
+    the multipliers are collected in one float product and one logarithm.
     """
-    log = math.log
-    s = (b + b2) >> 1
-    g, x1, y1 = gmpy2.gcdext(a, a2)
+    g = math.gcd(a, a2)
     if g == 1:
-        d, w = 1, 0
+        # b3 ≡ b (mod 2a), b3 ≡ b2 (mod 2a2): b3 = b2 + 2 a2 k with a2 k ≡ (b − b2)/2 (mod a)
         a3 = a * a2
-        b3 = (x1 * a * b2 + y1 * a2 * b) % (2 * a3)
+        k = ((b - b2) >> 1) * pow(a2, -1, a) % a if a > 1 else 0
+        b3 = b2 + 2 * a2 * k
+        d = 1
     else:
+        s = (b + b2) >> 1
+        g, x1, y1 = gmpy2.gcdext(a, a2)
         d, x2, w = gmpy2.gcdext(g, s)
-        a3 = (a * a2) // (d * d)
-        b3 = ((x1 * x2 * a * b2 + y1 * x2 * a2 * b + w * ((b * b2 + D) >> 1)) // d) % (2 * a3)
-    c = log(a * a2 / (d * a3))
-    a, b = int(a3), int(b3)
-    while a > r:  # norms fall by a factor ≥ 4 per step
+        a3 = int((a * a2) // (d * d))
+        b3 = int(((x1 * x2 * a * b2 + y1 * x2 * a2 * b + w * ((b * b2 + D) >> 1)) // d) % (2 * a3))
+        d = int(d)
+    prod = a * a2 / (d * a3)
+    a, b = a3, b3
+    while a > r:
         two_a = 2 * a
         bt = b % two_a
         if bt > a:
             bt -= two_a
         n = D - bt * bt
         if bt >= 0:
-            c -= log(bt + sq) - log(two_a)
+            prod *= two_a / (bt + sq)
         else:
-            c -= log(abs(n)) - log(sq - bt) - log(two_a)
+            prod *= (sq - bt) * two_a / abs(n)
         a, b = abs(n) // (2 * two_a), -bt
     while True:
         two_a = 2 * a
         b = r - (r - b) % two_a
         t = two_a - b
         if t < 0 or t * t < D:
-            return a, b, c
-        n = D - b * b  # > 0 here: |b| < √D
+            return a, b, math.log(prod)
+        n = D - b * b
         if b >= 0:
-            c -= log(b + sq) - log(two_a)
+            prod *= two_a / (b + sq)
         else:
-            c -= log(n) - log(sq - b) - log(two_a)
+            prod *= (sq - b) * two_a / n
         a, b = n // (2 * two_a), -b

@@ -60,7 +60,7 @@ METHOD = "infrastructure baby-step giant-step"
 DEFAULT_MAX_TABLE = 1 << 20
 
 #: Measured cost of a giant step over a baby step (pure Python), for sizing the table.
-_GIANT_OVER_BABY = 10.0
+_GIANT_OVER_BABY = 9.0
 
 _ULP = 2.0**-52
 
