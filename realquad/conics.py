@@ -47,6 +47,7 @@ from realquad.binary_quadratic_equations import (
     swap_solutions,
 )
 from realquad.errors import DomainError, TooLargeError
+from realquad.norm_equations import solve_norm_equation
 from realquad.solution_families import Family, ParabolaFamily, QuadraticSolutions
 
 #: Most residues the parabolic case examines.
@@ -163,6 +164,8 @@ def solve_quadratic(a: int, b: int, c: int, d: int, e: int, f: int) -> Quadratic
     if d == 0 and e == 0:
         if a == b == c == 0 and f == 0:
             raise DomainError("the equation 0 = 0 holds for every pair (x, y)")
+        if a == 1 and b == 0:  # x² − dy² = n itself
+            return _with(solve_norm_equation(-c, -f), coefficients)
         return _with(solve_binary_form(a, b, c, -f), coefficients)
     if a == b == c == 0:
         return _linear(d, e, f)

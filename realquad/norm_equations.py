@@ -69,7 +69,7 @@ from realquad.solution_families import (
 )
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
-MAX_CYCLE = 4_000_000
+MAX_CYCLE = 2_000_000
 
 METHOD_CF = "continued fractions of (z + √d)/|m| for every square root z of d mod |m| (LMM), principal cycle table"
 METHOD_SHORT = "convergents of √d (|m| < √d)"
@@ -138,7 +138,7 @@ class _PrincipalCycle:
         return P * (2 * self.r + 2) + Q
 
 
-@lru_cache(maxsize=4)
+@lru_cache(maxsize=2)
 def _principal_cycle(d: int) -> _PrincipalCycle:
     """The reduced states ``(P_k + √d)/Q_k`` of the period of ``√d``, from ``⌊√d⌋ + √d``."""
     r = isqrt(d)
@@ -341,6 +341,7 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
     [(-445, 9), (445, 9), (17625560, 356454)]
     """
     factors = factorize(n)
+    _principal_cycle(d)  # refuses an overlong period before the unit is sought
     units = _units(d)
     r = isqrt(d)
     classes: set[Point] = set()
