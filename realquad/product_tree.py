@@ -7,23 +7,38 @@ quadratic cost of the convergent recurrence.
 
 >>> [int(x) for x in matrix_product([(1, 1, 1, 0)] * 10)]  # Fibonacci matrix, 10th power
 [89, 55, 55, 34]
+>>> [int(x) for x in matrix_product_column([(1, 1, 1, 0)] * 10)]  # its first column
+[89, 55]
+
+Where only the first column of the product is needed, the right spine of the
+tree carries a column instead of a matrix: each product along it costs four
+multiplications instead of eight, which saves about a third of the tree
+(the top-level products are the largest).
 """
 
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import Any, TypeVar
+from typing import Any
 
 import gmpy2
 
-T = TypeVar("T")
 Matrix = tuple[Any, Any, Any, Any]
 
 
-def _mul(m: Matrix, n: Matrix) -> Matrix:
-    a, b, c, d = m
-    e, f, g, h = n
-    return (a * e + b * g, a * f + b * h, c * e + d * g, c * f + d * h)
+def _converted(matrices: Sequence[Matrix], convert: Any) -> list[Matrix]:
+    return [(convert(a), convert(b), convert(c), convert(d)) for a, b, c, d in matrices]
+
+
+def _pair_up(level: list[Matrix]) -> list[Matrix]:
+    """One level of the tree: products of neighbours, an odd last matrix carried up."""
+    nxt = [
+        (a * e + b * g, a * f + b * h, c * e + d * g, c * f + d * h)
+        for (a, b, c, d), (e, f, g, h) in zip(level[0::2], level[1::2], strict=False)
+    ]
+    if len(level) % 2:
+        nxt.append(level[-1])
+    return nxt
 
 
 def matrix_product(matrices: Sequence[Matrix], convert: Any = gmpy2.mpz) -> Matrix:
@@ -33,12 +48,27 @@ def matrix_product(matrices: Sequence[Matrix], convert: Any = gmpy2.mpz) -> Matr
     products, an ``mpfr`` constructor for rounded ones). The empty product is
     the identity.
     """
-    level = [tuple(convert(x) for x in m) for m in matrices]
+    level = _converted(matrices, convert)
     if not level:
         return (convert(1), convert(0), convert(0), convert(1))
     while len(level) > 1:
-        nxt = [_mul(level[i], level[i + 1]) for i in range(0, len(level) - 1, 2)]
-        if len(level) % 2:
-            nxt.append(level[-1])
-        level = nxt
-    return level[0]  # type: ignore[return-value]
+        level = _pair_up(level)
+    return level[0]
+
+
+def matrix_product_column(matrices: Sequence[Matrix], convert: Any = gmpy2.mpz) -> tuple[Any, Any]:
+    """The first column ``(a, c)`` of :func:`matrix_product`, computed with fewer products."""
+    level = _converted(matrices, convert)
+    if not level:
+        return (convert(1), convert(0))
+    while len(level) > 2:
+        if len(level) % 2:  # the column (last) is carried up unchanged
+            *full, last = level
+            level = [*_pair_up(full), last]
+            continue
+        *full, (a, b, c, d), (e, _f, g, _h) = level
+        level = [*_pair_up(full), (a * e + b * g, 0, c * e + d * g, 0)]
+    if len(level) == 1:
+        return level[0][0], level[0][2]
+    (a, b, c, d), (e, _f, g, _h) = level
+    return a * e + b * g, c * e + d * g

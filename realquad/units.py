@@ -34,11 +34,10 @@ from dataclasses import dataclass
 import gmpy2
 import mpmath
 
-from realquad._backend import kernels
-from realquad._kernels import _pure as pure
+from realquad._backend import COMPILED, kernels, pure
 from realquad.arith import Order
 from realquad.errors import TooLargeError
-from realquad.product_tree import matrix_product
+from realquad.product_tree import matrix_product, matrix_product_column
 from realquad.results import Regulator, Unit
 
 #: Default largest period the continued fraction walks before refusing.
@@ -118,9 +117,29 @@ def _too_long_message(D: int, max_period: int) -> str:
     )
 
 
+#: Partial quotients per leaf for the compiled kernel, which multiplies each
+#: block exactly in machine words: larger leaves mean fewer conversions and a
+#: shallower tree (256 measured best for d = 1000000000091, docs/performance.md).
+_LEAF_COMPILED = 256
+
+
+def _leaves(cycle: PrincipalHalfCycle) -> list[tuple[int, int, int, int]]:
+    """Exact leaf matrices of the product tree over the half cycle's quotients."""
+    if "convergent_leaves" in COMPILED:
+        try:
+            return kernels.convergent_leaves(cycle.quotients, _LEAF_COMPILED)
+        except OverflowError:  # a quotient beyond 64 bits (D ≥ 2^63)
+            pass
+    return pure.convergent_leaves(cycle.quotients, _LEAF)
+
+
 def _half_matrix(cycle: PrincipalHalfCycle, convert: object = gmpy2.mpz) -> tuple:
-    leaves = kernels.convergent_leaves(cycle.quotients, _LEAF)
-    return matrix_product(leaves, convert)
+    """``(p, p', q, q')`` of the half cycle; for an even period only ``(p, ·, q, ·)``."""
+    leaves = _leaves(cycle)
+    if cycle.parity:
+        return matrix_product(leaves, convert)
+    p, q = matrix_product_column(leaves, convert)
+    return (p, None, q, None)
 
 
 def _psi_pairs(cycle: PrincipalHalfCycle, M: tuple) -> list[tuple]:
@@ -132,6 +151,10 @@ def _psi_pairs(cycle: PrincipalHalfCycle, M: tuple) -> list[tuple]:
     return [(2 * p - q * w, q)]
 
 
+#: A Mersenne prime for the cheap exact check of the norm of the expanded unit.
+_CHECK_MODULUS = gmpy2.mpz(2**127 - 1)
+
+
 def expand_unit(cycle: PrincipalHalfCycle) -> tuple[int, int]:
     """Exact ``(u, v)`` with ``ε = (u + v√D)/2``, from the half cycle."""
     D = cycle.discriminant
@@ -139,16 +162,18 @@ def expand_unit(cycle: PrincipalHalfCycle) -> tuple[int, int]:
     Q = gmpy2.mpz(cycle.q_mid)
     if cycle.parity:
         (a1, b1), (a2, b2) = pairs
-        X = a1 * a2 + D * b1 * b2
-        Y = a1 * b2 + a2 * b1
+        aa, bb = a1 * a2, b1 * b2
+        X = aa + D * bb
+        Y = (a1 + b1) * (a2 + b2) - aa - bb  # a1 b2 + a2 b1 with three products
     else:
         ((a, b),) = pairs
         X = a * a + D * b * b
         Y = 2 * a * b
     u, v = gmpy2.divexact(X, Q), gmpy2.divexact(Y, Q)
     # u² − D v² = ±4 is cheap to confirm modulo a large prime, exactly.
-    m = gmpy2.mpz(2**127 - 1)
-    if (u * u - D * v * v - 4 * cycle.norm) % m:
+    m = _CHECK_MODULUS
+    um, vm = u % m, v % m
+    if (um * um - D * vm * vm - 4 * cycle.norm) % m:
         raise ArithmeticError("internal check failed: expanded unit does not have norm ±1")
     return int(u), int(v)
 
@@ -156,36 +181,74 @@ def expand_unit(cycle: PrincipalHalfCycle) -> tuple[int, int]:
 def regulator_from_cycle(cycle: PrincipalHalfCycle, digits: int) -> Regulator:
     """``log ε`` to ``digits`` significant digits from rounded products.
 
-    Leaves of the product tree are exact; the tree above them is evaluated in
-    binary floating point at ``prec`` bits. All entries are positive, so each
-    rounded product has relative error at most ``(1 + 2^−prec)^k − 1`` after
-    ``k`` levels; the bound below adds these and the error of ``log`` and of
-    ``√D``.
+    Leaves of the product tree are exact; they are rounded to ``prec`` bits
+    (gmpy2 ``mpfr``, round to nearest, unit ``u = 2^−prec``) and multiplied
+    up the tree. All entries are positive, so relative errors only add: one
+    rounding per leaf entry and two (product, sum) per tree node give at most
+    ``3n`` roundings for ``n`` leaves. With ``ψ = p + q |ω'|`` (``ω' < 0``,
+    no cancellation) and ``R = 2 log ψ_m − log(Q_m/2)`` (even period) or
+    ``log ψ_m + log ψ_{m+1} − log(Q_{m+1}/2)`` (odd), the absolute error is
+    below ``(6n + 30 + 4R + 2 log₂ D) u``, the bound recorded.
     """
     D = cycle.discriminant
-    n_leaves = max(1, -(-len(cycle.quotients) // _LEAF))
-    size_bits = max(8, int(cycle.period_length * 1.2) + 8)  # log2 of ε, generously
-    prec = int(digits * 3.3220) + size_bits.bit_length() + (n_leaves.bit_length() * 2) + 40
-    with mpmath.workprec(prec):
-        M = _half_matrix(cycle, mpmath.mpf)
-        sqrtD = mpmath.sqrt(D)
-        w = D & 1
-        conj = (w - sqrtD) / 2  # ω' < 0, so ψ = p − q ω' has no cancellation
+    leaves = _leaves(cycle)
+    n = max(1, len(leaves))
+    prec = int(digits * 3.3220) + (6 * n + 40).bit_length() + 12
+    with gmpy2.context(precision=prec):
+        if cycle.parity:
+            M = matrix_product(leaves, gmpy2.mpfr)
+        else:
+            p0, q0 = matrix_product_column(leaves, gmpy2.mpfr)
+            M = (p0, None, q0, None)
+        conj = (gmpy2.sqrt(gmpy2.mpfr(D)) - (D & 1)) / 2  # |ω'|
 
-        def log_psi(p: mpmath.mpf, q: mpmath.mpf) -> mpmath.mpf:
-            return mpmath.log(p - q * conj)
+        def log_psi(p: gmpy2.mpfr, q: gmpy2.mpfr) -> gmpy2.mpfr:
+            return gmpy2.log(p + q * conj)
 
         p, pp, q, qq = M
-        half_q = mpmath.log(mpmath.mpf(cycle.q_mid) / 2)
+        half_q = gmpy2.log(gmpy2.mpfr(cycle.q_mid) / 2)
         if cycle.parity:
             value = log_psi(pp, qq) + log_psi(p, q) - half_q
         else:
             value = 2 * log_psi(p, q) - half_q
-        # relative error of each entry ≤ 4·(levels + 2)·2^−prec; log turns relative into absolute
-        levels = n_leaves.bit_length() + 2
-        bound = mpmath.mpf(8 * (levels + 4)) * mpmath.mpf(2) ** (-prec) * 4
-        out = Regulator(+value, digits, bound, METHOD + ", rounded product tree")
-    return out
+        mantissa, exponent = value.as_mantissa_exp()
+    bound_units = 6 * n + 30 + 4 * (int(value) + 1) + 2 * D.bit_length()
+    with mpmath.workprec(prec + 8):
+        exact_value = mpmath.mpf((int(mantissa), int(exponent)))
+        bound = mpmath.mpf(bound_units) * mpmath.mpf(2) ** (-prec) * mpmath.mpf("1.01")
+    return Regulator(exact_value, digits, bound, METHOD + ", rounded product tree")
+
+
+#: Most digits asked of the accumulated walk before the product tree is used.
+ACCUMULATED_DIGITS = 17
+
+METHOD_ACCUMULATED = "continued fraction (half period, accumulated product of complete quotients)"
+
+
+def _regulator_accumulated(order: Order, digits: int, max_period: int) -> Regulator | None:
+    """``log ε`` from the walk alone, multiplying the complete quotients in floating point.
+
+    No partial quotient is stored. The kernel returns its product as an exact
+    ``mantissa · 2^exponent`` with a rigorous bound on the error of its log
+    (long double in the compiled kernel, about 19 significant digits at
+    period 10⁶; double in the pure twin, about 15); ``None`` when that bound
+    does not give ``digits`` correct digits (the caller then uses the tree).
+    """
+    D = order.discriminant
+    try:
+        found = kernels.principal_regulator(D, max_period)
+    except OverflowError:  # beyond the compiled walk's word size
+        found = pure.principal_regulator(D, max_period)
+    if found is None:
+        raise TooLargeError(_too_long_message(D, max_period))
+    _steps, _parity, q_mid, mantissa, exponent, log_error = found
+    prec = 3 * 64 + D.bit_length()
+    with mpmath.workprec(prec):
+        value = mpmath.log(mantissa) + exponent * mpmath.ln2 + mpmath.log(mpmath.mpf(q_mid) / 2)
+        bound = mpmath.mpf(log_error) + abs(value) * mpmath.mpf(2) ** (8 - prec)
+        if bound * 20 * mpmath.mpf(10) ** digits > value:
+            return None
+    return Regulator(value, digits, bound, METHOD_ACCUMULATED)
 
 
 def _cycle_unit(order: Order, cycle: PrincipalHalfCycle) -> Unit:
@@ -217,9 +280,21 @@ def regulator(
 ) -> Regulator:
     """The regulator ``log ε`` of an order to ``digits`` significant digits.
 
+    Up to :data:`ACCUMULATED_DIGITS` digits the walk alone gives it (no
+    partial quotient stored, see ``_regulator_accumulated``) whenever its
+    error bound allows; otherwise the rounded product tree does.
+
     >>> str(regulator(5, 20))
     '0.48121182505960344750'
+    >>> str(regulator(4 * 61, 12)), regulator(4 * 61, 12).method.endswith("complete quotients)")
+    ('10.9926553827', True)
     """
+    if not isinstance(order, Order):
+        order = Order(order)
+    if digits <= ACCUMULATED_DIGITS:
+        found = _regulator_accumulated(order, digits, max_period)
+        if found is not None:
+            return found
     return fundamental_unit(order, max_period).regulator(digits)
 
 

@@ -1,0 +1,868 @@
+/*
+ * realquad._kernels._ckernels: the compiled word-size kernels.
+ *
+ * Each function here is the compiled counterpart of the function of the same
+ * name in _pure.py and returns the same results (principal_regulator: the
+ * same quantity with its own rigorous error bound, see below). Every
+ * integer is range-checked: an argument or a result outside the range a
+ * kernel handles raises OverflowError, and the Python caller falls back to
+ * the pure twin; nothing overflows silently.
+ *
+ * Continued fraction (principal_*): D < 2^63. For the reduced quadratic
+ * irrationals (P + sqrt D)/Q met on the principal cycle, 0 <= P <= floor(sqrt D)
+ * and 0 < Q < 2 sqrt D, so every intermediate fits in 64 bits; the one product
+ * a (P_k - P_{k+1}) equals Q_{k+1} - Q_{k-1} and is as small.
+ *
+ * Forms (form_*, extended_gcd): any int64 arguments; arithmetic in __int128
+ * with every product and sum checked.
+ *
+ * References: M. J. Jacobson Jr. and H. C. Williams, Solving the Pell
+ * Equation, Springer 2009, ch. 3-5 (the continued fraction of omega and the
+ * palindrome of its period); J. Buchmann and U. Vollmer, Binary Quadratic
+ * Forms, Springer 2007, ch. 6 (rho, reduction, cycles); H. Cohen, A Course in
+ * Computational Algebraic Number Theory, Springer 1993, Alg. 1.4.10
+ * (Kronecker symbol) and Def. 5.4.6 (composition).
+ */
+#define PY_SSIZE_T_CLEAN
+#include <Python.h>
+
+#include <float.h>
+#include <math.h>
+#include <stdint.h>
+#include <string.h>
+
+#if !defined(__SIZEOF_INT128__)
+#error "realquad's compiled kernels need a C compiler with __int128 (GCC or Clang on a 64-bit platform)"
+#endif
+
+typedef __int128 i128;
+typedef unsigned __int128 u128;
+
+#define MAX_CFRAC ((int64_t)INT64_MAX)
+#define MAX_WORD ((int64_t)(((uint64_t)1 << 62) - 1))
+
+/* ------------------------------------------------------------------ */
+/* argument helpers                                                    */
+/* ------------------------------------------------------------------ */
+
+static int
+get_i64(PyObject *obj, int64_t *out, const char *what)
+{
+    int overflow = 0;
+    long long v;
+    if (!PyLong_Check(obj)) {
+        /* gmpy2 integers and other __index__ types */
+        PyObject *index = PyNumber_Index(obj);
+        if (index == NULL) {
+            PyErr_Format(PyExc_TypeError, "%s must be an integer", what);
+            return -1;
+        }
+        v = PyLong_AsLongLongAndOverflow(index, &overflow);
+        Py_DECREF(index);
+    } else {
+        v = PyLong_AsLongLongAndOverflow(obj, &overflow);
+    }
+    if (overflow) {
+        PyErr_Format(PyExc_OverflowError, "%s is outside the compiled kernels' 64-bit range", what);
+        return -1;
+    }
+    if (v == -1 && PyErr_Occurred())
+        return -1;
+    *out = (int64_t)v;
+    return 0;
+}
+
+/* A step limit: values beyond int64 are clamped (they cannot be reached). */
+static int
+get_limit(PyObject *obj, int64_t *out)
+{
+    int overflow = 0;
+    long long v;
+    if (!PyLong_Check(obj)) {
+        PyErr_SetString(PyExc_TypeError, "max_steps must be an integer");
+        return -1;
+    }
+    v = PyLong_AsLongLongAndOverflow(obj, &overflow);
+    if (overflow > 0)
+        v = LLONG_MAX;
+    else if (overflow < 0)
+        v = LLONG_MIN;
+    else if (v == -1 && PyErr_Occurred())
+        return -1;
+    *out = (int64_t)v;
+    return 0;
+}
+
+static int
+check_nargs(Py_ssize_t nargs, Py_ssize_t want, const char *name)
+{
+    if (nargs != want) {
+        PyErr_Format(PyExc_TypeError, "%s() takes exactly %zd arguments (%zd given)", name, want, nargs);
+        return -1;
+    }
+    return 0;
+}
+
+static PyObject *
+i128_to_py(i128 v)
+{
+    if (v < (i128)INT64_MIN || v > (i128)INT64_MAX) {
+        PyErr_SetString(PyExc_OverflowError, "a result is outside the compiled kernels' 64-bit range");
+        return NULL;
+    }
+    return PyLong_FromLongLong((long long)v);
+}
+
+static int
+fits_i64(i128 v)
+{
+    return v >= (i128)INT64_MIN && v <= (i128)INT64_MAX;
+}
+
+static PyObject *
+overflow(void)
+{
+    PyErr_SetString(PyExc_OverflowError, "an intermediate value is outside the compiled kernels' range");
+    return NULL;
+}
+
+/* Python's floor division and modulo on __int128 (b != 0, no overflow for |a|, |b| < 2^126). */
+static inline i128
+floordiv(i128 a, i128 b)
+{
+    i128 q = a / b;
+    if ((a % b != 0) && ((a < 0) != (b < 0)))
+        q -= 1;
+    return q;
+}
+
+static inline i128
+floormod(i128 a, i128 b)
+{
+    i128 m = a % b;
+    if (m != 0 && ((m < 0) != (b < 0)))
+        m += b;
+    return m;
+}
+
+static uint64_t
+isqrt_u64(uint64_t n)
+{
+    uint64_t r = (uint64_t)sqrtl((long double)n);
+    while ((u128)r * r > n)
+        r--;
+    while ((u128)(r + 1) * (r + 1) <= n)
+        r++;
+    return r;
+}
+
+/* ------------------------------------------------------------------ */
+/* continued fraction of omega: the principal cycle                    */
+/* ------------------------------------------------------------------ */
+
+typedef struct {
+    int64_t D, r;
+    int64_t P, Q, P1, Q1; /* (P_k, Q_k) and (P_{k+1}, Q_{k+1}) */
+    int64_t k, kmax;      /* iteration, last iteration allowed */
+} walk_t;
+
+static int
+walk_start(walk_t *w, PyObject *Dobj, PyObject *limit)
+{
+    int64_t D, steps, a;
+    if (get_i64(Dobj, &D, "the discriminant") < 0)
+        return -1;
+    if (get_limit(limit, &steps) < 0)
+        return -1;
+    if (D <= 0) {
+        PyErr_SetString(PyExc_ValueError, "the discriminant must be positive");
+        return -1;
+    }
+    w->D = D;
+    w->r = (int64_t)isqrt_u64((uint64_t)D);
+    if (w->r * w->r == D) {
+        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
+        return -1;
+    }
+    /* Python: range(max_steps // 2 + 2), floor division */
+    w->kmax = (steps >= 0 ? steps / 2 : -((-steps + 1) / 2)) + 1;
+    w->P = D & 1;
+    w->Q = 2;
+    a = (w->P + w->r) / 2;
+    w->P1 = a * 2 - w->P;
+    w->Q1 = (D - w->P1 * w->P1) / 2;
+    w->k = 0;
+    return 0;
+}
+
+/* The next partial quotient floor((P1 + r)/Q1) >= 1; most are small, so
+   comparisons first (a division costs tens of cycles). */
+static inline int64_t
+next_quotient(int64_t x, int64_t q)
+{
+    if (x < 2 * q)
+        return 1;
+    if (x < 3 * q)
+        return 2;
+    if (x < 4 * q)
+        return 3;
+    if (((uint64_t)x | (uint64_t)q) >> 32 == 0)
+        return (int64_t)((uint32_t)x / (uint32_t)q);
+    return x / q;
+}
+
+static inline void
+walk_step(walk_t *w, int64_t a)
+{
+    int64_t P2 = a * w->Q1 - w->P1;
+    int64_t Qn = w->Q + a * (w->P1 - P2);
+    w->Q = w->Q1;
+    w->Q1 = Qn;
+    w->P = w->P1;
+    w->P1 = P2;
+}
+
+static PyObject *
+k_principal_half_cycle(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    walk_t w;
+    uint64_t *buf = NULL, *grown;
+    Py_ssize_t n = 0, cap = 1024, i;
+    PyObject *list, *out;
+    int parity = -1;
+    int64_t q_mid = 0, steps = 0;
+    if (check_nargs(nargs, 2, "principal_half_cycle") < 0 || walk_start(&w, args[0], args[1]) < 0)
+        return NULL;
+    buf = (uint64_t *)PyMem_Malloc(cap * sizeof(uint64_t));
+    if (buf == NULL)
+        return PyErr_NoMemory();
+    buf[n++] = (uint64_t)((w.P + w.r) / 2);
+    for (; w.k <= w.kmax; w.k++) {
+        int64_t a;
+        if (w.Q1 == w.Q) {
+            parity = 1, q_mid = w.Q1, steps = 2 * w.k + 1;
+            break;
+        }
+        if (w.P1 == w.P) {
+            n--;
+            parity = 0, q_mid = w.Q, steps = 2 * w.k;
+            break;
+        }
+        a = next_quotient(w.P1 + w.r, w.Q1);
+        if (n == cap) {
+            cap *= 2;
+            grown = (uint64_t *)PyMem_Realloc(buf, cap * sizeof(uint64_t));
+            if (grown == NULL) {
+                PyMem_Free(buf);
+                return PyErr_NoMemory();
+            }
+            buf = grown;
+        }
+        buf[n++] = (uint64_t)a;
+        walk_step(&w, a);
+        if ((w.k & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0) {
+            PyMem_Free(buf);
+            return NULL;
+        }
+    }
+    if (parity < 0) {
+        PyMem_Free(buf);
+        Py_RETURN_NONE;
+    }
+    list = PyList_New(n);
+    if (list == NULL) {
+        PyMem_Free(buf);
+        return NULL;
+    }
+    for (i = 0; i < n; i++) {
+        PyObject *v = PyLong_FromUnsignedLongLong(buf[i]);
+        if (v == NULL) {
+            PyMem_Free(buf);
+            Py_DECREF(list);
+            return NULL;
+        }
+        PyList_SET_ITEM(list, i, v);
+    }
+    PyMem_Free(buf);
+    out = Py_BuildValue("(NiLL)", list, parity, (long long)q_mid, (long long)steps);
+    return out;
+}
+
+static PyObject *
+k_principal_period(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    walk_t w;
+    if (check_nargs(nargs, 2, "principal_period") < 0 || walk_start(&w, args[0], args[1]) < 0)
+        return NULL;
+    for (; w.k <= w.kmax; w.k++) {
+        if (w.Q1 == w.Q)
+            return Py_BuildValue("(LiL)", (long long)(2 * w.k + 1), 1, (long long)w.Q1);
+        if (w.P1 == w.P)
+            return Py_BuildValue("(LiL)", (long long)(2 * w.k), 0, (long long)w.Q);
+        walk_step(&w, next_quotient(w.P1 + w.r, w.Q1));
+        if ((w.k & 0xFFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return NULL;
+    }
+    Py_RETURN_NONE;
+}
+
+/*
+ * principal_regulator: the walk of principal_period, multiplying the complete
+ * quotients theta_i = (P_i + s)/Q_i (s = sqrtl(D)) into a long double. Each
+ * theta carries THETA_ROUNDINGS roundings (sqrt; sum; quotient; plus the
+ * conversion of D where long double has fewer than 64 bits), each product one
+ * more; renormalising by powers of 2 (frexpl) is exact and theta_i > 1 keeps
+ * the product away from underflow. So the returned log error bounds
+ * |log(computed) - log(exact)| rigorously with u = LDBL_EPSILON/2.
+ */
+#if LDBL_MANT_DIG >= 64
+#define THETA_ROUNDINGS 3
+#else
+#define THETA_ROUNDINGS 4
+#endif
+
+static PyObject *
+k_principal_regulator(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    walk_t w;
+    long double s, prod = 1.0L, value, mant;
+    long long exponent = 0;
+    int e, parity;
+    double unit = (double)(LDBL_EPSILON / 2), roundings, err;
+    unsigned long long M;
+    if (check_nargs(nargs, 2, "principal_regulator") < 0 || walk_start(&w, args[0], args[1]) < 0)
+        return NULL;
+    s = sqrtl((long double)w.D);
+    for (; w.k <= w.kmax; w.k++) {
+        if (w.Q1 == w.Q || w.P1 == w.P) {
+            parity = w.Q1 == w.Q;
+            mant = frexpl(prod, &e);
+            value = mant * mant;
+            exponent = 2 * (exponent + e);
+            if (parity)
+                value *= ((long double)w.P1 + s) / (long double)w.Q1;
+            mant = frexpl(value, &e);
+            M = (unsigned long long)ldexpl(mant, LDBL_MANT_DIG);
+            exponent += e - LDBL_MANT_DIG;
+            roundings = 2.0 * (double)w.k * (THETA_ROUNDINGS + 1) + 1 + parity * (THETA_ROUNDINGS + 1);
+            err = roundings * unit / (1.0 - unit) * 1.001;
+            return Py_BuildValue("(LiLKLd)", (long long)(2 * w.k + parity), parity,
+                                 (long long)(parity ? w.Q1 : w.Q), M, exponent, err);
+        }
+        prod *= ((long double)w.P1 + s) / (long double)w.Q1;
+        if (prod > 0x1p8000L) {
+            prod = frexpl(prod, &e);
+            exponent += e;
+        }
+        walk_step(&w, next_quotient(w.P1 + w.r, w.Q1));
+        if ((w.k & 0xFFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return NULL;
+    }
+    Py_RETURN_NONE;
+}
+
+/* ------------------------------------------------------------------ */
+/* convergent_leaves: block products of [[a, 1], [1, 0]], exact        */
+/* ------------------------------------------------------------------ */
+
+static PyObject *
+limbs_to_py(const uint64_t *x, Py_ssize_t n)
+{
+    unsigned char *bytes;
+    PyObject *v;
+    Py_ssize_t i;
+    int j;
+    while (n > 0 && x[n - 1] == 0)
+        n--;
+    if (n <= 1)
+        return PyLong_FromUnsignedLongLong(n ? x[0] : 0);
+    bytes = (unsigned char *)PyMem_Malloc((size_t)n * 8);
+    if (bytes == NULL)
+        return PyErr_NoMemory();
+    for (i = 0; i < n; i++)
+        for (j = 0; j < 8; j++)
+            bytes[8 * i + j] = (unsigned char)(x[i] >> (8 * j));
+#if PY_VERSION_HEX >= 0x030D0000
+    v = PyLong_FromUnsignedNativeBytes(bytes, (size_t)n * 8, Py_ASNATIVEBYTES_LITTLE_ENDIAN);
+#else
+    v = _PyLong_FromByteArray(bytes, (size_t)n * 8, 1, 0);
+#endif
+    PyMem_Free(bytes);
+    return v;
+}
+
+/* x <- a*y + x over n limbs (x has room for n + 1); returns the new length. */
+static inline Py_ssize_t
+mul_add(uint64_t *x, const uint64_t *y, uint64_t a, Py_ssize_t n)
+{
+    u128 carry = 0;
+    Py_ssize_t i;
+    for (i = 0; i < n; i++) {
+        u128 t = (u128)a * y[i] + x[i] + carry;
+        x[i] = (uint64_t)t;
+        carry = t >> 64;
+    }
+    if (carry) {
+        x[n] = (uint64_t)carry;
+        return n + 1;
+    }
+    return n;
+}
+
+static PyObject *
+k_convergent_leaves(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    PyObject *seq, *out = NULL;
+    Py_ssize_t n, chunk, start, i, cap = 0;
+    uint64_t *quot = NULL, *mem = NULL;
+    if (check_nargs(nargs, 2, "convergent_leaves") < 0)
+        return NULL;
+    chunk = PyLong_AsSsize_t(args[1]);
+    if (chunk == -1 && PyErr_Occurred())
+        return NULL;
+    if (chunk == 0) {
+        PyErr_SetString(PyExc_ValueError, "range() arg 3 must not be zero");
+        return NULL;
+    }
+    if (chunk < 0) /* as range(0, n, chunk) in the twin: no blocks */
+        return PyList_New(0);
+    seq = PySequence_Fast(args[0], "quotients must be a sequence");
+    if (seq == NULL)
+        return NULL;
+    n = PySequence_Fast_GET_SIZE(seq);
+    quot = (uint64_t *)PyMem_Malloc((n ? n : 1) * sizeof(uint64_t));
+    if (quot == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    for (i = 0; i < n; i++) {
+        PyObject *item = PyNumber_Index(PySequence_Fast_GET_ITEM(seq, i));
+        if (item == NULL)
+            goto done;
+        quot[i] = PyLong_AsUnsignedLongLong(item);
+        Py_DECREF(item);
+        if (quot[i] == (uint64_t)-1 && PyErr_Occurred()) {
+            PyErr_SetString(PyExc_OverflowError, "a partial quotient is outside the compiled kernels' range");
+            goto done;
+        }
+    }
+    out = PyList_New(0);
+    if (out == NULL)
+        goto done;
+    for (start = 0; start < n; start += chunk) {
+        Py_ssize_t end = start + chunk < n ? start + chunk : n, bits = 0, limbs, np = 1, nq = 1;
+        uint64_t *p, *pp, *q, *qq, *t;
+        PyObject *leaf;
+        for (i = start; i < end; i++)
+            bits += (quot[i] ? 64 - __builtin_clzll(quot[i]) : 0) + 1;
+        limbs = bits / 64 + 2;
+        if (limbs > cap) {
+            PyMem_Free(mem);
+            cap = limbs;
+            mem = (uint64_t *)PyMem_Malloc((size_t)(4 * cap) * sizeof(uint64_t));
+            if (mem == NULL) {
+                PyErr_NoMemory();
+                Py_CLEAR(out);
+                goto done;
+            }
+        }
+        memset(mem, 0, (size_t)(4 * limbs) * sizeof(uint64_t));
+        p = mem, pp = mem + limbs, q = mem + 2 * limbs, qq = mem + 3 * limbs;
+        p[0] = 1, qq[0] = 1;
+        for (i = start; i < end; i++) {
+            uint64_t a = quot[i];
+            /* (p, pp) <- (a p + pp, p); the same for (q, qq) */
+            np = mul_add(pp, p, a, np);
+            t = p, p = pp, pp = t;
+            nq = mul_add(qq, q, a, nq);
+            t = q, q = qq, qq = t;
+        }
+        leaf = PyTuple_New(4);
+        if (leaf == NULL) {
+            Py_CLEAR(out);
+            goto done;
+        }
+        PyTuple_SET_ITEM(leaf, 0, limbs_to_py(p, np));
+        PyTuple_SET_ITEM(leaf, 1, limbs_to_py(pp, np));
+        PyTuple_SET_ITEM(leaf, 2, limbs_to_py(q, nq));
+        PyTuple_SET_ITEM(leaf, 3, limbs_to_py(qq, nq));
+        if (PyErr_Occurred() || PyList_Append(out, leaf) < 0) {
+            Py_DECREF(leaf);
+            Py_CLEAR(out);
+            goto done;
+        }
+        Py_DECREF(leaf);
+    }
+done:
+    PyMem_Free(mem);
+    PyMem_Free(quot);
+    Py_DECREF(seq);
+    return out;
+}
+
+/* ------------------------------------------------------------------ */
+/* Kronecker symbols                                                   */
+/* ------------------------------------------------------------------ */
+
+static int
+kronecker_i64(int64_t a, int64_t n)
+{
+    int k = 1, v;
+    uint64_t un, ua;
+    int a_negative = a < 0;
+    if (n == 0)
+        return (a == 1 || a == -1) ? 1 : 0;
+    if (!(a & 1) && !(n & 1))
+        return 0;
+    if (n < 0) {
+        un = (uint64_t)0 - (uint64_t)n;
+        if (a_negative)
+            k = -k;
+    } else {
+        un = (uint64_t)n;
+    }
+    v = __builtin_ctzll(un);
+    un >>= v;
+    if (v & 1) {
+        int a8 = (int)(a & 7); /* two's complement: a mod 8 */
+        if (a8 == 3 || a8 == 5)
+            k = -k;
+    }
+    /* now un is odd and positive: Jacobi symbol (a/un) */
+    if (a_negative) {
+        ua = (uint64_t)0 - (uint64_t)a;
+        if ((un & 3) == 3)
+            k = -k;
+    } else {
+        ua = (uint64_t)a;
+    }
+    ua %= un;
+    while (ua) {
+        uint64_t t;
+        v = __builtin_ctzll(ua);
+        ua >>= v;
+        if ((v & 1) && ((un & 7) == 3 || (un & 7) == 5))
+            k = -k;
+        if (ua & un & 2)
+            k = -k;
+        t = un % ua;
+        un = ua;
+        ua = t;
+    }
+    return un == 1 ? k : 0;
+}
+
+static PyObject *
+k_kronecker_symbols(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a, n;
+    PyObject *seq, *out;
+    Py_ssize_t len, i;
+    if (check_nargs(nargs, 2, "kronecker_symbols") < 0 || get_i64(args[0], &a, "a") < 0)
+        return NULL;
+    seq = PySequence_Fast(args[1], "moduli must be a sequence");
+    if (seq == NULL)
+        return NULL;
+    len = PySequence_Fast_GET_SIZE(seq);
+    out = PyList_New(len);
+    if (out == NULL) {
+        Py_DECREF(seq);
+        return NULL;
+    }
+    for (i = 0; i < len; i++) {
+        if (get_i64(PySequence_Fast_GET_ITEM(seq, i), &n, "a modulus") < 0) {
+            Py_DECREF(seq);
+            Py_DECREF(out);
+            return NULL;
+        }
+        PyList_SET_ITEM(out, i, PyLong_FromLong(kronecker_i64(a, n)));
+    }
+    Py_DECREF(seq);
+    return out;
+}
+
+/* ------------------------------------------------------------------ */
+/* binary quadratic forms                                              */
+/* ------------------------------------------------------------------ */
+
+static inline i128
+abs128(i128 x)
+{
+    return x < 0 ? -x : x;
+}
+
+/* form_rho_b on int64 inputs (no overflow in i128); -1 on division by zero. */
+static inline int
+rho_b(i128 b, i128 c, i128 r, i128 *t)
+{
+    i128 m = abs128(c);
+    if (m == 0) {
+        PyErr_SetString(PyExc_ZeroDivisionError, "integer modulo by zero");
+        return -1;
+    }
+    if (m <= r) {
+        *t = r - floormod(r + b, 2 * m);
+    } else {
+        i128 x = floormod(-b, 2 * m);
+        *t = x > m ? x - 2 * m : x;
+    }
+    return 0;
+}
+
+static inline int
+is_reduced(i128 a, i128 b, i128 r)
+{
+    i128 m = 2 * abs128(a);
+    return 0 < b && b <= r && r - b < m && m <= r + b;
+}
+
+/* One rho step (a, b, c) -> (c, t, (t^2 - D)/(4c)), all kept in int64; -1 on error. */
+static inline int
+rho_step(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
+{
+    i128 t, nc;
+    if (rho_b(*b, *c, r, &t) < 0)
+        return -1;
+    nc = floordiv(t * t - (i128)D, 4 * (i128)*c);
+    if (!fits_i64(t) || !fits_i64(nc)) {
+        overflow();
+        return -1;
+    }
+    *a = *c;
+    *b = (int64_t)t;
+    *c = (int64_t)nc;
+    return 0;
+}
+
+static PyObject *
+k_form_rho_b(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t b, c, r;
+    i128 t;
+    if (check_nargs(nargs, 3, "form_rho_b") < 0 || get_i64(args[0], &b, "b") < 0 ||
+        get_i64(args[1], &c, "c") < 0 || get_i64(args[2], &r, "r") < 0)
+        return NULL;
+    if (rho_b(b, c, r, &t) < 0)
+        return NULL;
+    return i128_to_py(t);
+}
+
+static PyObject *
+k_form_is_reduced(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a, b, r;
+    if (check_nargs(nargs, 3, "form_is_reduced") < 0 || get_i64(args[0], &a, "a") < 0 ||
+        get_i64(args[1], &b, "b") < 0 || get_i64(args[2], &r, "r") < 0)
+        return NULL;
+    return PyBool_FromLong(is_reduced(a, b, r));
+}
+
+static int
+get_form(PyObject *const *args, int64_t *a, int64_t *b, int64_t *c, int64_t *D, int64_t *r)
+{
+    return (get_i64(args[0], a, "a") < 0 || get_i64(args[1], b, "b") < 0 || get_i64(args[2], c, "c") < 0 ||
+            get_i64(args[3], D, "D") < 0 || get_i64(args[4], r, "r") < 0)
+               ? -1
+               : 0;
+}
+
+static PyObject *
+k_form_reduce(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a, b, c, D, r;
+    unsigned long count = 0;
+    if (check_nargs(nargs, 5, "form_reduce") < 0 || get_form(args, &a, &b, &c, &D, &r) < 0)
+        return NULL;
+    while (!is_reduced(a, b, r)) {
+        if (rho_step(&a, &b, &c, D, r) < 0)
+            return NULL;
+        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return NULL;
+    }
+    return Py_BuildValue("(LLL)", (long long)a, (long long)b, (long long)c);
+}
+
+static PyObject *
+k_form_cycle(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a, b, c, D, r, a0, b0, steps, k;
+    PyObject *out, *pair;
+    if (check_nargs(nargs, 6, "form_cycle") < 0 || get_form(args, &a, &b, &c, &D, &r) < 0 ||
+        get_limit(args[5], &steps) < 0)
+        return NULL;
+    out = PyList_New(0);
+    if (out == NULL)
+        return NULL;
+    a0 = a, b0 = b;
+    pair = Py_BuildValue("(LL)", (long long)a, (long long)b);
+    if (pair == NULL || PyList_Append(out, pair) < 0)
+        goto fail;
+    Py_DECREF(pair);
+    for (k = 0; k < steps; k++) {
+        pair = NULL;
+        if (rho_step(&a, &b, &c, D, r) < 0)
+            goto fail;
+        if (a == a0 && b == b0)
+            return out;
+        pair = Py_BuildValue("(LL)", (long long)a, (long long)b);
+        if (pair == NULL || PyList_Append(out, pair) < 0)
+            goto fail;
+        Py_DECREF(pair);
+        if ((k & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
+            goto fail;
+    }
+    Py_DECREF(out);
+    Py_RETURN_NONE;
+fail:
+    Py_XDECREF(pair);
+    Py_DECREF(out);
+    return NULL;
+}
+
+/* Checked __int128 arithmetic: any overflow sets *bad. */
+static inline i128
+mul_c(i128 x, i128 y, int *bad)
+{
+    i128 z;
+    if (__builtin_mul_overflow(x, y, &z))
+        *bad = 1;
+    return z;
+}
+
+static inline i128
+add_c(i128 x, i128 y, int *bad)
+{
+    i128 z;
+    if (__builtin_add_overflow(x, y, &z))
+        *bad = 1;
+    return z;
+}
+
+/* extended_gcd of _pure.py, step for step (floor divmod); inputs |x|, |y| < 2^126. */
+static void
+xgcd128(i128 x, i128 y, i128 *g, i128 *u, i128 *v)
+{
+    i128 u0 = 1, v0 = 0, u1 = 0, v1 = 1, q, rem, t;
+    while (y != 0) {
+        q = floordiv(x, y);
+        rem = x - q * y;
+        x = y, y = rem;
+        t = u0 - q * u1, u0 = u1, u1 = t;
+        t = v0 - q * v1, v0 = v1, v1 = t;
+    }
+    if (x < 0) {
+        *g = -x, *u = -u0, *v = -v0;
+    } else {
+        *g = x, *u = u0, *v = v0;
+    }
+}
+
+static PyObject *
+k_extended_gcd(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t x, y;
+    i128 g, u, v;
+    PyObject *G, *U, *V;
+    if (check_nargs(nargs, 2, "extended_gcd") < 0 || get_i64(args[0], &x, "x") < 0 ||
+        get_i64(args[1], &y, "y") < 0)
+        return NULL;
+    xgcd128(x, y, &g, &u, &v);
+    if (!fits_i64(g) || !fits_i64(u) || !fits_i64(v))
+        return overflow();
+    G = PyLong_FromLongLong((long long)g);
+    U = PyLong_FromLongLong((long long)u);
+    V = PyLong_FromLongLong((long long)v);
+    return Py_BuildValue("(NNN)", G, U, V);
+}
+
+static PyObject *
+k_form_compose(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a1, b1, a2, b2, D;
+    i128 s, g, x, y, e, p, w, u, v, A, B, m, C, sum;
+    int bad = 0;
+    if (check_nargs(nargs, 5, "form_compose") < 0 || get_i64(args[0], &a1, "a1") < 0 ||
+        get_i64(args[1], &b1, "b1") < 0 || get_i64(args[2], &a2, "a2") < 0 || get_i64(args[3], &b2, "b2") < 0 ||
+        get_i64(args[4], &D, "D") < 0)
+        return NULL;
+    s = floordiv((i128)b1 + b2, 2);
+    xgcd128(a1, a2, &g, &x, &y);
+    xgcd128(g, s, &e, &p, &w);
+    u = mul_c(p, x, &bad);
+    v = mul_c(p, y, &bad);
+    if (e == 0) {
+        PyErr_SetString(PyExc_ZeroDivisionError, "integer division or modulo by zero");
+        return NULL;
+    }
+    A = floordiv((i128)a1 * a2, mul_c(e, e, &bad));
+    sum = mul_c(mul_c(u, a1, &bad), b2, &bad);
+    sum = add_c(sum, mul_c(mul_c(v, a2, &bad), b1, &bad), &bad);
+    sum = add_c(sum, floordiv(mul_c(w, (i128)b1 * b2 + D, &bad), 2), &bad);
+    if (bad)
+        return overflow();
+    B = floordiv(sum, e);
+    m = 2 * abs128(A);
+    if (m == 0) {
+        PyErr_SetString(PyExc_ZeroDivisionError, "integer division or modulo by zero");
+        return NULL;
+    }
+    B = floormod(B, m);
+    if (B > m / 2)
+        B -= m;
+    if (!fits_i64(A) || !fits_i64(B))
+        return overflow();
+    C = floordiv(B * B - D, 4 * A);
+    if (!fits_i64(C))
+        return overflow();
+    return Py_BuildValue("(LLL)", (long long)A, (long long)B, (long long)C);
+}
+
+/* ------------------------------------------------------------------ */
+/* module                                                              */
+/* ------------------------------------------------------------------ */
+
+static PyMethodDef methods[] = {
+    {"principal_half_cycle", (PyCFunction)(void (*)(void))k_principal_half_cycle, METH_FASTCALL,
+     "Walk the continued fraction of omega to the symmetry point of the principal cycle."},
+    {"principal_period", (PyCFunction)(void (*)(void))k_principal_period, METH_FASTCALL,
+     "Period length, parity and q_mid of the principal cycle."},
+    {"principal_regulator", (PyCFunction)(void (*)(void))k_principal_regulator, METH_FASTCALL,
+     "The half-cycle walk with the regulator accumulated in long double, with an error bound."},
+    {"convergent_leaves", (PyCFunction)(void (*)(void))k_convergent_leaves, METH_FASTCALL,
+     "Exact products of [[a, 1], [1, 0]] over blocks of chunk partial quotients."},
+    {"kronecker_symbols", (PyCFunction)(void (*)(void))k_kronecker_symbols, METH_FASTCALL,
+     "The Kronecker symbols (a/n) for a sequence of moduli n."},
+    {"form_rho_b", (PyCFunction)(void (*)(void))k_form_rho_b, METH_FASTCALL,
+     "The normalised middle coefficient of the rho step."},
+    {"form_is_reduced", (PyCFunction)(void (*)(void))k_form_is_reduced, METH_FASTCALL,
+     "Whether (a, b, *) is reduced: |sqrt D - 2|a|| < b < sqrt D."},
+    {"form_reduce", (PyCFunction)(void (*)(void))k_form_reduce, METH_FASTCALL,
+     "Apply rho until the form is reduced."},
+    {"form_cycle", (PyCFunction)(void (*)(void))k_form_cycle, METH_FASTCALL,
+     "The rho cycle of a reduced form, or None beyond max_steps."},
+    {"extended_gcd", (PyCFunction)(void (*)(void))k_extended_gcd, METH_FASTCALL,
+     "(g, u, v) with u x + v y = g = gcd(x, y) >= 0."},
+    {"form_compose", (PyCFunction)(void (*)(void))k_form_compose, METH_FASTCALL,
+     "Dirichlet composition of two forms of discriminant D (not reduced)."},
+    {NULL, NULL, 0, NULL},
+};
+
+static struct PyModuleDef module = {
+    PyModuleDef_HEAD_INIT, "_ckernels", "realquad's compiled word-size kernels (see _pure.py for the twins).", -1,
+    methods,
+};
+
+PyMODINIT_FUNC
+PyInit__ckernels(void)
+{
+    PyObject *m = PyModule_Create(&module);
+    if (m == NULL)
+        return NULL;
+    if (PyModule_AddObject(m, "MAX_CFRAC_DISCRIMINANT", PyLong_FromLongLong(MAX_CFRAC)) < 0 ||
+        PyModule_AddObject(m, "MAX_WORD_DISCRIMINANT", PyLong_FromLongLong(MAX_WORD)) < 0 ||
+        PyModule_AddIntConstant(m, "LONG_DOUBLE_MANTISSA_BITS", LDBL_MANT_DIG) < 0) {
+        Py_DECREF(m);
+        return NULL;
+    }
+    return m;
+}
