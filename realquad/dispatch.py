@@ -13,7 +13,9 @@
 The cut-offs differ by problem. For :func:`regulator` only ``R`` is wanted,
 and the benchmark (``tests/benchmarks/bench_infrastructure.py``,
 docs/performance.md) shows baby-step giant-step faster from periods of a few
-ten thousand on: :data:`REGULATOR_PERIOD_LIMIT`. For
+ten thousand on with the pure-Python kernels (:data:`REGULATOR_PERIOD_LIMIT`) and
+from a few hundred thousand on with the compiled ones
+(:data:`REGULATOR_PERIOD_LIMIT_COMPILED`). For
 :func:`fundamental_unit` the continued fraction also yields the period length
 and the expanded unit through its product tree, so it is kept up to
 :data:`UNIT_PERIOD_LIMIT` (about ``D ≈ 10¹³``, as in the design notes); past
@@ -24,7 +26,7 @@ Both methods return the same :class:`~realquad.results.Unit` and
 
 >>> fundamental_unit(5).method.startswith("continued fraction")
 True
->>> regulator(4 * (10**12 + 39)).method, fundamental_unit(4 * (10**12 + 39)).period_length
+>>> regulator(4 * (10**16 + 61)).method, fundamental_unit(4 * (10**12 + 39)).period_length
 ('infrastructure baby-step giant-step', 532572)
 >>> u = fundamental_unit(4 * (10**9 + 7), method="bsgs")
 >>> u.method, u.proof, u.norm
@@ -39,6 +41,7 @@ import math
 from typing import Literal
 
 from realquad import units
+from realquad._backend import BACKEND, kernels
 from realquad.arith import Order
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
@@ -50,8 +53,10 @@ from realquad.results import Regulator, Unit
 Method = Literal["auto", "cfrac", "bsgs"]
 METHODS = ("auto", "cfrac", "bsgs")
 
-#: Estimated period up to which ``regulator(..., method="auto")`` walks the continued fraction.
+#: Estimated period up to which ``regulator(..., method="auto")`` walks the continued fraction
+#: with the pure-Python kernels, and with the compiled ones (benchmark, docs/performance.md).
 REGULATOR_PERIOD_LIMIT = 40_000
+REGULATOR_PERIOD_LIMIT_COMPILED = 300_000
 
 #: Estimated period up to which ``fundamental_unit(..., method="auto")`` walks the continued fraction.
 UNIT_PERIOD_LIMIT = 10_000_000
@@ -68,13 +73,23 @@ def estimated_period(D: int) -> float:
     return estimate_hR(D, 20_000).value / _LEVY
 
 
-def choose_method(order: Order, method: str = "auto", limit: int = REGULATOR_PERIOD_LIMIT) -> str:
-    """``"cfrac"`` or ``"bsgs"``, resolving ``"auto"`` by the estimated period against ``limit``."""
+def _regulator_limit(D: int) -> int:
+    compiled = BACKEND == "compiled" and D <= getattr(kernels, "MAX_CFRAC_DISCRIMINANT", 0)
+    return REGULATOR_PERIOD_LIMIT_COMPILED if compiled else REGULATOR_PERIOD_LIMIT
+
+
+def choose_method(order: Order, method: str = "auto", limit: int | None = None) -> str:
+    """``"cfrac"`` or ``"bsgs"``, resolving ``"auto"`` by the estimated period against ``limit``.
+
+    The default ``limit`` is the regulator's cut-off for the kernels in use.
+    """
     if method not in METHODS:
         raise InputError(f"method must be one of {', '.join(METHODS)}, got {method!r}")
     if method != "auto":
         return method
     D = order.discriminant
+    if limit is None:
+        limit = _regulator_limit(D)
     if D < _SMALL_DISCRIMINANT or estimated_period(D) <= limit:
         return "cfrac"
     return "bsgs"

@@ -55,13 +55,21 @@ class CompactRepresentation:
     discriminant: int
     chains: tuple[Chain, ...]
     sign: int = 1
+    absolute_norm: int = 1  # |N|: 1 for units, the ideal's norm for a generator
 
     @classmethod
-    def from_factors(cls, D: int, factors: Factors) -> CompactRepresentation:
-        """The positive unit ``|∏ α^e|`` for factors from the doubling walk."""
-        chain = Chain(tuple(factors))
-        raw = cls(D, (chain,), 1)
-        out = cls(D, (chain,), raw._raw_sign())
+    def from_factors(
+        cls, D: int, factors: Factors, extra: QuadraticNumber | None = None, absolute_norm: int = 1
+    ) -> CompactRepresentation:
+        """The positive number ``|∏ α^e · extra|`` for factors from the doubling walk.
+
+        Its absolute norm is checked to be ``absolute_norm`` exactly.
+        """
+        chains: tuple[Chain, ...] = (Chain(tuple(factors)),)
+        if extra is not None:
+            chains += (Chain(((extra, 1),)),)
+        raw = cls(D, chains, 1, absolute_norm)
+        out = cls(D, chains, raw._raw_sign(), absolute_norm)
         out._check_norm()
         return out
 
@@ -80,17 +88,18 @@ class CompactRepresentation:
         ]
 
     def _check_norm(self) -> None:
-        if abs_product_is_one(self._norm_terms()) is False:
-            raise ArithmeticError("internal error: compact representation is not a unit")
+        terms = self._norm_terms() + [(Fraction(1, self.absolute_norm), 1)]
+        if not abs_product_is_one(terms):
+            raise ArithmeticError("internal error: compact representation has the wrong norm")
 
     @property
     def norm(self) -> int:
-        """The norm ``±1``, decided exactly from the factors' norms."""
+        """The norm (``±1`` for a unit), its sign decided exactly from the factors' norms."""
         sign = 1
         for n, e in self._norm_terms():
             if e % 2 and n < 0:
                 sign = -sign
-        return sign
+        return sign * self.absolute_norm
 
     @property
     def size(self) -> int:
@@ -122,8 +131,12 @@ class CompactRepresentation:
 
     def power(self, k: int) -> CompactRepresentation:
         """``ε^k`` (``k`` any integer), still compact."""
+        if k < 0 and self.absolute_norm != 1:
+            raise DomainError("only units have inverses in the order")
         chains = tuple(Chain(c.factors, c.power * k) for c in self.chains)
-        return CompactRepresentation(self.discriminant, chains, self.sign ** (k % 2))
+        return CompactRepresentation(
+            self.discriminant, chains, self.sign ** (k % 2), self.absolute_norm**k
+        )
 
     def modulo(self, m: int) -> tuple[int, int]:
         """``(x mod m, y mod m)`` with ``ε ≡ x + y√D`` in ``(Z/mZ)[√D]``.

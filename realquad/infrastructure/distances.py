@@ -161,20 +161,28 @@ def principal_near(cycle: Cycle, x: float, window: float) -> list[float]:
 def exact_principal_at(cycle: Cycle, x: float, steps: int = 64) -> Factors:
     """Factors of a unit ``γ`` with ``O = γ·O`` at distance close to ``x`` (a float estimate).
 
-    Walks to ``x`` exactly and searches up to ``steps`` baby steps either
-    way for ``O``; raises ``ArithmeticError`` if it is not there.
+    Raises ``ArithmeticError`` if ``O`` is not within ``steps`` baby steps of ``x``.
     """
-    near = walk_to(cycle, x, exact=True)
+    return exact_ideal_at(cycle, x, cycle.principal, steps)
+
+
+def exact_ideal_at(cycle: Cycle, x: float, target: Ideal, steps: int = 64) -> Factors:
+    """Factors of ``γ`` with ``L_target = γ·O``, for a reduced principal ``target`` near distance ``x``.
+
+    Walks to ``x`` exactly and searches up to ``steps`` baby steps either
+    way for ``target``; raises ``ArithmeticError`` if it is not there.
+    """
+    near = walk_to(cycle, max(0.0, x), exact=True)
     assert near.factors is not None
-    principal = cycle.principal
     for direction in ("forward", "backward"):
         w = _Walker(cycle, exact=True)
         w.ideal, w.distance = near.ideal, near.distance
         for _ in range(steps + 1):
-            if w.ideal == principal:
-                return near.factors[:-1] + [(near.factors[-1][0] * w.mu, near.factors[-1][1])]
+            if w.ideal == target:
+                last, e = near.factors[-1]
+                return near.factors[:-1] + [(last * w.mu, e)]
             getattr(w, direction)()
-    raise ArithmeticError(f"internal error: no principal ideal near distance {x}")
+    raise ArithmeticError(f"internal error: ideal {target} not near distance {x}")
 
 
 def log_of_product(factors: Factors, digits: int) -> tuple[mpmath.mpf, mpmath.mpf]:

@@ -40,7 +40,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import mpmath
 
@@ -79,6 +79,7 @@ class BSGSResult:
     baby_steps: int
     giant_steps: int
     estimate: float | None
+    table: _Table | None = field(default=None, repr=False)
 
     @property
     def proof(self) -> str:
@@ -261,4 +262,4 @@ def _finish(
         raise ArithmeticError("internal error: exact walk did not reach the regulator")
     with mpmath.workdps(digits + 10):
         reg = Regulator(+value, digits, bound, METHOD, "unconditional")
-    return BSGSResult(reg, factors, len(table), giant, estimate)
+    return BSGSResult(reg, factors, len(table), giant, estimate, table)
