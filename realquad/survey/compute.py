@@ -37,6 +37,7 @@ from typing import Any
 import gmpy2
 
 from realquad.arith import Order, fundamental_discriminant_of
+from realquad.classgroup import class_group
 from realquad.results import Proof
 from realquad.survey.ranges import Chunk
 from realquad.units import fundamental_unit
@@ -45,6 +46,7 @@ from realquad.units import fundamental_unit
 REGULATOR_BITS = 96
 #: Significant digits of the stored regulator.
 REGULATOR_DIGITS = 17
+_CONTEXT = gmpy2.context(precision=REGULATOR_BITS)
 
 
 @dataclass(frozen=True)
@@ -74,15 +76,13 @@ class FieldRecord:
 
 def _regulator_text(u: int, v: int, D: int) -> str:
     """``log((u + v√D)/2)`` to :data:`REGULATOR_DIGITS` significant digits."""
-    with gmpy2.context(precision=REGULATOR_BITS):
-        eps = (gmpy2.mpfr(u) + gmpy2.mpfr(v) * gmpy2.sqrt(gmpy2.mpfr(D))) / 2
-        return f"{gmpy2.log(eps):.{REGULATOR_DIGITS}g}"
+    c, p = _CONTEXT, REGULATOR_BITS
+    eps = c.div(c.add(gmpy2.mpfr(u, p), c.mul(gmpy2.mpfr(v, p), c.sqrt(gmpy2.mpfr(D, p)))), 2)
+    return f"{c.log(eps):.{REGULATOR_DIGITS}g}"
 
 
-def _class_group_columns(order: Order) -> tuple[int, int, str, str, str, Proof]:
-    """``h, h⁺``, both structures, the method and the proof, from the class-group module."""
-    from realquad.classgroup import class_group
-
+def _class_group_columns(order: Order) -> tuple[int, int, str, str, str, Proof, int]:
+    """``h, h⁺``, both structures, method, proof and unit norm, from the class-group module."""
     group = class_group(order)
     return (
         int(group.class_number),
@@ -91,6 +91,7 @@ def _class_group_columns(order: Order) -> tuple[int, int, str, str, str, Proof]:
         json.dumps([int(x) for x in group.narrow_invariants]),
         str(group.method),
         group.proof,
+        int(group.unit_norm),
     )
 
 
@@ -100,7 +101,9 @@ def survey_field(d: int) -> FieldRecord:
     order = Order(D)
     unit = fundamental_unit(order)
     u, v = unit.half_integer_coordinates()
-    h, h_plus, cl, cl_plus, cl_method, cl_proof = _class_group_columns(order)
+    h, h_plus, cl, cl_plus, cl_method, cl_proof, cl_unit_norm = _class_group_columns(order)
+    if cl_unit_norm != unit.norm:  # two independent routes to the sign of N(ε)
+        raise ArithmeticError(f"internal check failed: unit norms disagree for d = {d}")
     proof: Proof = "unconditional" if unit.proof == cl_proof == "unconditional" else "GRH"
     return FieldRecord(
         d=d,
