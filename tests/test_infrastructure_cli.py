@@ -115,3 +115,31 @@ def test_subprocess_smoke() -> None:
         check=True,
     )
     assert json.loads(out.stdout)["method"] == "infrastructure baby-step giant-step"
+
+
+def test_interrupt_during_the_search_exits_cleanly(capsys, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    import realquad.dispatch as dispatch
+
+    def interrupted(*args: object, **kwargs: object) -> None:
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(dispatch, "regulator_bsgs", interrupted)
+    code, out, err = run(capsys, "unit", "--disc", "4000000028", "--method", "bsgs", "--json")
+    assert code == 130 and out == "" and "interrupted" in err
+
+
+def test_progress_callback_sees_the_search(capsys) -> None:  # type: ignore[no-untyped-def]
+    from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+
+    seen: list[float] = []
+    regulator_bsgs(10**18 + 9, 20, max_table=20000, progress=seen.append)
+    assert seen and seen == sorted(seen)  # giant steps only move forward
+
+
+def test_results_are_labelled_unconditional_not_grh(capsys) -> None:  # type: ignore[no-untyped-def]
+    # No infrastructure result rests on GRH: the hR estimate only sizes the search.
+    for method in ("bsgs", "auto", "cfrac"):
+        data = run_json(
+            capsys, "unit", "--disc", "4000000028", "--method", method, "--max-digits", "10"
+        )
+        assert data["proof"] == "unconditional"

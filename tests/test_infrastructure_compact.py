@@ -106,8 +106,8 @@ def test_expansion_refused_beyond_max_digits() -> None:
 
 
 def test_compact_size_is_logarithmic() -> None:
-    eps = compact_unit(10**20 + 129)
-    assert eps.size <= 40  # log₂ R + 1 levels for R ≈ 1.9·10¹⁰
+    eps = compact_unit(10**18 + 9)
+    assert eps.size <= 32  # log₂ R + 1 levels for R ≈ 5.3·10⁸
     assert all(abs(a.c) < 10**25 for chain in eps.chains for a, _ in chain.factors)
 
 

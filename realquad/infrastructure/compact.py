@@ -233,14 +233,6 @@ def coprime_base(numbers: list[int]) -> list[int]:
     return base
 
 
-def _valuation(n: int, p: int) -> int:
-    k = 0
-    while n % p == 0:
-        n //= p
-        k += 1
-    return k
-
-
 def abs_product_is_one(terms: list[tuple[Fraction, int]]) -> bool:
     """Whether ``∏ |r|^e = 1`` exactly (exponents may be huge), by a coprime base.
 
@@ -251,7 +243,9 @@ def abs_product_is_one(terms: list[tuple[Fraction, int]]) -> bool:
     for p in base:
         total = 0
         for t, e in terms:
-            total += e * (_valuation(abs(t.numerator), p) - _valuation(t.denominator, p))
+            total += e * (
+                int(gmpy2.remove(abs(t.numerator), p)[1]) - int(gmpy2.remove(t.denominator, p)[1])
+            )
         if total:
             return False
     return True
