@@ -295,3 +295,53 @@ def test_fuzzed_arguments_never_give_a_traceback(args: list[str]) -> None:
         assert "Traceback" not in err.getvalue()
         if status == 2:
             assert err.getvalue().startswith("realquad: error: ") or "Usage" in err.getvalue()
+
+
+def test_discriminant_ranges(capsys: pytest.CaptureFixture[str], tmp_path: Path, oeis) -> None:  # type: ignore[no-untyped-def]
+    path = str(tmp_path / "disc.sqlite")
+    terms = oeis["A003656"]["terms"]  # OEIS A003656: fundamental D > 0 with h = 1
+    status, out, _ = run_cli(
+        capsys,
+        "survey",
+        "run",
+        "--discriminants",
+        "--d-max",
+        str(terms[-1]),
+        "--db",
+        path,
+        "--workers",
+        "1",
+        "--json",
+    )
+    assert status == 0 and json.loads(out)["range"]["kind"] == "D"
+    rows = _all_rows(capsys, path)
+    assert sorted(r["discriminant"] for r in rows if r["class_number"] == 1) == terms
+
+
+def test_a_second_run_on_a_database_in_use_is_refused(
+    capsys: pytest.CaptureFixture[str], db: str
+) -> None:
+    from realquad.survey.store import SurveyStore
+
+    before = _digest(db)
+    with SurveyStore.open_for_writing(db):
+        status, out, err = run_cli(capsys, "survey", "run", "--d-max", "3000", "--db", db)
+        assert status == 2 and "another survey run" in err and out == ""
+        status, out, _ = run_cli(capsys, "survey", "query", "--db", db, "--limit", "1", "--json")
+        assert status == 0 and json.loads(out)["matching"] == 1823  # readers are welcome
+    assert _digest(db) == before
+
+
+def test_progress_bar_on_a_terminal() -> None:
+    from realquad.survey.progress import SurveyProgress, choose_mode
+
+    class Terminal(io.StringIO):
+        def isatty(self) -> bool:
+            return True
+
+    screen = Terminal()
+    assert choose_mode(False, screen) == "bar" and choose_mode(True, screen) == "quiet"
+    assert choose_mode(False, io.StringIO()) == "lines"
+    with SurveyProgress(50, "bar", stream=screen) as bar:
+        bar.advance(50)
+    assert "50/50" in screen.getvalue()

@@ -2,22 +2,13 @@
 
 from __future__ import annotations
 
-import sqlite3
 from pathlib import Path
 
 import pytest
 from realquad_cli.main import main
-
-from realquad.survey.store import COLUMNS
+from test_survey_helpers import stored_table as _table
 
 distributed = pytest.importorskip("distributed")
-
-
-def _table(path: Path) -> list[tuple]:  # type: ignore[type-arg]
-    c = sqlite3.connect(path)
-    rows = c.execute(f"SELECT {', '.join(COLUMNS)} FROM fields ORDER BY d").fetchall()
-    c.close()
-    return rows
 
 
 def test_dask_run_equals_local_run(tmp_path: Path) -> None:

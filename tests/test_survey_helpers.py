@@ -11,7 +11,9 @@ code with realquad.
 
 from __future__ import annotations
 
+import sqlite3
 from math import isqrt
+from pathlib import Path
 
 
 def _reduced_forms(D: int) -> list[tuple[int, int, int]]:
@@ -85,6 +87,16 @@ def brute_class_numbers(D: int) -> tuple[int, int, int]:
 
 def fundamental_discriminant(d: int) -> int:
     return d if d % 4 == 1 else 4 * d
+
+
+def stored_table(path: Path) -> list[tuple]:  # type: ignore[type-arg]
+    """Every stored row (without the chunk that wrote it), in increasing d, read with plain sqlite3."""
+    from realquad.survey.store import COLUMNS
+
+    c = sqlite3.connect(path)
+    rows = c.execute(f"SELECT {', '.join(COLUMNS)} FROM fields ORDER BY d").fetchall()
+    c.close()
+    return rows
 
 
 def test_brute_counter_matches_oeis_class_number_one(oeis) -> None:  # type: ignore[no-untyped-def]

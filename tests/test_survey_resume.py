@@ -11,29 +11,31 @@ import sys
 import time
 from pathlib import Path
 
+from test_survey_helpers import stored_table as _table
+
 from realquad.survey.ranges import SurveyRange
-from realquad.survey.store import COLUMNS, SurveyStore
+from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import tabulate
 
 D_MAX = 4000
-COMMAND = [
-    sys.executable,
-    "-m",
-    "realquad",
-    "survey",
-    "run",
-    "--d-max",
-    str(D_MAX),
-    "--chunk-size",
-    "80",
-]
 
 
-def _table(path: Path) -> list[tuple]:  # type: ignore[type-arg]
-    c = sqlite3.connect(path)
-    rows = c.execute(f"SELECT {', '.join(COLUMNS)} FROM fields ORDER BY d").fetchall()
-    c.close()
-    return rows
+def survey_command(d_max: int, chunk_size: int) -> list[str]:
+    """The command line of a survey run in a fresh interpreter."""
+    return [
+        sys.executable,
+        "-m",
+        "realquad",
+        "survey",
+        "run",
+        "--d-max",
+        str(d_max),
+        "--chunk-size",
+        str(chunk_size),
+    ]
+
+
+COMMAND = survey_command(D_MAX, 80)
 
 
 def _check_consistent(path: Path) -> None:
@@ -102,17 +104,7 @@ def test_kill_nine_at_random_moments_then_resume(tmp_path: Path) -> None:
 
 def test_interrupt_stops_cleanly(tmp_path: Path) -> None:
     target = tmp_path / "interrupted.sqlite"
-    command = [
-        sys.executable,
-        "-m",
-        "realquad",
-        "survey",
-        "run",
-        "--d-max",
-        "40000",
-        "--chunk-size",
-        "500",
-    ]
+    command = survey_command(40000, 500)
     proc = subprocess.Popen(
         [*command, "--db", str(target), "--workers", "2"],
         stdout=subprocess.PIPE,
