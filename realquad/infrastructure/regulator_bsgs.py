@@ -251,7 +251,8 @@ def _finish(
     """Locate ``O`` at the multiple exactly and evaluate ``R`` to ``digits`` digits."""
     if not window < multiple / 2:  # pragma: no cover - float error ≪ R
         raise ArithmeticError("internal error: rounding error too large to locate the regulator")
-    found = principal_near(cycle, multiple, window + 1e-9)
+    window += 1e-12 * multiple + 1e-9  # the float distances of the doubling walk itself
+    found = principal_near(cycle, multiple, window)
     if len(found) != 1:  # pragma: no cover - a copy of O is at R and none else within R/2
         raise ArithmeticError(
             f"internal error: expected one principal ideal near {multiple}, found {len(found)}"
