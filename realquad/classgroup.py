@@ -50,7 +50,7 @@ from typing import Any
 from realquad._backend import kernels, pure
 from realquad.arith import Order, isqrt
 from realquad.errors import TooLargeError
-from realquad.forms import Form, prime_form
+from realquad.forms import Form, prime_form_coefficients
 from realquad.results import Proof, Regulator, Unit
 from realquad.smith_normal_form import SmithForm, smith_normal_form
 
@@ -93,9 +93,9 @@ def _candidates(D: int, conductor: int) -> Iterator[Triple]:
         if 4 * p * p >= D:
             break
         if conductor % p:
-            F = prime_form(D, p)
+            F = prime_form_coefficients(D, p)
             if F is not None:
-                yield (F.a, F.b, F.c)
+                yield F
             continue
         q = p
         while 4 * q * q < D:
@@ -256,12 +256,14 @@ def _forms_from_vectors(table: ClassTable, vectors: list[list[int]], modulus: in
     D = table.D
     out = []
     for vec in vectors:
-        F = Form.identity(D)
+        F: Form | None = None
         for e, g in zip(vec, table.generators, strict=False):
             e %= modulus
             if e:
-                F = F.compose(Form._raw(*g).power(e))
-        out.append(F)
+                G = Form._raw(*g)
+                G = G if e == 1 else G.power(e)
+                F = G if F is None else F.compose(G)
+        out.append(F if F is not None else Form.identity(D))
     return out
 
 

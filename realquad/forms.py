@@ -37,6 +37,8 @@ from dataclasses import dataclass
 from math import gcd
 from typing import Any
 
+import gmpy2
+
 from realquad._backend import kernels, pure
 from realquad.arith import as_integer, is_square, isqrt
 from realquad.errors import DomainError, InputError
@@ -120,7 +122,7 @@ class Form:
             raise DomainError(f"{D} is not the discriminant of a real quadratic order")
         r = isqrt(D)
         b = r if (r - D) % 2 == 0 else r - 1
-        return cls(1, b, (b * b - D) // 4)
+        return cls._raw(1, b, (b * b - D) // 4)
 
     def __repr__(self) -> str:
         return f"Form({self.a}, {self.b}, {self.c})"
@@ -403,9 +405,16 @@ def prime_form(D: int, p: int) -> Form | None:
     >>> prime_form(316, 3), prime_form(316, 5), prime_form(12, 2)
     (Form(3, 2, -26), Form(5, 4, -15), Form(2, 2, -1))
     """
+    if p < 2 or not gmpy2.is_prime(p):
+        raise InputError(f"prime_form needs a prime, got {p}")
+    found = prime_form_coefficients(D, p)
+    return None if found is None else Form._raw(*found)
+
+
+def prime_form_coefficients(D: int, p: int) -> tuple[int, int, int] | None:
+    """:func:`prime_form` as a plain triple, for a ``p`` known to be prime (no checks)."""
     if p == 2:
-        residue = D % 8
-        b = {1: 1, 0: 0, 4: 2}.get(residue)
+        b = _B_FOR_2.get(D % 8)
         if b is None:
             return None
     else:
@@ -416,4 +425,7 @@ def prime_form(D: int, p: int) -> Form | None:
     c = (b * b - D) // (4 * p)
     if gcd(gcd(p, b), c) != 1:
         return None
-    return Form._raw(p, b, c)
+    return p, b, c
+
+
+_B_FOR_2 = {1: 1, 0: 0, 4: 2}

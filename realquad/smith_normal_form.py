@@ -20,6 +20,7 @@ Springer 1993, §2.4.4 (Algorithm 2.4.14).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from math import gcd
 
 
 @dataclass(frozen=True)
@@ -46,6 +47,13 @@ def smith_normal_form(relations: list[list[int]], n: int) -> SmithForm:
 
     The relations must have full rank ``n`` (a finite group).
     """
+    if n == 1:  # cyclic: the gcd of the relations is the order
+        d = 0
+        for row in relations:
+            d = gcd(d, row[0] if row else 0)
+        if d == 0:
+            raise ValueError("relations do not have full rank")
+        return SmithForm([d] if d > 1 else [], [[1]] if d > 1 else [], [[1]], [0] if d > 1 else [])
     A = [list(row) + [0] * (n - len(row)) for row in relations]
     W = [[int(i == j) for j in range(n)] for i in range(n)]  # rows: new generators
     V = [[int(i == j) for j in range(n)] for i in range(n)]  # W⁻¹ = V
