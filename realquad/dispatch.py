@@ -43,11 +43,11 @@ from typing import Literal
 from realquad import units
 from realquad._backend import BACKEND, kernels
 from realquad.arith import Order
-from realquad.errors import InputError
+from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.lfunction import estimate_hR
+from realquad.infrastructure.regulator_bsgs import DEFAULT_MAX_TABLE, Progress, regulator_bsgs
 from realquad.infrastructure.regulator_bsgs import METHOD as BSGS_METHOD
-from realquad.infrastructure.regulator_bsgs import Progress, regulator_bsgs
 from realquad.results import Regulator, Unit
 
 Method = Literal["auto", "cfrac", "bsgs"]
@@ -99,8 +99,36 @@ def _as_order(order: Order | int) -> Order:
     return order if isinstance(order, Order) else Order(order)
 
 
+#: Largest number of giant steps the infrastructure search is started for (hours of work).
+MAX_GIANT_STEPS = 10**9
+
+#: Largest unit (decimal digits) :meth:`Unit.expand` writes out from a compact representation.
+MAX_EXPANDED_DIGITS = 50_000_000
+
+
+def check_reach(D: int) -> None:
+    """Refuse, before starting, a search that would need more than :data:`MAX_GIANT_STEPS` giant steps.
+
+    >>> check_reach(10**20 + 129)   # about 10⁴ giant steps: fine
+    >>> try:
+    ...     check_reach(10**60 + 1)
+    ... except TooLargeError as exc:
+    ...     print(str(exc)[:60])
+    the regulator of D = 100000000000000000000000000000000000000
+    """
+    E = estimate_hR(D, 2_000).value
+    steps = E / (2 * 1.19 * DEFAULT_MAX_TABLE)
+    if steps > MAX_GIANT_STEPS:
+        raise TooLargeError(
+            f"the regulator of D = {D} needs about {steps:.1e} giant steps of baby-step "
+            f"giant-step (R may be near {E:.1e}); this is beyond reach of the methods "
+            "implemented here (subexponential methods are planned)"
+        )
+
+
 def _bsgs_unit(order: Order, progress: Progress | None) -> Unit:
     D = order.discriminant
+    check_reach(D)
     found = regulator_bsgs(D, 30, progress=progress)
     eps = CompactRepresentation.from_factors(D, found.factors)
     first = found.regulator
@@ -117,7 +145,7 @@ def _bsgs_unit(order: Order, progress: Progress | None) -> Unit:
         period_length=None,
         method=BSGS_METHOD,
         proof="unconditional",
-        _expander=eps.expand,
+        _expander=lambda: eps.expand(MAX_EXPANDED_DIGITS),
         _regulator=regulator_to,
         _compact=lambda: eps,
     )
@@ -169,4 +197,5 @@ def regulator(
             return units.regulator(order, digits)
         return units.regulator(order, digits, max_period)
     D = order.discriminant
+    check_reach(D)
     return regulator_bsgs(D, digits, progress=progress).regulator
