@@ -209,3 +209,56 @@ def test_estimate_of_hR_is_close_for_a_class_number_one_field() -> None:
     e = estimate_hR(D)
     assert abs(e.value / float(regulator_cfrac(D, 20)) - 1) < 0.05
     assert primes_below(30) == (2, 3, 5, 7, 11, 13, 17, 19, 23, 29)  # OEIS A000040
+
+
+# -- the plain-integer kernels and their twins --
+
+WORD_EDGES = [2**31 - 1, 2**62, 2**63, 2**64, 2**126]
+
+
+@given(st.one_of(st.integers(5, 10**30), st.sampled_from(WORD_EDGES)), st.integers(1, 300))
+def test_baby_step_kernel_follows_rho(n: int, count: int) -> None:
+    from realquad._kernels import _pure
+
+    D = discriminant_near(n)
+    cyc = Cycle(D)
+    a, b = cyc.principal
+    keys, dists, a_end, b_end, dist, back = _pure.infrastructure_baby_steps(
+        D, cyc.root, cyc.sqrt_float, a, b, 0.0, count
+    )
+    ideal, total = cyc.principal, 0.0
+    for key, d in zip(keys, dists, strict=True):
+        nxt = cyc.rho(*ideal)
+        total += cyc.rho_log_float(*ideal, *nxt)
+        ideal = nxt
+        assert key == cyc.key(*ideal) and abs(d - total) <= 1e-12 * (1 + total)
+    assert (a_end, b_end) == (cyc.principal if back else ideal)
+
+
+@given(st.one_of(st.integers(5, 10**30), st.sampled_from(WORD_EDGES)), st.integers(0, 2**32))
+def test_compiled_twins_agree_with_pure(n: int, seed: int) -> None:
+    from realquad._backend import kernels
+    from realquad._kernels import _pure
+
+    D = discriminant_near(n)
+    cyc = Cycle(D)
+    I1, I2 = cyc.principal, cyc.principal
+    for _ in range(seed % 40):
+        I1 = cyc.rho(*I1)
+    for _ in range((seed >> 8) % 40):
+        I2 = cyc.rho(*I2)
+    args = (D, cyc.root, cyc.sqrt_float)
+    pure = _pure.infrastructure_giant_step(*args, *I1, *I2)
+    assert giant_step_float(*args, *I1, *I2) == pure
+    for name, call in (
+        ("infrastructure_giant_step", lambda f: f(*args, *I1, *I2)),
+        ("infrastructure_baby_steps", lambda f: f(*args, *I1, 0.0, 50)),
+    ):
+        compiled = getattr(kernels, name, None)
+        if compiled is None or compiled is getattr(_pure, name):
+            continue
+        try:
+            got = call(compiled)
+        except OverflowError:
+            continue
+        assert got == call(getattr(_pure, name))

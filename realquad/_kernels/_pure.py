@@ -305,3 +305,257 @@ def form_compose(a1: int, b1: int, a2: int, b2: int, D: int) -> tuple[int, int, 
     if B > m // 2:
         B -= m
     return A, B, (B * B - D) // (4 * A)
+
+
+def sqrt_mod_prime(n: int, p: int) -> int:
+    """A square root of ``n`` modulo the prime ``p`` (Tonelli–Shanks), or ``−1`` if none."""
+    n %= p
+    if p == 2 or n == 0:
+        return n
+    if pow(n, (p - 1) // 2, p) != 1:
+        return -1
+    if p % 4 == 3:
+        return pow(n, (p + 1) // 4, p)
+    q, e = p - 1, 0
+    while q % 2 == 0:
+        q //= 2
+        e += 1
+    z = 2
+    while pow(z, (p - 1) // 2, p) != p - 1:
+        z += 1
+    m, cc, t, root = e, pow(z, q, p), pow(n, q, p), pow(n, (q + 1) // 2, p)
+    while t != 1:
+        i, t2 = 0, t
+        while t2 != 1:
+            t2 = t2 * t2 % p
+            i += 1
+        bb = pow(cc, 1 << (m - i - 1), p)
+        m, cc = i, bb * bb % p
+        t, root = t * cc % p, root * bb % p
+    return root
+
+
+def prime_form_b(D: int, p: int) -> int:
+    """The ``b`` (``0 ≤ b ≤ p``) of a primitive form ``(p, b, c)`` of discriminant ``D``, or ``−1``.
+
+    ``p`` must be prime; there is none when ``(D/p) = −1`` or ``p`` divides the conductor.
+    """
+    if p == 2:
+        residue = D % 8
+        if residue == 1:
+            b = 1
+        elif residue == 0:
+            b = 0
+        elif residue == 4:
+            b = 2
+        else:
+            return -1
+    else:
+        t = sqrt_mod_prime(D, p)
+        if t < 0:
+            return -1
+        b = t if (t - D) % 2 == 0 else p - t
+    c = (b * b - D) // (4 * p)
+    if b % p == 0 and c % p == 0:
+        return -1
+    return b
+
+
+def form_class_candidates(D: int, conductor: int, primes: list[int]) -> list[tuple[int, int, int]]:
+    """Generators of the narrow class group of ``D``: ``J``, then forms of prime-power norm ``q``, ``4q² < D``.
+
+    ``J = (−1, b₀, c₀)``; for each prime ``p`` of ``primes`` with ``4p² < D`` not
+    dividing ``conductor`` its prime form, and for ``p | conductor`` every
+    primitive ``(p^k, b, c)`` with ``4p^{2k} < D``.
+    """
+    r = int(isqrt(D))
+    b0 = r if (r - D) % 2 == 0 else r - 1
+    out = [(-1, b0, (D - b0 * b0) // 4)]
+    for p in primes:
+        if 4 * p * p >= D:
+            break
+        if conductor % p:
+            b = prime_form_b(D, p)
+            if b >= 0:
+                out.append((p, b, (b * b - D) // (4 * p)))
+            continue
+        q = p
+        while 4 * q * q < D:
+            for b in range(-q + 1, q + 1):
+                if (b - D) % 2 == 0 and (b * b - D) % (4 * q) == 0:
+                    c = (b * b - D) // (4 * q)
+                    if math.gcd(math.gcd(q, b), c) == 1:
+                        out.append((q, b, c))
+            q *= p
+    return out
+
+
+def form_class_table(
+    D: int, candidates: list[tuple[int, int, int]], max_forms: int, progress: object = None
+) -> tuple[dict, list, list, list, list] | None:
+    """All narrow classes of ``D``, reached from the principal cycle by the ``candidates``.
+
+    Returns ``(index, representatives, vectors, generators, relations)``:
+    ``index`` maps every reduced form ``(a, b)`` to its class, ``vectors[i]``
+    writes class ``i`` on ``generators``, ``relations`` are triangular with
+    ``∏ diagonal = len(representatives) = h⁺``. ``None`` when more than
+    ``max_forms`` reduced forms would be stored. ``progress`` (a callable or
+    ``None``) receives the class count every 1000 classes.
+    """
+    r = int(isqrt(D))
+    b0 = r if (r - D) % 2 == 0 else r - 1
+    start = (1, b0, (b0 * b0 - D) // 4)
+    walk = form_cycle(start[0], start[1], start[2], D, r, max_forms)
+    if walk is None:
+        return None
+    index = dict.fromkeys(walk, 0)
+    stored = len(walk)
+    representatives = [start]
+    vectors: list[tuple[int, ...]] = [()]
+    generators: list[tuple[int, int, int]] = []
+    relations: list[list[int]] = []
+    for g in candidates:
+        gred = form_reduce(g[0], g[1], g[2], D, r)
+        if (gred[0], gred[1]) in index:
+            continue
+        gi = len(generators)
+        generators.append(gred)
+        n = len(representatives)
+        x = gred
+        j = 1
+        while True:
+            hit = index.get((x[0], x[1]))
+            if hit is not None:
+                old = vectors[hit]
+                relations.append([-v for v in old] + [0] * (gi - len(old)) + [j])
+                break
+            for h in range(n):
+                if h == 0:
+                    y = x
+                else:
+                    rep = representatives[h]
+                    y = form_compose(x[0], x[1], rep[0], rep[1], D)
+                    y = form_reduce(y[0], y[1], y[2], D, r)
+                walk = form_cycle(y[0], y[1], y[2], D, r, max_forms - stored)
+                if walk is None:
+                    return None
+                stored += len(walk)
+                cls = len(representatives)
+                for key in walk:
+                    index[key] = cls
+                representatives.append(y)
+                old = vectors[h]
+                vectors.append(old + (0,) * (gi - len(old)) + (j,))
+                if progress is not None and cls % 1000 == 0:
+                    progress(cls)  # type: ignore[operator]
+            x = form_compose(x[0], x[1], gred[0], gred[1], D)
+            x = form_reduce(x[0], x[1], x[2], D, r)
+            j += 1
+    return index, representatives, vectors, generators, relations
+
+
+def form_class_numbers(
+    D: int, conductor: int, primes: list[int], max_forms: int
+) -> tuple[int, int] | None:
+    """``(h⁺, 1 if J = (−1, b₀, c₀) is principal else 0)`` of ``D``, or ``None`` beyond ``max_forms``.
+
+    The lean path of :func:`form_class_table` (a compiled twin may skip the vectors).
+    ``h = h⁺`` when ``J`` is principal (unit of norm −1), else ``h⁺/2``.
+    """
+    table = form_class_table(D, form_class_candidates(D, conductor, primes), max_forms)
+    if table is None:
+        return None
+    index, representatives = table[0], table[1]
+    r = int(isqrt(D))
+    b0 = r if (r - D) % 2 == 0 else r - 1
+    return len(representatives), int(index.get((-1, b0)) == 0)
+
+
+# ---------------------------------------------------------------------------
+# Infrastructure (realquad.infrastructure): baby steps and fused giant steps
+# on reduced principal ideals [a, (b + √D)/2], b normalised in (√D − 2a, √D),
+# with binary64 distances. r = ⌊√D⌋, sq ≈ √D. Keys identify ideals as
+# a·(2r + 2) + b.
+# ---------------------------------------------------------------------------
+
+
+def infrastructure_baby_steps(
+    D: int, r: int, sq: float, a: int, b: int, dist: float, count: int
+) -> tuple[list[int], list[float], int, int, float, int]:
+    """Up to ``count`` baby steps (rho) from ``(a, b)`` at distance ``dist``.
+
+    Returns ``(keys, distances, a, b, dist, back)``: the ideals passed (keys
+    and distances, in order), the last ideal and its distance, and ``back = 1``
+    when the walk reached the order itself (``a = 1``, not listed) and stopped
+    there. Each step adds ``log θ₁``, ``θ₁ = (b₁ + √D)/(2a₁)``, computed as
+    ``2a/(√D − b₁)`` when ``b₁ < 0`` (no cancellation).
+    """
+    log = math.log
+    width = 2 * r + 2
+    keys: list[int] = []
+    dists: list[float] = []
+    for _ in range(count):
+        two_a = 2 * a
+        bt = (b + r) % two_a - r
+        a = (D - bt * bt) // (2 * two_a)
+        b = -bt
+        if b >= 0:
+            dist += log((b + sq) / (2 * a))
+        else:
+            dist += log(two_a / (sq - b))
+        if a == 1:
+            return keys, dists, a, b, dist, 1
+        keys.append(a * width + b)
+        dists.append(dist)
+    return keys, dists, a, b, dist, 0
+
+
+def infrastructure_giant_step(
+    D: int, r: int, sq: float, a: int, b: int, a2: int, b2: int
+) -> tuple[int, int, float]:
+    """``reduce([a, b]·[a₂, b₂])``: ``(a', b', c)`` with the distance change ``c``.
+
+    Composition: for coprime norms ``b₃ ≡ b (2a)``, ``b₃ ≡ b₂ (2a₂)``;
+    otherwise Dirichlet's formula with ``d = gcd(a, a₂, (b + b₂)/2)``. The
+    lattice ``[1, (b₃ + √D)/(2a₃)]`` is ``(a a₂/(d a₃))`` times the product of
+    the two, then reduced by ``L' = (1/θ̃)·L`` steps (``b̃`` centred while
+    ``a > √D``, normalised after); the multipliers are collected in one
+    float product and ``c`` is its logarithm.
+    """
+    g = math.gcd(a, a2)
+    if g == 1:
+        a3 = a * a2
+        k = ((b - b2) >> 1) * pow(a2, -1, a) % a if a > 1 else 0
+        b3 = b2 + 2 * a2 * k
+        d = 1
+    else:
+        s = (b + b2) >> 1
+        g, x1, y1 = extended_gcd(a, a2)
+        d, x2, w = extended_gcd(g, s)
+        a3 = (a * a2) // (d * d)
+        b3 = ((x1 * x2 * a * b2 + y1 * x2 * a2 * b + w * ((b * b2 + D) >> 1)) // d) % (2 * a3)
+    prod = a * a2 / (d * a3)
+    a, b = a3, b3
+    while a > r:  # norms fall by a factor ≥ 4 per step
+        two_a = 2 * a
+        bt = b % two_a
+        if bt > a:
+            bt -= two_a
+        n = D - bt * bt
+        if bt >= 0:
+            prod *= two_a / (bt + sq)
+        else:
+            prod *= (sq - bt) * two_a / abs(n)
+        a, b = abs(n) // (2 * two_a), -bt
+    while True:
+        two_a = 2 * a
+        b = r - (r - b) % two_a
+        t = two_a - b
+        if t < 0 or t * t < D:
+            return a, b, math.log(prod)
+        n = D - b * b  # > 0: |b| < √D here
+        if b >= 0:
+            prod *= two_a / (b + sq)
+        else:
+            prod *= (sq - b) * two_a / n
+        a, b = n // (2 * two_a), -b

@@ -34,10 +34,14 @@ and H. C. Williams, *Solving the Pell Equation*, Springer 2009, ch. 10.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field
+from typing import Any
 
 import gmpy2
 
+from realquad._backend import kernels
+from realquad._kernels import _pure
 from realquad.arith import check_discriminant
 from realquad.quadratic_number import QuadraticNumber
 
@@ -175,53 +179,28 @@ class Cycle:
         raise ArithmeticError("internal error: reduction did not terminate")  # pragma: no cover
 
 
+def infrastructure_kernel(name: str) -> Callable[..., Any]:
+    """The compiled kernel ``name`` when the compiled module has it, else its pure twin.
+
+    A compiled kernel raises ``OverflowError`` beyond its word size; callers
+    then use :data:`realquad._kernels._pure`'s function of the same name.
+    """
+    return getattr(kernels, name, None) or getattr(_pure, name)  # type: ignore[no-any-return]
+
+
+_GIANT_STEP = infrastructure_kernel("infrastructure_giant_step")
+
+
 def giant_step_float(
     D: int, r: int, sq: float, a: int, b: int, a2: int, b2: int
 ) -> tuple[int, int, float]:
     """Fused ``reduce([a, b]·[a₂, b₂])``: ``(a', b', c)`` with the distance change ``c``.
 
     The same arithmetic as :meth:`Cycle.multiply` followed by
-    :meth:`Cycle.reduce_float`, in one loop of plain integers (the hot loop of
-    the giant steps; ``r = ⌊√D⌋``, ``sq ≈ √D``). For coprime norms the
-    composition is the Chinese remainder step ``b₃ ≡ b (2a)``, ``b₃ ≡ b₂ (2a₂)``;
-    the multipliers are collected in one float product and one logarithm.
+    :meth:`Cycle.reduce_float`, as one plain-integer kernel
+    (``infrastructure_giant_step``; ``r = ⌊√D⌋``, ``sq ≈ √D``).
     """
-    g = math.gcd(a, a2)
-    if g == 1:
-        # b3 ≡ b (mod 2a), b3 ≡ b2 (mod 2a2): b3 = b2 + 2 a2 k with a2 k ≡ (b − b2)/2 (mod a)
-        a3 = a * a2
-        k = ((b - b2) >> 1) * pow(a2, -1, a) % a if a > 1 else 0
-        b3 = b2 + 2 * a2 * k
-        d = 1
-    else:
-        s = (b + b2) >> 1
-        g, x1, y1 = gmpy2.gcdext(a, a2)
-        d, x2, w = gmpy2.gcdext(g, s)
-        a3 = int((a * a2) // (d * d))
-        b3 = int(((x1 * x2 * a * b2 + y1 * x2 * a2 * b + w * ((b * b2 + D) >> 1)) // d) % (2 * a3))
-        d = int(d)
-    prod = a * a2 / (d * a3)
-    a, b = a3, b3
-    while a > r:
-        two_a = 2 * a
-        bt = b % two_a
-        if bt > a:
-            bt -= two_a
-        n = D - bt * bt
-        if bt >= 0:
-            prod *= two_a / (bt + sq)
-        else:
-            prod *= (sq - bt) * two_a / abs(n)
-        a, b = abs(n) // (2 * two_a), -bt
-    while True:
-        two_a = 2 * a
-        b = r - (r - b) % two_a
-        t = two_a - b
-        if t < 0 or t * t < D:
-            return a, b, math.log(prod)
-        n = D - b * b
-        if b >= 0:
-            prod *= two_a / (b + sq)
-        else:
-            prod *= (sq - b) * two_a / n
-        a, b = n // (2 * two_a), -b
+    try:
+        return _GIANT_STEP(D, r, sq, a, b, a2, b2)  # type: ignore[no-any-return]
+    except OverflowError:
+        return _pure.infrastructure_giant_step(D, r, sq, a, b, a2, b2)

@@ -21,7 +21,8 @@ import math
 from dataclasses import dataclass
 from functools import lru_cache
 
-import gmpy2
+from realquad._backend import kernels
+from realquad._kernels import _pure
 
 
 @dataclass(frozen=True)
@@ -59,10 +60,13 @@ def estimate_hR(D: int, bound: int | None = None) -> HREstimate:
     """
     if bound is None:
         bound = min(100_000, max(2_000, 4 * math.isqrt(math.isqrt(D))))
-    log_product = 0.0
     primes = primes_below(bound)
-    for p in primes:
-        chi = gmpy2.kronecker(D, p)
+    try:
+        symbols = kernels.kronecker_symbols(D, list(primes))
+    except OverflowError:
+        symbols = _pure.kronecker_symbols(D, list(primes))
+    log_product = 0.0
+    for p, chi in zip(primes, symbols, strict=True):
         if chi:
             log_product -= math.log1p(-chi / p)
     value = math.exp(0.5 * math.log(D) - math.log(2) + log_product)

@@ -44,13 +44,14 @@ from dataclasses import dataclass, field
 
 import mpmath
 
+from realquad._kernels import _pure
 from realquad.infrastructure.distances import (
     Factors,
     exact_principal_at,
     log_of_product,
     principal_near,
 )
-from realquad.infrastructure.ideals import Cycle, giant_step_float
+from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
 from realquad.infrastructure.lfunction import estimate_hR
 from realquad.results import Regulator
 
@@ -68,6 +69,8 @@ _ULP = 2.0**-52
 _CHECKPOINT = 256
 
 Progress = Callable[[float], None]
+
+_BABY_STEPS = infrastructure_kernel("infrastructure_baby_steps")
 
 
 @dataclass
@@ -107,26 +110,18 @@ class _Table:
         """Baby steps until the last stored distance is at least ``limit``."""
         c = self.cycle
         D, r, sq = c.discriminant, c.root, c.sqrt_float
-        log = math.log
         a, b, dist = self.a, self.b, self.distance
-        width = 2 * r + 2
         index, checkpoints = self.index, self.checkpoints
         while dist < limit:
-            for _ in range(_CHECKPOINT):
-                two_a = 2 * a
-                bt = (b + r) % two_a - r
-                a1 = (D - bt * bt) // (2 * two_a)
-                b = -bt
-                if b >= 0:
-                    dist += log((b + sq) / (2 * a1))
-                else:  # b + √D = 4 a a₁/(√D − b), no cancellation
-                    dist += log(two_a / (sq - b))
-                a = a1
-                if a == 1:
-                    self.period = dist
-                    break
-                index[a * width + b] = dist
-            if self.period is not None:
+            try:
+                keys, dists, a, b, dist, back = _BABY_STEPS(D, r, sq, a, b, dist, _CHECKPOINT)
+            except OverflowError:
+                keys, dists, a, b, dist, back = _pure.infrastructure_baby_steps(
+                    D, r, sq, a, b, dist, _CHECKPOINT
+                )
+            index.update(zip(keys, dists, strict=True))
+            if back:
+                self.period = dist
                 break
             checkpoints.append((a, b, dist))
         self.a, self.b, self.distance = a, b, dist
