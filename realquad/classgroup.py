@@ -40,17 +40,16 @@ Springer 1989, ch. 3–4.
 
 from __future__ import annotations
 
-from collections.abc import Callable, Iterator
+from collections.abc import Callable
 from dataclasses import dataclass
 from dataclasses import field as dataclass_field
 from functools import cached_property
-from math import gcd
 from typing import Any
 
 from realquad._backend import kernels, pure
 from realquad.arith import Order, isqrt
 from realquad.errors import TooLargeError
-from realquad.forms import Form, prime_form_coefficients
+from realquad.forms import Form, call_kernel
 from realquad.results import Proof, Regulator, Unit
 from realquad.smith_normal_form import SmithForm, smith_normal_form
 
@@ -83,28 +82,9 @@ def primes_below(n: int) -> list[int]:
     return _PRIMES[: bisect_left(_PRIMES, n)]
 
 
-def _candidates(D: int, conductor: int) -> Iterator[Triple]:
+def _candidates(D: int, conductor: int) -> list[Triple]:
     """``J``, then generators of ``Cl⁺(D)``: forms of prime-power norm ``q`` with ``4q² < D``."""
-    r = isqrt(D)
-    b0 = r if (r - D) % 2 == 0 else r - 1
-    yield (-1, b0, (D - b0 * b0) // 4)
-    bound = isqrt(D // 4) + 1
-    for p in primes_below(bound):
-        if 4 * p * p >= D:
-            break
-        if conductor % p:
-            F = prime_form_coefficients(D, p)
-            if F is not None:
-                yield F
-            continue
-        q = p
-        while 4 * q * q < D:
-            for b in range(-q + 1, q + 1):
-                if (b - D) % 2 == 0 and (b * b - D) % (4 * q) == 0:
-                    c = (b * b - D) // (4 * q)
-                    if gcd(gcd(q, b), c) == 1:
-                        yield (q, b, c)
-            q *= p
+    return call_kernel("form_class_candidates", D, conductor, primes_below(isqrt(D // 4) + 2))
 
 
 # --------------------------------------------------------------------------- the class table
@@ -170,56 +150,11 @@ def _class_table(
     progress: Callable[[int], None] | None,
     ops: Any,
 ) -> ClassTable:
-    r = isqrt(D)
-    reduce, cycle, compose = ops.form_reduce, ops.form_cycle, ops.form_compose
-    one = Form.identity(D)
-    start = (one.a, one.b, one.c)
-    walk = cycle(one.a, one.b, one.c, D, r, max_forms)
-    if walk is None:
+    found = ops.form_class_table(D, _candidates(D, conductor), max_forms, progress)
+    if found is None:
         raise TooLargeError(_too_large(D, max_forms))
-    index = dict.fromkeys(walk, 0)
-    stored = principal_length = len(walk)
-    representatives = [start]
-    vectors: list[tuple[int, ...]] = [()]
-    generators: list[Triple] = []
-    relations: list[list[int]] = []
-    for g in _candidates(D, conductor):
-        gred = reduce(g[0], g[1], g[2], D, r)
-        if (gred[0], gred[1]) in index:
-            continue
-        gi = len(generators)
-        generators.append(gred)
-        n = len(representatives)
-        x = gred
-        j = 1
-        while True:
-            hit = index.get((x[0], x[1]))
-            if hit is not None:
-                old = vectors[hit]
-                relations.append([-v for v in old] + [0] * (gi - len(old)) + [j])
-                break
-            for h in range(n):
-                if h == 0:
-                    y = x
-                else:
-                    rep = representatives[h]
-                    y = compose(x[0], x[1], rep[0], rep[1], D)
-                    y = reduce(y[0], y[1], y[2], D, r)
-                walk = cycle(y[0], y[1], y[2], D, r, max_forms)
-                stored += len(walk) if walk is not None else max_forms
-                if walk is None or stored > max_forms:
-                    raise TooLargeError(_too_large(D, max_forms))
-                cls = len(representatives)
-                for key in walk:
-                    index[key] = cls
-                representatives.append(y)
-                old = vectors[h]
-                vectors.append(old + (0,) * (gi - len(old)) + (j,))
-                if progress is not None and cls % 1000 == 0:
-                    progress(cls)
-            x = compose(x[0], x[1], gred[0], gred[1], D)
-            x = reduce(x[0], x[1], x[2], D, r)
-            j += 1
+    index, representatives, vectors, generators, relations = found
+    principal_length = sum(1 for cls in index.values() if cls == 0)
     return ClassTable(D, index, representatives, vectors, generators, relations, principal_length)
 
 
@@ -242,9 +177,17 @@ def class_numbers(order: Order | int, max_forms: int | None = None) -> tuple[int
     """
     if not isinstance(order, Order):
         order = Order(order)
-    table = class_table(order.discriminant, order.conductor, max_forms)
-    h_plus = table.narrow_class_number
-    if table.j_is_principal:
+    D = order.discriminant
+    limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
+    primes = primes_below(isqrt(D // 4) + 2)
+    try:
+        found = kernels.form_class_numbers(D, order.conductor, primes, limit)
+    except OverflowError:
+        found = pure.form_class_numbers(D, order.conductor, primes, limit)
+    if found is None:
+        raise TooLargeError(_too_large(D, limit))
+    h_plus, j_principal = found
+    if j_principal:
         return h_plus, h_plus, -1
     return h_plus // 2, h_plus, 1
 

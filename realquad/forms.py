@@ -47,7 +47,7 @@ Matrix = tuple[int, int, int, int]
 IDENTITY_MATRIX: Matrix = (1, 0, 0, 1)
 
 
-def call_kernel(name: str, *args: int) -> Any:
+def call_kernel(name: str, *args: Any) -> Any:
     """Call a form kernel: the compiled one within its word size, else the pure twin."""
     try:
         return getattr(kernels, name)(*args)
@@ -370,30 +370,8 @@ def square_root_mod_prime(n: int, p: int) -> int | None:
     >>> square_root_mod_prime(10, 13) in (6, 7)
     True
     """
-    n %= p
-    if p == 2 or n == 0:
-        return n
-    if pow(n, (p - 1) // 2, p) != 1:
-        return None
-    if p % 4 == 3:
-        return pow(n, (p + 1) // 4, p)
-    q, e = p - 1, 0
-    while q % 2 == 0:
-        q //= 2
-        e += 1
-    z = 2
-    while pow(z, (p - 1) // 2, p) != p - 1:
-        z += 1
-    m, cc, t, root = e, pow(z, q, p), pow(n, q, p), pow(n, (q + 1) // 2, p)
-    while t != 1:
-        i, t2 = 0, t
-        while t2 != 1:
-            t2 = t2 * t2 % p
-            i += 1
-        bb = pow(cc, 1 << (m - i - 1), p)
-        m, cc = i, bb * bb % p
-        t, root = t * cc % p, root * bb % p
-    return root
+    t = call_kernel("sqrt_mod_prime", n, p)
+    return None if t < 0 else int(t)
 
 
 def prime_form(D: int, p: int) -> Form | None:
@@ -413,19 +391,5 @@ def prime_form(D: int, p: int) -> Form | None:
 
 def prime_form_coefficients(D: int, p: int) -> tuple[int, int, int] | None:
     """:func:`prime_form` as a plain triple, for a ``p`` known to be prime (no checks)."""
-    if p == 2:
-        b = _B_FOR_2.get(D % 8)
-        if b is None:
-            return None
-    else:
-        t = square_root_mod_prime(D, p)
-        if t is None:
-            return None
-        b = t if (t - D) % 2 == 0 else p - t
-    c = (b * b - D) // (4 * p)
-    if gcd(gcd(p, b), c) != 1:
-        return None
-    return p, b, c
-
-
-_B_FOR_2 = {1: 1, 0: 0, 4: 2}
+    b = call_kernel("prime_form_b", D, p)
+    return None if b < 0 else (p, b, (b * b - D) // (4 * p))

@@ -98,15 +98,15 @@ def test_literature_cases(d, h, h_plus, norm, source):
 
 
 def test_brute_force_small():
-    # every discriminant up to 600 in the default run (the slow test goes to 3000)
+    # every discriminant up to 600 in the default run (the slow test goes to 6000)
     for D in range(5, 601):
         if D % 4 in (0, 1) and not is_square(D):
             assert class_numbers(D)[:2] == brute_force_classes(D), D
 
 
 @pytest.mark.slow
-def test_brute_force_all_discriminants_to_3000():
-    for D in range(601, 3001):
+def test_brute_force_all_discriminants_to_6000():
+    for D in range(601, 6001):
         if D % 4 in (0, 1) and not is_square(D):
             assert class_numbers(D)[:2] == brute_force_classes(D), D
 
@@ -221,3 +221,15 @@ def test_bad_input():
 def test_primes_below():
     assert primes_below(30) == [2, 3, 5, 7, 11, 13, 17, 19, 23, 29]
     assert len(primes_below(10**4)) == 1229  # π(10⁴), OEIS A006880
+
+
+@given(st.integers(5, 300_000).filter(lambda D: D % 4 in (0, 1) and not is_square(D)))
+@example(4 * 79 * 9)
+def test_lean_path_agrees_with_table(D):
+    from realquad.classgroup import class_table
+
+    order = Order(D)
+    table = class_table(D, order.conductor)
+    h, h_plus, norm = class_numbers(order)
+    assert h_plus == table.narrow_class_number
+    assert (norm == -1) == table.j_is_principal
