@@ -335,12 +335,17 @@ def test_form_cycles_and_composition(f, g, steps):
         assert len(cycle) % 2 == 0 and all(pure.form_is_reduced(x, y, r) for x, y in cycle)
     # a second form of the same discriminant: (a', b, c') with a' c' = a c (so same D)
     a2, b2, c2 = pure.form_reduce(1, b, a * c, D, r)  # the principal form, reduced
-    for x, y in [(a, b), (a2, b2)]:
+    t = pure.form_rho_b(b, c, r)
+    a3, b3 = c, t  # the rho neighbour: another reduced form of discriminant D
+    for x, y in [(a, b), (a2, b2), (a3, b3)]:
         composite = pure.form_compose(a, b, x, y, D)
         A, B, C = composite
         assert B * B - 4 * A * C == D
+        reduced = pure.form_compose_reduce(a, b, x, y, D, r)
+        assert reduced == pure.form_reduce(A, B, C, D, r)
         if compiled is not None:
             assert compiled.form_compose(a, b, x, y, D) == composite
+            assert compiled.form_compose_reduce(a, b, x, y, D, r) == reduced
 
 
 @pytest.mark.parametrize("x", EDGES)

@@ -145,6 +145,27 @@ floormod(i128 a, i128 b)
     return m;
 }
 
+/* The same on int64 (b != 0, not INT64_MIN / -1): the fast path, 128-bit division is slow. */
+static inline int64_t
+floordiv64(int64_t a, int64_t b)
+{
+    int64_t q = a / b;
+    if ((a % b != 0) && ((a < 0) != (b < 0)))
+        q -= 1;
+    return q;
+}
+
+static inline int64_t
+floormod64(int64_t a, int64_t b)
+{
+    int64_t m = a % b;
+    if (m != 0 && ((m < 0) != (b < 0)))
+        m += b;
+    return m;
+}
+
+#define SMALL62(x) ((x) > -((i128)1 << 62) && (x) < ((i128)1 << 62))
+
 static uint64_t
 isqrt_u64(uint64_t n)
 {
@@ -600,6 +621,16 @@ rho_b(i128 b, i128 c, i128 r, i128 *t)
         PyErr_SetString(PyExc_ZeroDivisionError, "integer modulo by zero");
         return -1;
     }
+    if (SMALL62(b) && SMALL62(c) && SMALL62(r)) {
+        int64_t m64 = (int64_t)m, b64 = (int64_t)b, r64 = (int64_t)r, x;
+        if (m64 <= r64) {
+            *t = r64 - floormod64(r64 + b64, 2 * m64);
+        } else {
+            x = floormod64(-b64, 2 * m64);
+            *t = x > m64 ? x - 2 * m64 : x;
+        }
+        return 0;
+    }
     if (m <= r) {
         *t = r - floormod(r + b, 2 * m);
     } else {
@@ -623,7 +654,10 @@ rho_step(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
     i128 t, nc;
     if (rho_b(*b, *c, r, &t) < 0)
         return -1;
-    nc = floordiv(t * t - (i128)D, 4 * (i128)*c);
+    if (t > -(1LL << 31) && t < (1LL << 31) && *c > -(1LL << 60) && *c < (1LL << 60))
+        nc = floordiv64((int64_t)t * (int64_t)t - D, 4 * *c); /* t² < 2⁶², D ≥ 0 or small */
+    else
+        nc = floordiv(t * t - (i128)D, 4 * (i128)*c);
     if (!fits_i64(t) || !fits_i64(nc)) {
         overflow();
         return -1;
@@ -743,6 +777,22 @@ static void
 xgcd128(i128 x, i128 y, i128 *g, i128 *u, i128 *v)
 {
     i128 u0 = 1, v0 = 0, u1 = 0, v1 = 1, q, rem, t;
+    if (SMALL62(x) && SMALL62(y)) { /* Bezout factors stay below max(|x|, |y|) */
+        int64_t X = (int64_t)x, Y = (int64_t)y, U0 = 1, V0 = 0, U1 = 0, V1 = 1, Q, R, T;
+        while (Y != 0) {
+            Q = floordiv64(X, Y);
+            R = X - Q * Y;
+            X = Y, Y = R;
+            T = U0 - Q * U1, U0 = U1, U1 = T;
+            T = V0 - Q * V1, V0 = V1, V1 = T;
+        }
+        if (X < 0) {
+            *g = -(i128)X, *u = -(i128)U0, *v = -(i128)V0;
+        } else {
+            *g = X, *u = U0, *v = V0;
+        }
+        return;
+    }
     while (y != 0) {
         q = floordiv(x, y);
         rem = x - q * y;
@@ -775,16 +825,24 @@ k_extended_gcd(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     return Py_BuildValue("(NNN)", G, U, V);
 }
 
-static PyObject *
-k_form_compose(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+static inline i128
+div_any(i128 a, i128 b)
 {
-    int64_t a1, b1, a2, b2, D;
+    return (SMALL62(a) && SMALL62(b)) ? (i128)floordiv64((int64_t)a, (int64_t)b) : floordiv(a, b);
+}
+
+static inline i128
+mod_any(i128 a, i128 b)
+{
+    return (SMALL62(a) && SMALL62(b)) ? (i128)floormod64((int64_t)a, (int64_t)b) : floormod(a, b);
+}
+
+/* form_compose of _pure.py on int64 inputs; -1 with an exception set on failure. */
+static int
+compose(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_t *Ao, int64_t *Bo, int64_t *Co)
+{
     i128 s, g, x, y, e, p, w, u, v, A, B, m, C, sum;
     int bad = 0;
-    if (check_nargs(nargs, 5, "form_compose") < 0 || get_i64(args[0], &a1, "a1") < 0 ||
-        get_i64(args[1], &b1, "b1") < 0 || get_i64(args[2], &a2, "a2") < 0 || get_i64(args[3], &b2, "b2") < 0 ||
-        get_i64(args[4], &D, "D") < 0)
-        return NULL;
     s = floordiv((i128)b1 + b2, 2);
     xgcd128(a1, a2, &g, &x, &y);
     xgcd128(g, s, &e, &p, &w);
@@ -792,28 +850,68 @@ k_form_compose(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     v = mul_c(p, y, &bad);
     if (e == 0) {
         PyErr_SetString(PyExc_ZeroDivisionError, "integer division or modulo by zero");
-        return NULL;
+        return -1;
     }
-    A = floordiv((i128)a1 * a2, mul_c(e, e, &bad));
+    A = div_any((i128)a1 * a2, mul_c(e, e, &bad));
     sum = mul_c(mul_c(u, a1, &bad), b2, &bad);
     sum = add_c(sum, mul_c(mul_c(v, a2, &bad), b1, &bad), &bad);
     sum = add_c(sum, floordiv(mul_c(w, (i128)b1 * b2 + D, &bad), 2), &bad);
-    if (bad)
-        return overflow();
-    B = floordiv(sum, e);
+    if (bad) {
+        overflow();
+        return -1;
+    }
+    B = div_any(sum, e);
     m = 2 * abs128(A);
     if (m == 0) {
         PyErr_SetString(PyExc_ZeroDivisionError, "integer division or modulo by zero");
-        return NULL;
+        return -1;
     }
-    B = floormod(B, m);
+    B = mod_any(B, m);
     if (B > m / 2)
         B -= m;
-    if (!fits_i64(A) || !fits_i64(B))
-        return overflow();
-    C = floordiv(B * B - D, 4 * A);
-    if (!fits_i64(C))
-        return overflow();
+    if (!fits_i64(A) || !fits_i64(B)) {
+        overflow();
+        return -1;
+    }
+    C = div_any(B * B - D, 4 * A);
+    if (!fits_i64(C)) {
+        overflow();
+        return -1;
+    }
+    *Ao = (int64_t)A, *Bo = (int64_t)B, *Co = (int64_t)C;
+    return 0;
+}
+
+static PyObject *
+k_form_compose(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a1, b1, a2, b2, D, A, B, C;
+    if (check_nargs(nargs, 5, "form_compose") < 0 || get_i64(args[0], &a1, "a1") < 0 ||
+        get_i64(args[1], &b1, "b1") < 0 || get_i64(args[2], &a2, "a2") < 0 || get_i64(args[3], &b2, "b2") < 0 ||
+        get_i64(args[4], &D, "D") < 0)
+        return NULL;
+    if (compose(a1, b1, a2, b2, D, &A, &B, &C) < 0)
+        return NULL;
+    return Py_BuildValue("(LLL)", (long long)A, (long long)B, (long long)C);
+}
+
+static PyObject *
+k_form_compose_reduce(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t a1, b1, a2, b2, D, r, A, B, C;
+    unsigned long count = 0;
+    if (check_nargs(nargs, 6, "form_compose_reduce") < 0 || get_i64(args[0], &a1, "a1") < 0 ||
+        get_i64(args[1], &b1, "b1") < 0 || get_i64(args[2], &a2, "a2") < 0 || get_i64(args[3], &b2, "b2") < 0 ||
+        get_i64(args[4], &D, "D") < 0 || get_i64(args[5], &r, "r") < 0)
+        return NULL;
+    if (compose(a1, b1, a2, b2, D, &A, &B, &C) < 0)
+        return NULL;
+    while (!is_reduced(A, B, r)) {
+        if (rho_step(&A, &B, &C, D, r) < 0)
+            return NULL;
+        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return NULL;
+    }
     return Py_BuildValue("(LLL)", (long long)A, (long long)B, (long long)C);
 }
 
@@ -844,6 +942,8 @@ static PyMethodDef methods[] = {
      "(g, u, v) with u x + v y = g = gcd(x, y) >= 0."},
     {"form_compose", (PyCFunction)(void (*)(void))k_form_compose, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D (not reduced)."},
+    {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
+     "Dirichlet composition of two forms of discriminant D, reduced."},
     {NULL, NULL, 0, NULL},
 };
 

@@ -559,3 +559,18 @@ def infrastructure_giant_step(
         else:
             prod *= (sq - b) * two_a / n
         a, b = n // (2 * two_a), -b
+
+
+# ---------------------------------------------------------------------------
+# Fused kernels: one call from Python where a hot loop would make two.
+# ---------------------------------------------------------------------------
+
+
+def form_compose_reduce(a1: int, b1: int, a2: int, b2: int, D: int, r: int) -> tuple[int, int, int]:
+    """:func:`form_compose` followed by :func:`form_reduce` (``r = ⌊√D⌋``).
+
+    >>> form_compose_reduce(2, 1, 2, 1, 17, 4)  # (2, 1, −2)² in discriminant 17
+    (-1, 3, 2)
+    """
+    A, B, C = form_compose(a1, b1, a2, b2, D)
+    return form_reduce(A, B, C, D, r)
