@@ -59,8 +59,9 @@ def _compositions(forms: list[Form], nucomp: bool) -> Callable[[], Any]:
 
 def workloads() -> list[dict[str, Any]]:
     fundamentals = fundamental_discriminants(10**5)
-    D = 10**40 + 1  # composition at a size where the compiled kernels no longer apply
-    big = [F for p in primes_below(5000) if (F := prime_form(D, p)) is not None][:300]
+    D = 10**400 + 1  # composition of reduced forms with 200-digit coefficients
+    small = [F for p in primes_below(500) if (F := prime_form(D, p)) is not None][:20]
+    big = [F.power(1000 + k) for k, F in enumerate(small)]
     out: list[dict[str, Any]] = [
         {
             "name": f"classgroup: class_group, D = {D1}",
@@ -80,7 +81,7 @@ def workloads() -> list[dict[str, Any]]:
             "repeat": 1,
         },
         {
-            "name": "forms: 300 NUCOMP compositions, D ≈ 10⁴⁰",
+            "name": "forms: 20 NUCOMP compositions of reduced forms, D ≈ 10⁴⁰⁰",
             "run": _compositions(big, nucomp=True),
             "reference": _compositions(big, nucomp=False),
             "reference_name": "Dirichlet composition then rho reduction",
