@@ -16,33 +16,43 @@ from realquad.cfrac import (
     convergents,
     from_periodic,
 )
+from realquad.classgroup import ClassGroup, class_group, class_numbers
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
+from realquad.forms import Form
 from realquad.pell import PellSolution, pell
 from realquad.quadratic_number import QuadraticNumber
 from realquad.results import Regulator, Unit
+from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
 from realquad.dispatch import fundamental_unit, regulator
 
 __version__ = "0.1.0"
 
 __all__ = [
     "BACKEND",
+    "ClassGroup",
     "ContinuedFraction",
     "DomainError",
+    "Form",
     "InputError",
     "Order",
     "PellSolution",
+    "PrimeDecomposition",
     "QuadraticIrrational",
     "QuadraticNumber",
     "RealquadError",
     "Regulator",
     "TooLargeError",
     "Unit",
+    "class_group",
+    "class_numbers",
     "continued_fraction",
     "convergents",
+    "decompose_prime",
     "field",
     "from_periodic",
     "fundamental_unit",
     "kronecker",
     "pell",
     "regulator",
+    "split_primes",
 ]
