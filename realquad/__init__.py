@@ -16,9 +16,11 @@ from realquad.cfrac import (
     convergents,
     from_periodic,
 )
+from realquad.conics import solve_quadratic
 from realquad.classgroup import ClassGroup, class_group, class_numbers
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
 from realquad.forms import Form
+from realquad.norm_equations import NormEquationSolution, solve_norm_equation
 from realquad.pell import PellSolution, pell
 from realquad.quadratic_number import QuadraticNumber
 from realquad.results import Regulator, Unit
@@ -34,6 +36,7 @@ __all__ = [
     "DomainError",
     "Form",
     "InputError",
+    "NormEquationSolution",
     "Order",
     "PellSolution",
     "PrimeDecomposition",
@@ -52,6 +55,8 @@ __all__ = [
     "from_periodic",
     "fundamental_unit",
     "kronecker",
+    "solve_norm_equation",
+    "solve_quadratic",
     "pell",
     "regulator",
     "split_primes",

@@ -278,11 +278,38 @@ def balanced_representative(
 # primitive solutions of x² − d y² = m, d > 0 not a square
 
 
+_LEAF = 48
+
+
+@lru_cache(maxsize=2)
+def _cycle_leaves(d: int) -> list[tuple[int, int, int, int]]:
+    """Products of the principal cycle's quotient matrices in blocks of :data:`_LEAF`."""
+    return list(kernels.convergent_leaves(_principal_cycle(d).quotients, _LEAF))
+
+
+def _segment(d: int, start: int, stop: int) -> tuple:
+    """``∏ [[a_k, 1], [1, 0]]`` over the cycle quotients ``a_start … a_{stop−1}``."""
+    q = _principal_cycle(d).quotients
+    leaves = _cycle_leaves(d)
+    lo, hi = -(-start // _LEAF), stop // _LEAF
+    if lo >= hi:
+        return matrix_product(kernels.convergent_leaves(q[start:stop], _LEAF))
+    parts = list(kernels.convergent_leaves(q[start : lo * _LEAF], _LEAF)) + leaves[lo:hi]
+    parts += list(kernels.convergent_leaves(q[hi * _LEAF : stop], _LEAF))
+    return matrix_product(parts)
+
+
 def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
-    """One solution (not yet canonical) in each class of primitive solutions."""
+    """One solution (not yet canonical) in each class of primitive solutions.
+
+    The reduced state ``S_j`` reached from ``(z + √d)/|m|`` is joined to the
+    nearer ``Q = 1`` state of the cycle (``S_0`` backwards or ``S_L``
+    forwards); the sign of the norm, ``(−1)^(steps)``, is known before any
+    big product is formed.
+    """
     cyc = _principal_cycle(d)
     units = _units(d)
-    r = cyc.r
+    r, L = cyc.r, cyc.period
     am = abs(m)
     found: list[Point] = []
     for z in square_roots_mod(d, am, factors):
@@ -296,16 +323,24 @@ def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
         j = cyc.index.get(cyc.key(P, Q))
         if j is None:
             continue  # J_z is not principal
-        if j:
-            quot += cyc.quotients[j:]
-        i = len(quot)
-        A1, _, B1, _ = _convergent(quot)
-        x, y = am * A1 - z * B1, B1
-        norm = am if i % 2 == 0 else -am
+        t = len(quot)
+        backward = j <= L - j
+        steps = t - j if backward else t + L - j
+        norm = am if steps % 2 == 0 else -am
+        if norm != m and units.minus is None:
+            continue  # every generator of J_z has norm −m
+        A, A2, B, B2 = _convergent(quot) if quot else (1, 0, 0, 1)
+        if backward:
+            p, pp, q, qq = _segment(d, 0, j)
+            det = 1 if j % 2 == 0 else -1
+            A1, B1 = det * (A * qq - A2 * q), det * (B * qq - B2 * q)
+        else:
+            p, pp, q, qq = _segment(d, j, L)
+            A1, B1 = A * p + A2 * q, B * p + B2 * q
+        x, y = int(am * A1 - z * B1), int(B1)
         assert x * x - d * y * y == norm, "internal check failed: convergent norm"
         if norm != m:
-            if units.minus is None:
-                continue  # every generator of J_z has norm −m
+            assert units.minus is not None
             x, y = _mul((x, y), units.minus, d)
         found.append((x, y))
     return found

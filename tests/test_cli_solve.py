@@ -10,21 +10,7 @@ import sys
 import pytest
 from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
-from realquad_cli.main import main
-
-
-def run(capsys, *args: str) -> tuple[int, str, str]:
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def run_json(capsys, *args: str) -> dict:
-    code, out, err = run(capsys, *args, "--json")
-    assert code == 0, err
-    import gmpy2
-
-    return json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
+from test_cli_foundation import run, run_json  # shared in-process runners
 
 
 def test_norm_equation_json(capsys):

@@ -1,0 +1,95 @@
+"""Norm-equation workloads for the benchmark runner (``tests/benchmarks/run.py``).
+
+Targets (issue 4): for d ≈ 10¹² and n with 12 distinct odd prime factors
+(2¹² square roots of d mod n), all families of x² − dy² = n in ≤ 2 s; every
+solution with |x|, |y| ≤ 10¹⁰⁰ of x² − 61y² = n for ten n in ≤ 0.1 s per n.
+
+The cost of the first is dominated by the size of the answer: a fundamental
+solution can be as large as √ε·√|n| (Nagell's bound), so the d chosen matters.
+Two values are measured: 10¹² + 11 (period of √d: 57 562) and the prime
+10¹² + 39 (period 532 572).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from typing import Any
+
+from realquad.arith import kronecker
+from realquad.norm_equations import _principal_cycle, _units, solve_norm_equation
+
+LARGE_D = [10**12 + 11, 10**12 + 39]
+
+#: Ten right-hand sides for x² − 61y² = n: Pell (±1), small primes that split, products of
+#: them (with squares, so imprimitive classes too), and one with no solution.
+N61 = [1, -1, 3, -3, 15, -39, 3 * 5 * 13 * 19, -(3**2) * 5**2 * 13, 3 * 5 * 13 * 19 * 41 * 47, 7]
+
+
+def split_primes(d: int, count: int) -> list[int]:
+    """The ``count`` least odd primes ``p ∤ d`` with ``(d/p) = 1``."""
+    from sympy import nextprime
+
+    out, p = [], 2
+    while len(out) < count:
+        p = int(nextprime(p))
+        if d % p and kronecker(d, p) == 1:
+            out.append(p)
+    return out
+
+
+def twelve_prime_n(d: int) -> int:
+    n = 1
+    for p in split_primes(d, 12):
+        n *= p
+    return n
+
+
+def _families(d: int, n: int) -> Callable[[], Any]:
+    def run() -> int:
+        _principal_cycle.cache_clear()
+        _units.cache_clear()
+        return len(solve_norm_equation(d, n).families)
+
+    return run
+
+
+def _bounded(n: int) -> Callable[[], Any]:
+    def run() -> int:
+        return len(solve_norm_equation(61, n).bounded(10**100))
+
+    return run
+
+
+def _sympy_dn(d: int, n: int) -> Callable[[], Any]:
+    def run() -> int:
+        from sympy.solvers.diophantine.diophantine import diop_DN
+
+        return len(diop_DN(d, n))
+
+    return run
+
+
+def workloads() -> list[dict[str, Any]]:
+    out: list[dict[str, Any]] = []
+    for d in LARGE_D:
+        n = twelve_prime_n(d)
+        out.append(
+            {
+                "name": f"norm equations: all families of x² − {d}y² = n, n = {n} (12 split primes)",
+                "run": _families(d, n),
+                "reference": None,
+                "reference_name": None,
+                "repeat": 1,
+            }
+        )
+    for n in N61:
+        out.append(
+            {
+                "name": f"norm equations: x² − 61y² = {n}, every solution with |x|, |y| ≤ 10¹⁰⁰",
+                "run": _bounded(n),
+                "reference": _sympy_dn(61, n),
+                "reference_name": "sympy diop_DN (fundamental solutions only)",
+                "repeat": 5,
+            }
+        )
+    return out
