@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-from math import gcd, prod
+from math import prod
 
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
 from sympy import factorint
+from test_forms import brute_force_reduced
 
-from realquad.arith import Order, field, is_square, isqrt, kronecker
+from realquad.arith import Order, field, is_square, kronecker
 from realquad.classgroup import class_group, class_numbers, primes_below
 from realquad.errors import InputError, TooLargeError
 from realquad.forms import Form
@@ -23,18 +24,7 @@ def brute_force_classes(D: int) -> tuple[int, int]:
     Independent of the generation argument: no prime forms, no composition.
     Wide classes are the cycles up to F ↦ (−a, b, −c).
     """
-    r = isqrt(D)
-    forms = set()
-    for b in range(1, r + 1):
-        if (b - D) % 2:
-            continue
-        n = (b * b - D) // 4
-        for a in range(1, abs(n) + 1):
-            if n % a == 0 and r - b < 2 * a <= r + b:
-                for sa in (a, -a):
-                    c = n // sa
-                    if gcd(gcd(sa, b), c) == 1:
-                        forms.add((sa, b, c))
+    forms = {(F.a, F.b, F.c) for F in brute_force_reduced(D) if F.is_primitive()}
     cycle_of: dict[tuple[int, int, int], int] = {}
     count = 0
     for F in forms:

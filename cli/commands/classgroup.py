@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from typing import Any
+from collections.abc import Callable
+from typing import Any, TypeVar
 
 import click
 from realquad_cli.commands.unit import ACCEPT_NEGATIVE, order_from_options
@@ -12,6 +13,8 @@ from realquad.classgroup import ClassGroup, class_group
 from realquad.forms import Form
 from realquad.genus import Genera
 from realquad.ideals import Ideal
+
+Decorated = TypeVar("Decorated", bound=Callable[..., Any])
 
 #: Most reduced forms that ``--forms`` prints in the text form.
 SHOWN_FORMS = 2000
@@ -102,11 +105,16 @@ def _text(G: ClassGroup, payload: dict[str, Any], with_forms: bool) -> str:
     return "\n".join(lines)
 
 
+def order_arguments(f: Decorated) -> Decorated:
+    """The argument ``d`` (a field) and the option ``--disc D`` (an order), as in ``realquad unit``."""
+    f = click.option(
+        "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
+    )(f)
+    return click.argument("d", type=str, required=False)(f)
+
+
 @click.command("classgroup", context_settings=ACCEPT_NEGATIVE)
-@click.argument("d", type=str, required=False)
-@click.option(
-    "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
-)
+@order_arguments
 @click.option(
     "--forms",
     "with_forms",

@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 import click
+from realquad_cli.commands.classgroup import order_arguments
 from realquad_cli.commands.unit import ACCEPT_NEGATIVE, order_from_options
 from realquad_cli.output import emit, integer_text, json_option, put_integers
 
@@ -68,10 +69,7 @@ def _line(s: PrimeDecomposition, principal: Form, max_digits: int) -> str:
 
 
 @click.command("split", context_settings=ACCEPT_NEGATIVE)
-@click.argument("d", type=str, required=False)
-@click.option(
-    "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
-)
+@order_arguments
 @click.option(
     "--primes-up-to",
     "bound",
