@@ -128,22 +128,24 @@ class OrbitFamily:
     def _walk(self, start: Point, step: AffineMap, B: int, out: set[Point]) -> None:
         # |y − y_c| along an orbit is A λ^k + B' λ^−k in absolute value: unimodal in k.
         # Once it exceeds B + |y_c| while not decreasing, every later point is outside.
-        yc = self.center[1]
-        limit = B + abs(yc)
-        v, prev = start, None
+        yc = Fraction(self.center[1])
+        num, den = yc.numerator, yc.denominator  # work with den·(y − y_c), in integers
+        limit = den * B + abs(num)
+        (a, b, c, d), (t1, t2) = step.matrix, step.translation
+        x, y = start
+        prev = None
         count = 0
         while True:
-            g = abs(v[1] - yc)
-            if abs(v[0]) <= B and abs(v[1]) <= B:
-                out.add(v)
+            g = abs(den * y - num)
+            if -B <= x <= B and -B <= y <= B:
+                out.add((x, y))
                 count += 1
                 if count > MAX_LISTED:
                     raise TooLargeError(f"more than {MAX_LISTED:,} solutions in the box")
             if prev is not None and g > limit and g >= prev:
                 return
             prev = g
-            w = step(v)
-            v = (int(w[0]), int(w[1]))
+            x, y = a * x + b * y + t1, c * x + d * y + t2
 
     def bounded(self, B: int) -> list[Point]:
         """Every member with ``|x|, |y| ≤ B``, sorted (generated from the orbit, no box scan)."""

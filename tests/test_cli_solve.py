@@ -146,3 +146,10 @@ def test_subprocess_smoke():
     )
     assert proc.returncode == 0, proc.stderr
     assert json.loads(proc.stdout)["families"][0]["x"] == -3
+
+
+def test_power_bound(capsys):
+    # x² − 61y² = 1: the k-th solution has about 9.25·k digits (ε = 1766319049 + 226153980√61,
+    # OEIS A002350/A002349 at 61), so |x|, |y| ≤ 10¹⁰⁰ holds for |k| ≤ 10: 21 values of k, times ±
+    data = run_json(capsys, "solve", "x^2 - 61y^2 = 1", "--bound", "10^100")
+    assert len(data["solutions"]) == 42 and data["bound"] == 10**100

@@ -221,3 +221,31 @@ def test_bad_arguments() -> None:
         solve_norm_equation("x", 3)  # type: ignore[arg-type]
     with pytest.raises(InputError):
         solve_norm_equation(2, 7).bounded(-1)
+
+
+def test_shortcut_and_cycle_table_agree() -> None:
+    # for |m| < √d both routes apply: the convergents of √d and the LMM reduction must give the
+    # same classes (each checked against brute force elsewhere)
+    from realquad.factoring import factorize
+    from realquad.norm_equations import (
+        _primitive_lmm,
+        _primitive_short,
+        _units,
+        balanced_representative,
+    )
+
+    for d in range(5, 400):
+        if is_square(d):
+            continue
+        u = _units(d)
+        for m in range(-isqrt(d), isqrt(d) + 1):
+            if m == 0:
+                continue
+            canon = {
+                balanced_representative(v, u.plus, u.log_plus, m, d) for v in _primitive_short(d, m)
+            }
+            other = {
+                balanced_representative(v, u.plus, u.log_plus, m, d)
+                for v in _primitive_lmm(d, m, factorize(m) if abs(m) > 1 else {})
+            }
+            assert canon == other, (d, m)
