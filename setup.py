@@ -51,7 +51,12 @@ class OptionalBuildExt(build_ext):
         )
         if REQUIRED:
             sys.exit(f"{message}\n{HELP}")
-        print(f"{message}\nrealquad will use its pure-Python kernels. {HELP}", file=sys.stderr)
+        print(
+            f"{message}\nrealquad will use its pure-Python kernels. To build the compiled ones, "
+            "install a C compiler with __int128 support and the Python development headers, "
+            "then reinstall.",
+            file=sys.stderr,
+        )
 
 
 KERNELS = Extension(

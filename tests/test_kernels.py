@@ -367,3 +367,54 @@ def test_form_kernels_refuse_big_arguments():
         compiled.form_reduce(1 << 63, 1, 1, 5, 2)
     with pytest.raises(ZeroDivisionError):
         compiled.form_rho_b(1, 0, 2)
+
+
+# -- class numbers from cycles of reduced forms ---------------------------------
+
+
+def _class_kernel_args(D: int) -> tuple[int, int, list[int]]:
+    from realquad.arith import Order
+    from realquad.classgroup import primes_below
+
+    return D, Order(D).conductor, primes_below(math.isqrt(D // 4) + 2)
+
+
+def _fundamental(D: int) -> bool:
+    from realquad.factoring import squarefree_decomposition
+
+    if D % 4 == 1:
+        return squarefree_decomposition(D)[1] == 1
+    return D % 16 in (8, 12) and squarefree_decomposition(D // 4)[1] == 1
+
+
+def test_class_number_one_against_oeis(oeis):
+    """h = 1 exactly for the fundamental D ≤ 109 listed in OEIS A003656 (pure and compiled)."""
+    listed = set(oeis["A003656"]["terms"])
+    for D in range(5, 110):
+        if not _fundamental(D):
+            continue
+        for kernel in [pure, compiled] if compiled else [pure]:
+            h_plus, j_principal = kernel.form_class_numbers(*_class_kernel_args(D), 10**6)
+            h = h_plus if j_principal else h_plus // 2
+            assert (h == 1) == (D in listed), (D, h)
+
+
+@needs_compiled
+@given(st.integers(5, 10**8).map(_discriminant), st.sampled_from([10**7, 0, 1, 5, 40]))
+@example(10**10 + 1, 10**7)
+@example(4 * 9 * 223, 10**7)
+@example(5 * 16 * 25, 10**7)
+def test_class_kernels_agree(D, max_forms):
+    args = _class_kernel_args(D)
+    assert compiled.form_class_candidates(*args) == pure.form_class_candidates(*args)
+    assert compiled.form_class_numbers(*args, max_forms) == pure.form_class_numbers(
+        *args, max_forms
+    )
+    for p in args[2][:30]:
+        assert compiled.prime_form_b(D, p) == pure.prime_form_b(D, p)
+
+
+@needs_compiled
+def test_class_kernels_refuse_beyond_62_bits():
+    with pytest.raises(OverflowError):
+        compiled.form_class_numbers(1 << 62, 1, [2, 3], 10)

@@ -916,6 +916,411 @@ k_form_compose_reduce(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 }
 
 /* ------------------------------------------------------------------ */
+/* prime forms and class-group candidates (p < 2^31 here)              */
+/* ------------------------------------------------------------------ */
+
+static uint64_t
+powmod(uint64_t b, uint64_t e, uint64_t m)
+{
+    uint64_t r = 1 % m;
+    b %= m;
+    while (e) {
+        if (e & 1)
+            r = (uint64_t)((u128)r * b % m);
+        b = (uint64_t)((u128)b * b % m);
+        e >>= 1;
+    }
+    return r;
+}
+
+/* A square root of n modulo the odd prime p (Tonelli-Shanks), or -1. */
+static int64_t
+sqrt_mod_odd_prime(uint64_t n, uint64_t p)
+{
+    uint64_t q = p - 1, z = 2, m, c, t, root, t2, bb;
+    int e = 0, i;
+    n %= p;
+    if (n == 0)
+        return 0;
+    if (powmod(n, (p - 1) / 2, p) != 1)
+        return -1;
+    if (p % 4 == 3)
+        return (int64_t)powmod(n, (p + 1) / 4, p);
+    while (q % 2 == 0)
+        q /= 2, e++;
+    while (powmod(z, (p - 1) / 2, p) != p - 1)
+        z++;
+    m = (uint64_t)e, c = powmod(z, q, p), t = powmod(n, q, p), root = powmod(n, (q + 1) / 2, p);
+    while (t != 1) {
+        for (i = 0, t2 = t; t2 != 1; i++)
+            t2 = (uint64_t)((u128)t2 * t2 % p);
+        bb = powmod(c, (uint64_t)1 << (m - (uint64_t)i - 1), p);
+        m = (uint64_t)i, c = (uint64_t)((u128)bb * bb % p);
+        t = (uint64_t)((u128)t * c % p), root = (uint64_t)((u128)root * bb % p);
+    }
+    return (int64_t)root;
+}
+
+/* prime_form_b of _pure.py for a prime 2 <= p < 2^31 and 0 < D < 2^62 (the b is canonical). */
+static int64_t
+prime_b(int64_t D, int64_t p)
+{
+    int64_t b, t, c;
+    if (p == 2) {
+        int64_t residue = D % 8;
+        if (residue == 1)
+            b = 1;
+        else if (residue == 0)
+            b = 0;
+        else if (residue == 4)
+            b = 2;
+        else
+            return -1;
+    } else {
+        t = sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
+        if (t < 0)
+            return -1;
+        b = ((t - D) % 2 == 0) ? t : p - t;
+    }
+    c = floordiv64(b * b - D, 4 * p);
+    if (b % p == 0 && c % p == 0)
+        return -1;
+    return b;
+}
+
+static int64_t
+gcd64(int64_t x, int64_t y)
+{
+    x = x < 0 ? -x : x, y = y < 0 ? -y : y;
+    while (y) {
+        int64_t t = x % y;
+        x = y, y = t;
+    }
+    return x;
+}
+
+/* form_class_candidates of _pure.py into a growable array of triples; -1 on error. */
+static int
+candidates(int64_t D, int64_t conductor, PyObject *primes, int64_t **out, int64_t *count)
+{
+    PyObject *seq = PySequence_Fast(primes, "primes must be a sequence");
+    int64_t r = (int64_t)isqrt_u64((uint64_t)D), b0, n = 0, cap = 256, *v, p, b, q;
+    Py_ssize_t i, len;
+    if (seq == NULL)
+        return -1;
+    v = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
+    if (v == NULL) {
+        Py_DECREF(seq);
+        PyErr_NoMemory();
+        return -1;
+    }
+#define PUSH(x, y, z)                                                                                  \
+    do {                                                                                               \
+        if (n == cap) {                                                                                \
+            int64_t *g_;                                                                               \
+            cap *= 2;                                                                                  \
+            g_ = (int64_t *)PyMem_Realloc(v, (size_t)(3 * cap) * sizeof(int64_t));                     \
+            if (g_ == NULL) {                                                                          \
+                PyErr_NoMemory();                                                                      \
+                goto fail;                                                                             \
+            }                                                                                          \
+            v = g_;                                                                                    \
+        }                                                                                              \
+        v[3 * n] = (x), v[3 * n + 1] = (y), v[3 * n + 2] = (z), n++;                                   \
+    } while (0)
+    b0 = ((r - D) % 2 == 0) ? r : r - 1;
+    PUSH(-1, b0, (D - b0 * b0) / 4);
+    len = PySequence_Fast_GET_SIZE(seq);
+    for (i = 0; i < len; i++) {
+        if (get_i64(PySequence_Fast_GET_ITEM(seq, i), &p, "a prime") < 0)
+            goto fail;
+        if (p < 2 || p >= ((int64_t)1 << 31) || 4 * (i128)p * p >= D) {
+            if (p >= 2 && 4 * (i128)p * p >= D)
+                break;
+            PyErr_SetString(PyExc_OverflowError, "a prime is outside the class-number kernel's range");
+            goto fail;
+        }
+        if (conductor % p) {
+            b = prime_b(D, p);
+            if (b >= 0)
+                PUSH(p, b, floordiv64(b * b - D, 4 * p));
+            continue;
+        }
+        for (q = p; 4 * (i128)q * q < D; q *= p) {
+            for (b = -q + 1; b <= q; b++) {
+                if (((b - D) % 2 == 0) && ((i128)b * b - D) % (4 * q) == 0) {
+                    int64_t c = floordiv64(b * b - D, 4 * q);
+                    if (gcd64(gcd64(q, b), c) == 1)
+                        PUSH(q, b, c);
+                }
+            }
+        }
+    }
+#undef PUSH
+    Py_DECREF(seq);
+    *out = v, *count = n;
+    return 0;
+fail:
+    Py_DECREF(seq);
+    PyMem_Free(v);
+    return -1;
+}
+
+static PyObject *
+triples_to_list(const int64_t *v, int64_t n)
+{
+    PyObject *list = PyList_New((Py_ssize_t)n);
+    int64_t i;
+    if (list == NULL)
+        return NULL;
+    for (i = 0; i < n; i++) {
+        PyObject *t = Py_BuildValue("(LLL)", (long long)v[3 * i], (long long)v[3 * i + 1], (long long)v[3 * i + 2]);
+        if (t == NULL) {
+            Py_DECREF(list);
+            return NULL;
+        }
+        PyList_SET_ITEM(list, (Py_ssize_t)i, t);
+    }
+    return list;
+}
+
+static int
+class_kernel_args(PyObject *const *args, int64_t *D, int64_t *conductor)
+{
+    if (get_i64(args[0], D, "D") < 0 || get_i64(args[1], conductor, "conductor") < 0)
+        return -1;
+    if (*D <= 0 || *D > MAX_WORD) {
+        PyErr_SetString(PyExc_OverflowError, "the class-number kernels take 0 < D < 2^62");
+        return -1;
+    }
+    if (*conductor <= 0) {
+        PyErr_SetString(PyExc_ValueError, "the conductor must be positive");
+        return -1;
+    }
+    return 0;
+}
+
+static PyObject *
+k_prime_form_b(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, p;
+    if (check_nargs(nargs, 2, "prime_form_b") < 0 || get_i64(args[0], &D, "D") < 0 || get_i64(args[1], &p, "p") < 0)
+        return NULL;
+    if (D <= 0 || D > MAX_WORD || p < 2 || p >= ((int64_t)1 << 31)) {
+        PyErr_SetString(PyExc_OverflowError, "prime_form_b takes 0 < D < 2^62 and a prime p < 2^31");
+        return NULL;
+    }
+    return PyLong_FromLongLong((long long)prime_b(D, p));
+}
+
+static PyObject *
+k_form_class_candidates(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, conductor, n, *v;
+    PyObject *out;
+    if (check_nargs(nargs, 3, "form_class_candidates") < 0 || class_kernel_args(args, &D, &conductor) < 0)
+        return NULL;
+    if (candidates(D, conductor, args[2], &v, &n) < 0)
+        return NULL;
+    out = triples_to_list(v, n);
+    PyMem_Free(v);
+    return out;
+}
+
+/* ------------------------------------------------------------------ */
+/* class numbers: the narrow classes of D as cycles of reduced forms   */
+/* ------------------------------------------------------------------ */
+
+/* Open-addressing table (a, b) -> class; b > 0 for every reduced form, so b = 0 marks a free slot. */
+typedef struct {
+    int64_t a, b;
+    int64_t cls;
+} slot_t;
+
+typedef struct {
+    slot_t *slots;
+    size_t mask, used;
+} table_t;
+
+static inline size_t
+slot_hash(int64_t a, int64_t b)
+{
+    uint64_t h = (uint64_t)a * 0x9E3779B97F4A7C15ULL ^ ((uint64_t)b + 0x632BE59BD9B4E019ULL) * 0xC2B2AE3D27D4EB4FULL;
+    return (size_t)(h ^ (h >> 29));
+}
+
+static slot_t *
+table_find(table_t *t, int64_t a, int64_t b)
+{
+    size_t i = slot_hash(a, b) & t->mask;
+    while (t->slots[i].b != 0 && (t->slots[i].a != a || t->slots[i].b != b))
+        i = (i + 1) & t->mask;
+    return &t->slots[i];
+}
+
+static int
+table_put(table_t *t, int64_t a, int64_t b, int64_t cls)
+{
+    slot_t *e;
+    if (2 * (t->used + 1) > t->mask + 1) {
+        size_t n = 2 * (t->mask + 1), i;
+        slot_t *old = t->slots, *fresh = (slot_t *)PyMem_Calloc(n, sizeof(slot_t));
+        size_t oldn = t->mask + 1;
+        if (fresh == NULL) {
+            PyErr_NoMemory();
+            return -1;
+        }
+        t->slots = fresh, t->mask = n - 1;
+        for (i = 0; i < oldn; i++)
+            if (old[i].b != 0)
+                *table_find(t, old[i].a, old[i].b) = old[i];
+        PyMem_Free(old);
+    }
+    e = table_find(t, a, b);
+    if (e->b == 0)
+        t->used++;
+    e->a = a, e->b = b, e->cls = cls;
+    return 0;
+}
+
+/* Walk the rho cycle of the reduced form (a, b, c), filing every form under cls.
+   Returns its length, 0 when it is longer than limit, -1 on error. */
+static int64_t
+file_cycle(table_t *t, int64_t a, int64_t b, int64_t c, int64_t D, int64_t r, int64_t limit, int64_t cls)
+{
+    int64_t a0 = a, b0 = b, k;
+    if (table_put(t, a, b, cls) < 0)
+        return -1;
+    for (k = 0; k < limit; k++) {
+        if (rho_step(&a, &b, &c, D, r) < 0)
+            return -1;
+        if (a == a0 && b == b0)
+            return k + 1;
+        if (table_put(t, a, b, cls) < 0)
+            return -1;
+        if ((k & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
+            return -1;
+    }
+    return 0;
+}
+
+static int
+reduce_form(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
+{
+    unsigned long count = 0;
+    while (!is_reduced(*a, *b, r)) {
+        if (rho_step(a, b, c, D, r) < 0)
+            return -1;
+        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return -1;
+    }
+    return 0;
+}
+
+static int
+compose_reduce(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_t r, int64_t *A, int64_t *B,
+               int64_t *C)
+{
+    if (compose(a1, b1, a2, b2, D, A, B, C) < 0)
+        return -1;
+    return reduce_form(A, B, C, D, r);
+}
+
+/*
+ * form_class_numbers of _pure.py: the same table, step for step (generators in
+ * the twin's order, the same representatives, the same form limit), keeping
+ * only what the class numbers need. (h+ and the class of J do not depend on
+ * which square roots the candidates use; their b is canonical anyway.)
+ */
+static PyObject *
+k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, conductor, r, b0, max_forms, stored, L, ncand = 0, nreps = 0, cap = 0, i, h;
+    int64_t *cand = NULL, *reps = NULL;
+    PyObject *result = NULL;
+    table_t t = {NULL, 0, 0};
+    slot_t *e;
+    int j_principal;
+    if (check_nargs(nargs, 4, "form_class_numbers") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
+        get_limit(args[3], &max_forms) < 0)
+        return NULL;
+    r = (int64_t)isqrt_u64((uint64_t)D);
+    if (r * r == D) {
+        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
+        return NULL;
+    }
+    if (candidates(D, conductor, args[2], &cand, &ncand) < 0)
+        goto done;
+    t.slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
+    if (t.slots == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    t.mask = 1023;
+    cap = 64;
+    reps = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
+    if (reps == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    b0 = ((r - D) % 2 == 0) ? r : r - 1;
+    L = file_cycle(&t, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
+    if (L < 0)
+        goto done;
+    if (L == 0) {
+        result = Py_None, Py_INCREF(result);
+        goto done;
+    }
+    stored = L;
+    reps[0] = 1, reps[1] = b0, reps[2] = (b0 * b0 - D) / 4, nreps = 1;
+    for (i = 0; i < ncand; i++) {
+        int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
+        if (reduce_form(&ga, &gb, &gc, D, r) < 0)
+            goto done;
+        if (table_find(&t, ga, gb)->b != 0)
+            continue;
+        n = nreps;
+        xa = ga, xb = gb, xc = gc;
+        while (table_find(&t, xa, xb)->b == 0) {
+            for (h = 0; h < n; h++) {
+                int64_t ya = xa, yb = xb, yc = xc;
+                if (h > 0 && compose_reduce(xa, xb, reps[3 * h], reps[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
+                    goto done;
+                L = file_cycle(&t, ya, yb, yc, D, r, max_forms - stored, nreps);
+                if (L < 0)
+                    goto done;
+                if (L == 0) {
+                    result = Py_None, Py_INCREF(result);
+                    goto done;
+                }
+                stored += L;
+                if (nreps == cap) {
+                    int64_t *grown;
+                    cap *= 2;
+                    grown = (int64_t *)PyMem_Realloc(reps, (size_t)(3 * cap) * sizeof(int64_t));
+                    if (grown == NULL) {
+                        PyErr_NoMemory();
+                        goto done;
+                    }
+                    reps = grown;
+                }
+                reps[3 * nreps] = ya, reps[3 * nreps + 1] = yb, reps[3 * nreps + 2] = yc, nreps++;
+            }
+            if (compose_reduce(xa, xb, ga, gb, D, r, &xa, &xb, &xc) < 0)
+                goto done;
+        }
+    }
+    e = table_find(&t, -1, b0);
+    j_principal = e->b != 0 && e->cls == 0;
+    result = Py_BuildValue("(Li)", (long long)nreps, j_principal);
+done:
+    PyMem_Free(t.slots);
+    PyMem_Free(reps);
+    PyMem_Free(cand);
+    return result;
+}
+
+/* ------------------------------------------------------------------ */
 /* module                                                              */
 /* ------------------------------------------------------------------ */
 
@@ -942,6 +1347,12 @@ static PyMethodDef methods[] = {
      "(g, u, v) with u x + v y = g = gcd(x, y) >= 0."},
     {"form_compose", (PyCFunction)(void (*)(void))k_form_compose, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D (not reduced)."},
+    {"prime_form_b", (PyCFunction)(void (*)(void))k_prime_form_b, METH_FASTCALL,
+     "The b (0 <= b <= p) of a primitive form (p, b, c) of discriminant D, or -1."},
+    {"form_class_candidates", (PyCFunction)(void (*)(void))k_form_class_candidates, METH_FASTCALL,
+     "Generators of the narrow class group: J, then forms of prime-power norm q with 4q^2 < D."},
+    {"form_class_numbers", (PyCFunction)(void (*)(void))k_form_class_numbers, METH_FASTCALL,
+     "(h+, 1 if (-1, b0, c0) is principal else 0) from the cycles of reduced forms, or None."},
     {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D, reduced."},
     {NULL, NULL, 0, NULL},
