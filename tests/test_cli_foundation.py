@@ -190,7 +190,7 @@ def test_ctrl_c_exits_cleanly():
 
     # d = 10²⁰ + 3 (discriminant beyond the compiled kernels' word size): a period of ~10¹⁰ steps
     proc = subprocess.Popen(
-        [sys.executable, "-m", "realquad", "unit", str(10**20 + 3)],
+        [sys.executable, "-m", "realquad", "unit", str(10**20 + 3), "--method", "cfrac"],
         stdout=subprocess.PIPE,
         stderr=subprocess.PIPE,
         text=True,
