@@ -148,3 +148,31 @@ def test_results_are_labelled_unconditional_not_grh(capsys) -> None:  # type: ig
 def test_out_of_reach_is_refused_before_starting(capsys) -> None:  # type: ignore[no-untyped-def]
     code, out, err = run(capsys, "unit", "--disc", str(10**60 + 1))
     assert code == 2 and out == "" and err.startswith("realquad: error:") and "beyond reach" in err
+
+
+def test_ctrl_c_during_the_infrastructure_search() -> None:
+    """SIGINT during a long baby-step giant-step search: status 130, one line, nothing on stdout."""
+    import signal
+    import time
+
+    proc = subprocess.Popen(
+        [
+            sys.executable,
+            "-m",
+            "realquad",
+            "unit",
+            "--disc",
+            str(10**27 + 1),
+            "--method",
+            "bsgs",
+            "--json",
+        ],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
+    time.sleep(2.0)
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=60)
+    assert proc.returncode == 130, (proc.returncode, err)
+    assert out == "" and err.strip() == "realquad: interrupted"

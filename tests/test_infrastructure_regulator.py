@@ -262,3 +262,38 @@ def test_compiled_twins_agree_with_pure(n: int, seed: int) -> None:
         except OverflowError:
             continue
         assert got == call(getattr(_pure, name))
+
+
+# -- published tables --
+
+
+def test_regulators_match_oeis_pell_solutions(oeis) -> None:  # type: ignore[no-untyped-def]
+    # OEIS A002350 / A002349: the least solution of x² − n y² = 1 is ε or ε² for the unit ε of
+    # Z[√n] (discriminant 4n), as ε has norm +1 or −1.
+    from realquad.infrastructure.compact import CompactRepresentation
+
+    xs, ys = oeis["A002350"]["terms"], oeis["A002349"]["terms"]
+    offset = oeis["A002350"]["offset"]
+    checked = 0
+    for i, (x, y) in enumerate(zip(xs, ys, strict=False)):
+        n = i + offset
+        if gmpy2.is_square(n):
+            continue
+        res = regulator_bsgs(4 * n, 30)
+        eps = CompactRepresentation.from_factors(4 * n, res.factors)
+        power = 1 if eps.norm == 1 else 2
+        with mpmath.workdps(40):
+            assert (
+                abs(power * res.regulator.value - mpmath.log(x + y * mpmath.sqrt(n)))
+                < mpmath.mpf(10) ** -25
+            )
+        checked += 1
+    assert checked > 50
+
+
+def test_estimate_is_near_R_for_class_number_one(oeis) -> None:  # type: ignore[no-untyped-def]
+    # OEIS A003656: fundamental discriminants with h = 1, so h·R = R. A sanity check of the
+    # estimate (it sizes the search; no bound is claimed for it).
+    for D in oeis["A003656"]["terms"]:
+        R = float(regulator_bsgs(D, 20).regulator)
+        assert 0.5 < estimate_hR(D).value / R < 2.0
