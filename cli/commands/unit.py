@@ -125,8 +125,9 @@ def command(
     if expanded:
         lines += [f"  x = {integer_text(x, max_digits)}", f"  y = {integer_text(y, max_digits)}"]
     else:
+        limit = f"--max-digits {max_digits}" if max_digits else f"{OUTPUT_DIGITS_LIMIT:,}"
         lines.append(
-            f"  not expanded: about {n_digits} digits, more than --max-digits {max_digits}"
+            f"  not expanded: about {n_digits} digits, more than {limit}"
             " (--compact prints the compact form)"
         )
     period = "" if eps.period_length is None else f"; period length {eps.period_length}"
