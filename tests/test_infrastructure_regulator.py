@@ -297,3 +297,11 @@ def test_estimate_is_near_R_for_class_number_one(oeis) -> None:  # type: ignore[
     for D in oeis["A003656"]["terms"]:
         R = float(regulator_bsgs(D, 20).regulator)
         assert 0.5 < estimate_hR(D).value / R < 2.0
+
+
+@given(st.integers(10**6, 10**12), st.integers(16, 4000), st.floats(1.0, 1e9))
+def test_any_table_size_and_estimate_give_the_same_regulator(n: int, table: int, estimate: float) -> None:
+    # The estimate and the table cap only change the speed (doubling, re-checks), never R.
+    D = discriminant_near(n)
+    res = regulator_bsgs(D, 25, max_table=table, estimate=estimate)
+    assert str(res.regulator) == str(regulator_cfrac(D, 25))

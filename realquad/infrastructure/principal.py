@@ -111,7 +111,7 @@ def _distance_on_cycle(cycle: Cycle, table: object, a: int, b: int, R: float) ->
         return None  # the table holds the whole cycle
     # giant ideal G₁ with distance s ≤ 2·cover − margin: the last baby ideal squared would be too far
     margin = 8 * math.log(D) + 8
-    aG, bG, s = _giant_ideal(cycle, table, cover, margin)
+    aG, bG, s = table.giant_ideal(margin)  # type: ignore[attr-defined]
     travelled = 0.0
     while travelled <= R + 2 * cover + margin:
         a, b, c = giant_step_float(D, r, cycle.sqrt_float, a, b, aG, bG)
@@ -123,13 +123,3 @@ def _distance_on_cycle(cycle: Cycle, table: object, a: int, b: int, R: float) ->
         if hit is not None:
             return (hit - travelled) % R
     return None
-
-
-def _giant_ideal(
-    cycle: Cycle, table: object, cover: float, margin: float
-) -> tuple[int, int, float]:
-    checkpoints: list[tuple[int, int, float]] = table.checkpoints  # type: ignore[attr-defined]
-    am, bm, dm = next(p for p in reversed(checkpoints) if p[2] <= cover - margin)
-    aB, bB = table.a, table.b  # type: ignore[attr-defined]
-    aG, bG, c = giant_step_float(cycle.discriminant, cycle.root, cycle.sqrt_float, aB, bB, am, bm)
-    return aG, bG, cover + dm + c

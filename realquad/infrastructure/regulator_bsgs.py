@@ -131,6 +131,26 @@ class _Table:
     def __len__(self) -> int:
         return len(self.index)
 
+    def ideal_below(self, x: float) -> tuple[int, int, float]:
+        """The last stored ideal with distance ``≤ x``, with its distance (``0 ≤ x ≤ δ_B``)."""
+        c = self.cycle
+        a, b, dist = next(p for p in reversed(self.checkpoints) if p[2] <= x)
+        while True:
+            a1, b1 = c.rho(a, b)
+            step = c.rho_log_float(a, b, a1, b1)
+            if dist + step > x or a1 == 1:
+                return a, b, dist
+            a, b, dist = a1, b1, dist + step
+
+    def giant_ideal(self, margin: float) -> tuple[int, int, float]:
+        """``G₁ = reduce(L_B·L_m)`` with ``δ(L_m) ≤ δ_B − margin``: ``(a, b, s)``, ``s ≈ 2δ_B − margin``."""
+        c = self.cycle
+        am, bm, dm = self.ideal_below(self.distance - margin)
+        aG, bG, shift = giant_step_float(
+            c.discriminant, c.root, c.sqrt_float, self.a, self.b, am, bm
+        )
+        return aG, bG, self.distance + dm + shift
+
 
 def _table_target(cycle: Cycle, estimate: float | None, max_table: int) -> float:
     """Baby-step coverage ``δ_B`` balancing baby and giant work for ``R ≈ estimate``."""
@@ -173,26 +193,18 @@ def _giant_steps(
 ) -> tuple[float, float, int]:
     """Giant steps until a match; returns ``(multiple of R, error window, steps)``."""
     D, r = cycle.discriminant, cycle.root
-    log = math.log
     margin = 8 * math.log(D) + 8
-    width = 2 * r + 2
     # current giant ideal (a, b) at distance base + j·s + C
     a, b = cycle.principal
     base, base_error = 0.0, 0.0
     steps = 0
     while True:
         cover = table.distance
-        # G₁ = reduce(L_B · L_m), distance s ≈ 2δ_B − margin
-        am, bm, dm = next(p for p in reversed(table.checkpoints) if p[2] <= cover - margin)
-        aB, bB = table.a, table.b
-        d, a3, b3 = cycle.multiply(aB, bB, am, bm)
-        aG, bG, shift = cycle.reduce_float(a3, b3)
-        s = cover + dm + log(aB * am / (d * a3)) + shift
+        aG, bG, s = table.giant_ideal(margin)
         s_error = 3 * table.error + 64 * _ULP * (s + margin)
         if not (cover < s - 1.0 and s < 2 * cover - 1.0):  # pragma: no cover - by the margin
             raise ArithmeticError("internal error: giant step outside the baby-step window")
         lo_step, hi_step = 1.0, 2 * cover - 4 * table.error - 1.0
-        index = table.index
         j, C, C_error = 0, 0.0, 0.0
         full = len(table) >= max_table
         budget = 1 << 62 if full else max(64, int(4 * len(table) / _GIANT_OVER_BABY))
@@ -209,13 +221,9 @@ def _giant_steps(
             if steps == 0 and j == 1 and g <= cover:  # pragma: no cover - s > cover
                 raise ArithmeticError("internal error: first giant step inside the table")
             err = base_error + j * s_error + C_error + _ULP * g + table.error
-            found = index.get(a * width + b)
-            if found is not None:
-                return g - found, err, steps + j
-            found = index.get(a * width + r - (r + b) % (2 * a))
-            if found is not None:
-                x = g + found + log(a)
-                return _divide_conjugate_multiple(cycle, table, x, err), err, steps + j
+            x = _match(cycle, table, a, b, g, err)
+            if x is not None:
+                return x, err, steps + j
             if progress is not None and j % 4096 == 0:
                 progress(g)
         # the table was too small for R: double it and continue from here
@@ -224,6 +232,27 @@ def _giant_steps(
         table.extend(table.distance * min(2.0, max_table / len(table)))
         if table.period is not None:  # pragma: no cover - R ≤ new coverage
             return table.period, 16 * table.error + 1e-6, steps
+        # the current giant ideal is checked again against the larger table
+        x = _match(cycle, table, a, b, base, base_error + table.error)
+        if x is not None:
+            return x, base_error + table.error, steps
+
+
+def _match(cycle: Cycle, table: _Table, a: int, b: int, g: float, err: float) -> float | None:
+    """The multiple of ``R`` given by a giant ideal ``(a, b)`` at distance ``g`` found in the table."""
+    r = cycle.root
+    width = 2 * r + 2
+    found = table.index.get(a * width + b)
+    if found is not None:
+        x = g - found
+    else:
+        found = table.index.get(a * width + r - (r + b) % (2 * a))
+        if found is None:
+            return None
+        x = _divide_conjugate_multiple(cycle, table, g + found + math.log(a), err)
+    if not x > table.distance:  # pragma: no cover - giant steps start beyond the table
+        raise ArithmeticError("internal error: a giant step matched inside the baby-step table")
+    return x
 
 
 def _divide_conjugate_multiple(cycle: Cycle, table: _Table, x: float, err: float) -> float:
