@@ -43,7 +43,7 @@ def _reason(G: ClassGroup) -> str:
 
 def _payload(G: ClassGroup, with_forms: bool) -> dict[str, Any]:
     order = G.order
-    genus: Genera = G.genus  # type: ignore[assignment]
+    genus: Genera = G.genus
     payload: dict[str, Any] = {
         "radicand": order.radicand,
         "discriminant": order.discriminant,
