@@ -94,3 +94,14 @@ def test_bad_ideals_are_refused() -> None:
         principal_ideal_test(316, 0, 2)
     with pytest.raises(DomainError):
         principal_ideal_test(316, 5, 2)
+
+
+@given(st.integers(-10, 10**8), st.integers(-100, 10**6), st.integers(-(10**6), 10**6))
+def test_fuzz_principal_ideal_test_raises_only_clean_errors(D: int, a: int, b: int) -> None:
+    from realquad.errors import RealquadError
+
+    try:
+        res = principal_ideal_test(D, a, b)
+    except RealquadError:
+        return
+    assert res.principal == principal_by_forms(D, a, b)
