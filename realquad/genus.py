@@ -105,4 +105,10 @@ def genera(group: ClassGroup) -> Genera:
         m = represented_prime_to(Form._raw(*rep), 2 * D)
         vectors.append(tuple(character_value(name, m) for name in names))
     two_rank = sum(1 for d in group.narrow_invariants if d % 2 == 0)
-    return Genera(D, names, vectors, len(set(vectors)), two_rank)
+    count = len(set(vectors))
+    if count != 2 ** (len(names) - 1) or count != 2**two_rank:
+        raise ArithmeticError(
+            f"internal check failed: {count} genera, {len(names)} characters and 2-rank "
+            f"{two_rank} of discriminant {D} disagree with genus theory"
+        )
+    return Genera(D, names, vectors, count, two_rank)

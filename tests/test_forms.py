@@ -69,6 +69,8 @@ def test_bad_forms():
         Form.from_ab(2, 1, 13)
     with pytest.raises(DomainError):
         Form.identity(16)
+    with pytest.raises(InputError):
+        prime_form(13, 15)  # not a prime
 
 
 @pytest.mark.parametrize("D", [5, 8, 12, 13, 60, 316, 892, 1001, 2021])

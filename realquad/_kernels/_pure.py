@@ -351,9 +351,9 @@ def prime_form_b(D: int, p: int) -> int:
         else:
             return -1
     else:
-        t = sqrt_mod_prime(D, p)
-        if t < 0:
+        if kronecker(D, p) < 0:  # cheaper than Euler's criterion in the square root
             return -1
+        t = sqrt_mod_prime(D, p)
         b = t if (t - D) % 2 == 0 else p - t
     c = (b * b - D) // (4 * p)
     if b % p == 0 and c % p == 0:
