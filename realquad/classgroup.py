@@ -181,30 +181,36 @@ def class_numbers(order: Order | int, max_forms: int | None = None) -> tuple[int
     """
     if not isinstance(order, Order):
         order = Order(order)
-    D = order.discriminant
-    limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
-    primes = primes_below(isqrt(D // 4) + 2)
-    try:
-        found = kernels.form_class_numbers(D, order.conductor, primes, limit)
-    except OverflowError:
-        found = pure.form_class_numbers(D, order.conductor, primes, limit)
-    if found is None:
-        raise TooLargeError(_too_large(D, limit))
-    h_plus, j_principal = found
+    h_plus, j_principal = _run_class_kernel("form_class_numbers", order, max_forms)
     if j_principal:
         return h_plus, h_plus, -1
     return h_plus // 2, h_plus, 1
 
 
+def _run_class_kernel(name: str, order: Order, max_forms: int | None) -> Any:
+    """Run a whole-group kernel (compiled within its word size, else the pure twin)."""
+    D = order.discriminant
+    limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
+    primes = primes_below(isqrt(D // 4) + 2)
+    try:
+        found = getattr(kernels, name)(D, order.conductor, primes, limit)
+    except OverflowError:
+        found = getattr(pure, name)(D, order.conductor, primes, limit)
+    if found is None:
+        raise TooLargeError(_too_large(D, limit))
+    return found
+
+
 # --------------------------------------------------------------------------- the class group
 
 
-def _forms_from_vectors(table: ClassTable, vectors: list[list[int]], modulus: int) -> list[Form]:
-    D = table.D
+def _forms_from_vectors(
+    D: int, generators: list[Triple], vectors: list[list[int]], modulus: int
+) -> list[Form]:
     out = []
     for vec in vectors:
         F: Form | None = None
-        for e, g in zip(vec, table.generators, strict=False):
+        for e, g in zip(vec, generators, strict=False):
             e %= modulus
             if e:
                 G = Form._raw(*g)
@@ -235,9 +241,21 @@ class ClassGroup:
     method: str
     proof: Proof
     unit: Unit = dataclass_field(repr=False)
-    table: ClassTable = dataclass_field(repr=False)
+    _raw_generators: list[Triple] = dataclass_field(repr=False)
     _narrow_smith: SmithForm = dataclass_field(repr=False)
     _wide_smith: SmithForm = dataclass_field(repr=False)
+    _max_forms: int | None = dataclass_field(default=None, repr=False)
+    _table: ClassTable | None = dataclass_field(default=None, repr=False)
+
+    @property
+    def table(self) -> ClassTable:
+        """Every narrow class with its reduced forms (built on first use: lookups, genera, --forms)."""
+        if self._table is None:
+            table = class_table(self.discriminant, self.order.conductor, self._max_forms)
+            if [tuple(g) for g in table.generators] != [tuple(g) for g in self._raw_generators]:
+                raise ArithmeticError("internal check failed: class table and relations disagree")
+            self._table = table
+        return self._table
 
     @cached_property
     def regulator(self) -> Regulator:
@@ -302,16 +320,25 @@ def class_group(
         order = Order(order)
     D = order.discriminant
     unit = fundamental_unit(order)
-    table = class_table(D, order.conductor, max_forms, progress)
-    h_plus = table.narrow_class_number
-    if table.j_is_principal != (unit.norm == -1):
+    table: ClassTable | None = None
+    if progress is not None:  # long runs: the full table reports its progress
+        table = class_table(D, order.conductor, max_forms, progress)
+        h_plus, j_principal = table.narrow_class_number, table.j_is_principal
+        generators, relations = table.generators, table.relations
+    else:
+        h_plus, j, generators, relations = _run_class_kernel(
+            "form_class_relations", order, max_forms
+        )
+        j_principal = bool(j)
+        generators = [tuple(g) for g in generators]
+    if j_principal != (unit.norm == -1):
         raise ArithmeticError(
             f"internal check failed: unit norm {unit.norm} and the principal cycle of {D} disagree"
         )
-    n = len(table.generators)
-    narrow = smith_normal_form(table.relations, n) if n else SmithForm([], [], [], [])
-    wide_relations = [list(rel) for rel in table.relations]
-    if not table.j_is_principal:
+    n = len(generators)
+    narrow = smith_normal_form(relations, n) if n else SmithForm([], [], [], [])
+    wide_relations = [list(rel) for rel in relations]
+    if not j_principal:
         # J is the first generator found (it is the first candidate and lies outside the principal class)
         wide_relations.append([1])
     wide = smith_normal_form(wide_relations, n) if n else SmithForm([], [], [], [])
@@ -324,15 +351,17 @@ def class_group(
         narrow_class_number=h_plus,
         invariants=list(wide.invariants),
         narrow_invariants=list(narrow.invariants),
-        generators=_forms_from_vectors(table, wide.generators, h_plus),
-        narrow_generators=_forms_from_vectors(table, narrow.generators, h_plus),
+        generators=_forms_from_vectors(D, generators, wide.generators, h_plus),
+        narrow_generators=_forms_from_vectors(D, generators, narrow.generators, h_plus),
         unit_norm=unit.norm,
         method=METHOD,
         proof="unconditional",
         unit=unit,
-        table=table,
+        _raw_generators=generators,
         _narrow_smith=narrow,
         _wide_smith=wide,
+        _max_forms=max_forms,
+        _table=table,
     )
 
 

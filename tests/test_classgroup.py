@@ -223,3 +223,14 @@ def test_lean_path_agrees_with_table(D):
     h, h_plus, norm = class_numbers(order)
     assert h_plus == table.narrow_class_number
     assert (norm == -1) == table.j_is_principal
+
+
+@pytest.mark.parametrize("D", [316, 5460, 60060, 10**6 + 1, 4 * 226 * 9])
+def test_progress_path_agrees(D):
+    # the full-table path (used with a progress callback) and the relations kernel agree
+    seen: list[int] = []
+    G1 = class_group(D, progress=seen.append)
+    G2 = class_group(D)
+    assert (G1.invariants, G1.narrow_invariants) == (G2.invariants, G2.narrow_invariants)
+    assert G1.generators == G2.generators and G1.narrow_generators == G2.narrow_generators
+    assert G2.table.narrow_class_number == G2.narrow_class_number

@@ -471,6 +471,24 @@ def form_class_numbers(
     return len(representatives), int(index.get((-1, b0)) == 0)
 
 
+def form_class_relations(
+    D: int, conductor: int, primes: list[int], max_forms: int
+) -> tuple[int, int, list[tuple[int, int, int]], list[list[int]]] | None:
+    """``(h⁺, j, generators, relations)`` of :func:`form_class_table` without the per-class data.
+
+    ``j`` as in :func:`form_class_numbers`; ``generators`` (reduced triples) and the
+    triangular ``relations`` are exactly those of the full table (same candidates,
+    same order), so coordinates computed from either agree. ``None`` beyond ``max_forms``.
+    """
+    table = form_class_table(D, form_class_candidates(D, conductor, primes), max_forms)
+    if table is None:
+        return None
+    index, representatives, _, generators, relations = table
+    r = int(isqrt(D))
+    b0 = r if (r - D) % 2 == 0 else r - 1
+    return len(representatives), int(index.get((-1, b0)) == 0), generators, relations
+
+
 # ---------------------------------------------------------------------------
 # Infrastructure (realquad.infrastructure): baby steps and fused giant steps
 # on reduced principal ideals [a, (b + √D)/2], b normalised in (√D − 2a, √D),
