@@ -117,11 +117,14 @@ class DaskExecutor(InProcessExecutor):
         self.description = f"Dask scheduler {address}"
         self._futures: list[Any] = []
         _check_reachable(address, timeout)
+        self._client = _connect_within(Client, address, timeout)
         try:
-            self._client = Client(address, timeout=timeout)
-        except (OSError, TimeoutError, ValueError, TypeError) as exc:
-            detail = " ".join(str(exc).split()) or type(exc).__name__
-            raise InputError(f"cannot reach the Dask scheduler at {address!r}: {detail}") from None
+            self._client.wait_for_workers(1, timeout=timeout)
+        except Exception:
+            self._client.close()
+            raise InputError(
+                f"the Dask scheduler at {address!r} has no workers (waited {timeout:g} s)"
+            ) from None
 
     def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
         from distributed import as_completed
@@ -139,6 +142,32 @@ class DaskExecutor(InProcessExecutor):
                 self._client.cancel(self._futures)
         finally:
             self._client.close()
+
+
+def _connect_within(client_class: Any, address: str, timeout: float) -> Any:
+    """A Dask client of ``address``, or :class:`InputError` within about ``2 × timeout`` seconds.
+
+    The connection is made in a helper thread because a server that accepts
+    TCP connections but never answers the handshake can hold it longer than
+    the client's own timeout.
+    """
+    import threading
+
+    outcome: dict[str, Any] = {}
+
+    def connect() -> None:
+        try:
+            outcome["client"] = client_class(address, timeout=timeout)
+        except Exception as exc:  # whatever answers there is not a usable scheduler
+            outcome["error"] = " ".join(str(exc).split()) or type(exc).__name__
+
+    helper = threading.Thread(target=connect, name="realquad-dask-connect", daemon=True)
+    helper.start()
+    helper.join(2 * timeout + 1)
+    if "client" in outcome:
+        return outcome["client"]
+    detail = outcome.get("error", f"no answer within {2 * timeout + 1:g} s")
+    raise InputError(f"cannot reach the Dask scheduler at {address!r}: {detail}")
 
 
 def _check_reachable(address: str, timeout: float) -> None:
