@@ -46,7 +46,7 @@ from dataclasses import field as dataclass_field
 from functools import cached_property
 from typing import TYPE_CHECKING, Any
 
-from realquad._backend import kernels, pure
+from realquad._backend import COMPILED, kernels, pure
 from realquad.arith import Order, isqrt
 from realquad.errors import TooLargeError
 from realquad.forms import Form, call_kernel
@@ -144,7 +144,7 @@ def class_table(
     try:
         return _class_table(D, conductor, max_forms, progress, kernels)
     except OverflowError:
-        return _class_table(D, conductor, max_forms, progress, pure)
+        return _class_table(D, conductor, max_forms, progress, None)
 
 
 def _class_table(
@@ -154,7 +154,7 @@ def _class_table(
     progress: Callable[[int], None] | None,
     ops: Any,
 ) -> ClassTable:
-    found = ops.form_class_table(D, _candidates(D, conductor), max_forms, progress)
+    found = pure.form_class_table(D, _candidates(D, conductor), max_forms, progress, ops)
     if found is None:
         raise TooLargeError(_too_large(D, max_forms))
     index, representatives, vectors, generators, relations = found
@@ -188,12 +188,18 @@ def class_numbers(order: Order | int, max_forms: int | None = None) -> tuple[int
 
 
 def _run_class_kernel(name: str, order: Order, max_forms: int | None) -> Any:
-    """Run a whole-group kernel (compiled within its word size, else the pure twin)."""
+    """Run a whole-group kernel: compiled if it is, else the pure loop on compiled steps.
+
+    Beyond the word size of the compiled steps the pure twin runs alone.
+    """
     D = order.discriminant
     limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
     primes = primes_below(isqrt(D // 4) + 2)
     try:
-        found = getattr(kernels, name)(D, order.conductor, primes, limit)
+        if name in COMPILED:
+            found = getattr(kernels, name)(D, order.conductor, primes, limit)
+        else:
+            found = getattr(pure, name)(D, order.conductor, primes, limit, kernels)
     except OverflowError:
         found = getattr(pure, name)(D, order.conductor, primes, limit)
     if found is None:

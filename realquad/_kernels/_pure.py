@@ -19,6 +19,7 @@ compiled version exists.
 from __future__ import annotations
 
 import math
+import sys
 
 from gmpy2 import isqrt, kronecker
 
@@ -391,7 +392,11 @@ def form_class_candidates(D: int, conductor: int, primes: list[int]) -> list[tup
 
 
 def form_class_table(
-    D: int, candidates: list[tuple[int, int, int]], max_forms: int, progress: object = None
+    D: int,
+    candidates: list[tuple[int, int, int]],
+    max_forms: int,
+    progress: object = None,
+    steps: object = None,
 ) -> tuple[dict, list, list, list, list] | None:
     """All narrow classes of ``D``, reached from the principal cycle by the ``candidates``.
 
@@ -400,8 +405,14 @@ def form_class_table(
     writes class ``i`` on ``generators``, ``relations`` are triangular with
     ``∏ diagonal = len(representatives) = h⁺``. ``None`` when more than
     ``max_forms`` reduced forms would be stored. ``progress`` (a callable or
-    ``None``) receives the class count every 1000 classes.
+    ``None``) receives the class count every 1000 classes. ``steps`` (default:
+    this module) supplies ``form_reduce``, ``form_cycle`` and ``form_compose``,
+    so the loop can run on compiled steps while it has no compiled twin itself
+    (:func:`form_class_numbers` and :func:`form_class_relations` take their
+    candidates from ``steps`` too).
     """
+    ops = steps if steps is not None else sys.modules[__name__]
+    form_reduce, form_cycle, form_compose = ops.form_reduce, ops.form_cycle, ops.form_compose  # type: ignore[attr-defined]
     r = int(isqrt(D))
     b0 = r if (r - D) % 2 == 0 else r - 1
     start = (1, b0, (b0 * b0 - D) // 4)
@@ -455,14 +466,17 @@ def form_class_table(
 
 
 def form_class_numbers(
-    D: int, conductor: int, primes: list[int], max_forms: int
+    D: int, conductor: int, primes: list[int], max_forms: int, steps: object = None
 ) -> tuple[int, int] | None:
     """``(h⁺, 1 if J = (−1, b₀, c₀) is principal else 0)`` of ``D``, or ``None`` beyond ``max_forms``.
 
     The lean path of :func:`form_class_table` (a compiled twin may skip the vectors).
-    ``h = h⁺`` when ``J`` is principal (unit of norm −1), else ``h⁺/2``.
+    ``h = h⁺`` when ``J`` is principal (unit of norm −1), else ``h⁺/2``; ``steps`` as in
+    :func:`form_class_table`.
     """
-    table = form_class_table(D, form_class_candidates(D, conductor, primes), max_forms)
+    ops = steps if steps is not None else sys.modules[__name__]
+    candidates = ops.form_class_candidates(D, conductor, primes)  # type: ignore[attr-defined]
+    table = form_class_table(D, candidates, max_forms, None, steps)
     if table is None:
         return None
     index, representatives = table[0], table[1]
@@ -472,15 +486,18 @@ def form_class_numbers(
 
 
 def form_class_relations(
-    D: int, conductor: int, primes: list[int], max_forms: int
+    D: int, conductor: int, primes: list[int], max_forms: int, steps: object = None
 ) -> tuple[int, int, list[tuple[int, int, int]], list[list[int]]] | None:
     """``(h⁺, j, generators, relations)`` of :func:`form_class_table` without the per-class data.
 
     ``j`` as in :func:`form_class_numbers`; ``generators`` (reduced triples) and the
     triangular ``relations`` are exactly those of the full table (same candidates,
     same order), so coordinates computed from either agree. ``None`` beyond ``max_forms``.
+    ``steps`` as in :func:`form_class_table`.
     """
-    table = form_class_table(D, form_class_candidates(D, conductor, primes), max_forms)
+    ops = steps if steps is not None else sys.modules[__name__]
+    candidates = ops.form_class_candidates(D, conductor, primes)  # type: ignore[attr-defined]
+    table = form_class_table(D, candidates, max_forms, None, steps)
     if table is None:
         return None
     index, representatives, _, generators, relations = table
