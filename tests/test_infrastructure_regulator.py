@@ -300,8 +300,29 @@ def test_estimate_is_near_R_for_class_number_one(oeis) -> None:  # type: ignore[
 
 
 @given(st.integers(10**6, 10**12), st.integers(16, 4000), st.floats(1.0, 1e9))
-def test_any_table_size_and_estimate_give_the_same_regulator(n: int, table: int, estimate: float) -> None:
+def test_any_table_size_and_estimate_give_the_same_regulator(
+    n: int, table: int, estimate: float
+) -> None:
     # The estimate and the table cap only change the speed (doubling, re-checks), never R.
     D = discriminant_near(n)
     res = regulator_bsgs(D, 25, max_table=table, estimate=estimate)
     assert str(res.regulator) == str(regulator_cfrac(D, 25))
+
+
+@given(st.integers(10**9, 10**12))
+def test_probe_finds_only_multiples_of_the_regulator(n: int) -> None:
+    from realquad.infrastructure.regulator_bsgs import _probe, _Table, _table_target
+
+    D = discriminant_near(n)
+    cyc = Cycle(D)
+    R = float(regulator_cfrac(D, 20))
+    E = estimate_hR(D).value
+    table = _Table(cyc)
+    table.extend(_table_target(cyc, E / 2, 1 << 20))
+    if table.period is not None:
+        return  # the baby steps already hold the whole cycle; no probe is made
+    for guess in (E, E / 2, 3 * R):  # E ≈ hR; a copy of O near 3R must be found as a multiple
+        found = _probe(cyc, table, guess)
+        if found is not None:
+            k = found[0] / R
+            assert abs(k - round(k)) < 1e-6 and round(k) >= 1

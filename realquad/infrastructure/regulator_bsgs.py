@@ -50,6 +50,7 @@ from realquad.infrastructure.distances import (
     exact_principal_at,
     log_of_product,
     principal_near,
+    walk_to,
 )
 from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
 from realquad.infrastructure.lfunction import estimate_hR
@@ -149,7 +150,19 @@ class _Table:
         aG, bG, shift = giant_step_float(
             c.discriminant, c.root, c.sqrt_float, self.a, self.b, am, bm
         )
-        return aG, bG, self.distance + dm + shift
+        s = self.distance + dm + shift
+        # up to 32 baby steps back, prefer a norm with no prime factor below 17: most giant
+        # steps then compose coprime norms (the fast Chinese-remainder case)
+        a, b, t = aG, bG, s
+        for _ in range(32):
+            if math.gcd(a, 30030) == 1:
+                return a, b, t
+            prev = c.rho_inverse(a, b)
+            t -= c.rho_log_float(*prev, a, b)
+            a, b = prev
+            if t < self.distance + margin / 2:
+                break
+        return aG, bG, s
 
 
 def _table_target(cycle: Cycle, estimate: float | None, max_table: int) -> float:
@@ -179,25 +192,69 @@ def regulator_bsgs(
     if estimate is None:
         estimate = estimate_hR(cycle.discriminant).value
     table = _Table(cycle)
-    table.extend(_table_target(cycle, estimate, max_table))
+    # sized for a sweep to E/2: the probe below usually leaves only that much to search
+    table.extend(_table_target(cycle, estimate / 2, max_table))
     giant = 0
     if table.period is not None:
         multiple, window = table.period, 16 * table.error + 1e-6
     else:
-        multiple, window, giant = _giant_steps(cycle, table, max_table, progress)
+        probe = _probe(cycle, table, estimate)
+        multiple, window, giant = _giant_steps(cycle, table, max_table, progress, probe)
     return _finish(cycle, table, multiple, window, digits, giant, estimate)
 
 
+#: Half-width of the window searched around the estimate of ``h·R``, relative to it.
+_PROBE_WIDTH = 0.02
+
+
+def _probe(cycle: Cycle, table: _Table, estimate: float) -> tuple[float, float, int] | None:
+    """A multiple of ``R`` near the estimate ``E`` of ``h·R``: ``(x, error, giant steps)`` or ``None``.
+
+    Giant steps across ``[E(1 − w), E(1 + w)]``; a table match there is a copy
+    of ``O``, so its distance ``x`` is a multiple of ``R`` (no assumption on
+    ``E``: a poor estimate only finds nothing). When ``h = 1``, ``x = R``
+    usually, and the main search need only exclude ``R ≤ x/2``.
+    """
+    cover = table.distance
+    lo, hi = estimate * (1 - _PROBE_WIDTH), estimate * (1 + _PROBE_WIDTH)
+    if lo <= 4 * cover:
+        return None
+    D, r, sq = cycle.discriminant, cycle.root, cycle.sqrt_float
+    aG, bG, s = table.giant_ideal(8 * math.log(D) + 8)
+    near = walk_to(cycle, lo)
+    (a, b), g = near.ideal, near.distance
+    steps = 0
+    while g <= hi + s:
+        err = 1e-12 * hi + steps * (2 * _ULP * hi + 1e-12) + 3 * table.error
+        x = _match(cycle, table, a, b, g, err)
+        if x is not None:
+            return x, err, steps
+        a, b, c = giant_step_float(D, r, sq, a, b, aG, bG)
+        g += s + c
+        steps += 1
+    return None
+
+
 def _giant_steps(
-    cycle: Cycle, table: _Table, max_table: int, progress: Progress | None
+    cycle: Cycle,
+    table: _Table,
+    max_table: int,
+    progress: Progress | None,
+    probe: tuple[float, float, int] | None = None,
 ) -> tuple[float, float, int]:
-    """Giant steps until a match; returns ``(multiple of R, error window, steps)``."""
+    """Giant steps until a match; returns ``(multiple of R, error window, steps)``.
+
+    With a known multiple ``x`` from :func:`_probe`, the search stops once
+    ``g > x/2 + δ_B``: a regulator ``R ≤ x/2`` would have matched by then
+    (at the first ``g ≥ R − δ_B``, which is ``< R + δ_B``), so ``R = x``.
+    """
     D, r = cycle.discriminant, cycle.root
     margin = 8 * math.log(D) + 8
     # current giant ideal (a, b) at distance base + j·s + C
     a, b = cycle.principal
     base, base_error = 0.0, 0.0
-    steps = 0
+    steps = 0 if probe is None else probe[2]
+    stop = math.inf if probe is None else probe[0] / 2 + 1.0
     while True:
         cover = table.distance
         aG, bG, s = table.giant_ideal(margin)
@@ -224,6 +281,8 @@ def _giant_steps(
             x = _match(cycle, table, a, b, g, err)
             if x is not None:
                 return x, err, steps + j
+            if probe is not None and g - err > stop + table.distance:
+                return probe[0], probe[1], steps + j
             if progress is not None and j % 4096 == 0:
                 progress(g)
         # the table was too small for R: double it and continue from here
