@@ -16,9 +16,14 @@ so ``k = 1``. A conjugate match has ``(k − 1)R < 2δ_B + log √D``, so
 ``k ≤ 3``; the candidates ``x/2`` and ``x/3`` are tested exactly. No
 assumption enters: the result is unconditional.
 
-The table size is chosen from an estimate of ``hR`` (:mod:`lfunction`),
-which only affects speed; when the search runs past what the table was sized
-for, the table is doubled and the search goes on.
+The estimate ``E ≈ hR`` (:mod:`lfunction`) only affects speed, in two ways.
+It sizes the table; and giant steps across ``[0.98E, 1.02E]`` look for a copy
+of ``O`` there, whose distance ``x`` is then a multiple of ``R`` — when
+``h = 1`` usually ``R`` itself. The main search then stops at
+``g > x/2 + δ_B``: an ``R ≤ x/2`` would have been found by then, so ``R = x``.
+A wrong estimate finds nothing and costs 4 % of a sweep. When the search runs
+past what the table was sized for, the table is doubled and the search goes
+on.
 
 Once a multiple is pinned, the copy of ``O`` near it is re-reached by an exact
 doubling walk (:mod:`distances`), which yields the unit in compact form and
