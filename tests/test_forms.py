@@ -178,3 +178,31 @@ def test_prime_forms(D):
         elif D % p:
             # no form: p inert (brute-force residue test)
             assert all((b * b - D) % (4 * p) for b in range(2 * p))
+
+
+@given(
+    st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30)
+)
+def test_fuzz_constructor(a, b, c):
+    # any integer triple: a valid indefinite form, or one clear realquad error
+    from realquad.errors import RealquadError
+
+    try:
+        F = Form(a, b, c)
+    except RealquadError:
+        return
+    assert F.discriminant > 0
+    if F.is_primitive() and a:
+        G, M = F.reduce()
+        assert F.act(M) == G and G.is_reduced()
+
+
+@given(st.text(max_size=12), st.text(max_size=12))
+def test_fuzz_from_ab(a, b):
+    from realquad.errors import RealquadError
+
+    try:
+        F = Form.from_ab(a, b, 316)
+    except RealquadError:
+        return
+    assert F.discriminant == 316

@@ -172,3 +172,16 @@ def test_ideal_norm_multiplicative(D, p, q):
         return
     I, J = Ideal.from_form(F), Ideal.from_form(G)
     assert (I * J).norm == I.norm * J.norm
+
+
+@given(st.sampled_from([5, 13, 316, 1300, 60060]), st.integers(10**9, 10**12))
+def test_large_primes(D, n):
+    # primes far above √D: the prime form still reduces and represents p (brute-force check of F(x, y))
+    from sympy import nextprime
+
+    p = int(nextprime(n))
+    s = decompose_prime(D, p)
+    assert s.kind == {1: "split", 0: "ramified", -1: "inert"}[kronecker(D, p)]
+    if s.kind != "inert":
+        F = Form.identity(D) if s.represented_by_principal else s.form
+        assert F is not None and F.value(s.x, s.y) == p
