@@ -102,7 +102,16 @@ def test_a_second_writer_is_refused_and_readers_are_not(tmp_path: Path) -> None:
         assert again.count() == 12
 
 
-@pytest.mark.parametrize("content", [b"", b"hello, this is not a database\n" * 100])
+def test_an_empty_file_left_by_a_killed_creation_is_adopted(tmp_path: Path) -> None:
+    path = tmp_path / "cut-short.sqlite"
+    path.write_bytes(b"")  # sqlite3.connect creates the file before the schema transaction
+    with SurveyStore.open_for_writing(str(path)) as store:
+        assert store.count() == 0
+    with SurveyStore.open_for_reading(str(path)) as store:
+        assert store.count() == 0
+
+
+@pytest.mark.parametrize("content", [b"hello, this is not a database\n" * 100, b"x"])
 def test_foreign_files_are_refused_untouched(tmp_path: Path, content: bytes) -> None:
     path = tmp_path / "other.sqlite"
     path.write_bytes(content)

@@ -122,11 +122,27 @@ def _utc_now() -> str:
     return time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime())
 
 
-def _check_schema(connection: sqlite3.Connection, path: str) -> None:
-    """Raise :class:`InputError` unless ``connection`` is a survey store of our schema version."""
+def _is_empty(connection: sqlite3.Connection) -> bool:
+    """Whether the database holds nothing at all (a new file, or one whose creation was cut short)."""
+    header = (
+        connection.execute("PRAGMA application_id").fetchone()[0],
+        connection.execute("PRAGMA user_version").fetchone()[0],
+    )
+    objects = connection.execute("SELECT COUNT(*) FROM sqlite_master").fetchone()[0]
+    return header == (0, 0) and objects == 0
+
+
+def _check_schema(connection: sqlite3.Connection, path: str, allow_empty: bool = False) -> None:
+    """Raise :class:`InputError` unless ``connection`` is a survey store of our schema version.
+
+    With ``allow_empty`` an empty database (which a run killed while creating
+    the store leaves behind) passes too: the writer creates the schema in it.
+    """
     try:
         app = connection.execute("PRAGMA application_id").fetchone()[0]
         version = connection.execute("PRAGMA user_version").fetchone()[0]
+        if allow_empty and _is_empty(connection):
+            return
     except sqlite3.DatabaseError as exc:
         raise InputError(f"{path!r} is not a survey database ({exc})") from None
     if app != APPLICATION_ID:
@@ -138,17 +154,29 @@ def _check_schema(connection: sqlite3.Connection, path: str) -> None:
         )
 
 
-def _connect_read_only(path: str) -> sqlite3.Connection:
+def _looks_like_sqlite(path: str) -> bool:
+    """An empty file, or one that starts with the SQLite header (SQLite treats short junk as empty)."""
+    try:
+        with open(path, "rb") as fh:
+            head = fh.read(16)
+    except OSError as exc:
+        raise InputError(f"cannot read {path!r}: {exc.strerror}") from None
+    return head in (b"", b"SQLite format 3\x00")
+
+
+def _connect_read_only(path: str, allow_empty: bool = False) -> sqlite3.Connection:
     if not os.path.exists(path):
         raise InputError(f"no survey database {path!r} (run 'realquad survey run' first)")
     if os.path.isdir(path):
         raise InputError(f"{path!r} is a directory, not a survey database")
+    if not _looks_like_sqlite(path):
+        raise InputError(f"{path!r} is not a survey database (not an SQLite file)")
     try:
         connection = sqlite3.connect(f"file:{_uri_path(path)}?mode=ro", uri=True, timeout=30)
     except sqlite3.Error as exc:
         raise InputError(f"cannot open {path!r}: {exc}") from None
     try:
-        _check_schema(connection, path)
+        _check_schema(connection, path, allow_empty)
     except BaseException:
         connection.close()
         raise
@@ -180,7 +208,7 @@ class SurveyStore:
     def check_writable(path: str) -> None:
         """Raise :class:`InputError` unless ``path`` is a survey store or can become one (read-only check)."""
         if os.path.exists(path):
-            _connect_read_only(path).close()
+            _connect_read_only(path, allow_empty=True).close()
             if not os.access(path, os.W_OK):
                 raise InputError(f"cannot write {path!r}: permission denied")
             return
@@ -203,7 +231,7 @@ class SurveyStore:
             connection = sqlite3.connect(path, timeout=30, isolation_level=None)
             connection.execute("PRAGMA journal_mode = WAL")
             connection.execute("PRAGMA synchronous = NORMAL")
-            if connection.execute("PRAGMA application_id").fetchone()[0] == 0:
+            if _is_empty(connection):
                 _create(connection)
             _check_schema(connection, path)
         except sqlite3.Error as exc:
