@@ -70,14 +70,19 @@ def principal_half_cycle(D: int, max_period: int = DEFAULT_MAX_PERIOD) -> Princi
 
     Raises :class:`TooLargeError` when the period exceeds ``max_period``.
     """
+    quotients, parity, q_mid, steps = _walk("principal_half_cycle", D, max_period)
+    return PrincipalHalfCycle(D, list(quotients), parity, q_mid, steps)
+
+
+def _walk(kernel: str, D: int, max_period: int) -> tuple:
+    """Run the walk ``kernel`` (compiled if possible, the pure twin beyond its word size)."""
     try:
-        found = kernels.principal_half_cycle(D, max_period)
+        found = getattr(kernels, kernel)(D, max_period)
     except OverflowError:  # beyond the compiled kernel's word size
-        found = pure.principal_half_cycle(D, max_period)
+        found = getattr(pure, kernel)(D, max_period)
     if found is None:
         raise TooLargeError(_too_long_message(D, max_period))
-    quotients, parity, q_mid, steps = found
-    return PrincipalHalfCycle(D, list(quotients), parity, q_mid, steps)
+    return found
 
 
 #: Mean of log θ over a continued-fraction step (Lévy's constant π²/(12 log 2)).
@@ -235,13 +240,9 @@ def _regulator_accumulated(order: Order, digits: int, max_period: int) -> Regula
     does not give ``digits`` correct digits (the caller then uses the tree).
     """
     D = order.discriminant
-    try:
-        found = kernels.principal_regulator(D, max_period)
-    except OverflowError:  # beyond the compiled walk's word size
-        found = pure.principal_regulator(D, max_period)
-    if found is None:
-        raise TooLargeError(_too_long_message(D, max_period))
-    _steps, _parity, q_mid, mantissa, exponent, log_error = found
+    _steps, _parity, q_mid, mantissa, exponent, log_error = _walk(
+        "principal_regulator", D, max_period
+    )
     prec = 3 * 64 + D.bit_length()
     with mpmath.workprec(prec):
         value = mpmath.log(mantissa) + exponent * mpmath.ln2 + mpmath.log(mpmath.mpf(q_mid) / 2)
