@@ -234,3 +234,40 @@ def test_progress_path_agrees(D):
     assert (G1.invariants, G1.narrow_invariants) == (G2.invariants, G2.narrow_invariants)
     assert G1.generators == G2.generators and G1.narrow_generators == G2.narrow_generators
     assert G2.table.narrow_class_number == G2.narrow_class_number
+
+
+def _order_statistics(invariants: list[int]) -> dict[int, int]:
+    """How many elements of each order ⊕ Z/dᵢ has (by running through all elements)."""
+    from itertools import product
+    from math import gcd, lcm
+
+    counts: dict[int, int] = {}
+    for element in product(*(range(d) for d in invariants)):
+        order = 1
+        for x, d in zip(element, invariants, strict=True):
+            order = lcm(order, d // gcd(x, d))
+        counts[order] = counts.get(order, 0) + 1
+    return counts
+
+
+def test_structure_against_element_orders():
+    # independent of the class table and the Smith normal form: list the narrow classes by
+    # brute force (all reduced forms, their cycles), find each class's order by powering,
+    # and compare the number of elements of each order with that of the stated invariants
+    for D in [D for D in range(5, 1500) if D % 4 in (0, 1) and not is_square(D)]:
+        forms = {F for F in brute_force_reduced(D) if F.is_primitive()}
+        cycle_of: dict[Form, int] = {}
+        reps = []
+        for F in sorted(forms, key=lambda f: (abs(f.a), f.a, f.b)):
+            if F not in cycle_of:
+                for G in F.cycle():
+                    cycle_of[G] = len(reps)
+                reps.append(F)
+        principal = cycle_of[Form.identity(D)]
+        counts: dict[int, int] = {}
+        for F in reps:
+            k, G = 1, F.reduced()
+            while cycle_of[G] != principal:
+                G, k = G.compose(F), k + 1
+            counts[k] = counts.get(k, 0) + 1
+        assert counts == _order_statistics(class_group(D).narrow_invariants), D
