@@ -48,7 +48,7 @@ from typing import TYPE_CHECKING, Any
 
 from realquad._backend import COMPILED, kernels, pure
 from realquad.arith import Order, isqrt
-from realquad.errors import TooLargeError
+from realquad.errors import DomainError, TooLargeError
 from realquad.forms import Form, call_kernel
 from realquad.results import Proof, Regulator, Unit
 from realquad.smith_normal_form import SmithForm, smith_normal_form
@@ -122,8 +122,12 @@ class ClassTable:
         b0 = r if (r - self.D) % 2 == 0 else r - 1
         return self.index.get((-1, b0)) == 0
 
-    def class_index(self, form: Form) -> int:
-        """The class number of a primitive form of discriminant ``D``."""
+    def class_index(self, form: Form | Ideal) -> int:
+        """The class number of a primitive form (or invertible ideal) of discriminant ``D``."""
+        if not isinstance(form, Form):
+            form = form.form()
+        if form.discriminant != self.D or not form.is_primitive():
+            raise DomainError(f"{form} is not a primitive form of discriminant {self.D}")
         G = form.reduced()
         return self.index[(G.a, G.b)]
 
@@ -272,20 +276,20 @@ class ClassGroup:
     def discriminant(self) -> int:
         return self.order.discriminant
 
-    def narrow_class_of(self, form: Form) -> list[int]:
+    def narrow_class_of(self, form: Form | Ideal) -> list[int]:
         """Coordinates of the class of ``form`` on :attr:`narrow_generators` (mod the invariants)."""
         return self._narrow_smith.coordinates(
             list(self.table.vectors[self.table.class_index(form)])
         )
 
-    def class_of(self, form: Form) -> list[int]:
+    def class_of(self, form: Form | Ideal) -> list[int]:
         """Coordinates of the wide class of ``form`` on :attr:`generators`."""
         return self._wide_smith.coordinates(list(self.table.vectors[self.table.class_index(form)]))
 
-    def is_narrowly_principal(self, form: Form) -> bool:
+    def is_narrowly_principal(self, form: Form | Ideal) -> bool:
         return self.table.class_index(form) == 0
 
-    def is_principal(self, form: Form) -> bool:
+    def is_principal(self, form: Form | Ideal) -> bool:
         return not any(self.class_of(form))
 
     def narrow_classes(self) -> list[list[Form]]:

@@ -185,3 +185,14 @@ def test_large_primes(D, n):
     if s.kind != "inert":
         F = Form.identity(D) if s.represented_by_principal else s.form
         assert F is not None and F.value(s.x, s.y) == p
+
+
+def test_classes_of_ideals():
+    G = class_group(316)
+    P = Ideal.from_form(Form(3, 2, -26))
+    assert G.narrow_class_of(P) == G.narrow_class_of(Form(3, 2, -26))
+    assert G.is_narrowly_principal(P * P.conjugate())
+    from realquad.errors import DomainError
+
+    with pytest.raises(DomainError):
+        G.class_of(Form(1, 1, -1))  # discriminant 5, not 316
