@@ -62,7 +62,9 @@ class OptionalBuildExt(build_ext):
 KERNELS = Extension(
     "realquad._kernels._ckernels",
     sources=["realquad/_kernels/_ckernels.c"],
-    extra_compile_args=[] if sys.platform == "win32" else ["-O2", "-fno-fast-math"],
+    extra_compile_args=[]
+    if sys.platform == "win32"
+    else ["-O2", "-fno-fast-math", "-ffp-contract=off"],
     optional=not REQUIRED,
 )
 

@@ -416,3 +416,32 @@ def test_class_kernels_agree(D, max_forms):
 def test_class_kernels_refuse_beyond_62_bits():
     with pytest.raises(OverflowError):
         compiled.form_class_numbers(1 << 62, 1, [2, 3], 10)
+
+
+# -- infrastructure baby steps ---------------------------------------------------
+
+
+@needs_compiled
+@given(st.integers(5, (1 << 105) - 1).map(_discriminant), st.integers(0, 300))
+@example(4 * 1000000000091, 5000)
+@example((1 << 62) + 1, 10)  # one above a square: short cycles
+@example(10**20 + 1, 200)
+def test_baby_steps_agree(D, count):
+    """The compiled baby steps give the twin's keys and distances bit for bit."""
+    r = math.isqrt(D)
+    sq = math.sqrt(D)
+    b = r if (r - D) % 2 == 0 else r - 1
+    args = (D, r, sq, 1, b, 0.0, count)
+    first = pure.infrastructure_baby_steps(*args)
+    assert compiled.infrastructure_baby_steps(*args) == first
+    if first[0]:  # resume from the last ideal reached, as the search does
+        _keys, _dists, a, b, dist, _back = first
+        again = (D, r, sq, a, b, dist, count)
+        assert compiled.infrastructure_baby_steps(*again) == pure.infrastructure_baby_steps(*again)
+
+
+@needs_compiled
+def test_baby_steps_refuse_beyond_106_bits():
+    D = (1 << 106) + 1
+    with pytest.raises(OverflowError):
+        compiled.infrastructure_baby_steps(D, math.isqrt(D), math.sqrt(D), 1, 1, 0.0, 3)

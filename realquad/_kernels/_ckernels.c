@@ -1321,6 +1321,134 @@ done:
 }
 
 /* ------------------------------------------------------------------ */
+/* infrastructure: baby steps on reduced principal ideals              */
+/* ------------------------------------------------------------------ */
+
+/* D below 2^106 keeps every a, b below 2^53, so each int-to-double conversion
+   is exact and the distances are bit for bit those of the twin (same libm log,
+   no contraction into fused multiply-adds). */
+#define INFRA_BITS 106
+
+static int
+get_i128(PyObject *obj, i128 *out, const char *what)
+{
+    int overflow = 0;
+    long long v;
+    unsigned long long lo;
+    PyObject *hi_obj, *index, *shift;
+    index = PyNumber_Index(obj);
+    if (index == NULL)
+        return -1;
+    v = PyLong_AsLongLongAndOverflow(index, &overflow);
+    if (!overflow) {
+        Py_DECREF(index);
+        if (v == -1 && PyErr_Occurred())
+            return -1;
+        *out = v;
+        return 0;
+    }
+    lo = PyLong_AsUnsignedLongLongMask(index);
+    shift = PyLong_FromLong(64);
+    hi_obj = shift ? PyNumber_Rshift(index, shift) : NULL;
+    Py_XDECREF(shift);
+    Py_DECREF(index);
+    if (hi_obj == NULL)
+        return -1;
+    v = PyLong_AsLongLongAndOverflow(hi_obj, &overflow);
+    Py_DECREF(hi_obj);
+    if (overflow || v > ((long long)1 << 61) || v < -((long long)1 << 61)) {
+        PyErr_Format(PyExc_OverflowError, "%s is outside the compiled kernels' 128-bit range", what);
+        return -1;
+    }
+    *out = ((i128)v << 64) | (i128)lo;
+    return 0;
+}
+
+static PyObject *
+py_from_i128(i128 v)
+{
+    unsigned char bytes[16];
+    int j;
+    u128 u = (u128)v;
+    if (fits_i64(v))
+        return PyLong_FromLongLong((long long)v);
+    for (j = 0; j < 16; j++)
+        bytes[j] = (unsigned char)(u >> (8 * j));
+#if PY_VERSION_HEX >= 0x030D0000
+    return PyLong_FromNativeBytes(bytes, 16, Py_ASNATIVEBYTES_LITTLE_ENDIAN);
+#else
+    return _PyLong_FromByteArray(bytes, 16, 1, 1);
+#endif
+}
+
+static PyObject *
+k_infrastructure_baby_steps(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    i128 D, r, a, b, width, two_a, bt;
+    double sq, dist;
+    int64_t count, k;
+    PyObject *keys = NULL, *dists = NULL, *item;
+    int back = 0;
+    if (check_nargs(nargs, 7, "infrastructure_baby_steps") < 0 || get_i128(args[0], &D, "D") < 0 ||
+        get_i128(args[1], &r, "r") < 0 || get_i128(args[3], &a, "a") < 0 || get_i128(args[4], &b, "b") < 0 ||
+        get_limit(args[6], &count) < 0)
+        return NULL;
+    sq = PyFloat_AsDouble(args[2]);
+    if (sq == -1.0 && PyErr_Occurred())
+        return NULL;
+    dist = PyFloat_AsDouble(args[5]);
+    if (dist == -1.0 && PyErr_Occurred())
+        return NULL;
+    if (D <= 0 || D >= ((i128)1 << INFRA_BITS) || r < 0 || r >= ((i128)1 << 53) || a <= 0 || a >= ((i128)1 << 53) ||
+        b <= -((i128)1 << 53) || b >= ((i128)1 << 53)) {
+        PyErr_SetString(PyExc_OverflowError, "the compiled baby steps take D < 2^106 and reduced ideals");
+        return NULL;
+    }
+    keys = PyList_New(0);
+    dists = PyList_New(0);
+    if (keys == NULL || dists == NULL)
+        goto fail;
+    width = 2 * r + 2;
+    for (k = 0; k < count; k++) {
+        two_a = 2 * a;
+        bt = floormod(b + r, two_a) - r;
+        a = floordiv(D - bt * bt, 2 * two_a);
+        b = -bt;
+        if (a <= 0 || a >= ((i128)1 << 53) || b <= -((i128)1 << 53) || b >= ((i128)1 << 53)) {
+            overflow();
+            goto fail;
+        }
+        if (b >= 0)
+            dist += log(((double)b + sq) / (double)(2 * a));
+        else
+            dist += log((double)two_a / (sq - (double)b));
+        if (a == 1) {
+            back = 1;
+            break;
+        }
+        item = py_from_i128(a * width + b);
+        if (item == NULL || PyList_Append(keys, item) < 0) {
+            Py_XDECREF(item);
+            goto fail;
+        }
+        Py_DECREF(item);
+        item = PyFloat_FromDouble(dist);
+        if (item == NULL || PyList_Append(dists, item) < 0) {
+            Py_XDECREF(item);
+            goto fail;
+        }
+        Py_DECREF(item);
+        if ((k & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
+            goto fail;
+    }
+    return Py_BuildValue("(NNNNdi)", keys, dists, py_from_i128(a), py_from_i128(b), dist, back);
+fail:
+    Py_XDECREF(keys);
+    Py_XDECREF(dists);
+    return NULL;
+}
+
+/* ------------------------------------------------------------------ */
 /* module                                                              */
 /* ------------------------------------------------------------------ */
 
@@ -1353,6 +1481,8 @@ static PyMethodDef methods[] = {
      "Generators of the narrow class group: J, then forms of prime-power norm q with 4q^2 < D."},
     {"form_class_numbers", (PyCFunction)(void (*)(void))k_form_class_numbers, METH_FASTCALL,
      "(h+, 1 if (-1, b0, c0) is principal else 0) from the cycles of reduced forms, or None."},
+    {"infrastructure_baby_steps", (PyCFunction)(void (*)(void))k_infrastructure_baby_steps, METH_FASTCALL,
+     "Up to count baby steps (rho) on reduced principal ideals, with binary64 distances."},
     {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D, reduced."},
     {NULL, NULL, 0, NULL},
