@@ -37,6 +37,17 @@ def principal_cycle(cycle: Cycle) -> list[tuple[tuple[int, int], float]]:
             return out
 
 
+def two_cycle_ideals(cycle: Cycle, seed: int) -> tuple[tuple[int, int], tuple[int, int]]:
+    """Two ideals of the principal cycle, ``seed mod 50`` and ``(seed >> 8) mod 70`` steps from ``O``."""
+    ideals = []
+    for steps in (seed % 50, (seed >> 8) % 70):
+        ideal = cycle.principal
+        for _ in range(steps):
+            ideal = cycle.rho(*ideal)
+        ideals.append(ideal)
+    return ideals[0], ideals[1]
+
+
 # -- regulator agreement with the continued fraction (realquad.units, independent code) --
 
 
@@ -156,11 +167,7 @@ def test_composition_is_ideal_multiplication() -> None:
 def test_fused_giant_step_matches_composition_and_reduction(n: int, seed: int) -> None:
     D = discriminant_near(n)
     cyc = Cycle(D)
-    I1, I2 = cyc.principal, cyc.principal
-    for _ in range(seed % 50):
-        I1 = cyc.rho(*I1)
-    for _ in range((seed >> 8) % 70):
-        I2 = cyc.rho(*I2)
+    I1, I2 = two_cycle_ideals(cyc, seed)
     d, a3, b3 = cyc.multiply(*I1, *I2)
     a, b, shift = cyc.reduce_float(a3, b3)
     a_, b_, mu = cyc.reduce_exact(a3, b3)
@@ -242,11 +249,7 @@ def test_compiled_twins_agree_with_pure(n: int, seed: int) -> None:
 
     D = discriminant_near(n)
     cyc = Cycle(D)
-    I1, I2 = cyc.principal, cyc.principal
-    for _ in range(seed % 40):
-        I1 = cyc.rho(*I1)
-    for _ in range((seed >> 8) % 40):
-        I2 = cyc.rho(*I2)
+    I1, I2 = two_cycle_ideals(cyc, seed)
     args = (D, cyc.root, cyc.sqrt_float)
     pure = _pure.infrastructure_giant_step(*args, *I1, *I2)
     assert giant_step_float(*args, *I1, *I2) == pure
