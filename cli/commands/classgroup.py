@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import time
 from collections.abc import Callable
 from typing import Any, TypeVar
 
@@ -130,9 +131,13 @@ def command(d: str | None, disc: str | None, with_forms: bool, as_json: bool) ->
     order = order_from_options(d, disc)
     progress = None
     if order.discriminant > 10**11:
+        last = [time.monotonic()]
 
         def progress(classes: int) -> None:
-            click.echo(f"realquad: {classes:,} classes found so far …", err=True)
+            now = time.monotonic()
+            if now - last[0] >= 2:  # at most one line every two seconds
+                last[0] = now
+                click.echo(f"realquad: {classes:,} classes found so far …", err=True)
 
     G = class_group(order, progress=progress)
     payload = _payload(G, with_forms)
