@@ -445,3 +445,37 @@ def test_baby_steps_refuse_beyond_106_bits():
     D = (1 << 106) + 1
     with pytest.raises(OverflowError):
         compiled.infrastructure_baby_steps(D, math.isqrt(D), math.sqrt(D), 1, 1, 0.0, 3)
+
+
+# -- arbitrary arguments: no crash, and the twin's answer or OverflowError ------------
+
+any_int = st.integers() | st.sampled_from(EDGES + [INT64_MAX + 1, INT64_MIN - 1, 1 << 64, 1 << 127])
+
+
+def _same_or_refused(name: str, *args: object) -> None:
+    try:
+        expect: object = getattr(pure, name)(*args)
+    except Exception as exc:  # the twin refuses: the compiled kernel must refuse too
+        with pytest.raises(Exception) as caught:
+            getattr(compiled, name)(*args)
+        assert isinstance(caught.value, (type(exc), OverflowError)), (name, args, exc, caught.value)
+        return
+    try:
+        got = getattr(compiled, name)(*args)
+    except OverflowError:
+        return  # beyond the compiled range: callers fall back to the twin
+    assert got == expect, (name, args)
+
+
+@needs_compiled
+@given(any_int, any_int, any_int)
+def test_arbitrary_arguments(x, y, z):
+    small = z % 50  # step limits stay small: the walks on non-discriminants may be long
+    _same_or_refused("principal_half_cycle", x, small)
+    _same_or_refused("principal_period", x, small)
+    _same_or_refused("extended_gcd", x, y)
+    _same_or_refused("form_rho_b", x, y, z)
+    _same_or_refused("form_is_reduced", x, y, z)
+    _same_or_refused("form_compose", x, y, z, x, y * y - 4 * x * z)
+    _same_or_refused("kronecker_symbols", x, [y, z])
+    _same_or_refused("convergent_leaves", [abs(x), abs(y)], small)
