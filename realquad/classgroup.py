@@ -118,9 +118,7 @@ class ClassTable:
     @property
     def j_is_principal(self) -> bool:
         """Whether ``(−1, b₀, c₀)`` lies in the principal cycle (``N(ε) = −1``)."""
-        r = isqrt(self.D)
-        b0 = r if (r - self.D) % 2 == 0 else r - 1
-        return self.index.get((-1, b0)) == 0
+        return self.index.get((-1, Form.identity(self.D).b)) == 0
 
     def class_index(self, form: Form | Ideal) -> int:
         """The class number of a primitive form (or invertible ideal) of discriminant ``D``."""

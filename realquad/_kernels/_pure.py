@@ -308,6 +308,11 @@ def form_compose(a1: int, b1: int, a2: int, b2: int, D: int) -> tuple[int, int, 
     return A, B, (B * B - D) // (4 * A)
 
 
+def _principal_b(D: int, r: int) -> int:
+    """The ``b`` of the reduced principal form ``(1, b, ·)``: ``b < √D`` largest, ``b ≡ D (mod 2)``."""
+    return r if (r - D) % 2 == 0 else r - 1
+
+
 def sqrt_mod_prime(n: int, p: int) -> int:
     """A square root of ``n`` modulo the prime ``p`` (Tonelli–Shanks), or ``−1`` if none."""
     n %= p
@@ -370,7 +375,7 @@ def form_class_candidates(D: int, conductor: int, primes: list[int]) -> list[tup
     primitive ``(p^k, b, c)`` with ``4p^{2k} < D``.
     """
     r = int(isqrt(D))
-    b0 = r if (r - D) % 2 == 0 else r - 1
+    b0 = _principal_b(D, r)
     out = [(-1, b0, (D - b0 * b0) // 4)]
     for p in primes:
         if 4 * p * p >= D:
@@ -414,7 +419,7 @@ def form_class_table(
     ops = steps if steps is not None else sys.modules[__name__]
     form_reduce, form_cycle, form_compose = ops.form_reduce, ops.form_cycle, ops.form_compose  # type: ignore[attr-defined]
     r = int(isqrt(D))
-    b0 = r if (r - D) % 2 == 0 else r - 1
+    b0 = _principal_b(D, r)
     start = (1, b0, (b0 * b0 - D) // 4)
     walk = form_cycle(start[0], start[1], start[2], D, r, max_forms)
     if walk is None:
@@ -481,7 +486,7 @@ def form_class_numbers(
         return None
     index, representatives = table[0], table[1]
     r = int(isqrt(D))
-    b0 = r if (r - D) % 2 == 0 else r - 1
+    b0 = _principal_b(D, r)
     return len(representatives), int(index.get((-1, b0)) == 0)
 
 
@@ -502,7 +507,7 @@ def form_class_relations(
         return None
     index, representatives, _, generators, relations = table
     r = int(isqrt(D))
-    b0 = r if (r - D) % 2 == 0 else r - 1
+    b0 = _principal_b(D, r)
     return len(representatives), int(index.get((-1, b0)) == 0), generators, relations
 
 
