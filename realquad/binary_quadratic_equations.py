@@ -41,6 +41,7 @@ from __future__ import annotations
 from fractions import Fraction
 from math import gcd, lcm
 
+import gmpy2
 import mpmath
 
 from realquad.arith import as_integer, is_square, isqrt
@@ -177,6 +178,7 @@ def _orbit_families(
             step, M, t, log_step = (-half[0], -half[1]), M2, t2, log_step / 2
             generator = f"−η^{p // 2}"
     T = AffineMap(tuple(int(v) for v in M), (int(t[0]), int(t[1])))  # type: ignore[arg-type]
+    step = (gmpy2.mpz(step[0]), gmpy2.mpz(step[1]))
     span = lcm(r, p) // r
     reps: dict[Point, Point] = {}
     for alpha in classes:

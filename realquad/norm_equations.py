@@ -192,6 +192,7 @@ class _Units:
     plus: tuple[int, int]  # least unit of norm +1 of Z[√d]
     minus: tuple[int, int] | None  # least unit of norm −1, if any
     log_plus: float
+    plus_mpz: Point  # ``plus`` as gmpy2 integers, for the arithmetic
 
 
 @lru_cache(maxsize=16)
@@ -201,7 +202,7 @@ def _units(d: int) -> _Units:
     assert one.x is not None and one.y is not None
     minus = (neg.x, neg.y) if neg.solvable and neg.x is not None and neg.y is not None else None
     log_plus = float(mpmath.log(mpmath.mpf(one.x) + mpmath.mpf(one.y) * mpmath.sqrt(d)))
-    return _Units(d, (one.x, one.y), minus, log_plus)
+    return _Units(d, (one.x, one.y), minus, log_plus, (gmpy2.mpz(one.x), gmpy2.mpz(one.y)))
 
 
 def _mul(a: Point, b: Point, d: int, den: int = 1) -> Point:
@@ -232,7 +233,8 @@ def _log_sizes(v: Point, n: int, d: int) -> tuple[float, float]:
     x, y = v
     big = float(mpmath.log(mpmath.mpf(abs(x)) + mpmath.mpf(abs(y)) * mpmath.sqrt(d)))
     small = float(mpmath.log(abs(n))) - big
-    return (big, small) if x * y >= 0 else (small, big)
+    same_sign = x == 0 or y == 0 or (x > 0) == (y > 0)
+    return (big, small) if same_sign else (small, big)
 
 
 def balanced_representative(
@@ -253,16 +255,26 @@ def balanced_representative(
     minimum lies next to the balance point ``|v εᵏ| = |v' ε^{−k}|``, which the
     logarithms locate.
     """
+    mpz = gmpy2.mpz
+    v = (mpz(v[0]), mpz(v[1]))
+    if not isinstance(unit[0], type(v[0])):
+        unit = (mpz(unit[0]), mpz(unit[1]))
+    inverse = (unit[0], -unit[1])
     la, lc = _log_sizes(v, n, d)
-    k = round((lc - la) / (2 * log_unit))
-    w = _mul(v, _unit_power(unit, k, d, den), d, den)
-    cands = {j: _mul(w, _unit_power(unit, j, d, den), d, den) for j in (-2, -1, 0, 1, 2)}
-    lo, hi = -2, 2
+    x0 = (lc - la) / (2 * log_unit)  # |y| is symmetric about the balance point x0
+    k = round(x0)
+    w = _mul(v, _unit_power(unit, k, d, den), d, den) if k else v
+    if abs(abs(x0 - k) - 0.5) > 1e-6:  # the nearest integer is certain: no neighbour can win
+        pool = [w, (-w[0], -w[1])] if signs else [w]
+        x, y = min(pool, key=key)
+        return int(x), int(y)
+    cands = {0: w, 1: _mul(w, unit, d, den), -1: _mul(w, inverse, d, den)}
+    lo, hi = -1, 1
     while True:
         best = min(cands, key=lambda j: abs(cands[j][1]))
         if best == lo:
             lo -= 1
-            cands[lo] = _mul(cands[lo + 1], (unit[0], -unit[1]), d, den)
+            cands[lo] = _mul(cands[lo + 1], inverse, d, den)
         elif best == hi:
             hi += 1
             cands[hi] = _mul(cands[hi - 1], unit, d, den)
@@ -271,7 +283,8 @@ def balanced_representative(
     pool = list(cands.values())
     if signs:
         pool += [(-c[0], -c[1]) for c in pool]
-    return min(pool, key=key)
+    x, y = min(pool, key=key)
+    return int(x), int(y)
 
 
 # ---------------------------------------------------------------------------
@@ -279,6 +292,7 @@ def balanced_representative(
 
 
 _LEAF = 48
+_CHECK_PRIME = gmpy2.mpz(2**127 - 1)
 
 
 @lru_cache(maxsize=2)
@@ -299,19 +313,88 @@ def _segment(d: int, start: int, stop: int) -> tuple:
     return matrix_product(parts)
 
 
-def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
-    """One solution (not yet canonical) in each class of primitive solutions.
+def _segments(d: int, positions: set[int]) -> dict[int, tuple]:
+    """``M[0:j]`` for ``j ≤ L − j`` and ``M[j:L]`` otherwise, for every ``j`` in ``positions``.
 
-    The reduced state ``S_j`` reached from ``(z + √d)/|m|`` is joined to the
-    nearer ``Q = 1`` state of the cycle (``S_0`` backwards or ``S_L``
-    forwards); the sign of the norm, ``(−1)^(steps)``, is known before any
-    big product is formed.
+    ``M[s:t]`` is the product of the cycle's quotient matrices ``a_s … a_{t−1}``.
+    Sorted by position, each product extends the previous one by the short
+    stretch between them, so all of them together cost about as much as
+    writing them down.
     """
-    cyc = _principal_cycle(d)
-    units = _units(d)
-    r, L = cyc.r, cyc.period
+    L = _principal_cycle(d).period
+    out: dict[int, tuple] = {}
+    mpz = gmpy2.mpz
+    run, at = (mpz(1), mpz(0), mpz(0), mpz(1)), 0
+    for j in sorted(p for p in positions if p <= L - p):
+        run = _matmul(run, _segment(d, at, j))
+        at = j
+        out[j] = run
+    run, at = (mpz(1), mpz(0), mpz(0), mpz(1)), L
+    for j in sorted((p for p in positions if p > L - p), reverse=True):
+        run = _matmul(_segment(d, j, at), run)
+        at = j
+        out[j] = run
+    return out
+
+
+def _matmul(m: tuple, n: tuple) -> tuple:
+    a, b, c, d = m
+    e, f, g, h = n
+    return (a * e + b * g, a * f + b * h, c * e + d * g, c * f + d * h)
+
+
+def _join_sign(d: int, Q0: int, steps_to_state: int, j: int) -> int:
+    """The norm ``(−1)^(steps)·Q0`` of the element joining a lattice at ``S_j`` to the nearer ``Q = 1`` state."""
+    L = _principal_cycle(d).period
+    steps = steps_to_state - j if j <= L - j else steps_to_state + L - j
+    return Q0 if steps % 2 == 0 else -Q0
+
+
+def _join(d: int, P0: int, Q0: int, quot: list[int], j: int, m: int, segment: tuple) -> Point:
+    """An element of norm ``m`` of ``[Q0, P0 + √d]`` whose reduced state is ``S_j``.
+
+    ``quot`` are the partial quotients that took ``(P0 + √d)/Q0`` to ``S_j``;
+    ``segment`` is ``M[0:j]`` (joined backwards to ``S_0``) or ``M[j:L]``
+    (forwards to ``S_L``), as :func:`_segments` gives them. The norm is
+    :func:`_join_sign`; a wrong sign is mended by the unit of norm −1 (the
+    caller makes sure there is one).
+    """
+    L = _principal_cycle(d).period
+    norm = _join_sign(d, Q0, len(quot), j)
+    A, A2, B, B2 = _convergent(quot) if quot else (1, 0, 0, 1)
+    if j <= L - j:
+        _, _, q, qq = segment
+        det = 1 if j % 2 == 0 else -1
+        A1, B1 = det * (A * qq - A2 * q), det * (B * qq - B2 * q)
+    else:
+        p, _, q, _ = segment
+        A1, B1 = A * p + A2 * q, B * p + B2 * q
+    x, y = gmpy2.mpz(Q0 * A1 - P0 * B1), gmpy2.mpz(B1)
+    xm, ym = x % _CHECK_PRIME, y % _CHECK_PRIME  # x² − dy² = norm, confirmed modulo a large prime
+    if (xm * xm - d * ym * ym - norm) % _CHECK_PRIME:
+        raise ArithmeticError("internal check failed: convergent norm")
+    if norm != m:
+        minus = _units(d).minus
+        assert minus is not None
+        x, y = _mul((x, y), (gmpy2.mpz(minus[0]), gmpy2.mpz(minus[1])), d)
+    return (x, y)
+
+
+def _join_all(d: int, m: int, states: list[tuple[int, list[int], int]]) -> list[Point]:
+    """:func:`_join` for every ``(P0, quot, j)`` whose sign can be made right."""
     am = abs(m)
-    found: list[Point] = []
+    if _units(d).minus is None:
+        states = [s for s in states if _join_sign(d, am, len(s[1]), s[2]) == m]
+    segs = _segments(d, {j for _, _, j in states})
+    return [_join(d, P0, am, quot, j, m, segs[j]) for P0, quot, j in states]
+
+
+def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
+    """One solution (not yet canonical) in each class of primitive solutions."""
+    cyc = _principal_cycle(d)
+    r = cyc.r
+    am = abs(m)
+    states: list[tuple[int, list[int], int]] = []
     for z in square_roots_mod(d, am, factors):
         P, Q = z, am
         quot: list[int] = []
@@ -321,50 +404,28 @@ def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
             P = a * Q - P
             Q = (d - P * P) // Q
         j = cyc.index.get(cyc.key(P, Q))
-        if j is None:
-            continue  # J_z is not principal
-        t = len(quot)
-        backward = j <= L - j
-        steps = t - j if backward else t + L - j
-        norm = am if steps % 2 == 0 else -am
-        if norm != m and units.minus is None:
-            continue  # every generator of J_z has norm −m
-        A, A2, B, B2 = _convergent(quot) if quot else (1, 0, 0, 1)
-        if backward:
-            p, pp, q, qq = _segment(d, 0, j)
-            det = 1 if j % 2 == 0 else -1
-            A1, B1 = det * (A * qq - A2 * q), det * (B * qq - B2 * q)
-        else:
-            p, pp, q, qq = _segment(d, j, L)
-            A1, B1 = A * p + A2 * q, B * p + B2 * q
-        x, y = int(am * A1 - z * B1), int(B1)
-        assert x * x - d * y * y == norm, "internal check failed: convergent norm"
-        if norm != m:
-            assert units.minus is not None
-            x, y = _mul((x, y), units.minus, d)
-        found.append((x, y))
-    return found
+        if j is not None:  # else J_z is not principal
+            states.append((z, quot, j))
+    return _join_all(d, m, states)
 
 
 def _primitive_short(d: int, m: int) -> list[Point]:
-    """Primitive solutions when ``|m| < √d``: convergents ``p_{k−1}/q_{k−1}`` of ``√d`` with ``(−1)^k Q_k = m``."""
+    """Primitive solutions when ``|m| < √d``: the reduced states of the principal cycle with ``Q = |m|``.
+
+    Every primitive solution with ``x, y > 0`` is then a convergent
+    ``p_{k−1}/q_{k−1}`` of ``√d`` (Lagrange), with ``(−1)^k Q_k = m``; so each
+    class meets a state ``S_k`` with ``Q_k = |m|``, and the state itself
+    (no reduction needed) is joined to the principal state.
+    """
     cyc = _principal_cycle(d)
-    L = cyc.period
-    span = L if L % 2 == 0 else 2 * L
-    # convergents of √d: a_0 = r, then the cycle quotients a_1 … (the cycle starts at r + √d)
-    quots = [cyc.r] + cyc.quotients[1:] + [cyc.quotients[0]]
-    if span > L:
-        quots = quots + quots[1:] + [cyc.quotients[0]]
-    found: list[Point] = []
-    p0, p1, q0, q1 = 1, 0, 0, 1  # (p_{k−1}, p_{k−2}, q_{k−1}, q_{k−2})
-    for k in range(1, span + 1):
-        a = quots[k - 1]
-        p0, p1 = a * p0 + p1, p0
-        q0, q1 = a * q0 + q1, q0
-        Qk = cyc.Q[k % L]
-        if Qk == abs(m) and (Qk if k % 2 == 0 else -Qk) == m:
-            found.append((p0, q0))
-    return found
+    am = abs(m)
+    states: list[tuple[int, list[int], int]] = []
+    P, quotients = cyc.r, cyc.quotients
+    for k, Qk in enumerate(cyc.Q):  # P_{k+1} = a_k Q_k − P_k along the way
+        if Qk == am:
+            states.append((P, [], k))
+        P = quotients[k] * Qk - P
+    return _join_all(d, m, states)
 
 
 def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
@@ -394,7 +455,7 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
             prim = _primitive_lmm(d, m, mf)
             methods.add(METHOD_CF)
         for v in prim:
-            w = balanced_representative(v, units.plus, units.log_plus, m, d)
+            w = balanced_representative(v, units.plus_mpz, units.log_plus, m, d)
             classes.add((f * w[0], f * w[1]))
     method = "; ".join(sorted(methods))
     return sorted(classes, key=lambda v: (v[1], v[0])), method
