@@ -61,7 +61,11 @@ class QuadraticNumber:
         x, y, c = gmpy2.mpz(x), gmpy2.mpz(y), gmpy2.mpz(c)
         if c < 0:
             x, y, c = -x, -y, -c
-        g = gmpy2.gcd(gmpy2.gcd(x, y), c)
+        # gcd with the (usually tiny) denominator first: gcd(x, y) of two huge
+        # numbers would cost far more than the rest of a unit computation.
+        g = gmpy2.gcd(c, x)
+        if g != 1:
+            g = gmpy2.gcd(g, y)
         if g != 1:
             x, y, c = x // g, y // g, c // g
         self.x, self.y, self.c, self.d = x, y, c, int(d)
@@ -147,6 +151,8 @@ class QuadraticNumber:
             raise InputError("exponent must be an integer")
         if k < 0:
             return self.inverse() ** (-k)
+        if k == 1:
+            return self
         # binary powering on the numerator, the denominator separately
         rx, ry = gmpy2.mpz(1), gmpy2.mpz(0)
         bx, by = self.x, self.y
