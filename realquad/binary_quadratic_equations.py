@@ -46,7 +46,6 @@ import mpmath
 
 from realquad.arith import as_integer, is_square, isqrt
 from realquad.errors import TooLargeError
-from realquad.factoring import divisors_from_factorization, factorize
 from realquad.norm_equations import (
     _definite,
     _mul,
@@ -55,6 +54,7 @@ from realquad.norm_equations import (
     _unit_power,
     _units,
     balanced_representative,
+    divisors,
     norm_classes,
 )
 from realquad.pell import pell
@@ -285,7 +285,7 @@ def product_equation(b: int, d: int, e: int, f: int) -> QuadraticSolutions:
         )
         return QuadraticSolutions(coefficients, not fams, fams, [], method, notes=note)
     sols = set()
-    for u in divisors_from_factorization(factorize(N)):
+    for u in divisors(N):
         for uu in (u, -u):
             v = N // uu
             x, rx = divmod(uu - e, b)

@@ -70,6 +70,10 @@ from realquad.solution_families import (
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
 MAX_CYCLE = 2_000_000
+#: Most square roots of d modulo |m| the solver examines.
+MAX_ROOTS = 1 << 20
+#: Most divisors the factorisation cases enumerate.
+MAX_DIVISORS = 1 << 22
 
 METHOD_CF = "continued fractions of (z + √d)/|m| for every square root z of d mod |m| (LMM), principal cycle table"
 METHOD_SHORT = "convergents of √d (|m| < √d)"
@@ -90,6 +94,26 @@ class NormEquationSolution(QuadraticSolutions):
 # square roots modulo m
 
 
+def _root_count_bound(d: int, p: int, e: int) -> int:
+    """An upper bound for the number of square roots of ``d`` modulo ``p^e``.
+
+    ``p ∤ d``: 2 (4 for ``p = 2``). ``v = v_p(d) ≥ e``: ``z ≡ 0 (mod p^⌈e/2⌉)``,
+    ``p^⌊e/2⌋`` roots. ``v < e``: none for odd ``v``; else ``z = p^(v/2) w`` with
+    ``w`` a root of a unit, at most ``4 p^(v/2)``.
+    """
+    if d % p:
+        return 4 if p == 2 else 2
+    if d == 0:
+        return p ** (e // 2)
+    v = 0
+    while d and d % p == 0 and v < e:
+        d //= p
+        v += 1
+    if v >= e:
+        return p ** (e // 2)
+    return 0 if v % 2 else 4 * p ** (v // 2)
+
+
 def square_roots_mod(d: int, m: int, factors: dict[int, int] | None = None) -> list[int]:
     """All ``z`` in ``[0, m)`` with ``z² ≡ d (mod m)``, by Hensel lifting and the CRT (``m ≥ 1``).
 
@@ -102,6 +126,16 @@ def square_roots_mod(d: int, m: int, factors: dict[int, int] | None = None) -> l
         return [0]
     if factors is None:
         factors = factorize(m)
+    bound = 1
+    for p, e in factors.items():
+        bound *= _root_count_bound(d, p, e)
+    if bound == 0:
+        return []
+    if bound > MAX_ROOTS:
+        raise TooLargeError(
+            f"z² ≡ d has up to {bound:,} square roots modulo the {len(str(m))}-digit |m| "
+            f"(limit {MAX_ROOTS:,}); too many classes to examine"
+        )
     roots, modulus = [0], 1
     for p, e in factors.items():
         q = p**e
@@ -461,6 +495,17 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
     return sorted(classes, key=lambda v: (v[1], v[0])), method
 
 
+def divisors(n: int) -> list[int]:
+    """The positive divisors of ``n ≠ 0``; refuses more than :data:`MAX_DIVISORS` of them."""
+    factors = factorize(n)
+    count = 1
+    for e in factors.values():
+        count *= e + 1
+    if count > MAX_DIVISORS:
+        raise TooLargeError(f"{n} has {count:,} divisors (limit {MAX_DIVISORS:,})")
+    return divisors_from_factorization(factors)
+
+
 def _valuation(f: int, p: int) -> int:
     k = 0
     while f % p == 0:
@@ -522,7 +567,7 @@ def _definite(d: int, n: int) -> list[Point]:
 def _square(s: int, n: int) -> list[Point]:
     """All solutions of ``(x − sy)(x + sy) = n`` with ``s ≥ 1``, ``n ≠ 0``."""
     out: set[Point] = set()
-    for e in divisors_from_factorization(factorize(n)):
+    for e in divisors(n):
         for u in (e, -e):
             v = n // u  # u = x − sy, v = x + sy
             if (u + v) % 2 == 0 and (v - u) % (2 * s) == 0:

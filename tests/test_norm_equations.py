@@ -249,3 +249,26 @@ def test_shortcut_and_cycle_table_agree() -> None:
                 for v in _primitive_lmm(d, m, factorize(m) if abs(m) > 1 else {})
             }
             assert canon == other, (d, m)
+
+
+def test_root_count_bound_holds() -> None:
+    # the a-priori bound used to refuse hopeless inputs never undercounts (brute force, m < 600)
+    from realquad.factoring import factorize
+    from realquad.norm_equations import _root_count_bound
+
+    for d in range(-30, 60):
+        for m in range(2, 600):
+            bound = 1
+            for p, e in factorize(m).items():
+                bound *= _root_count_bound(d, p, e)
+            assert sum((z * z - d) % m == 0 for z in range(m)) <= bound
+
+
+def test_too_many_square_roots_refused() -> None:
+    import math
+
+    n = math.prod(p for p in range(3, 200) if all(p % q for q in range(2, p)))  # 45 odd primes
+    with pytest.raises(TooLargeError, match="square roots"):
+        solve_norm_equation(2, n)
+    # x² − 2y² = 2²⁰⁰ needs no roots at all: only 2¹⁰⁰·(x² − 2y² = 1)
+    assert [f.fundamental for f in solve_norm_equation(2, 2**200).families] == [(2**100, 0)]
