@@ -16,8 +16,9 @@ from realquad.cfrac import (
     convergents,
     from_periodic,
 )
-from realquad.conics import solve_quadratic
 from realquad.classgroup import ClassGroup, class_group, class_numbers
+from realquad.conics import solve_quadratic
+from realquad.dispatch import fundamental_unit, regulator
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
 from realquad.forms import Form
 from realquad.norm_equations import NormEquationSolution, solve_norm_equation
@@ -25,7 +26,6 @@ from realquad.pell import PellSolution, pell
 from realquad.quadratic_number import QuadraticNumber
 from realquad.results import Regulator, Unit
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
-from realquad.dispatch import fundamental_unit, regulator
 
 __version__ = "0.1.0"
 
