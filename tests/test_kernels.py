@@ -408,6 +408,14 @@ def test_class_kernels_agree(D, max_forms):
     assert compiled.form_class_numbers(*args, max_forms) == pure.form_class_numbers(
         *args, max_forms
     )
+    candidates = pure.form_class_candidates(*args)
+    seen_c: list[int] = []
+    seen_p: list[int] = []
+    table_c = compiled.form_class_table(D, candidates, max_forms, seen_c.append)
+    table_p = pure.form_class_table(D, candidates, max_forms, seen_p.append)
+    assert table_c == table_p and seen_c == seen_p
+    if table_p is not None:  # the same index in the same order
+        assert list(table_c[0].items()) == list(table_p[0].items())
     for p in args[2][:30]:
         assert compiled.prime_form_b(D, p) == pure.prime_form_b(D, p)
 

@@ -1185,18 +1185,36 @@ table_put(table_t *t, int64_t a, int64_t b, int64_t cls)
 
 /* Walk the rho cycle of the reduced form (a, b, c), filing every form under cls.
    Returns its length, 0 when it is longer than limit, -1 on error. */
+static int
+file_form(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t cls)
+{
+    PyObject *key, *value;
+    int rc;
+    if (table_put(t, a, b, cls) < 0)
+        return -1;
+    if (dict == NULL)
+        return 0;
+    key = Py_BuildValue("(LL)", (long long)a, (long long)b);
+    value = PyLong_FromLongLong((long long)cls);
+    rc = (key == NULL || value == NULL) ? -1 : PyDict_SetItem(dict, key, value);
+    Py_XDECREF(key);
+    Py_XDECREF(value);
+    return rc;
+}
+
 static int64_t
-file_cycle(table_t *t, int64_t a, int64_t b, int64_t c, int64_t D, int64_t r, int64_t limit, int64_t cls)
+file_cycle(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t c, int64_t D, int64_t r, int64_t limit,
+           int64_t cls)
 {
     int64_t a0 = a, b0 = b, k;
-    if (table_put(t, a, b, cls) < 0)
+    if (file_form(t, dict, a, b, cls) < 0)
         return -1;
     for (k = 0; k < limit; k++) {
         if (rho_step(&a, &b, &c, D, r) < 0)
             return -1;
         if (a == a0 && b == b0)
             return k + 1;
-        if (table_put(t, a, b, cls) < 0)
+        if (file_form(t, dict, a, b, cls) < 0)
             return -1;
         if ((k & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
             return -1;
@@ -1264,7 +1282,7 @@ k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         goto done;
     }
     b0 = ((r - D) % 2 == 0) ? r : r - 1;
-    L = file_cycle(&t, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
+    L = file_cycle(&t, NULL, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
     if (L < 0)
         goto done;
     if (L == 0) {
@@ -1286,7 +1304,7 @@ k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
                 int64_t ya = xa, yb = xb, yc = xc;
                 if (h > 0 && compose_reduce(xa, xb, reps[3 * h], reps[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
                     goto done;
-                L = file_cycle(&t, ya, yb, yc, D, r, max_forms - stored, nreps);
+                L = file_cycle(&t, NULL, ya, yb, yc, D, r, max_forms - stored, nreps);
                 if (L < 0)
                     goto done;
                 if (L == 0) {
@@ -1317,6 +1335,209 @@ done:
     PyMem_Free(t.slots);
     PyMem_Free(reps);
     PyMem_Free(cand);
+    return result;
+}
+
+/* A Python tuple (v..., 0 * pad, j): the exponent vector of a new class. */
+static PyObject *
+extend_vector(PyObject *old, Py_ssize_t pad, int64_t j)
+{
+    Py_ssize_t n = PyTuple_GET_SIZE(old), i;
+    PyObject *v;
+    if (pad < 0) /* as (0,) * pad in the twin */
+        pad = 0;
+    v = PyTuple_New(n + pad + 1);
+    if (v == NULL)
+        return NULL;
+    for (i = 0; i < n; i++) {
+        PyObject *x = PyTuple_GET_ITEM(old, i);
+        Py_INCREF(x);
+        PyTuple_SET_ITEM(v, i, x);
+    }
+    for (i = 0; i < pad; i++)
+        PyTuple_SET_ITEM(v, n + i, PyLong_FromLong(0));
+    PyTuple_SET_ITEM(v, n + pad, PyLong_FromLongLong((long long)j));
+    return v;
+}
+
+static PyObject *
+relation(PyObject *old, Py_ssize_t pad, int64_t j)
+{
+    Py_ssize_t n = PyTuple_GET_SIZE(old), i;
+    PyObject *v;
+    if (pad < 0)
+        pad = 0;
+    v = PyList_New(n + pad + 1);
+    if (v == NULL)
+        return NULL;
+    for (i = 0; i < n; i++)
+        PyList_SET_ITEM(v, i, PyNumber_Negative(PyTuple_GET_ITEM(old, i)));
+    for (i = 0; i < pad; i++)
+        PyList_SET_ITEM(v, n + i, PyLong_FromLong(0));
+    PyList_SET_ITEM(v, n + pad, PyLong_FromLongLong((long long)j));
+    return v;
+}
+
+static int
+append_new(PyObject *list, PyObject *item)
+{
+    int rc = item == NULL ? -1 : PyList_Append(list, item);
+    Py_XDECREF(item);
+    return rc;
+}
+
+/*
+ * form_class_table of _pure.py, step for step: the same index (in the same
+ * insertion order), representatives, vectors, generators and relations, and
+ * the same calls of progress.
+ */
+static PyObject *
+k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, r, b0, max_forms, stored, L, ncand, nreps = 0, cap = 64, i, h, j;
+    int64_t *cand = NULL, *reps = NULL;
+    PyObject *seq = NULL, *progress = Py_None, *index = NULL, *vectors = NULL, *generators = NULL;
+    PyObject *relations = NULL, *result = NULL, *representatives = NULL;
+    table_t t = {NULL, 0, 0};
+    if (nargs != 3 && nargs != 4) {
+        PyErr_SetString(PyExc_TypeError, "form_class_table() takes 3 or 4 arguments");
+        return NULL;
+    }
+    if (get_i64(args[0], &D, "D") < 0 || get_limit(args[2], &max_forms) < 0)
+        return NULL;
+    if (nargs == 4)
+        progress = args[3];
+    if (D <= 0 || D > MAX_WORD) {
+        PyErr_SetString(PyExc_OverflowError, "the class-table kernel takes 0 < D < 2^62");
+        return NULL;
+    }
+    r = (int64_t)isqrt_u64((uint64_t)D);
+    if (r * r == D) {
+        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
+        return NULL;
+    }
+    seq = PySequence_Fast(args[1], "candidates must be a sequence");
+    if (seq == NULL)
+        return NULL;
+    ncand = PySequence_Fast_GET_SIZE(seq);
+    cand = (int64_t *)PyMem_Malloc((size_t)(3 * ncand + 3) * sizeof(int64_t));
+    reps = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
+    t.slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
+    t.mask = 1023;
+    index = PyDict_New();
+    vectors = PyList_New(0);
+    generators = PyList_New(0);
+    relations = PyList_New(0);
+    if (cand == NULL || reps == NULL || t.slots == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    if (index == NULL || vectors == NULL || generators == NULL || relations == NULL)
+        goto done;
+    for (i = 0; i < ncand; i++) {
+        PyObject *g = PySequence_Fast_GET_ITEM(seq, i);
+        if (!PyTuple_Check(g) || PyTuple_GET_SIZE(g) != 3) {
+            PyErr_SetString(PyExc_TypeError, "a candidate is not a form (a, b, c)");
+            goto done;
+        }
+        if (get_i64(PyTuple_GET_ITEM(g, 0), &cand[3 * i], "a") < 0 ||
+            get_i64(PyTuple_GET_ITEM(g, 1), &cand[3 * i + 1], "b") < 0 ||
+            get_i64(PyTuple_GET_ITEM(g, 2), &cand[3 * i + 2], "c") < 0)
+            goto done;
+    }
+    b0 = ((r - D) % 2 == 0) ? r : r - 1;
+    L = file_cycle(&t, index, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
+    if (L < 0)
+        goto done;
+    if (L == 0) {
+        result = Py_None, Py_INCREF(result);
+        goto done;
+    }
+    stored = L;
+    reps[0] = 1, reps[1] = b0, reps[2] = (b0 * b0 - D) / 4, nreps = 1;
+    if (append_new(vectors, PyTuple_New(0)) < 0)
+        goto done;
+    for (i = 0; i < ncand; i++) {
+        int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
+        Py_ssize_t gi;
+        slot_t *hit;
+        if (reduce_form(&ga, &gb, &gc, D, r) < 0)
+            goto done;
+        if (table_find(&t, ga, gb)->b != 0)
+            continue;
+        gi = PyList_GET_SIZE(generators);
+        if (append_new(generators, Py_BuildValue("(LLL)", (long long)ga, (long long)gb, (long long)gc)) < 0)
+            goto done;
+        n = nreps;
+        xa = ga, xb = gb, xc = gc;
+        for (j = 1;; j++) {
+            hit = table_find(&t, xa, xb);
+            if (hit->b != 0) {
+                PyObject *old = PyList_GET_ITEM(vectors, (Py_ssize_t)hit->cls);
+                if (append_new(relations, relation(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
+                    goto done;
+                break;
+            }
+            for (h = 0; h < n; h++) {
+                int64_t ya = xa, yb = xb, yc = xc, cls;
+                PyObject *old;
+                if (h > 0 && compose_reduce(xa, xb, reps[3 * h], reps[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
+                    goto done;
+                L = file_cycle(&t, index, ya, yb, yc, D, r, max_forms - stored, nreps);
+                if (L < 0)
+                    goto done;
+                if (L == 0) {
+                    result = Py_None, Py_INCREF(result);
+                    goto done;
+                }
+                stored += L;
+                cls = nreps;
+                if (nreps == cap) {
+                    int64_t *grown;
+                    cap *= 2;
+                    grown = (int64_t *)PyMem_Realloc(reps, (size_t)(3 * cap) * sizeof(int64_t));
+                    if (grown == NULL) {
+                        PyErr_NoMemory();
+                        goto done;
+                    }
+                    reps = grown;
+                }
+                reps[3 * nreps] = ya, reps[3 * nreps + 1] = yb, reps[3 * nreps + 2] = yc, nreps++;
+                old = PyList_GET_ITEM(vectors, (Py_ssize_t)h);
+                if (append_new(vectors, extend_vector(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
+                    goto done;
+                if (progress != Py_None && cls % 1000 == 0) {
+                    PyObject *ret = PyObject_CallFunction(progress, "L", (long long)cls);
+                    if (ret == NULL)
+                        goto done;
+                    Py_DECREF(ret);
+                }
+            }
+            if (compose_reduce(xa, xb, ga, gb, D, r, &xa, &xb, &xc) < 0)
+                goto done;
+        }
+    }
+    representatives = PyList_New((Py_ssize_t)nreps);
+    if (representatives == NULL)
+        goto done;
+    for (i = 0; i < nreps; i++) {
+        PyObject *rep = Py_BuildValue("(LLL)", (long long)reps[3 * i], (long long)reps[3 * i + 1],
+                                      (long long)reps[3 * i + 2]);
+        if (rep == NULL)
+            goto done;
+        PyList_SET_ITEM(representatives, (Py_ssize_t)i, rep);
+    }
+    result = PyTuple_Pack(5, index, representatives, vectors, generators, relations);
+done:
+    PyMem_Free(t.slots);
+    PyMem_Free(reps);
+    PyMem_Free(cand);
+    Py_XDECREF(seq);
+    Py_XDECREF(index);
+    Py_XDECREF(representatives);
+    Py_XDECREF(vectors);
+    Py_XDECREF(generators);
+    Py_XDECREF(relations);
     return result;
 }
 
@@ -1479,6 +1700,8 @@ static PyMethodDef methods[] = {
      "The b (0 <= b <= p) of a primitive form (p, b, c) of discriminant D, or -1."},
     {"form_class_candidates", (PyCFunction)(void (*)(void))k_form_class_candidates, METH_FASTCALL,
      "Generators of the narrow class group: J, then forms of prime-power norm q with 4q^2 < D."},
+    {"form_class_table", (PyCFunction)(void (*)(void))k_form_class_table, METH_FASTCALL,
+     "All narrow classes of D reached from the principal cycle by the candidates, or None."},
     {"form_class_numbers", (PyCFunction)(void (*)(void))k_form_class_numbers, METH_FASTCALL,
      "(h+, 1 if (-1, b0, c0) is principal else 0) from the cycles of reduced forms, or None."},
     {"infrastructure_baby_steps", (PyCFunction)(void (*)(void))k_infrastructure_baby_steps, METH_FASTCALL,

@@ -30,3 +30,6 @@ def form_class_candidates(
 def infrastructure_baby_steps(
     D: int, r: int, sq: float, a: int, b: int, dist: float, count: int
 ) -> tuple[list[int], list[float], int, int, float, int]: ...
+def form_class_table(
+    D: int, candidates: list[tuple[int, int, int]], max_forms: int, progress: object = None
+) -> tuple[dict, list, list, list, list] | None: ...
