@@ -1,8 +1,10 @@
 """Form and character kernels for the benchmark runner (``tests/benchmarks/run.py``).
 
 Composition + reduction of binary quadratic forms with D < 2⁶² (target,
-issue 7: ≥ 2 M per second compiled, calls from Python included), and a batch
-of Kronecker symbols for an Euler product; each against the pure-Python twin.
+issue 7: ≥ 2 M per second compiled, calls from Python included), a batch of
+Kronecker symbols for an Euler product, the class numbers of one field from
+its cycles of reduced forms, and infrastructure baby steps at D ≈ 4·10²⁰;
+each against the pure-Python twin.
 """
 
 from __future__ import annotations
@@ -54,6 +56,26 @@ def _primes(limit: int) -> list[int]:
     return [i for i in range(limit) if sieve[i]]
 
 
+def _class_numbers(space: Any, D: int) -> Callable[[], Any]:
+    from realquad.arith import Order
+
+    args = (D, Order(D).conductor, _primes(isqrt(D // 4) + 2), 10**8)
+
+    def run() -> Any:
+        return space.form_class_numbers(*args)
+
+    return run
+
+
+def _baby_steps(space: Any, D: int, count: int) -> Callable[[], Any]:
+    import math
+
+    r = isqrt(D)
+    b = r if (r - D) % 2 == 0 else r - 1
+    args = (D, r, math.sqrt(D), 1, b, 0.0, count)
+    return lambda: space.infrastructure_baby_steps(*args)
+
+
 def workloads() -> list[dict[str, Any]]:
     primes = _primes(10**6)
     assert _powers(kernels, 200)() == _powers(pure, 200)()
@@ -77,5 +99,23 @@ def workloads() -> list[dict[str, Any]]:
             "repeat": 5,
             "count": len(primes),
             "unit": "symbols",
+        },
+        {
+            "name": "forms: class numbers h⁺ from cycles of reduced forms, D = 10¹⁰ + 1",
+            "run": _class_numbers(kernels, 10**10 + 1),
+            "reference": _class_numbers(pure, 10**10 + 1),
+            "reference_name": "pure-Python twin",
+            "repeat": 3,
+            "count": 137216,
+            "unit": "forms",
+        },
+        {
+            "name": "infrastructure: 20,000 baby steps, D = 4·10²⁰ + 13",
+            "run": _baby_steps(kernels, 4 * 10**20 + 13, 20_000),
+            "reference": _baby_steps(pure, 4 * 10**20 + 13, 20_000),
+            "reference_name": "pure-Python twin",
+            "repeat": 5,
+            "count": 20_000,
+            "unit": "steps",
         },
     ]
