@@ -153,3 +153,19 @@ def test_power_bound(capsys):
     # OEIS A002350/A002349 at 61), so |x|, |y| ≤ 10¹⁰⁰ holds for |k| ≤ 10: 21 values of k, times ±
     data = run_json(capsys, "solve", "x^2 - 61y^2 = 1", "--bound", "10^100")
     assert len(data["solutions"]) == 42 and data["bound"] == 10**100
+
+
+def test_sizer_matches_the_shared_summary():
+    # the command's fast --max-digits summaries equal output.bounded_integer's, including at 10^k
+    import random
+
+    from realquad_cli.commands.solve import _Sizer
+    from realquad_cli.output import bounded_integer, integer_text
+
+    rng = random.Random(4)
+    values = [10**k + e for k in (18, 19, 20, 59, 60, 61, 62, 200, 3000) for e in (-1, 0, 1)]
+    values += [rng.randint(1, 10**k) for k in (25, 80, 1500) for _ in range(5)]
+    for n in values + [-v for v in values]:
+        for md in (0, 5, 20, 60, 100, 1000):
+            assert _Sizer(md).summary(n) == bounded_integer(n, md)[1]
+            assert _Sizer(md).text(n) == integer_text(n, md)

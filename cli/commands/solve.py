@@ -5,13 +5,13 @@ from __future__ import annotations
 from typing import Any
 
 import click
+import gmpy2
 from realquad_cli.output import (
+    bounded_integer,
     check_output_path,
     dumps,
     emit,
-    integer_text,
     json_option,
-    put_integers,
     size_options,
     write_atomically,
 )
@@ -21,10 +21,105 @@ from realquad.conics import solve_quadratic
 from realquad.equation_parser import parse_equation
 from realquad.errors import InputError
 from realquad.solution_families import Family, LineFamily, OrbitFamily, QuadraticSolutions
+from realquad.textio import to_decimal
 
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
+#: Seconds between the progress lines a long run writes to a terminal.
+TICK = 5.0
+
+
+class _Ticker:
+    """Writes an elapsed-time line to a terminal's stderr every :data:`TICK` seconds until stopped."""
+
+    def __init__(self, what: str) -> None:
+        import sys
+        import threading
+
+        self.what, self.stop = what, threading.Event()
+        self.thread = (
+            threading.Thread(target=self._run, daemon=True) if sys.stderr.isatty() else None
+        )
+
+    def _run(self) -> None:
+        import time
+
+        start = time.monotonic()
+        while not self.stop.wait(TICK):
+            click.echo(
+                f"realquad: {self.what}: {time.monotonic() - start:.0f} s so far (Ctrl-C stops)",
+                err=True,
+            )
+
+    def __enter__(self) -> _Ticker:
+        if self.thread is not None:
+            self.thread.start()
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.stop.set()
+
+
 NAMES = ("a", "b", "c", "d", "e", "f")
 MONOMIALS = ("x²", "xy", "y²", "x", "y", "")
+
+
+class _Sizer:
+    """``--max-digits`` for many integers at once: each distinct integer is sized once.
+
+    Same output as :func:`realquad_cli.output.bounded_integer`, but the leading
+    and trailing digits of a long integer come from one division and one
+    remainder instead of a full decimal conversion, and an integer shared by
+    many families (the automorph) is sized once.
+    """
+
+    def __init__(self, max_digits: int) -> None:
+        self.max_digits = max_digits
+        self.cache: dict[int, tuple[int, dict[str, Any] | None]] = {}
+
+    def summary(self, n: int) -> dict[str, Any] | None:
+        if self.max_digits == 0 or -(10**18) < n < 10**18:
+            return None
+        hit = self.cache.get(id(n))
+        if hit is not None and hit[0] is n:
+            return hit[1]
+        m = abs(gmpy2.mpz(n))
+        k0 = int(gmpy2.num_digits(m, 10))  # exact or one too many
+        if k0 < 60:
+            out = bounded_integer(n, self.max_digits)[1]
+        else:
+            lead = m // gmpy2.mpz(10) ** (k0 - 21)
+            k = k0 if lead >= 10**20 else k0 - 1
+            out = None
+            if k > self.max_digits:
+                out = {
+                    "digits": k,
+                    "leading": to_decimal(lead)[:20],
+                    "trailing": to_decimal(m % 10**20).zfill(20),
+                }
+        self.cache[id(n)] = (n, out)
+        return out
+
+    def put(self, payload: dict[str, Any], values: dict[str, int]) -> bool:
+        """Like :func:`realquad_cli.output.put_integers`."""
+        cut = False
+        for key, n in values.items():
+            summary = self.summary(n)
+            payload[key] = n if summary is None else None
+            if summary is not None:
+                payload[f"{key}_summary"] = summary
+                cut = True
+        return cut
+
+    def text(self, n: int) -> str:
+        """Like :func:`realquad_cli.output.integer_text`."""
+        summary = self.summary(n)
+        if summary is None:
+            return to_decimal(n)
+        sign = "-" if n < 0 else ""
+        return (
+            f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']} digits; "
+            "--max-digits 0 or --output FILE for all)"
+        )
 
 
 def parse_bound(text: str) -> int:
@@ -78,20 +173,18 @@ def polynomial_text(coefficients: tuple[int, ...], var: str = "t") -> str:
     return text + "".join(f" {sign} {body}" for sign, body in parts[1:])
 
 
-def _family_payload(fam: Family, k: int | None, max_digits: int) -> tuple[dict[str, Any], bool]:
+def _family_payload(fam: Family, k: int | None, sizer: _Sizer) -> tuple[dict[str, Any], bool]:
     out: dict[str, Any] = {"kind": fam.kind}
-    cut = put_integers(out, {"x": fam.fundamental[0], "y": fam.fundamental[1]}, max_digits)
+    cut = sizer.put(out, {"x": fam.fundamental[0], "y": fam.fundamental[1]})
     if isinstance(fam, OrbitFamily):
         m, t = fam.automorph.matrix, fam.automorph.translation
         auto: dict[str, Any] = {}
-        cut |= put_integers(
-            auto,
-            {"m11": m[0], "m12": m[1], "m21": m[2], "m22": m[3], "t1": t[0], "t2": t[1]},
-            max_digits,
+        cut |= sizer.put(
+            auto, {"m11": m[0], "m12": m[1], "m21": m[2], "m22": m[3], "t1": t[0], "t2": t[1]}
         )
         if fam.unit is not None:
             unit: dict[str, Any] = {"d": fam.unit[2]}
-            cut |= put_integers(unit, {"t": fam.unit[0], "u": fam.unit[1]}, max_digits)
+            cut |= sizer.put(unit, {"t": fam.unit[0], "u": fam.unit[1]})
             auto["unit"] = unit
         else:
             auto["unit"] = None
@@ -105,24 +198,24 @@ def _family_payload(fam: Family, k: int | None, max_digits: int) -> tuple[dict[s
     if k is not None:
         member: dict[str, Any] = {"k": k}
         x, y = fam.solution(k)
-        cut |= put_integers(member, {"x": x, "y": y}, max_digits)
+        cut |= sizer.put(member, {"x": x, "y": y})
         out["member"] = member
     return out, cut
 
 
-def _family_text(i: int, fam: Family, k: int | None, max_digits: int) -> list[str]:
-    x, y = (integer_text(v, max_digits) for v in fam.fundamental)
+def _family_text(i: int, fam: Family, k: int | None, sizer: _Sizer) -> list[str]:
+    x, y = (sizer.text(v) for v in fam.fundamental)
     if isinstance(fam, OrbitFamily):
         m, t = fam.automorph.matrix, fam.automorph.translation
-        mm = [integer_text(v, max_digits) for v in m]
+        mm = [sizer.text(v) for v in m]
         shift = "" if t == (0, 0) else f" + ({t[0]}, {t[1]})"
         lines = [
             f"  {i}. ({x}, {y}), automorph (x, y) ↦ [[{mm[0]}, {mm[1]}], [{mm[2]}, {mm[3]}]]·(x, y){shift}"
         ]
         if fam.unit is not None:
             lines.append(
-                f"     = multiplication by {integer_text(fam.unit[0], max_digits)} + "
-                f"{integer_text(fam.unit[1], max_digits)}√{fam.unit[2]}"
+                f"     = multiplication by {sizer.text(fam.unit[0])} + "
+                f"{sizer.text(fam.unit[1])}√{fam.unit[2]}"
             )
         if fam.reflection:
             lines.append(
@@ -140,7 +233,7 @@ def _family_text(i: int, fam: Family, k: int | None, max_digits: int) -> list[st
             f"  {i}. the parabola (x, y) = ({polynomial_text(px)}, {polynomial_text(py)}), t ∈ Z"
         ]
     if k is not None:
-        mx, my = (integer_text(v, max_digits) for v in fam.solution(k))
+        mx, my = (sizer.text(v) for v in fam.solution(k))
         lines.append(f"     member k = {k}: ({mx}, {my})")
     return lines
 
@@ -150,6 +243,7 @@ def build(
 ) -> tuple[dict[str, Any], list[str]]:
     """The JSON payload and text lines for a solved equation."""
     coefficients = sol.coefficients
+    sizer = _Sizer(max_digits)
     payload: dict[str, Any] = {
         "equation": dict(zip(NAMES, coefficients, strict=True)),
         "equation_text": equation_text(coefficients),
@@ -158,7 +252,7 @@ def build(
     lines = [f"equation: {equation_text(coefficients)}"]
     families, cut = [], False
     for fam in sol.families:
-        entry, c = _family_payload(fam, member, max_digits)
+        entry, c = _family_payload(fam, member, sizer)
         families.append(entry)
         cut |= c
     payload["families"] = families
@@ -167,22 +261,18 @@ def build(
             f"{len(sol.families)} famil{'y' if len(sol.families) == 1 else 'ies'} of solutions:"
         )
         for i, fam in enumerate(sol.families, 1):
-            lines += _family_text(i, fam, member, max_digits)
+            lines += _family_text(i, fam, member, sizer)
     listed = sol.bounded(bound) if bound is not None else (sol.solutions if sol.finite else None)
     if listed is not None:
         entries = []
         for x, y in listed:
             point: dict[str, Any] = {}
-            cut |= put_integers(point, {"x": x, "y": y}, max_digits)
+            cut |= sizer.put(point, {"x": x, "y": y})
             entries.append(point)
         payload["solutions"] = entries
-        what = (
-            f"with |x|, |y| ≤ {integer_text(bound, max_digits)}" if bound is not None else "in all"
-        )
+        what = f"with |x|, |y| ≤ {sizer.text(bound)}" if bound is not None else "in all"
         lines.append(f"{len(listed)} solution{'s' if len(listed) != 1 else ''} {what}:")
-        lines += [
-            f"  ({integer_text(x, max_digits)}, {integer_text(y, max_digits)})" for x, y in listed
-        ]
+        lines += [f"  ({sizer.text(x)}, {sizer.text(y)})" for x, y in listed]
     else:
         payload["solutions"] = None
     payload["bound"] = bound
@@ -236,8 +326,10 @@ def command(
     if k is not None and abs(k) > 10**6:
         raise InputError("--member must be at most 10^6 in absolute value")
     check_output_path(output)
-    sol = solve_quadratic(*parse_equation(text))
-    payload, lines = build(sol, b, k, max_digits)
+    coefficients = parse_equation(text)
+    with _Ticker("solving"):
+        sol = solve_quadratic(*coefficients)
+        payload, lines = build(sol, b, k, max_digits)
     if output is not None:
         full, _ = build(sol, b, k, 0)
         write_atomically(output, dumps(full) + "\n")
