@@ -176,7 +176,18 @@ def test_report_numbers_recomputed_independently(
     assert report["unit_norm_minus_one"]["count"] == sum(r["unit_norm"] == -1 for r in rows)
     top = sorted(rows, key=lambda r: float(r["regulator"]), reverse=True)[:5]
     assert [r["d"] for r in report["largest_regulators"]] == [r["d"] for r in top]
-    assert report["prime_discriminants"]["cohen_lenstra_prediction"] == COHEN_LENSTRA_PRIME_SHARE
+    assert (
+        float(report["prime_discriminants"]["cohen_lenstra_prediction"])
+        == COHEN_LENSTRA_PRIME_SHARE
+    )
+    shares = [report[k]["share"] for k in ("class_number_one", "unit_norm_minus_one")]
+    assert shares == [
+        f"{report[k]['count'] / len(rows):.8f}" for k in ("class_number_one", "unit_norm_minus_one")
+    ]
+    assert (
+        report["prime_discriminants"]["share"]
+        == f"{report['prime_discriminants']['class_number_one'] / len(primes):.8f}"
+    )
 
 
 def test_cohen_lenstra_constant_from_its_product() -> None:

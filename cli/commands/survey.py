@@ -161,8 +161,8 @@ def run_command(
         "skipped": outcome.skipped_fields,
         "chunks_computed": outcome.computed_chunks,
         "chunks_skipped": outcome.skipped_chunks,
-        "seconds": round(outcome.seconds, 3),
-        "fields_per_second": round(outcome.rate, 1),
+        "seconds": f"{outcome.seconds:.3f}",
+        "fields_per_second": f"{outcome.rate:.1f}",
         "executor": outcome.executor,
     }
     text = (
@@ -307,6 +307,11 @@ def _percent(share: float | None) -> str:
     return "—" if share is None else f"{100 * share:.3f}%"
 
 
+def _decimal(value: float | None) -> str | None:
+    """A share as a decimal string (the JSON convention for real numbers), 8 places."""
+    return None if value is None else f"{value:.8f}"
+
+
 def _report_payload(report: SurveyReport, db: str) -> dict[str, Any]:
     return {
         "database": db,
@@ -315,20 +320,20 @@ def _report_payload(report: SurveyReport, db: str) -> dict[str, Any]:
         "d_max": report.d_max,
         "class_number_one": {
             "count": report.class_number_one,
-            "share": report.class_number_one_share,
+            "share": _decimal(report.class_number_one_share),
         },
         "prime_discriminants": {
             "fields": report.prime_fields,
             "class_number_one": report.prime_class_number_one,
-            "share": report.prime_share,
-            "cohen_lenstra_prediction": report.prediction,
+            "share": _decimal(report.prime_share),
+            "cohen_lenstra_prediction": _decimal(report.prediction),
             "prediction_source": report.prediction_source,
         },
         "class_number_distribution": {str(k): v for k, v in report.class_number_counts.items()},
         "odd_part_distribution": {str(k): v for k, v in report.odd_part_counts.items()},
         "unit_norm_minus_one": {
             "count": report.unit_norm_minus_one,
-            "share": report.unit_norm_minus_one_share,
+            "share": _decimal(report.unit_norm_minus_one_share),
         },
         "largest_regulators": report.largest_regulators,
         "proof": report.proof,
