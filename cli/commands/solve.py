@@ -10,7 +10,6 @@ from realquad_cli.output import (
     bounded_integer,
     check_output_path,
     dumps,
-    emit,
     json_option,
     size_options,
     write_atomically,
@@ -75,6 +74,7 @@ class _Sizer:
     def __init__(self, max_digits: int) -> None:
         self.max_digits = max_digits
         self.cache: dict[int, tuple[int, dict[str, Any] | None]] = {}
+        self.decimal: dict[int, tuple[int, str]] = {}
 
     def summary(self, n: int) -> dict[str, Any] | None:
         if self.max_digits == 0 or -(10**18) < n < 10**18:
@@ -110,11 +110,31 @@ class _Sizer:
                 cut = True
         return cut
 
+    def digits(self, n: int) -> str:
+        """The decimal digits of ``n``, converted once per distinct big integer."""
+        if -(10**1000) < n < 10**1000:
+            return to_decimal(n)
+        hit = self.decimal.get(id(n))
+        if hit is None or hit[0] is not n:
+            hit = (n, to_decimal(n))
+            self.decimal[id(n)] = hit
+        return hit[1]
+
+    def json(self, obj: Any) -> str:
+        """:func:`realquad_cli.output.dumps`, with each big integer converted once."""
+        if isinstance(obj, dict):
+            return "{" + ", ".join(f"{dumps(str(k))}: {self.json(v)}" for k, v in obj.items()) + "}"
+        if isinstance(obj, list):
+            return "[" + ", ".join(self.json(v) for v in obj) + "]"
+        if isinstance(obj, int) and not isinstance(obj, bool):
+            return self.digits(obj)
+        return dumps(obj)
+
     def text(self, n: int) -> str:
         """Like :func:`realquad_cli.output.integer_text`."""
         summary = self.summary(n)
         if summary is None:
-            return to_decimal(n)
+            return self.digits(n)
         sign = "-" if n < 0 else ""
         return (
             f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']} digits; "
@@ -332,7 +352,7 @@ def command(
         payload, lines = build(sol, b, k, max_digits)
     if output is not None:
         full, _ = build(sol, b, k, 0)
-        write_atomically(output, dumps(full) + "\n")
+        write_atomically(output, _Sizer(0).json(full) + "\n")
         payload["output"] = output
         lines.append(f"full values written to {output}")
-    emit(payload, "\n".join(lines), as_json)
+    click.echo(_Sizer(max_digits).json(payload) if as_json else "\n".join(lines))
