@@ -126,43 +126,27 @@ overflow(void)
     return NULL;
 }
 
-/* Python's floor division and modulo on __int128 (b != 0, no overflow for |a|, |b| < 2^126). */
-static inline i128
-floordiv(i128 a, i128 b)
-{
-    i128 q = a / b;
-    if ((a % b != 0) && ((a < 0) != (b < 0)))
-        q -= 1;
-    return q;
-}
+/* Python's floor division and modulo, on __int128 (floordiv, floormod; b != 0, |a|, |b| < 2^126)
+   and on int64 (floordiv64, floormod64; b != 0, not INT64_MIN / -1: the fast path, since a
+   128-bit division is slow). */
+#define FLOOR_OPERATIONS(suffix, type)                                                                 \
+    static inline type floordiv##suffix(type a, type b)                                                \
+    {                                                                                                  \
+        type q = a / b;                                                                                \
+        if ((a % b != 0) && ((a < 0) != (b < 0)))                                                      \
+            q -= 1;                                                                                    \
+        return q;                                                                                      \
+    }                                                                                                  \
+    static inline type floormod##suffix(type a, type b)                                                \
+    {                                                                                                  \
+        type m = a % b;                                                                                \
+        if (m != 0 && ((m < 0) != (b < 0)))                                                            \
+            m += b;                                                                                    \
+        return m;                                                                                      \
+    }
 
-static inline i128
-floormod(i128 a, i128 b)
-{
-    i128 m = a % b;
-    if (m != 0 && ((m < 0) != (b < 0)))
-        m += b;
-    return m;
-}
-
-/* The same on int64 (b != 0, not INT64_MIN / -1): the fast path, 128-bit division is slow. */
-static inline int64_t
-floordiv64(int64_t a, int64_t b)
-{
-    int64_t q = a / b;
-    if ((a % b != 0) && ((a < 0) != (b < 0)))
-        q -= 1;
-    return q;
-}
-
-static inline int64_t
-floormod64(int64_t a, int64_t b)
-{
-    int64_t m = a % b;
-    if (m != 0 && ((m < 0) != (b < 0)))
-        m += b;
-    return m;
-}
+FLOOR_OPERATIONS(, i128)
+FLOOR_OPERATIONS(64, int64_t)
 
 #define SMALL62(x) ((x) > -((i128)1 << 62) && (x) < ((i128)1 << 62))
 
@@ -773,38 +757,30 @@ add_c(i128 x, i128 y, int *bad)
 }
 
 /* extended_gcd of _pure.py, step for step (floor divmod); inputs |x|, |y| < 2^126. */
+/* The extended Euclidean loop of the twin on one integer type (floor quotients). */
+#define XGCD_BODY(type, div)                                                                           \
+    do {                                                                                               \
+        type X = (type)x, Y = (type)y, U0 = 1, V0 = 0, U1 = 0, V1 = 1, Q, R, T;                        \
+        while (Y != 0) {                                                                               \
+            Q = div(X, Y);                                                                             \
+            R = X - Q * Y;                                                                             \
+            X = Y, Y = R;                                                                              \
+            T = U0 - Q * U1, U0 = U1, U1 = T;                                                          \
+            T = V0 - Q * V1, V0 = V1, V1 = T;                                                          \
+        }                                                                                              \
+        if (X < 0)                                                                                     \
+            *g = -(i128)X, *u = -(i128)U0, *v = -(i128)V0;                                             \
+        else                                                                                           \
+            *g = X, *u = U0, *v = V0;                                                                  \
+    } while (0)
+
 static void
 xgcd128(i128 x, i128 y, i128 *g, i128 *u, i128 *v)
 {
-    i128 u0 = 1, v0 = 0, u1 = 0, v1 = 1, q, rem, t;
-    if (SMALL62(x) && SMALL62(y)) { /* Bezout factors stay below max(|x|, |y|) */
-        int64_t X = (int64_t)x, Y = (int64_t)y, U0 = 1, V0 = 0, U1 = 0, V1 = 1, Q, R, T;
-        while (Y != 0) {
-            Q = floordiv64(X, Y);
-            R = X - Q * Y;
-            X = Y, Y = R;
-            T = U0 - Q * U1, U0 = U1, U1 = T;
-            T = V0 - Q * V1, V0 = V1, V1 = T;
-        }
-        if (X < 0) {
-            *g = -(i128)X, *u = -(i128)U0, *v = -(i128)V0;
-        } else {
-            *g = X, *u = U0, *v = V0;
-        }
-        return;
-    }
-    while (y != 0) {
-        q = floordiv(x, y);
-        rem = x - q * y;
-        x = y, y = rem;
-        t = u0 - q * u1, u0 = u1, u1 = t;
-        t = v0 - q * v1, v0 = v1, v1 = t;
-    }
-    if (x < 0) {
-        *g = -x, *u = -u0, *v = -v0;
-    } else {
-        *g = x, *u = u0, *v = v0;
-    }
+    if (SMALL62(x) && SMALL62(y)) /* Bezout factors stay below max(|x|, |y|): int64 suffices */
+        XGCD_BODY(int64_t, floordiv64);
+    else
+        XGCD_BODY(i128, floordiv);
 }
 
 static PyObject *
@@ -1244,100 +1220,6 @@ compose_reduce(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_
     return reduce_form(A, B, C, D, r);
 }
 
-/*
- * form_class_numbers of _pure.py: the same table, step for step (generators in
- * the twin's order, the same representatives, the same form limit), keeping
- * only what the class numbers need. (h+ and the class of J do not depend on
- * which square roots the candidates use; their b is canonical anyway.)
- */
-static PyObject *
-k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
-{
-    int64_t D, conductor, r, b0, max_forms, stored, L, ncand = 0, nreps = 0, cap = 0, i, h;
-    int64_t *cand = NULL, *reps = NULL;
-    PyObject *result = NULL;
-    table_t t = {NULL, 0, 0};
-    slot_t *e;
-    int j_principal;
-    if (check_nargs(nargs, 4, "form_class_numbers") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
-        get_limit(args[3], &max_forms) < 0)
-        return NULL;
-    r = (int64_t)isqrt_u64((uint64_t)D);
-    if (r * r == D) {
-        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
-        return NULL;
-    }
-    if (candidates(D, conductor, args[2], &cand, &ncand) < 0)
-        goto done;
-    t.slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
-    if (t.slots == NULL) {
-        PyErr_NoMemory();
-        goto done;
-    }
-    t.mask = 1023;
-    cap = 64;
-    reps = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
-    if (reps == NULL) {
-        PyErr_NoMemory();
-        goto done;
-    }
-    b0 = ((r - D) % 2 == 0) ? r : r - 1;
-    L = file_cycle(&t, NULL, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
-    if (L < 0)
-        goto done;
-    if (L == 0) {
-        result = Py_None, Py_INCREF(result);
-        goto done;
-    }
-    stored = L;
-    reps[0] = 1, reps[1] = b0, reps[2] = (b0 * b0 - D) / 4, nreps = 1;
-    for (i = 0; i < ncand; i++) {
-        int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
-        if (reduce_form(&ga, &gb, &gc, D, r) < 0)
-            goto done;
-        if (table_find(&t, ga, gb)->b != 0)
-            continue;
-        n = nreps;
-        xa = ga, xb = gb, xc = gc;
-        while (table_find(&t, xa, xb)->b == 0) {
-            for (h = 0; h < n; h++) {
-                int64_t ya = xa, yb = xb, yc = xc;
-                if (h > 0 && compose_reduce(xa, xb, reps[3 * h], reps[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
-                    goto done;
-                L = file_cycle(&t, NULL, ya, yb, yc, D, r, max_forms - stored, nreps);
-                if (L < 0)
-                    goto done;
-                if (L == 0) {
-                    result = Py_None, Py_INCREF(result);
-                    goto done;
-                }
-                stored += L;
-                if (nreps == cap) {
-                    int64_t *grown;
-                    cap *= 2;
-                    grown = (int64_t *)PyMem_Realloc(reps, (size_t)(3 * cap) * sizeof(int64_t));
-                    if (grown == NULL) {
-                        PyErr_NoMemory();
-                        goto done;
-                    }
-                    reps = grown;
-                }
-                reps[3 * nreps] = ya, reps[3 * nreps + 1] = yb, reps[3 * nreps + 2] = yc, nreps++;
-            }
-            if (compose_reduce(xa, xb, ga, gb, D, r, &xa, &xb, &xc) < 0)
-                goto done;
-        }
-    }
-    e = table_find(&t, -1, b0);
-    j_principal = e->b != 0 && e->cls == 0;
-    result = Py_BuildValue("(Li)", (long long)nreps, j_principal);
-done:
-    PyMem_Free(t.slots);
-    PyMem_Free(reps);
-    PyMem_Free(cand);
-    return result;
-}
-
 /* A Python tuple (v..., 0 * pad, j): the exponent vector of a new class. */
 static PyObject *
 extend_vector(PyObject *old, Py_ssize_t pad, int64_t j)
@@ -1360,6 +1242,7 @@ extend_vector(PyObject *old, Py_ssize_t pad, int64_t j)
     return v;
 }
 
+/* A Python list [-v..., 0 * pad, j]: the relation closing a generator's powers. */
 static PyObject *
 relation(PyObject *old, Py_ssize_t pad, int64_t j)
 {
@@ -1386,54 +1269,189 @@ append_new(PyObject *list, PyObject *item)
     return rc;
 }
 
+/* What the class table keeps for Python besides the counts (all NULL: nothing). */
+typedef struct {
+    PyObject *index, *vectors, *generators, *relations, *progress;
+} class_lists_t;
+
+/* The representatives found so far, as int64 triples. */
+typedef struct {
+    int64_t *v;
+    int64_t n, cap;
+} reps_t;
+
+static int
+reps_push(reps_t *reps, int64_t a, int64_t b, int64_t c)
+{
+    if (reps->n == reps->cap) {
+        int64_t cap = reps->cap ? 2 * reps->cap : 64;
+        int64_t *grown = (int64_t *)PyMem_Realloc(reps->v, (size_t)(3 * cap) * sizeof(int64_t));
+        if (grown == NULL) {
+            PyErr_NoMemory();
+            return -1;
+        }
+        reps->v = grown, reps->cap = cap;
+    }
+    reps->v[3 * reps->n] = a, reps->v[3 * reps->n + 1] = b, reps->v[3 * reps->n + 2] = c, reps->n++;
+    return 0;
+}
+
 /*
- * form_class_table of _pure.py, step for step: the same index (in the same
- * insertion order), representatives, vectors, generators and relations, and
- * the same calls of progress.
+ * form_class_table of _pure.py, step for step: from the principal cycle, each
+ * candidate not yet in the table becomes a generator whose powers times the
+ * classes known before it fill new cycles, until a power falls into a known
+ * class. Returns 1 when done, 0 when more than max_forms forms would be
+ * stored (the twin's None), -1 on error. With keep->index set, the Python
+ * index, vectors, generators and relations are built in the twin's order,
+ * and progress is called as the twin calls it.
  */
+static int
+class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max_forms, table_t *t, reps_t *reps,
+           class_lists_t *keep)
+{
+    int64_t b0 = ((r - D) % 2 == 0) ? r : r - 1, stored, L, i, h, j;
+    int lists = keep != NULL && keep->index != NULL;
+    t->slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
+    if (t->slots == NULL) {
+        PyErr_NoMemory();
+        return -1;
+    }
+    t->mask = 1023, t->used = 0;
+    L = file_cycle(t, lists ? keep->index : NULL, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
+    if (L <= 0)
+        return (int)L;
+    stored = L;
+    if (reps_push(reps, 1, b0, (b0 * b0 - D) / 4) < 0)
+        return -1;
+    if (lists && append_new(keep->vectors, PyTuple_New(0)) < 0)
+        return -1;
+    for (i = 0; i < ncand; i++) {
+        int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
+        Py_ssize_t gi = 0;
+        slot_t *hit;
+        if (reduce_form(&ga, &gb, &gc, D, r) < 0)
+            return -1;
+        if (table_find(t, ga, gb)->b != 0)
+            continue;
+        if (lists) {
+            gi = PyList_GET_SIZE(keep->generators);
+            if (append_new(keep->generators, Py_BuildValue("(LLL)", (long long)ga, (long long)gb, (long long)gc)) < 0)
+                return -1;
+        }
+        n = reps->n;
+        xa = ga, xb = gb, xc = gc;
+        for (j = 1;; j++) {
+            hit = table_find(t, xa, xb);
+            if (hit->b != 0) {
+                if (lists) {
+                    PyObject *old = PyList_GET_ITEM(keep->vectors, (Py_ssize_t)hit->cls);
+                    if (append_new(keep->relations, relation(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
+                        return -1;
+                }
+                break;
+            }
+            for (h = 0; h < n; h++) {
+                int64_t ya = xa, yb = xb, yc = xc, cls = reps->n;
+                if (h > 0 && compose_reduce(xa, xb, reps->v[3 * h], reps->v[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
+                    return -1;
+                L = file_cycle(t, lists ? keep->index : NULL, ya, yb, yc, D, r, max_forms - stored, cls);
+                if (L <= 0)
+                    return (int)L;
+                stored += L;
+                if (reps_push(reps, ya, yb, yc) < 0)
+                    return -1;
+                if (lists) {
+                    PyObject *old = PyList_GET_ITEM(keep->vectors, (Py_ssize_t)h);
+                    if (append_new(keep->vectors, extend_vector(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
+                        return -1;
+                    if (keep->progress != NULL && keep->progress != Py_None && cls % 1000 == 0) {
+                        PyObject *ret = PyObject_CallFunction(keep->progress, "L", (long long)cls);
+                        if (ret == NULL)
+                            return -1;
+                        Py_DECREF(ret);
+                    }
+                }
+            }
+            if (compose_reduce(xa, xb, ga, gb, D, r, &xa, &xb, &xc) < 0)
+                return -1;
+        }
+    }
+    return 1;
+}
+
+static int
+class_discriminant(PyObject *arg, int64_t *D, int64_t *r)
+{
+    if (get_i64(arg, D, "D") < 0)
+        return -1;
+    if (*D <= 0 || *D > MAX_WORD) {
+        PyErr_SetString(PyExc_OverflowError, "the class-number kernels take 0 < D < 2^62");
+        return -1;
+    }
+    *r = (int64_t)isqrt_u64((uint64_t)*D);
+    if (*r * *r == *D) {
+        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
+        return -1;
+    }
+    return 0;
+}
+
+/* form_class_numbers of _pure.py: the table without its Python lists. */
+static PyObject *
+k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, conductor, r, b0, max_forms, ncand = 0, *cand = NULL;
+    reps_t reps = {NULL, 0, 0};
+    table_t t = {NULL, 0, 0};
+    PyObject *result = NULL;
+    slot_t *e;
+    int done;
+    if (check_nargs(nargs, 4, "form_class_numbers") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
+        class_discriminant(args[0], &D, &r) < 0 || get_limit(args[3], &max_forms) < 0)
+        return NULL;
+    if (candidates(D, conductor, args[2], &cand, &ncand) < 0)
+        return NULL;
+    done = class_walk(D, r, cand, ncand, max_forms, &t, &reps, NULL);
+    if (done == 0) {
+        result = Py_None, Py_INCREF(result);
+    } else if (done > 0) {
+        b0 = ((r - D) % 2 == 0) ? r : r - 1;
+        e = table_find(&t, -1, b0);
+        result = Py_BuildValue("(Li)", (long long)reps.n, e->b != 0 && e->cls == 0);
+    }
+    PyMem_Free(t.slots);
+    PyMem_Free(reps.v);
+    PyMem_Free(cand);
+    return result;
+}
+
+/* form_class_table of _pure.py: the index (in the twin's order), representatives, vectors,
+   generators and relations. */
 static PyObject *
 k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
-    int64_t D, r, b0, max_forms, stored, L, ncand, nreps = 0, cap = 64, i, h, j;
-    int64_t *cand = NULL, *reps = NULL;
-    PyObject *seq = NULL, *progress = Py_None, *index = NULL, *vectors = NULL, *generators = NULL;
-    PyObject *relations = NULL, *result = NULL, *representatives = NULL;
+    int64_t D, r, max_forms, ncand, i, *cand = NULL;
+    reps_t reps = {NULL, 0, 0};
     table_t t = {NULL, 0, 0};
+    class_lists_t keep = {NULL, NULL, NULL, NULL, NULL};
+    PyObject *seq = NULL, *result = NULL, *representatives = NULL;
+    int done;
     if (nargs != 3 && nargs != 4) {
         PyErr_SetString(PyExc_TypeError, "form_class_table() takes 3 or 4 arguments");
         return NULL;
     }
-    if (get_i64(args[0], &D, "D") < 0 || get_limit(args[2], &max_forms) < 0)
+    if (class_discriminant(args[0], &D, &r) < 0 || get_limit(args[2], &max_forms) < 0)
         return NULL;
-    if (nargs == 4)
-        progress = args[3];
-    if (D <= 0 || D > MAX_WORD) {
-        PyErr_SetString(PyExc_OverflowError, "the class-table kernel takes 0 < D < 2^62");
-        return NULL;
-    }
-    r = (int64_t)isqrt_u64((uint64_t)D);
-    if (r * r == D) {
-        PyErr_SetString(PyExc_ValueError, "the discriminant must not be a square");
-        return NULL;
-    }
+    keep.progress = nargs == 4 ? args[3] : NULL;
     seq = PySequence_Fast(args[1], "candidates must be a sequence");
     if (seq == NULL)
         return NULL;
     ncand = PySequence_Fast_GET_SIZE(seq);
     cand = (int64_t *)PyMem_Malloc((size_t)(3 * ncand + 3) * sizeof(int64_t));
-    reps = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
-    t.slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
-    t.mask = 1023;
-    index = PyDict_New();
-    vectors = PyList_New(0);
-    generators = PyList_New(0);
-    relations = PyList_New(0);
-    if (cand == NULL || reps == NULL || t.slots == NULL) {
+    if (cand == NULL) {
         PyErr_NoMemory();
         goto done;
     }
-    if (index == NULL || vectors == NULL || generators == NULL || relations == NULL)
-        goto done;
     for (i = 0; i < ncand; i++) {
         PyObject *g = PySequence_Fast_GET_ITEM(seq, i);
         if (!PyTuple_Check(g) || PyTuple_GET_SIZE(g) != 3) {
@@ -1445,99 +1463,40 @@ k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
             get_i64(PyTuple_GET_ITEM(g, 2), &cand[3 * i + 2], "c") < 0)
             goto done;
     }
-    b0 = ((r - D) % 2 == 0) ? r : r - 1;
-    L = file_cycle(&t, index, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
-    if (L < 0)
+    keep.index = PyDict_New();
+    keep.vectors = PyList_New(0);
+    keep.generators = PyList_New(0);
+    keep.relations = PyList_New(0);
+    if (keep.index == NULL || keep.vectors == NULL || keep.generators == NULL || keep.relations == NULL)
         goto done;
-    if (L == 0) {
+    done = class_walk(D, r, cand, ncand, max_forms, &t, &reps, &keep);
+    if (done == 0) {
         result = Py_None, Py_INCREF(result);
         goto done;
     }
-    stored = L;
-    reps[0] = 1, reps[1] = b0, reps[2] = (b0 * b0 - D) / 4, nreps = 1;
-    if (append_new(vectors, PyTuple_New(0)) < 0)
+    if (done < 0)
         goto done;
-    for (i = 0; i < ncand; i++) {
-        int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
-        Py_ssize_t gi;
-        slot_t *hit;
-        if (reduce_form(&ga, &gb, &gc, D, r) < 0)
-            goto done;
-        if (table_find(&t, ga, gb)->b != 0)
-            continue;
-        gi = PyList_GET_SIZE(generators);
-        if (append_new(generators, Py_BuildValue("(LLL)", (long long)ga, (long long)gb, (long long)gc)) < 0)
-            goto done;
-        n = nreps;
-        xa = ga, xb = gb, xc = gc;
-        for (j = 1;; j++) {
-            hit = table_find(&t, xa, xb);
-            if (hit->b != 0) {
-                PyObject *old = PyList_GET_ITEM(vectors, (Py_ssize_t)hit->cls);
-                if (append_new(relations, relation(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
-                    goto done;
-                break;
-            }
-            for (h = 0; h < n; h++) {
-                int64_t ya = xa, yb = xb, yc = xc, cls;
-                PyObject *old;
-                if (h > 0 && compose_reduce(xa, xb, reps[3 * h], reps[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
-                    goto done;
-                L = file_cycle(&t, index, ya, yb, yc, D, r, max_forms - stored, nreps);
-                if (L < 0)
-                    goto done;
-                if (L == 0) {
-                    result = Py_None, Py_INCREF(result);
-                    goto done;
-                }
-                stored += L;
-                cls = nreps;
-                if (nreps == cap) {
-                    int64_t *grown;
-                    cap *= 2;
-                    grown = (int64_t *)PyMem_Realloc(reps, (size_t)(3 * cap) * sizeof(int64_t));
-                    if (grown == NULL) {
-                        PyErr_NoMemory();
-                        goto done;
-                    }
-                    reps = grown;
-                }
-                reps[3 * nreps] = ya, reps[3 * nreps + 1] = yb, reps[3 * nreps + 2] = yc, nreps++;
-                old = PyList_GET_ITEM(vectors, (Py_ssize_t)h);
-                if (append_new(vectors, extend_vector(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
-                    goto done;
-                if (progress != Py_None && cls % 1000 == 0) {
-                    PyObject *ret = PyObject_CallFunction(progress, "L", (long long)cls);
-                    if (ret == NULL)
-                        goto done;
-                    Py_DECREF(ret);
-                }
-            }
-            if (compose_reduce(xa, xb, ga, gb, D, r, &xa, &xb, &xc) < 0)
-                goto done;
-        }
-    }
-    representatives = PyList_New((Py_ssize_t)nreps);
+    representatives = PyList_New((Py_ssize_t)reps.n);
     if (representatives == NULL)
         goto done;
-    for (i = 0; i < nreps; i++) {
-        PyObject *rep = Py_BuildValue("(LLL)", (long long)reps[3 * i], (long long)reps[3 * i + 1],
-                                      (long long)reps[3 * i + 2]);
+    for (i = 0; i < reps.n; i++) {
+        PyObject *rep = Py_BuildValue("(LLL)", (long long)reps.v[3 * i], (long long)reps.v[3 * i + 1],
+                                      (long long)reps.v[3 * i + 2]);
         if (rep == NULL)
             goto done;
         PyList_SET_ITEM(representatives, (Py_ssize_t)i, rep);
     }
-    result = PyTuple_Pack(5, index, representatives, vectors, generators, relations);
+    result = PyTuple_Pack(5, keep.index, representatives, keep.vectors, keep.generators, keep.relations);
 done:
     PyMem_Free(t.slots);
-    PyMem_Free(reps);
+    PyMem_Free(reps.v);
     PyMem_Free(cand);
     Py_XDECREF(seq);
-    Py_XDECREF(index);
+    Py_XDECREF(keep.index);
     Py_XDECREF(representatives);
-    Py_XDECREF(vectors);
-    Py_XDECREF(generators);
-    Py_XDECREF(relations);
+    Py_XDECREF(keep.vectors);
+    Py_XDECREF(keep.generators);
+    Py_XDECREF(keep.relations);
     return result;
 }
 
