@@ -94,7 +94,7 @@ def stored_table(path: Path) -> list[tuple]:  # type: ignore[type-arg]
     from realquad.survey.store import COLUMNS
 
     c = sqlite3.connect(path)
-    rows = c.execute(f"SELECT {', '.join(COLUMNS)} FROM fields ORDER BY d").fetchall()
+    rows = c.execute(f"SELECT {', '.join(COLUMNS)} FROM field_rows ORDER BY d").fetchall()
     c.close()
     return rows
 

@@ -35,7 +35,11 @@ def test_schema_is_documented_and_versioned(small_db: Path) -> None:
     meta = dict(c.execute("SELECT key, value FROM meta"))
     assert meta["schema_version"] == str(SCHEMA_VERSION)
     columns = [r[1] for r in c.execute("PRAGMA table_info(fields)")]
-    assert columns == [*COLUMNS, "chunk"]
+    assert columns == [*(("method_id" if k == "method" else k) for k in COLUMNS), "chunk"]
+    assert [r[1] for r in c.execute("PRAGMA table_info(field_rows)")] == COLUMNS
+    assert (
+        c.execute("SELECT COUNT(*) FROM methods").fetchone()[0] == 1
+    )  # one method for all these fields
     chunks = c.execute("SELECT kind, lo, hi, fields FROM chunks ORDER BY lo").fetchall()
     assert [(k, lo, hi) for k, lo, hi, _ in chunks] == [("d", 2, 249)] + [
         ("d", 250 * i, 250 * i + 249) for i in range(1, 6)

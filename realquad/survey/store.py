@@ -10,8 +10,13 @@ file is marked with ``PRAGMA application_id`` = :data:`APPLICATION_ID`):
     ``discriminant`` (unique), ``class_number``, ``narrow_class_number``,
     ``class_group`` and ``narrow_class_group`` (invariant factors as a JSON
     list), ``unit_norm`` (±1), ``regulator`` (decimal text, 17 significant
-    digits), ``period_length``, ``unit_digits``, ``method``, ``proof``,
-    ``chunk`` (the chunk that wrote it).
+    digits), ``period_length``, ``unit_digits``, ``method_id`` (see
+    ``methods``), ``proof``, ``chunk`` (the chunk that wrote it).
+``methods(id INTEGER PRIMARY KEY, method TEXT UNIQUE)``
+    the method descriptions, stored once each.
+``field_rows`` (a view)
+    ``fields`` joined with ``methods``: the columns of
+    :class:`~realquad.survey.compute.FieldRecord`, with ``method`` as text.
 ``chunks``
     one row per completed chunk: ``id``, ``kind`` (``'d'`` or ``'D'``),
     ``lo``, ``hi`` (inclusive bounds), ``fields``, ``seconds``,
@@ -56,6 +61,8 @@ SCHEMA_VERSION = 1
 APPLICATION_ID = 0x52515356
 
 COLUMNS = [f.name for f in fields(FieldRecord)]
+#: The columns of table ``fields`` that hold them (the method by its id).
+_STORED = ["method_id" if c == "method" else c for c in COLUMNS]
 
 _SCHEMA = f"""
 CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -69,6 +76,7 @@ CREATE TABLE chunks (
     finished TEXT NOT NULL,
     UNIQUE (kind, lo, hi)
 );
+CREATE TABLE methods (id INTEGER PRIMARY KEY, method TEXT NOT NULL UNIQUE);
 CREATE TABLE fields (
     d INTEGER PRIMARY KEY,
     discriminant INTEGER NOT NULL UNIQUE,
@@ -80,11 +88,14 @@ CREATE TABLE fields (
     regulator TEXT NOT NULL,
     period_length INTEGER NOT NULL,
     unit_digits INTEGER NOT NULL,
-    method TEXT NOT NULL,
+    method_id INTEGER NOT NULL REFERENCES methods (id),
     proof TEXT NOT NULL CHECK (proof IN ('unconditional', 'GRH')),
     chunk INTEGER NOT NULL REFERENCES chunks (id)
 );
 CREATE INDEX fields_class_number ON fields (class_number);
+CREATE VIEW field_rows AS
+    SELECT {", ".join("methods.method" if c == "method" else "fields." + c for c in COLUMNS)}
+    FROM fields JOIN methods ON methods.id = fields.method_id;
 PRAGMA user_version = {SCHEMA_VERSION};
 PRAGMA application_id = {APPLICATION_ID};
 """
@@ -290,16 +301,36 @@ class SurveyStore:
                 (chunk.kind, chunk.lo, chunk.hi, len(rows), seconds, _utc_now()),
             )
             chunk_id = cursor.lastrowid
+            method_ids = self._method_ids({r.method for r in rows})
             marks = ", ".join("?" for _ in range(len(COLUMNS) + 1))
             c.executemany(
-                f"INSERT OR IGNORE INTO fields ({', '.join(COLUMNS)}, chunk) VALUES ({marks})",
-                [(*(getattr(r, k) for k in COLUMNS), chunk_id) for r in rows],
+                f"INSERT OR IGNORE INTO fields ({', '.join(_STORED)}, chunk) VALUES ({marks})",
+                [
+                    (
+                        *(
+                            method_ids[r.method] if k == "method" else getattr(r, k)
+                            for k in COLUMNS
+                        ),
+                        chunk_id,
+                    )
+                    for r in rows
+                ],
             )
             c.execute("COMMIT")
         except BaseException:
             c.execute("ROLLBACK")
             raise
         return len(rows)
+
+    def _method_ids(self, methods: set[str]) -> dict[str, int]:
+        """The ids of ``methods`` in table ``methods``, adding new ones (inside the caller's transaction)."""
+        ids = {}
+        for text in methods:
+            self.connection.execute("INSERT OR IGNORE INTO methods (method) VALUES (?)", (text,))
+            ids[text] = self.connection.execute(
+                "SELECT id FROM methods WHERE method = ?", (text,)
+            ).fetchone()[0]
+        return ids
 
     def completed_chunks(self) -> list[tuple[str, int, int]]:
         return [
@@ -312,7 +343,9 @@ class SurveyStore:
     def count(self, where: RowFilter | None = None) -> int:
         clause, params = (where or RowFilter()).where()
         return int(
-            self.connection.execute(f"SELECT COUNT(*) FROM fields{clause}", params).fetchone()[0]
+            self.connection.execute(f"SELECT COUNT(*) FROM field_rows{clause}", params).fetchone()[
+                0
+            ]
         )
 
     def rows(
@@ -320,7 +353,7 @@ class SurveyStore:
     ) -> Iterator[dict[str, Any]]:
         """Rows in increasing ``d`` as dictionaries with the :data:`COLUMNS` keys."""
         clause, params = (where or RowFilter()).where()
-        sql = f"SELECT {', '.join(COLUMNS)} FROM fields{clause} ORDER BY d"
+        sql = f"SELECT {', '.join(COLUMNS)} FROM field_rows{clause} ORDER BY d"
         if limit is not None:
             sql += f" LIMIT {int(limit)}"
         for values in self.connection.execute(sql, params):
@@ -334,7 +367,7 @@ class SurveyStore:
         if unknown:
             raise InputError(f"unknown column {unknown[0]!r}")
         clause, params = (where or RowFilter()).where()
-        sql = f"SELECT {', '.join(columns)} FROM fields{clause} ORDER BY d"
+        sql = f"SELECT {', '.join(columns)} FROM field_rows{clause} ORDER BY d"
         return list(self.connection.execute(sql, params))
 
 
