@@ -272,3 +272,28 @@ def test_too_many_square_roots_refused() -> None:
         solve_norm_equation(2, n)
     # x² − 2y² = 2²⁰⁰ needs no roots at all: only 2¹⁰⁰·(x² − 2y² = 1)
     assert [f.fundamental for f in solve_norm_equation(2, 2**200).families] == [(2**100, 0)]
+
+
+def test_large_d_against_brute_force_in_y() -> None:
+    # d up to 10⁷, |n| up to 10⁹ (half of them with a planted solution): every solution with
+    # |y| ≤ 1500, found by trying each y (independent check), must be in the families
+    import random
+
+    rng = random.Random(11)
+    for _ in range(60):
+        d = rng.randint(2, 10**7)
+        if is_square(d):
+            continue
+        n = rng.choice([1, -1]) * rng.randint(1, 10**9)
+        if rng.random() < 0.5:
+            y0, x0 = rng.randint(1, 500), rng.randint(0, 10**6)
+            n = x0 * x0 - d * y0 * y0
+            if n == 0:
+                continue
+        expected = set()
+        for y in range(-1500, 1501):
+            v = n + d * y * y
+            if v >= 0 and is_square(v):
+                expected.update({(isqrt(v), y), (-isqrt(v), y)})
+        got = {p for p in solve_norm_equation(d, n).bounded(10**40) if abs(p[1]) <= 1500}
+        assert got == expected, (d, n)

@@ -201,3 +201,21 @@ def test_degenerate_inputs() -> None:
     # content: 2x² − 4y² = 6 is x² − 2y² = 3, no solutions (3 is inert in Z[√2], by hand)
     s = solve_quadratic(2, 0, -4, 0, 0, -6)
     assert s.coefficients == (1, 0, -2, 0, 0, -3) and s.finite and not s.solutions
+
+
+def test_planted_solutions_with_larger_coefficients() -> None:
+    # coefficients up to 300 with a planted point (so the set is never trivially empty),
+    # compared with brute force over |x|, |y| ≤ 80
+    import random
+
+    rng = random.Random(7)
+    for _ in range(300):
+        a, b, c, d, e = (rng.randint(-300, 300) for _ in range(5))
+        x0, y0 = rng.randint(-80, 80), rng.randint(-80, 80)
+        f = -(a * x0 * x0 + b * x0 * y0 + c * y0 * y0 + d * x0 + e * y0)
+        if not any((a, b, c, d, e)):
+            continue
+        s = solve_quadratic(a, b, c, d, e, f)
+        pts = set(s.bounded(80))
+        assert (x0, y0) in pts
+        assert pts == brute_force(a, b, c, d, e, f, 80), (a, b, c, d, e, f)
