@@ -356,3 +356,30 @@ def test_progress_bar_on_a_terminal() -> None:
     with SurveyProgress(50, "bar", stream=screen) as bar:
         bar.advance(50)
     assert "50/50" in screen.getvalue()
+
+
+@given(st.text(max_size=40))
+def test_fuzzed_scheduler_addresses_give_one_error_line(address: str) -> None:
+    import contextlib
+    import os
+    import socket
+    import tempfile
+    from unittest import mock
+
+    def nobody_listens(*args: object, **kwargs: object) -> socket.socket:
+        raise ConnectionRefusedError(111, "Connection refused")
+
+    with (
+        tempfile.TemporaryDirectory() as tmp,
+        mock.patch.object(socket, "create_connection", nobody_listens),
+    ):
+        db = os.path.join(tmp, "fuzz.sqlite")
+        err = io.StringIO()
+        with contextlib.redirect_stdout(io.StringIO()), contextlib.redirect_stderr(err):
+            status = main(["survey", "run", "--d-max", "50", "--db", db, "--scheduler", address])
+        assert (
+            status == 2
+            and err.getvalue().startswith("realquad: error: ")
+            and err.getvalue().count("\n") == 1
+        )
+        assert not os.path.exists(db)
