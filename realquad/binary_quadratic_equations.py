@@ -132,11 +132,33 @@ def _least_integral_power(sub: Substitution, g1: int, h1: int, D: int) -> int:
     ``2|det S|``, so the walk runs in residues.
     """
     N = 2 * abs(sub.det)
+    a, b, c, d = sub.S
+    adj = (d, -b, -c, a)
+    J = (0, D, 1, 0)  # 2W = g·I + h·J for η^k = (g + h√D)/2
+    AJ = _mat(_mat(adj, J), sub.S)  # adj(S)·J·S; adj(S)·S = det·I
+    s0 = sub.s0
+    u0 = (adj[0] * s0[0] + adj[1] * s0[1], adj[2] * s0[0] + adj[3] * s0[1])
+    Js0 = (D * s0[1], s0[0])
+    u1 = (adj[0] * Js0[0] + adj[1] * Js0[1], adj[2] * Js0[0] + adj[3] * Js0[1])
+    det = sub.det
+
+    def integral(g: int, h: int) -> bool:
+        # M = (g·det·I + h·AJ)/(2 det), t = (g·u0 + h·u1 − 2u0)/(2 det)
+        return (
+            (g * det + h * AJ[0]) % N == 0
+            and (h * AJ[1]) % N == 0
+            and (h * AJ[2]) % N == 0
+            and (g * det + h * AJ[3]) % N == 0
+            and (g * u0[0] + h * u1[0] - 2 * u0[0]) % N == 0
+            and (g * u0[1] + h * u1[1] - 2 * u0[1]) % N == 0
+        )
+
     g0, gk, h0, hk = 2 % N, g1 % N, 0, h1 % N
     seen_start = (g0, gk, h0, hk)
     for k in range(1, MAX_UNIT_POWER + 1):
-        M, t = sub.induced(gk, hk, D)
-        if _integral(M + t):
+        if integral(gk, hk):
+            M, t = sub.induced(gk, hk, D)
+            assert _integral(M + t)
             return k
         g0, gk = gk, (g1 * gk - g0) % N
         h0, hk = hk, (g1 * hk - h0) % N

@@ -47,7 +47,7 @@ from realquad.binary_quadratic_equations import (
     swap_solutions,
 )
 from realquad.errors import DomainError, TooLargeError
-from realquad.norm_equations import solve_norm_equation
+from realquad.norm_equations import solve_norm_equation, square_roots_mod
 from realquad.solution_families import Family, ParabolaFamily, QuadraticSolutions
 
 #: Most residues the parabolic case examines.
@@ -133,14 +133,18 @@ def _parabolic(a: int, b: int, c: int, d: int, e: int, f: int) -> QuadraticSolut
         fams: list[Family] = [line for line in lines if line is not None]
         return QuadraticSolutions(coefficients, not fams, fams, [], method)
     M = abs(2 * a * L)
-    if M > MAX_RESIDUES:
+    # U² ≡ −c0 (mod |L|) makes y integral; each root lifts to 2|a| residues mod M, of which
+    # those making x integral are kept
+    roots = square_roots_mod(-c0, abs(L))
+    if len(roots) * 2 * abs(a) > MAX_RESIDUES:
         raise TooLargeError(
-            f"the parabolic case would examine {M:,} residues (limit {MAX_RESIDUES:,})"
+            f"the parabolic case would examine {len(roots) * 2 * abs(a):,} residues (limit {MAX_RESIDUES:,})"
         )
     valid = {
         U0
-        for U0 in range(M)
-        if (U0 * U0 + c0) % L == 0 and (U0 - b * (-(U0 * U0 + c0) // L) - d) % (2 * a) == 0
+        for r in roots
+        for U0 in range(r, M, abs(L))
+        if (U0 - b * (-(U0 * U0 + c0) // L) - d) % (2 * a) == 0
     }
     step = _least_step(valid, M, a, b, L)
     fams = [_parabola(U0, step, a, b, d, c0, L) for U0 in sorted(valid) if U0 < step]

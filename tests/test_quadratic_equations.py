@@ -219,3 +219,20 @@ def test_planted_solutions_with_larger_coefficients() -> None:
         pts = set(s.bounded(80))
         assert (x0, y0) in pts
         assert pts == brute_force(a, b, c, d, e, f, 80), (a, b, c, d, e, f)
+
+
+def test_parabolic_equations_with_planted_solutions() -> None:
+    # Δ = 0: k(αx + βy)² + dx + ey + f = 0 with a planted point, against brute force
+    import random
+
+    rng = random.Random(9)
+    for _ in range(300):
+        k, al, be = rng.choice([-3, -2, -1, 1, 2, 3]), rng.randint(-6, 6), rng.randint(-6, 6)
+        a, b, c = k * al * al, 2 * k * al * be, k * be * be
+        d, e = rng.randint(-60, 60), rng.randint(-60, 60)
+        x0, y0 = rng.randint(-40, 40), rng.randint(-40, 40)
+        f = -(a * x0 * x0 + b * x0 * y0 + c * y0 * y0 + d * x0 + e * y0)
+        if not any((a, b, c, d, e)):
+            continue
+        s = solve_quadratic(a, b, c, d, e, f)
+        assert set(s.bounded(60)) == brute_force(a, b, c, d, e, f, 60), (a, b, c, d, e, f)
