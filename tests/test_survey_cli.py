@@ -108,36 +108,14 @@ def test_query_json_rows_have_the_promised_keys(
 
 def test_query_filters_and_csv(capsys: pytest.CaptureFixture[str], db: str) -> None:
     rows = _all_rows(capsys, db)
+    query = ["survey", "query", "--db", db]
     status, out, _ = run_cli(
-        capsys,
-        "survey",
-        "query",
-        "--db",
-        db,
-        "--unit-norm",
-        "-1",
-        "--narrow-class-number",
-        "2",
-        "--csv",
-        "--limit",
-        "0",
+        capsys, *query, *"--unit-norm -1 --narrow-class-number 2 --csv --limit 0".split()
     )
     parsed = list(csv.DictReader(io.StringIO(out)))
     expected = [r for r in rows if r["unit_norm"] == -1 and r["narrow_class_number"] == 2]
     assert status == 0 and [int(r["d"]) for r in parsed] == [r["d"] for r in expected]
-    status, out, _ = run_cli(
-        capsys,
-        "survey",
-        "query",
-        "--db",
-        db,
-        "--class-number",
-        "3",
-        "--d-min",
-        "500",
-        "--d-max",
-        "600",
-    )
+    status, out, _ = run_cli(capsys, *query, *"--class-number 3 --d-min 500 --d-max 600".split())
     assert status == 0
     shown = [int(line.split()[0]) for line in out.splitlines()[1:-1]]
     assert shown == [r["d"] for r in rows if r["class_number"] == 3 and 500 <= r["d"] <= 600]

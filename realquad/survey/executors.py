@@ -20,7 +20,6 @@ import signal
 import sys
 import time
 from collections.abc import Callable, Iterable, Iterator
-from types import TracebackType
 from typing import Any
 
 from realquad.errors import InputError
@@ -76,12 +75,7 @@ class InProcessExecutor:
     def __enter__(self) -> InProcessExecutor:
         return self
 
-    def __exit__(
-        self,
-        kind: type[BaseException] | None,
-        value: BaseException | None,
-        tb: TracebackType | None,
-    ) -> None:
+    def __exit__(self, *exc_info: object) -> None:
         self.close()
 
 

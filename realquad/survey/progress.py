@@ -19,7 +19,6 @@ from __future__ import annotations
 
 import sys
 import time
-from types import TracebackType
 from typing import Any, Literal, TextIO
 
 Mode = Literal["bar", "lines", "quiet"]
@@ -119,12 +118,7 @@ class SurveyProgress:
                 self._last_line = now
                 print(self._line(False), file=self.stream, flush=True)
 
-    def __exit__(
-        self,
-        kind: type[BaseException] | None,
-        value: BaseException | None,
-        tb: TracebackType | None,
-    ) -> None:
+    def __exit__(self, kind: type[BaseException] | None, *exc_rest: object) -> None:
         if self.mode == "bar":
             self._bar.stop()
         elif self.mode == "lines" and kind is None:

@@ -49,7 +49,6 @@ import sqlite3
 import time
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, fields
-from types import TracebackType
 from typing import Any
 
 from realquad.errors import InputError
@@ -256,12 +255,7 @@ class SurveyStore:
     def __enter__(self) -> SurveyStore:
         return self
 
-    def __exit__(
-        self,
-        kind: type[BaseException] | None,
-        value: BaseException | None,
-        tb: TracebackType | None,
-    ) -> None:
+    def __exit__(self, *exc_info: object) -> None:
         self.close()
 
     def close(self) -> None:
