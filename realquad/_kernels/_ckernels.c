@@ -1628,6 +1628,86 @@ fail:
     return NULL;
 }
 
+/*
+ * infrastructure_giant_step of _pure.py for D < 2^62 and ideals of norm below
+ * 2^31 (every reduced ideal): then a·a2 < 2^62, the centred b below it, b² <
+ * 2^124, and the float operations are the twin's, in its order, on the same
+ * correctly rounded conversions, so the result is the twin's bit for bit.
+ */
+static PyObject *
+k_infrastructure_giant_step(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D64, r64, a64, b64, a264, b264;
+    i128 D, r, a, b, a2, b2, a3, b3, d, two_a, bt, n, t, g, x1, y1, x2, w, s, inv, k, sum;
+    double sq, prod;
+    int bad = 0;
+    const i128 limit = (i128)1 << 31;
+    if (check_nargs(nargs, 7, "infrastructure_giant_step") < 0 || get_i64(args[0], &D64, "D") < 0 ||
+        get_i64(args[1], &r64, "r") < 0 || get_i64(args[3], &a64, "a") < 0 || get_i64(args[4], &b64, "b") < 0 ||
+        get_i64(args[5], &a264, "a2") < 0 || get_i64(args[6], &b264, "b2") < 0)
+        return NULL;
+    sq = PyFloat_AsDouble(args[2]);
+    if (sq == -1.0 && PyErr_Occurred())
+        return NULL;
+    D = D64, r = r64, a = a64, b = b64, a2 = a264, b2 = b264;
+    if (D <= 0 || D > MAX_WORD || r < 0 || r >= limit || a <= 0 || a >= limit || a2 <= 0 || a2 >= limit ||
+        abs128(b) >= 2 * limit || abs128(b2) >= 2 * limit) {
+        PyErr_SetString(PyExc_OverflowError, "the compiled giant step takes D < 2^62 and norms below 2^31");
+        return NULL;
+    }
+    xgcd128(a, a2, &g, &x1, &y1);
+    if (g == 1) {
+        a3 = a * a2;
+        if (a > 1) {
+            i128 gi, ui, vi;
+            xgcd128(floormod(a2, a), a, &gi, &ui, &vi); /* pow(a2, -1, a) */
+            inv = floormod(ui, a);
+            k = floormod(floordiv(b - b2, 2) * inv, a);
+        } else {
+            k = 0;
+        }
+        b3 = b2 + 2 * a2 * k;
+        d = 1;
+    } else {
+        s = floordiv(b + b2, 2);
+        xgcd128(g, s, &d, &x2, &w);
+        a3 = floordiv(a * a2, d * d);
+        sum = mul_c(mul_c(mul_c(x1, x2, &bad), a, &bad), b2, &bad);
+        sum = add_c(sum, mul_c(mul_c(mul_c(y1, x2, &bad), a2, &bad), b, &bad), &bad);
+        sum = add_c(sum, mul_c(w, floordiv(b * b2 + D, 2), &bad), &bad);
+        if (bad)
+            return overflow();
+        b3 = floormod(floordiv(sum, d), 2 * a3);
+    }
+    prod = (double)d; /* a a2 / (d a3) = d exactly */
+    a = a3, b = b3;
+    while (a > r) { /* norms fall by a factor >= 4 per step */
+        two_a = 2 * a;
+        bt = floormod(b, two_a);
+        if (bt > a)
+            bt -= two_a;
+        n = D - bt * bt;
+        if (bt >= 0)
+            prod *= (double)two_a / ((double)bt + sq);
+        else
+            prod *= (sq - (double)bt) * (double)two_a / (double)abs128(n);
+        a = floordiv(abs128(n), 2 * two_a), b = -bt;
+    }
+    for (;;) {
+        two_a = 2 * a;
+        b = r - floormod(r - b, two_a);
+        t = two_a - b;
+        if (t < 0 || t * t < D)
+            return Py_BuildValue("(LLd)", (long long)a, (long long)b, log(prod));
+        n = D - b * b;
+        if (b >= 0)
+            prod *= (double)two_a / ((double)b + sq);
+        else
+            prod *= (sq - (double)b) * (double)two_a / (double)n;
+        a = floordiv(n, 2 * two_a), b = -b;
+    }
+}
+
 /* ------------------------------------------------------------------ */
 /* module                                                              */
 /* ------------------------------------------------------------------ */
@@ -1665,6 +1745,8 @@ static PyMethodDef methods[] = {
      "(h+, 1 if (-1, b0, c0) is principal else 0) from the cycles of reduced forms, or None."},
     {"infrastructure_baby_steps", (PyCFunction)(void (*)(void))k_infrastructure_baby_steps, METH_FASTCALL,
      "Up to count baby steps (rho) on reduced principal ideals, with binary64 distances."},
+    {"infrastructure_giant_step", (PyCFunction)(void (*)(void))k_infrastructure_giant_step, METH_FASTCALL,
+     "reduce([a, b][a2, b2]) on reduced principal ideals, with the distance change."},
     {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D, reduced."},
     {NULL, NULL, 0, NULL},

@@ -33,3 +33,6 @@ def infrastructure_baby_steps(
 def form_class_table(
     D: int, candidates: list[tuple[int, int, int]], max_forms: int, progress: object = None
 ) -> tuple[dict, list, list, list, list] | None: ...
+def infrastructure_giant_step(
+    D: int, r: int, sq: float, a: int, b: int, a2: int, b2: int
+) -> tuple[int, int, float]: ...
