@@ -53,6 +53,20 @@ def _check_consistent(path: Path) -> None:
     c.close()
 
 
+def _completed_chunks(path: Path) -> int:
+    """Completed chunks so far, read while the run writes (0 before the store exists)."""
+    if not path.exists():
+        return 0
+    try:
+        c = sqlite3.connect(f"file:{path}?mode=ro", uri=True, timeout=5)
+        try:
+            return int(c.execute("SELECT COUNT(*) FROM chunks").fetchone()[0])
+        finally:
+            c.close()
+    except sqlite3.Error:  # the schema is not there yet
+        return 0
+
+
 def _orphans(marker: str) -> list[int]:
     found = []
     for entry in os.listdir("/proc"):
@@ -73,21 +87,26 @@ def test_kill_nine_at_random_moments_then_resume(tmp_path: Path) -> None:
 
     target = tmp_path / "killed.sqlite"
     rng = random.Random(20261201)  # fixed seed: the same moments every run
+    total_chunks = len(list(SurveyRange("d", 2, D_MAX).chunks(80)))
+    # kill once on the way to each of these chunk counts, plus a random few milliseconds
+    thresholds = sorted(rng.sample(range(1, total_chunks - 5), 4))
     kills = 0
-    for _ in range(4):
+    for threshold in thresholds:
         proc = subprocess.Popen(
             [*COMMAND, "--db", str(target), "--workers", "2"],
             stdout=subprocess.DEVNULL,
             stderr=subprocess.PIPE,
         )
-        time.sleep(rng.uniform(0.4, 1.6))
+        while proc.poll() is None and _completed_chunks(target) < threshold:
+            time.sleep(0.005)
+        time.sleep(rng.uniform(0, 0.05))
         if proc.poll() is None:
             os.kill(proc.pid, signal.SIGKILL)  # the run itself, not its workers
             kills += 1
         proc.wait()
         if target.exists():
             _check_consistent(target)
-    assert kills >= 1
+    assert kills >= 3
     time.sleep(0.5)
     if sys.platform.startswith("linux"):
         assert _orphans(str(target)) == []  # workers die with their parent
@@ -111,7 +130,8 @@ def test_interrupt_stops_cleanly(tmp_path: Path) -> None:
         stderr=subprocess.PIPE,
         text=True,
     )
-    time.sleep(2.0)
+    while proc.poll() is None and _completed_chunks(target) < 2:
+        time.sleep(0.01)
     proc.send_signal(signal.SIGINT)  # what Ctrl-C sends
     _, err = proc.communicate(timeout=60)
     assert proc.returncode == 130, err
