@@ -79,8 +79,9 @@ class SurveyProgress:
                 MofNCompleteColumn(),
                 TextColumn("fields · {task.fields[rate]}"),
                 TimeElapsedColumn(),
-                TextColumn("left"),
+                TextColumn("elapsed,"),
                 TimeRemainingColumn(),
+                TextColumn("left"),
                 console=Console(file=self.stream),
                 transient=False,
             )
