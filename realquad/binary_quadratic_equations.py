@@ -46,6 +46,7 @@ import mpmath
 
 from realquad.arith import as_integer, is_square, isqrt
 from realquad.errors import TooLargeError
+from realquad.modular_square_roots import divisors
 from realquad.norm_equations import (
     _definite,
     _mul,
@@ -54,7 +55,6 @@ from realquad.norm_equations import (
     _unit_power,
     _units,
     balanced_representative,
-    divisors,
     norm_classes,
 )
 from realquad.pell import pell

@@ -47,7 +47,8 @@ from realquad.binary_quadratic_equations import (
     swap_solutions,
 )
 from realquad.errors import DomainError, TooLargeError
-from realquad.norm_equations import solve_norm_equation, square_roots_mod
+from realquad.modular_square_roots import square_roots_mod
+from realquad.norm_equations import solve_norm_equation
 from realquad.solution_families import Family, ParabolaFamily, QuadraticSolutions
 
 #: Most residues the parabolic case examines.

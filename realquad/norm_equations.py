@@ -57,6 +57,7 @@ from realquad._backend import kernels
 from realquad.arith import as_integer, is_square, isqrt
 from realquad.errors import TooLargeError
 from realquad.factoring import divisors_from_factorization, factorize
+from realquad.modular_square_roots import divisors, square_roots_mod, valuation
 from realquad.pell import pell
 from realquad.product_tree import matrix_product
 from realquad.solution_families import (
@@ -70,10 +71,6 @@ from realquad.solution_families import (
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
 MAX_CYCLE = 2_000_000
-#: Most square roots of d modulo |m| the solver examines.
-MAX_ROOTS = 1 << 20
-#: Most divisors the factorisation cases enumerate.
-MAX_DIVISORS = 1 << 22
 
 METHOD_CF = "continued fractions of (z + √d)/|m| for every square root z of d mod |m| (LMM), principal cycle table"
 METHOD_SHORT = "convergents of √d (|m| < √d)"
@@ -88,68 +85,6 @@ class NormEquationSolution(QuadraticSolutions):
     d: int = 0
     n: int = 0
     classes: list[Point] = field(default_factory=list)
-
-
-# ---------------------------------------------------------------------------
-# square roots modulo m
-
-
-def _root_count_bound(d: int, p: int, e: int) -> int:
-    """An upper bound for the number of square roots of ``d`` modulo ``p^e``.
-
-    ``p ∤ d``: 2 (4 for ``p = 2``). ``v = v_p(d) ≥ e``: ``z ≡ 0 (mod p^⌈e/2⌉)``,
-    ``p^⌊e/2⌋`` roots. ``v < e``: none for odd ``v``; else ``z = p^(v/2) w`` with
-    ``w`` a root of a unit, at most ``4 p^(v/2)``.
-    """
-    if d % p:
-        return 4 if p == 2 else 2
-    if d == 0:
-        return p ** (e // 2)
-    v = 0
-    while d and d % p == 0 and v < e:
-        d //= p
-        v += 1
-    if v >= e:
-        return p ** (e // 2)
-    return 0 if v % 2 else 4 * p ** (v // 2)
-
-
-def square_roots_mod(d: int, m: int, factors: dict[int, int] | None = None) -> list[int]:
-    """All ``z`` in ``[0, m)`` with ``z² ≡ d (mod m)``, by Hensel lifting and the CRT (``m ≥ 1``).
-
-    >>> square_roots_mod(13, 4 * 3 * 17)
-    [25, 43, 59, 77, 127, 145, 161, 179]
-    """
-    from sympy.ntheory import sqrt_mod
-
-    if m == 1:
-        return [0]
-    if factors is None:
-        factors = factorize(m)
-    bound = 1
-    for p, e in factors.items():
-        bound *= _root_count_bound(d, p, e)
-    if bound == 0:
-        return []
-    if bound > MAX_ROOTS:
-        raise TooLargeError(
-            f"z² ≡ d has up to {bound:,} square roots modulo the {len(str(m))}-digit |m| "
-            f"(limit {MAX_ROOTS:,}); too many classes to examine"
-        )
-    roots, modulus = [0], 1
-    for p, e in factors.items():
-        q = p**e
-        local = sqrt_mod(d % q, q, all_roots=True) or []
-        if not local:
-            return []
-        # CRT: z ≡ r (mod modulus), z ≡ s (mod q)
-        inv = int(gmpy2.invert(modulus, q))
-        new = []
-        for s in local:
-            for r in roots:
-                new.append(r + modulus * (((int(s) - r) * inv) % q))
-        roots, modulus = new, modulus * q
-    return sorted(roots)
 
 
 # ---------------------------------------------------------------------------
@@ -480,7 +415,7 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
     fs = divisors_from_factorization({p: e for p, e in exps.items() if e})
     for f in fs:
         m = n // (f * f)
-        mf = {p: e - 2 * _valuation(f, p) for p, e in factors.items()}
+        mf = {p: e - 2 * valuation(f, p) for p, e in factors.items()}
         mf = {p: e for p, e in mf.items() if e}
         if abs(m) <= r:
             prim = _primitive_short(d, m)
@@ -493,25 +428,6 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
             classes.add((f * w[0], f * w[1]))
     method = "; ".join(sorted(methods))
     return sorted(classes, key=lambda v: (v[1], v[0])), method
-
-
-def divisors(n: int) -> list[int]:
-    """The positive divisors of ``n ≠ 0``; refuses more than :data:`MAX_DIVISORS` of them."""
-    factors = factorize(n)
-    count = 1
-    for e in factors.values():
-        count *= e + 1
-    if count > MAX_DIVISORS:
-        raise TooLargeError(f"{n} has {count:,} divisors (limit {MAX_DIVISORS:,})")
-    return divisors_from_factorization(factors)
-
-
-def _valuation(f: int, p: int) -> int:
-    k = 0
-    while f % p == 0:
-        f //= p
-        k += 1
-    return k
 
 
 # ---------------------------------------------------------------------------
@@ -550,7 +466,7 @@ def _definite(d: int, n: int) -> list[Point]:
     fs = divisors_from_factorization({p: e // 2 for p, e in factors.items() if e >= 2})
     for f in fs:
         m = n // (f * f)
-        mf = {p: e - 2 * _valuation(f, p) for p, e in factors.items()}
+        mf = {p: e - 2 * valuation(f, p) for p, e in factors.items()}
         for z in square_roots_mod(d, m, {p: e for p, e in mf.items() if e}):
             # elements X m + Y (z + √d) of J_z; norm = m·(m X² + 2z XY + ((z² − d)/m) Y²)
             (A, B, C), U = _reduce_definite(m, 2 * z, (z * z - d) // m)

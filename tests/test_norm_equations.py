@@ -8,7 +8,8 @@ from hypothesis import strategies as st
 
 from realquad.arith import is_square, isqrt
 from realquad.errors import InputError, TooLargeError
-from realquad.norm_equations import norm_classes, solve_norm_equation, square_roots_mod
+from realquad.modular_square_roots import root_count_bound, square_roots_mod
+from realquad.norm_equations import norm_classes, solve_norm_equation
 
 
 def brute_force(d: int, n: int, B: int) -> set[tuple[int, int]]:
@@ -254,13 +255,12 @@ def test_shortcut_and_cycle_table_agree() -> None:
 def test_root_count_bound_holds() -> None:
     # the a-priori bound used to refuse hopeless inputs never undercounts (brute force, m < 600)
     from realquad.factoring import factorize
-    from realquad.norm_equations import _root_count_bound
 
     for d in range(-30, 60):
         for m in range(2, 600):
             bound = 1
             for p, e in factorize(m).items():
-                bound *= _root_count_bound(d, p, e)
+                bound *= root_count_bound(d, p, e)
             assert sum((z * z - d) % m == 0 for z in range(m)) <= bound
 
 
