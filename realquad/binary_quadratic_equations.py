@@ -50,7 +50,6 @@ from realquad.modular_square_roots import divisors
 from realquad.norm_equations import (
     _definite,
     _mul,
-    _nagell_key,
     _square,
     _unit_power,
     _units,
@@ -202,13 +201,20 @@ def _orbit_families(
     T = AffineMap(tuple(int(v) for v in M), (int(t[0]), int(t[1])))  # type: ignore[arg-type]
     step = (gmpy2.mpz(step[0]), gmpy2.mpz(step[1]))
     span = lcm(r, p) // r
+
+    def key(w: Point) -> tuple[int, int, bool, bool]:
+        # least |Q|, then |P|; ties (mirror images) go to y ≥ 0, then x ≥ 0 in the original unknowns
+        xy = sub.back(*w)
+        assert xy is not None
+        return (abs(w[1]), abs(w[0]), xy[1] < 0, xy[0] < 0)
+
     reps: dict[Point, Point] = {}
     for alpha in classes:
         for sign in (1, -1):
             beta = (sign * alpha[0], sign * alpha[1])
             for _ in range(span):
                 if sub.back(*beta) is not None:
-                    w = balanced_representative(beta, step, log_step, K, D, _nagell_key, 2, reflect)
+                    w = balanced_representative(beta, step, log_step, K, D, key, 2, reflect)
                     xy = sub.back(*w)
                     assert xy is not None and w[0] ** 2 - D * w[1] ** 2 == K
                     reps[w] = xy
@@ -375,6 +381,10 @@ def solve_binary_form(a: int, b: int, c: int, n: int) -> QuadraticSolutions:
         return QuadraticSolutions(
             coefficients, True, [], [], f"gcd of the coefficients {g} does not divide {n}"
         )
+    if g > 1:  # the primitive form has the larger automorph group
+        sol = solve_binary_form(a // g, b // g, c // g, n // g)
+        sol.coefficients = coefficients
+        return sol
     Delta = b * b - 4 * a * c
     if Delta == 0:
         return _parallel_lines(a, b, c, n)
