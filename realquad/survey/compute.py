@@ -26,27 +26,60 @@ decimal keeps 17 significant digits, all but the last certainly correct.
 Reference: the regulator of Q(√79) is log(80 + 9√79) (Jacobson–Williams,
 *Solving the Pell Equation*, 2009, Table of small fundamental solutions; the
 equation 80² − 79·9² = 1 is checked directly in the tests).
+
+**Fast path.** Most rows need neither the class group nor the exact unit:
+``h``, ``h⁺`` and ``N(ε)`` come from the class-number kernel (cycles of
+reduced forms, no lists kept); the structures of ``Cl⁺`` and ``Cl`` from
+genus theory whenever it forces them (:mod:`realquad.class_structure`,
+which needs only the number of prime divisors of ``D`` and whether a prime
+``≡ 3 (mod 4)`` divides it); the regulator and the digit count of ``x``
+from the walk that multiplies the complete quotients in long double with a
+rigorous bound (:func:`realquad.units.regulator`'s accumulated route). The
+regulator text is kept only when every value within the bound — widened by
+the error of the 96-bit evaluation above — prints the same 17 digits, and
+the digit count only when ``log₁₀ x`` stays between two integers (and,
+for ``d ≡ 5 (mod 8)``, whether ``x = u`` or ``u/2`` does not matter).
+Otherwise the row falls back to the class group and the exact unit, so the
+row is the same either way; :data:`FALLBACKS` counts the fallbacks per
+column group in this process.
 """
 
 from __future__ import annotations
 
 import json
+import math
+from collections import Counter
 from dataclasses import asdict, dataclass
 from typing import Any
 
 import gmpy2
 
 from realquad.arith import Order, fundamental_discriminant_of
-from realquad.classgroup import class_group
+from realquad.class_structure import forced_structures
+from realquad.classgroup import METHOD as CLASS_GROUP_METHOD
+from realquad.classgroup import class_group, class_numbers
+from realquad.factoring import factorize
 from realquad.results import Proof
 from realquad.survey.ranges import Chunk
-from realquad.units import fundamental_unit
+from realquad.units import DEFAULT_MAX_PERIOD, METHOD_ACCUMULATED, _walk, fundamental_unit
+from realquad.units import METHOD as UNIT_METHOD
 
 #: Binary precision of the regulator evaluation (see the module docstring).
 REGULATOR_BITS = 96
 #: Significant digits of the stored regulator.
 REGULATOR_DIGITS = 17
 _CONTEXT = gmpy2.context(precision=REGULATOR_BITS)
+
+#: The survey's method, one description for every row (each row takes the fast
+#: route where its bounds and genus theory decide, else the exact one).
+METHOD = (
+    f"unit: {METHOD_ACCUMULATED}, where its error bound decides the row, else {UNIT_METHOD}; "
+    "class group: cycles of reduced forms (class numbers), the structure by genus theory "
+    f"where it is forced, else {CLASS_GROUP_METHOD}"
+)
+
+#: Fallbacks in this process: ``"class group"`` and ``"unit"`` rows that took the slow route.
+FALLBACKS: Counter[str] = Counter()
 
 
 @dataclass(frozen=True)
@@ -95,16 +128,130 @@ def _class_group_columns(order: Order) -> tuple[int, int, str, str, str, Proof, 
     )
 
 
-def survey_field(d: int) -> FieldRecord:
-    """The survey row of ``Q(√d)``, ``d > 1`` squarefree."""
-    D = fundamental_discriminant_of(d)
-    order = Order(D)
-    unit = fundamental_unit(order)
+def _prime_signature(d: int) -> tuple[int, bool]:
+    """``(t, j)``: the number of primes dividing ``D = disc Q(√d)``, and whether none is ``≡ 3 (mod 4)``.
+
+    Trial division up to ``∛d``; a cofactor ``m > 1`` left then has at most
+    two prime factors (both above ``∛d``, and ``m ≤ d``). A composite ``m``
+    with ``m ≡ 1 (mod 4)`` may be two primes ``≡ 1`` or two ``≡ 3 (mod 4)``:
+    only then is ``m`` factored.
+
+    >>> _prime_signature(79), _prime_signature(34), _prime_signature(5 * 13 * 17)
+    ((2, False), (2, True), (3, True))
+    """
+    t = 1 if d % 4 == 3 else 0  # D = 4d: the prime 2 (d ≡ 2 mod 4 counts it below)
+    no_three = True
+    m = d
+    p = 2
+    while p * p * p <= m:
+        if m % p == 0:
+            m //= p
+            t += 1
+            no_three = no_three and p % 4 != 3
+        p += 1 if p == 2 else 2
+    if m > 1:
+        if gmpy2.is_prime(m):
+            t += 1
+            no_three = no_three and m % 4 != 3
+        elif m % 4 == 3:  # two primes, exactly one ≡ 3 (mod 4)
+            t, no_three = t + 2, False
+        else:
+            primes = list(factorize(m))
+            t += len(primes)
+            no_three = no_three and all(q % 4 != 3 for q in primes)
+    return t, no_three
+
+
+def _forced_class_columns(d: int, D: int) -> tuple[int, int, str, str, int] | None:
+    """``h, h⁺``, both structures and ``N(ε)`` without the group, or ``None`` if not forced."""
+    h, h_plus, norm = class_numbers(Order(D))
+    t, j_is_square = _prime_signature(d)
+    found = forced_structures(h_plus, norm, t, j_is_square)
+    if found is None:
+        return None
+    wide, narrow = found
+    return h, h_plus, json.dumps(wide), json.dumps(narrow), norm
+
+
+_LOG10_2 = _CONTEXT.log10(2)
+_LN2 = _CONTEXT.const_log2()
+_INV_LN10 = _CONTEXT.div(1, _CONTEXT.log(10))
+
+
+def _fast_unit_columns(d: int, D: int) -> tuple[int, int, str, int] | None:
+    """``N(ε)``, period, regulator text and digit count from the accumulated walk, or ``None``.
+
+    The kernel gives ``log ε`` as ``log(M·2^e·Q/2)`` up to its bound ``err``;
+    ``M·Q < 2^96`` is exact in 96 bits, so the 96-bit ``R`` adds at most
+    ``(8 + 4R + 2|e|)·2^−96``, and the slow route's own 96-bit value lies
+    within ``(16 + 2R)·2^−96`` of ``R``; the margin ``T`` (in binary64,
+    rounded up generously) bounds all of them. For the digits,
+    ``log₁₀ u = R/ln 10 + log₁₀(1 + N(ε)e^{−2R})`` (``u = ε + N(ε)/ε``); the
+    second term is below ``e^{−2R}`` in size for ``R ≥ 30`` and is evaluated
+    otherwise, when ``u`` has relative error at most ``coth(R)·T ≤ 3T``
+    (every field has ``R ≥ log((1 + √5)/2) = 0.481…``).
+    """
+    steps, parity, q_mid, mantissa, exponent, err = _walk(
+        "principal_regulator", D, DEFAULT_MAX_PERIOD
+    )
+    c = _CONTEXT
+    R = c.add(c.log(mantissa * q_mid), c.mul(exponent - 1, _LN2))
+    r = float(R)
+    if r < 0.45:
+        return None
+    T = (err * 1.01 + (100 + 8 * r + 2 * abs(exponent)) * 2.0**-96) * 1.001
+    low = f"{c.sub(R, T):.{REGULATOR_DIGITS}g}"
+    if low != f"{c.add(R, T):.{REGULATOR_DIGITS}g}":
+        return None
+    norm = -1 if parity else 1
+    if r >= 30:
+        log_u = c.mul(R, _INV_LN10)
+        slack = 2 * T + 2.0**-78 + 2 * math.exp(-2 * r)
+    else:
+        eps = c.exp(R)
+        log_u = c.log10(c.add(eps, c.div(norm, eps)))
+        slack = 4 * T + 2.0**-78
+    # x = u/2 unless D = d ≡ 5 (mod 8), where x is u or u/2 (for d ≡ 1 mod 8, u is even)
+    candidates = (log_u, c.sub(log_u, _LOG10_2)) if d % 8 == 5 else (c.sub(log_u, _LOG10_2),)
+    floors = set()
+    for value in candidates:
+        k = int(gmpy2.floor(value))
+        if value - k <= slack or k + 1 - value <= slack:
+            return None
+        floors.add(k)
+    if len(floors) != 1:
+        return None
+    return norm, steps, low, floors.pop() + 1
+
+
+def _slow_unit_columns(D: int) -> tuple[int, int, str, int]:
+    """``N(ε)``, period, regulator text and digit count from the exact unit."""
+    unit = fundamental_unit(Order(D))
     u, v = unit.half_integer_coordinates()
-    h, h_plus, cl, cl_plus, cl_method, cl_proof, cl_unit_norm = _class_group_columns(order)
-    if cl_unit_norm != unit.norm:  # two independent routes to the sign of N(ε)
+    return unit.norm, int(unit.period_length or 0), _regulator_text(u, v, D), unit.digits
+
+
+def survey_field(d: int) -> FieldRecord:
+    """The survey row of ``Q(√d)``, ``d > 1`` squarefree.
+
+    >>> survey_field(79).class_group, survey_field(79).narrow_class_group
+    ('[3]', '[6]')
+    """
+    D = fundamental_discriminant_of(d)
+    forced = _forced_class_columns(d, D)
+    if forced is None:
+        FALLBACKS["class group"] += 1
+        h, h_plus, cl, cl_plus, _method, proof, cl_norm = _class_group_columns(Order(D))
+    else:
+        h, h_plus, cl, cl_plus, cl_norm = forced
+        proof = "unconditional"  # class numbers by walking every cycle; the unit walk is exact
+    unit_columns = _fast_unit_columns(d, D)
+    if unit_columns is None:
+        FALLBACKS["unit"] += 1
+        unit_columns = _slow_unit_columns(D)
+    norm, period, regulator_text, digits = unit_columns
+    if cl_norm != norm:  # two independent routes to the sign of N(ε)
         raise ArithmeticError(f"internal check failed: unit norms disagree for d = {d}")
-    proof: Proof = "unconditional" if unit.proof == cl_proof == "unconditional" else "GRH"
     return FieldRecord(
         d=d,
         discriminant=D,
@@ -112,11 +259,11 @@ def survey_field(d: int) -> FieldRecord:
         narrow_class_number=h_plus,
         class_group=cl,
         narrow_class_group=cl_plus,
-        unit_norm=unit.norm,
-        regulator=_regulator_text(u, v, D),
-        period_length=int(unit.period_length or 0),
-        unit_digits=unit.digits,
-        method=f"unit: {unit.method}; class group: {cl_method}",
+        unit_norm=norm,
+        regulator=regulator_text,
+        period_length=period,
+        unit_digits=digits,
+        method=METHOD,
         proof=proof,
     )
 

@@ -1,0 +1,173 @@
+"""The survey's fast rows equal the rows built from the class group and the exact unit.
+
+The reference row (``_reference_row``) is the survey row as it was built
+before the fast path: ``realquad.classgroup.class_group`` (Smith normal form
+of the relations among prime forms) for ``h``, ``h⁺``, both structures and
+``N(ε)``, and ``realquad.units.fundamental_unit`` expanded exactly for the
+period, the digit count of ``x`` (decimal conversion of the exact integer)
+and the regulator (96-bit evaluation of ``log((u + v√D)/2)``). The genus
+shortcuts are checked against the same class groups and their prime
+signatures against sympy's ``factorint``.
+"""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from realquad.arith import Order, fundamental_discriminant_of
+from realquad.class_structure import forced_structures, forced_two_part
+from realquad.classgroup import class_group
+from realquad.survey.compute import (
+    FALLBACKS,
+    _fast_unit_columns,
+    _forced_class_columns,
+    _prime_signature,
+    _regulator_text,
+    survey_chunk,
+    survey_field,
+)
+from realquad.survey.ranges import Chunk, squarefree_in
+from realquad.textio import decimal_digits
+from realquad.units import fundamental_unit
+
+COMPARED = [
+    "d",
+    "discriminant",
+    "class_number",
+    "narrow_class_number",
+    "class_group",
+    "narrow_class_group",
+    "unit_norm",
+    "regulator",
+    "period_length",
+    "unit_digits",
+    "proof",
+]
+
+
+def _reference_row(d: int) -> dict[str, object]:
+    D = fundamental_discriminant_of(d)
+    group = class_group(Order(D))
+    unit = fundamental_unit(Order(D))
+    u, v = unit.half_integer_coordinates()
+    return {
+        "d": d,
+        "discriminant": D,
+        "class_number": group.class_number,
+        "narrow_class_number": group.narrow_class_number,
+        "class_group": json.dumps(group.invariants),
+        "narrow_class_group": json.dumps(group.narrow_invariants),
+        "unit_norm": unit.norm,
+        "regulator": _regulator_text(u, v, D),
+        "period_length": unit.period_length,
+        "unit_digits": decimal_digits(unit.expand().x),
+        "proof": "unconditional",
+    }
+
+
+def _check(d: int) -> None:
+    row = survey_field(d).as_dict()
+    assert {k: row[k] for k in COMPARED} == _reference_row(d), d
+
+
+def test_fast_rows_equal_reference_rows_small() -> None:
+    for d in squarefree_in(2, 3000):
+        _check(d)
+
+
+def test_fast_rows_equal_reference_rows_near_1e5_and_1e6() -> None:
+    for d in squarefree_in(100_000, 100_300) + squarefree_in(1_000_000, 1_000_200):
+        _check(d)
+
+
+@pytest.mark.slow
+def test_fast_rows_equal_reference_rows_near_1e7() -> None:
+    for d in squarefree_in(10_000_000, 10_000_300):
+        _check(d)
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.integers(min_value=2, max_value=3_000_000))
+def test_fast_rows_equal_reference_rows_random(n: int) -> None:
+    d = squarefree_in(n, n + 40)[0]  # the next squarefree d (any 40 consecutive hold one)
+    _check(d)
+
+
+def test_chunk_rows_equal_field_rows() -> None:
+    rows = survey_chunk(Chunk("D", 5, 400))
+    assert [r.as_dict() for r in rows] == [survey_field(r.d).as_dict() for r in rows]
+
+
+def test_fast_path_is_taken_for_most_fields() -> None:
+    FALLBACKS.clear()
+    ds = squarefree_in(20_000, 21_000)
+    class_forced = sum(1 for d in ds if _forced_class_columns(d, fundamental_discriminant_of(d)))
+    unit_fast = sum(1 for d in ds if _fast_unit_columns(d, fundamental_discriminant_of(d)))
+    assert class_forced > 0.9 * len(ds) and unit_fast > 0.9 * len(ds)
+
+
+def test_prime_signature_against_sympy() -> None:
+    # t = number of primes of D (sympy.factorint), j = no prime ≡ 3 (mod 4) divides D
+    for d in squarefree_in(2, 5000) + squarefree_in(10**6, 10**6 + 3000):
+        D = fundamental_discriminant_of(d)
+        primes = sympy.factorint(D)
+        assert _prime_signature(d) == (len(primes), all(p % 4 != 3 for p in primes)), d
+
+
+def test_prime_signature_two_large_primes() -> None:
+    # 1009·1013 (both ≡ 1 mod 4), 1019·1031 (both ≡ 3 mod 4), 1013·1019 (one of each); sympy primes
+    for p, q in [(1009, 1013), (1019, 1031), (1013, 1019)]:
+        assert sympy.isprime(p) and sympy.isprime(q)
+        d = 2 * p * q
+        assert _prime_signature(d) == (3, p % 4 == 1 and q % 4 == 1)
+
+
+def test_forced_structures_agree_with_class_groups() -> None:
+    forced = 0
+    ds = squarefree_in(2, 2500)
+    for d in ds:
+        D = fundamental_discriminant_of(d)
+        G = class_group(Order(D))
+        primes = sympy.factorint(D)
+        found = forced_structures(
+            G.narrow_class_number, G.unit_norm, len(primes), all(p % 4 != 3 for p in primes)
+        )
+        if found is not None:
+            forced += 1
+            assert found == (G.invariants, G.narrow_invariants), d
+    assert forced > 0.95 * len(ds)
+
+
+def test_forced_structures_known_groups() -> None:
+    # Q(√79): h = 3, h⁺ = 6 (issue 3's list of known cases, from memory; also class_group above)
+    assert forced_structures(6, 1, 2, False) == ([3], [6])
+    # Q(√10): h = 2 with a unit of norm −1 (issue 3's list, from memory)
+    assert forced_structures(2, -1, 2, True) == ([2], [2])
+    # Q(√3): h = 1, h⁺ = 2 (issue 3's list, from memory)
+    assert forced_structures(2, 1, 2, False) == ([], [2])
+
+
+def _partitions(a: int, r: int, largest: int) -> list[list[int]]:
+    """Partitions of ``a`` into exactly ``r`` parts, each ``≤ largest`` (brute force)."""
+    if r == 0:
+        return [[]] if a == 0 else []
+    return [
+        [e, *rest] for e in range(min(a, largest), 0, -1) for rest in _partitions(a - e, r - 1, e)
+    ]
+
+
+def test_forced_two_part_is_unique_exactly_when_claimed() -> None:
+    # abelian 2-groups of order 2^a and rank r are the partitions of a into r parts
+    for a in range(0, 10):
+        for r in range(0, 10):
+            parts = _partitions(a, r, a)
+            found = forced_two_part(a, r)
+            if len(parts) == 1:
+                assert found == parts[0], (a, r)
+            else:
+                assert found is None, (a, r)
