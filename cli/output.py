@@ -15,6 +15,10 @@ from realquad.textio import decimal_digits, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
+#: Context settings of every command: a token like ``-5`` reaches the argument
+#: (and its one-line error) instead of being taken for an unknown option.
+ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
+
 
 def dumps(obj: Any) -> str:
     """JSON text of ``obj`` with integers of any size written exactly."""

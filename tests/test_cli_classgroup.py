@@ -8,24 +8,13 @@ import subprocess
 import sys
 
 import pytest
+from cli_support import run, run_json
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from realquad_cli.commands import split as split_command
 from realquad_cli.main import main
 
 import realquad.classgroup as classgroup_module
-
-
-def run(capsys, *args: str) -> tuple[int, str, str]:
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def run_json(capsys, *args: str) -> dict:
-    code, out, err = run(capsys, *args, "--json")
-    assert code == 0, err
-    return json.loads(out)
 
 
 def test_classgroup_79(capsys):

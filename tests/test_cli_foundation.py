@@ -2,29 +2,15 @@
 
 from __future__ import annotations
 
-import json
 import os
 import subprocess
 import sys
 
 import pytest
+from cli_support import interrupted, run, run_json
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from realquad_cli.main import main
-
-
-def run(capsys, *args: str) -> tuple[int, str, str]:
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def run_json(capsys, *args: str) -> dict:
-    code, out, err = run(capsys, *args, "--json")
-    assert code == 0, err
-    import gmpy2
-
-    return json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
 
 
 def test_pell_61(capsys):
@@ -185,18 +171,7 @@ def test_subprocess_error_exit_status():
 
 def test_ctrl_c_exits_cleanly():
     """SIGINT during a long continued-fraction walk: status 130, one line, no traceback."""
-    import signal
-    import time
-
     # d = 10²⁰ + 3 (discriminant beyond the compiled kernels' word size): a period of ~10¹⁰ steps
-    proc = subprocess.Popen(
-        [sys.executable, "-m", "realquad", "unit", str(10**20 + 3), "--method", "cfrac"],
-        stdout=subprocess.PIPE,
-        stderr=subprocess.PIPE,
-        text=True,
-    )
-    time.sleep(2.0)
-    proc.send_signal(signal.SIGINT)
-    out, err = proc.communicate(timeout=60)
-    assert proc.returncode == 130, (proc.returncode, err)
+    code, _, err = interrupted(["unit", str(10**20 + 3), "--method", "cfrac"])
+    assert code == 130, (code, err)
     assert err.strip() == "realquad: interrupted"

@@ -8,9 +8,9 @@ import subprocess
 import sys
 
 import pytest
+from cli_support import run, run_json
 from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
-from test_cli_foundation import run, run_json  # shared in-process runners
 
 
 def test_norm_equation_json(capsys):

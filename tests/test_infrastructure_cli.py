@@ -6,24 +6,11 @@ import json
 import subprocess
 import sys
 
-import gmpy2
+from cli_support import interrupted, run, run_json
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from realquad_cli.main import main
 
 from realquad.units import regulator as regulator_cfrac
-
-
-def run(capsys, *args: str) -> tuple[int, str, str]:  # type: ignore[no-untyped-def]
-    code = main(list(args))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def run_json(capsys, *args: str) -> dict:  # type: ignore[no-untyped-def, type-arg]
-    code, out, err = run(capsys, *args, "--json")
-    assert code == 0, err
-    return json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
 
 
 def test_methods_agree_on_small_fields(capsys) -> None:  # type: ignore[no-untyped-def]
@@ -152,27 +139,6 @@ def test_out_of_reach_is_refused_before_starting(capsys) -> None:  # type: ignor
 
 def test_ctrl_c_during_the_infrastructure_search() -> None:
     """SIGINT during a long baby-step giant-step search: status 130, one line, nothing on stdout."""
-    import signal
-    import time
-
-    proc = subprocess.Popen(
-        [
-            sys.executable,
-            "-m",
-            "realquad",
-            "unit",
-            "--disc",
-            str(10**27 + 1),
-            "--method",
-            "bsgs",
-            "--json",
-        ],
-        stdout=subprocess.PIPE,
-        stderr=subprocess.PIPE,
-        text=True,
-    )
-    time.sleep(2.0)
-    proc.send_signal(signal.SIGINT)
-    out, err = proc.communicate(timeout=60)
-    assert proc.returncode == 130, (proc.returncode, err)
+    code, out, err = interrupted(["unit", "--disc", str(10**27 + 1), "--method", "bsgs", "--json"])
+    assert code == 130, (code, err)
     assert out == "" and err.strip() == "realquad: interrupted"

@@ -5,11 +5,15 @@ from __future__ import annotations
 from typing import Any
 
 import click
-from realquad_cli.output import check_output_path, emit, json_option, write_atomically
+from realquad_cli.output import (
+    ACCEPT_NEGATIVE,
+    check_output_path,
+    emit,
+    json_option,
+    write_atomically,
+)
 
 from realquad.cfrac import continued_fraction
-
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)

@@ -6,6 +6,7 @@ from typing import Any
 
 import click
 from realquad_cli.output import (
+    ACCEPT_NEGATIVE,
     check_output_path,
     emit,
     integer_text,
@@ -18,8 +19,6 @@ from realquad_cli.output import (
 from realquad.arith import as_integer
 from realquad.pell import pell
 from realquad.textio import decimal_digits, to_decimal
-
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 
 @click.command("pell", context_settings=ACCEPT_NEGATIVE)

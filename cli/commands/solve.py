@@ -7,6 +7,7 @@ from typing import Any
 import click
 import gmpy2
 from realquad_cli.output import (
+    ACCEPT_NEGATIVE,
     bounded_integer,
     check_output_path,
     dumps,
@@ -22,7 +23,6 @@ from realquad.errors import InputError
 from realquad.solution_families import Family, LineFamily, OrbitFamily, QuadraticSolutions
 from realquad.textio import to_decimal
 
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 #: Seconds between the progress lines a long run writes to a terminal.
 TICK = 5.0
 

@@ -8,7 +8,7 @@ import json
 from typing import Any
 
 import click
-from realquad_cli.output import emit, json_option
+from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
 from realquad.arith import as_integer
 from realquad.errors import InputError
@@ -20,7 +20,6 @@ from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
 
 DEFAULT_DB = "realquad-survey.sqlite"
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 #: Largest d (or D) a survey accepts: rows keep d and D in SQLite's 64-bit integers.
 MAX_BOUND = 10**15

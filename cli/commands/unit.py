@@ -9,6 +9,7 @@ from typing import Any
 import click
 import mpmath
 from realquad_cli.output import (
+    ACCEPT_NEGATIVE,
     check_output_path,
     emit,
     integer_text,
@@ -24,8 +25,6 @@ from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.results import Unit
 from realquad.textio import decimal_digits, to_decimal
-
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
 
 def order_from_options(d: str | None, disc: str | None) -> Order:

@@ -1,0 +1,41 @@
+"""Helpers shared by the command-line tests: in-process runs and interrupted subprocesses."""
+
+from __future__ import annotations
+
+import json
+import signal
+import subprocess
+import sys
+import time
+from typing import Any
+
+import gmpy2
+from realquad_cli.main import main
+
+
+def run(capsys: Any, *args: str) -> tuple[int, str, str]:
+    """Run ``realquad ARGS`` in-process; return (status, stdout, stderr)."""
+    code = main(list(args))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def run_json(capsys: Any, *args: str) -> dict:
+    """Run ``realquad ARGS --json`` in-process, expect status 0, parse big integers exactly."""
+    code, out, err = run(capsys, *args, "--json")
+    assert code == 0, err
+    return json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
+
+
+def interrupted(args: list[str], after: float = 2.0) -> tuple[int, str, str]:
+    """Start ``python -m realquad ARGS``, send SIGINT after ``after`` seconds, return the outcome."""
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "realquad", *args],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
+    time.sleep(after)
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=60)
+    return proc.returncode, out, err
