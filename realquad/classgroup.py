@@ -365,13 +365,7 @@ def class_group(
         raise ArithmeticError(
             f"internal check failed: unit norm {unit.norm} and the principal cycle of {D} disagree"
         )
-    n = len(generators)
-    narrow = smith_normal_form(relations, n) if n else SmithForm([], [], [], [])
-    wide_relations = [list(rel) for rel in relations]
-    if not j_principal:
-        # J is the first generator found (it is the first candidate and lies outside the principal class)
-        wide_relations.append([1])
-    wide = smith_normal_form(wide_relations, n) if n else SmithForm([], [], [], [])
+    narrow, wide = _smith_forms(relations, len(generators), j_principal)
     h = h_plus if unit.norm == -1 else h_plus // 2
     _check_product(narrow.invariants, h_plus, D)
     _check_product(wide.invariants, h, D)
@@ -393,6 +387,63 @@ def class_group(
         _max_forms=max_forms,
         _table=table,
     )
+
+
+def _smith_forms(
+    relations: list[list[int]], n: int, j_principal: bool
+) -> tuple[SmithForm, SmithForm]:
+    """Smith forms of ``Cl⁺`` (the relations) and of ``Cl`` (with ``J = 1`` added)."""
+    narrow = smith_normal_form(relations, n) if n else SmithForm([], [], [], [])
+    wide_relations = [list(rel) for rel in relations]
+    if not j_principal:
+        # J is the first generator found (it is the first candidate and lies outside the principal class)
+        wide_relations.append([1])
+    wide = smith_normal_form(wide_relations, n) if n else SmithForm([], [], [], [])
+    return narrow, wide
+
+
+def class_invariants(
+    order: Order | int, max_forms: int | None = None
+) -> tuple[int, int, list[int], list[int], int]:
+    """``(h, h⁺, invariants of Cl, invariants of Cl⁺, N(ε))``: the lean path for tabulating.
+
+    The same relations and Smith forms as :func:`class_group` (so the same
+    invariants), from the compiled class table when it is built, without
+    generators, forms or the unit; ``N(ε)`` is read off the principal cycle
+    as in :func:`class_numbers`.
+
+    >>> class_invariants(4 * 79), class_invariants(420)
+    ((3, 6, [3], [6], 1), (2, 4, [2], [2, 2], 1))
+    """
+    if not isinstance(order, Order):
+        order = Order(order)
+    D = order.discriminant
+    h_plus, j_principal, generators, relations = _class_relations(order, max_forms)
+    narrow, wide = _smith_forms(relations, len(generators), j_principal)
+    h = h_plus if j_principal else h_plus // 2
+    _check_product(narrow.invariants, h_plus, D)
+    _check_product(wide.invariants, h, D)
+    return h, h_plus, list(wide.invariants), list(narrow.invariants), -1 if j_principal else 1
+
+
+def _class_relations(order: Order, max_forms: int | None) -> tuple[int, bool, list[Triple], Any]:
+    """``(h⁺, J principal, generators, relations)``: the compiled table if built, else the kernel loop."""
+    D = order.discriminant
+    if "form_class_table" in COMPILED:
+        limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
+        _check_reach(D, limit)
+        try:
+            found = kernels.form_class_table(D, _candidates(D, order.conductor), limit)
+        except OverflowError:
+            found = False
+        if found is None:
+            raise TooLargeError(_too_large(D, limit))
+        if found:
+            index, representatives, _vectors, generators, relations = found
+            j = index.get((-1, Form.identity(D).b)) == 0
+            return len(representatives), j, [tuple(g) for g in generators], relations
+    h_plus, j, generators, relations = _run_class_kernel("form_class_relations", order, max_forms)
+    return h_plus, bool(j), [tuple(g) for g in generators], relations
 
 
 def _check_product(invariants: list[int], expected: int, D: int) -> None:

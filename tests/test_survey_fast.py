@@ -21,7 +21,7 @@ from hypothesis import strategies as st
 
 from realquad.arith import Order, fundamental_discriminant_of
 from realquad.class_structure import forced_structures, forced_two_part
-from realquad.classgroup import class_group
+from realquad.classgroup import class_group, class_invariants
 from realquad.survey.compute import (
     FALLBACKS,
     _fast_unit_columns,
@@ -171,3 +171,18 @@ def test_forced_two_part_is_unique_exactly_when_claimed() -> None:
                 assert found == parts[0], (a, r)
             else:
                 assert found is None, (a, r)
+
+
+def test_class_invariants_equal_class_groups() -> None:
+    # every order (maximal or not) of discriminant D ≤ 2000, against class_group's Smith forms
+    for D in range(5, 2000):
+        if D % 4 in (2, 3) or sympy.sqrt(D).is_integer:
+            continue
+        G = class_group(D)
+        assert class_invariants(D) == (
+            G.class_number,
+            G.narrow_class_number,
+            G.invariants,
+            G.narrow_invariants,
+            G.unit_norm,
+        ), D

@@ -2,14 +2,14 @@
 
 For each squarefree ``d`` the survey records the fundamental discriminant,
 the class number ``h`` and narrow class number ``h⁺`` with the structure of
-both class groups (from :func:`realquad.classgroup.class_group`), and, from
-:func:`realquad.units.fundamental_unit`, the norm of the fundamental unit,
-the period length of the continued fraction, the number of decimal digits of
-``x`` in ``ε = (x + y√d)/c`` and the regulator.
+both class groups (the invariants of :func:`realquad.classgroup.class_group`),
+the norm of the fundamental unit, the period length of the continued
+fraction, the number of decimal digits of ``x`` in ``ε = (x + y√d)/c`` and
+the regulator (those of :func:`realquad.units.fundamental_unit`).
 
-The regulator is computed here from the exact unit ``ε = (u + v√D)/2``
-(which the digit count needs anyway, and which costs a quarter of the
-rounded product tree at survey sizes): ``R = log((u + v·√D)/2)`` in binary
+On the exact route (the fallback of the fast path below) the regulator is
+computed from the exact unit ``ε = (u + v√D)/2`` (which the digit count
+needs anyway): ``R = log((u + v·√D)/2)`` in binary
 floating point with ``p = 96`` bits. ``u``, ``v`` and ``D`` are converted
 with one rounding each, ``√D``, the product, the sum (of two positive
 numbers, so no cancellation) and the halving add at most four more, so
@@ -39,8 +39,9 @@ regulator text is kept only when every value within the bound — widened by
 the error of the 96-bit evaluation above — prints the same 17 digits, and
 the digit count only when ``log₁₀ x`` stays between two integers (and,
 for ``d ≡ 5 (mod 8)``, whether ``x = u`` or ``u/2`` does not matter).
-Otherwise the row falls back to the class group and the exact unit, so the
-row is the same either way; :data:`FALLBACKS` counts the fallbacks per
+Otherwise the row falls back to the class group's relations and Smith forms
+(:func:`realquad.classgroup.class_invariants`, the compiled class table) and
+to the exact unit, so the row is the same either way; :data:`FALLBACKS` counts the fallbacks per
 column group in this process.
 """
 
@@ -57,7 +58,7 @@ import gmpy2
 from realquad.arith import Order, fundamental_discriminant_of
 from realquad.class_structure import forced_structures
 from realquad.classgroup import METHOD as CLASS_GROUP_METHOD
-from realquad.classgroup import class_group, class_numbers
+from realquad.classgroup import class_invariants, class_numbers
 from realquad.factoring import factorize
 from realquad.results import Proof
 from realquad.survey.ranges import Chunk
@@ -112,20 +113,6 @@ def _regulator_text(u: int, v: int, D: int) -> str:
     c, p = _CONTEXT, REGULATOR_BITS
     eps = c.div(c.add(gmpy2.mpfr(u, p), c.mul(gmpy2.mpfr(v, p), c.sqrt(gmpy2.mpfr(D, p)))), 2)
     return f"{c.log(eps):.{REGULATOR_DIGITS}g}"
-
-
-def _class_group_columns(order: Order) -> tuple[int, int, str, str, str, Proof, int]:
-    """``h, h⁺``, both structures, method, proof and unit norm, from the class-group module."""
-    group = class_group(order)
-    return (
-        int(group.class_number),
-        int(group.narrow_class_number),
-        json.dumps([int(x) for x in group.invariants]),
-        json.dumps([int(x) for x in group.narrow_invariants]),
-        str(group.method),
-        group.proof,
-        int(group.unit_norm),
-    )
 
 
 def _prime_signature(d: int) -> tuple[int, bool]:
@@ -241,10 +228,10 @@ def survey_field(d: int) -> FieldRecord:
     forced = _forced_class_columns(d, D)
     if forced is None:
         FALLBACKS["class group"] += 1
-        h, h_plus, cl, cl_plus, _method, proof, cl_norm = _class_group_columns(Order(D))
+        h, h_plus, wide, narrow, cl_norm = class_invariants(Order(D))
+        cl, cl_plus = json.dumps(wide), json.dumps(narrow)
     else:
         h, h_plus, cl, cl_plus, cl_norm = forced
-        proof = "unconditional"  # class numbers by walking every cycle; the unit walk is exact
     unit_columns = _fast_unit_columns(d, D)
     if unit_columns is None:
         FALLBACKS["unit"] += 1
@@ -264,7 +251,7 @@ def survey_field(d: int) -> FieldRecord:
         period_length=period,
         unit_digits=digits,
         method=METHOD,
-        proof=proof,
+        proof="unconditional",  # every route walks whole cycles exactly
     )
 
 
