@@ -51,6 +51,8 @@ True
 
 from __future__ import annotations
 
+from realquad.arith import kronecker
+
 
 def _is_squarefree(m: int) -> bool:
     """Whether no square of a prime divides the odd number ``m`` (trial division).
@@ -68,14 +70,32 @@ def _is_squarefree(m: int) -> bool:
     return True
 
 
-def forced_two_part(a: int, r: int) -> list[int] | None:
+def forced_two_part(a: int, r: int, four_rank: int | None = None) -> list[int] | None:
     """The exponents ``e`` (descending) of ``⊕ Z/2^e`` when order ``2^a`` and rank ``r`` force them.
+
+    With ``four_rank`` ``k`` (the number of exponents ``≥ 2``) also known,
+    the ``r − k`` exponents 1 are fixed and the ``k`` others, each ``≥ 2``,
+    sum to ``S = a − r + k``: unique exactly when ``k ≤ 1``, ``S = 2k`` or
+    ``S = 2k + 1``.
 
     >>> forced_two_part(3, 3), forced_two_part(3, 1), forced_two_part(3, 2), forced_two_part(4, 2)
     ([1, 1, 1], [3], [2, 1], None)
+    >>> forced_two_part(4, 2, 1), forced_two_part(4, 2, 2), forced_two_part(7, 3, 2)
+    ([3, 1], [2, 2], None)
     """
     if r < 0 or r > a or (r == 0) != (a == 0):
         return None  # impossible orders and ranks: never forced
+    if four_rank is not None:
+        k, S = four_rank, a - r + four_rank
+        if k < 0 or k > r or S < 2 * k or (k == 0) != (S == 0):
+            return None  # impossible: never forced
+        if k == 0:
+            return [1] * r
+        if k == 1:
+            return [S] + [1] * (r - 1)
+        if S in (2 * k, 2 * k + 1):
+            return [S - 2 * k + 2] + [2] * (k - 1) + [1] * (r - k)
+        return None
     if r == 0:
         return []
     if r == a:
@@ -87,6 +107,56 @@ def forced_two_part(a: int, r: int) -> list[int] | None:
     return None
 
 
+def prime_discriminants(D: int, primes: list[int]) -> list[int]:
+    """The prime discriminants ``p* = (−1)^{(p−1)/2} p`` (and ``−4``, ``8`` or ``−8``) whose product is ``D``.
+
+    ``primes`` are the primes dividing the fundamental discriminant ``D``.
+
+    >>> prime_discriminants(4 * 3 * 5, [2, 3, 5]), prime_discriminants(8 * 7, [2, 7])
+    ([-4, -3, 5], [-8, -7])
+    """
+    odd = [p if p % 4 == 1 else -p for p in primes if p != 2]
+    rest = D
+    for q in odd:
+        rest //= q
+    return ([rest] if rest != 1 else []) + odd
+
+
+def four_rank(D: int, primes: list[int]) -> int:
+    """The 4-rank of ``Cl⁺(D)`` (fundamental ``D``), by Rédei–Reichardt.
+
+    ``2^{r₄}`` is the number of unordered factorisations ``D = D₁ D₂`` into
+    products of prime discriminants with ``(D₁/p) = 1`` for every prime
+    ``p | D₂`` and ``(D₂/p) = 1`` for every ``p | D₁`` (Kronecker symbols;
+    the trivial one ``1·D`` included). Reference: L. Rédei and H. Reichardt,
+    J. reine angew. Math. 170 (1934) 69–74; F. Lemmermeyer, *Reciprocity
+    Laws*, Springer 2000, §6.1 (Rédei matrices) — checked here against the
+    class groups of every field with ``d < 3000`` and random larger ones.
+
+    >>> four_rank(4 * 34, [2, 17]), four_rank(4 * 79, [2, 79])
+    (1, 0)
+    """
+    parts = prime_discriminants(D, primes)
+    t = len(parts)
+    ps = [abs(q) if q % 2 else 2 for q in parts]
+    # minus[i]: the j ≠ i with (d_j / p_i) = −1, as a bit mask
+    minus = [
+        sum(1 << j for j in range(t) if j != i and kronecker(parts[j], ps[i]) == -1)
+        for i in range(t)
+    ]
+    full = (1 << t) - 1
+    count = 0
+    for S in range(1 << t):
+        if all(
+            bin(minus[i] & (full ^ S if S >> i & 1 else S)).count("1") % 2 == 0 for i in range(t)
+        ):
+            count += 1
+    found = (count // 2).bit_length() - 1
+    if count < 2 or count != 2 << found:  # the solutions form a group of order 2^{r₄+1}
+        raise ArithmeticError(f"internal check failed: {count} Rédei decompositions of {D}")
+    return found
+
+
 def _invariants(two_part: list[int], odd: int) -> list[int]:
     """Invariant factors ``d₁ | d₂ | …`` (ascending) of ``⊕ Z/2^e ⊕ Z/odd``, ``odd`` cyclic."""
     factors = [1 << e for e in sorted(two_part)] or [1]
@@ -95,12 +165,17 @@ def _invariants(two_part: list[int], odd: int) -> list[int]:
 
 
 def forced_structures(
-    narrow_class_number: int, unit_norm: int, prime_divisors: int, j_is_square: bool
+    narrow_class_number: int,
+    unit_norm: int,
+    prime_divisors: int,
+    j_is_square: bool,
+    four_rank: int | None = None,
 ) -> tuple[list[int], list[int]] | None:
     """``(Cl invariants, Cl⁺ invariants)`` when the facts of the module notes force them, else ``None``.
 
     ``prime_divisors`` is the number ``t`` of primes dividing the fundamental
-    discriminant; ``j_is_square`` says whether no prime ``≡ 3 (mod 4)`` divides it.
+    discriminant; ``j_is_square`` says whether no prime ``≡ 3 (mod 4)`` divides it;
+    ``four_rank``, when given, is that of ``Cl⁺`` (:func:`four_rank`).
     """
     h_plus = narrow_class_number
     a = (h_plus & -h_plus).bit_length() - 1
@@ -108,7 +183,7 @@ def forced_structures(
     if not _is_squarefree(odd):
         return None
     r = prime_divisors - 1
-    narrow = forced_two_part(a, r)
+    narrow = forced_two_part(a, r, four_rank)
     if narrow is None:
         return None
     if unit_norm == -1:

@@ -20,7 +20,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from realquad.arith import Order, fundamental_discriminant_of
-from realquad.class_structure import forced_structures, forced_two_part
+from realquad.class_structure import forced_structures, forced_two_part, four_rank
 from realquad.classgroup import class_group, class_invariants
 from realquad.survey.compute import (
     FALLBACKS,
@@ -186,3 +186,44 @@ def test_class_invariants_equal_class_groups() -> None:
             G.narrow_invariants,
             G.unit_norm,
         ), D
+
+
+def _four_rank_of(invariants: list[int]) -> int:
+    return sum(1 for x in invariants if x % 4 == 0)
+
+
+def test_four_rank_against_class_groups() -> None:
+    # Rédei–Reichardt 4-rank against the invariants of class_group (Smith normal form)
+    for d in squarefree_in(2, 3000) + squarefree_in(200_000, 200_100):
+        D = fundamental_discriminant_of(d)
+        G = class_group(Order(D))
+        assert four_rank(D, sorted(sympy.factorint(D))) == _four_rank_of(G.narrow_invariants), d
+
+
+def test_forced_structures_with_four_rank_agree_with_class_groups() -> None:
+    for d in squarefree_in(2, 3000):
+        D = fundamental_discriminant_of(d)
+        G = class_group(Order(D))
+        primes = sorted(sympy.factorint(D))
+        found = forced_structures(
+            G.narrow_class_number,
+            G.unit_norm,
+            len(primes),
+            all(p % 4 != 3 for p in primes),
+            four_rank(D, primes),
+        )
+        if found is not None:
+            assert found == (G.invariants, G.narrow_invariants), d
+
+
+def test_forced_two_part_with_four_rank_is_unique_exactly_when_claimed() -> None:
+    # the partitions of a into r parts with exactly k parts ≥ 2 (brute force)
+    for a in range(0, 11):
+        for r in range(0, 11):
+            for k in range(0, r + 1):
+                parts = [p for p in _partitions(a, r, a) if sum(1 for e in p if e >= 2) == k]
+                found = forced_two_part(a, r, k)
+                if len(parts) == 1:
+                    assert found == parts[0], (a, r, k)
+                else:
+                    assert found is None, (a, r, k)

@@ -32,7 +32,8 @@ equation 80² − 79·9² = 1 is checked directly in the tests).
 reduced forms, no lists kept); the structures of ``Cl⁺`` and ``Cl`` from
 genus theory whenever it forces them (:mod:`realquad.class_structure`,
 which needs only the number of prime divisors of ``D`` and whether a prime
-``≡ 3 (mod 4)`` divides it); the regulator and the digit count of ``x``
+``≡ 3 (mod 4)`` divides it, and for some 2-parts the 4-rank of ``Cl⁺`` by
+Rédei–Reichardt); the regulator and the digit count of ``x``
 from the walk that multiplies the complete quotients in long double with a
 rigorous bound (:func:`realquad.units.regulator`'s accumulated route). The
 regulator text is kept only when every value within the bound — widened by
@@ -56,7 +57,7 @@ from typing import Any
 import gmpy2
 
 from realquad.arith import Order, fundamental_discriminant_of
-from realquad.class_structure import forced_structures
+from realquad.class_structure import forced_structures, four_rank
 from realquad.classgroup import METHOD as CLASS_GROUP_METHOD
 from realquad.classgroup import class_invariants, class_numbers
 from realquad.factoring import factorize
@@ -154,6 +155,9 @@ def _forced_class_columns(d: int, D: int) -> tuple[int, int, str, str, int] | No
     h, h_plus, norm = class_numbers(Order(D))
     t, j_is_square = _prime_signature(d)
     found = forced_structures(h_plus, norm, t, j_is_square)
+    if found is None and h_plus % 4 == 0:  # the 2-part may need its 4-rank
+        primes = list(factorize(D))
+        found = forced_structures(h_plus, norm, t, j_is_square, four_rank(D, primes))
     if found is None:
         return None
     wide, narrow = found
