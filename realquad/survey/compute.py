@@ -152,7 +152,7 @@ def _prime_signature(d: int) -> tuple[int, bool]:
 
 def _forced_class_columns(d: int, D: int) -> tuple[int, int, str, str, int] | None:
     """``h, h⁺``, both structures and ``N(ε)`` without the group, or ``None`` if not forced."""
-    h, h_plus, norm = class_numbers(Order(D))
+    h, h_plus, norm = class_numbers(Order(D), conductor=1)  # D is fundamental
     t, j_is_square = _prime_signature(d)
     found = forced_structures(h_plus, norm, t, j_is_square)
     if found is None and h_plus % 4 == 0:  # the 2-part may need its 4-rank
