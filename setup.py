@@ -1,11 +1,13 @@
 """Build of realquad's compiled kernels (the rest of the metadata is in pyproject.toml).
 
-``pip install .`` and ``pip install -e .`` compile ``realquad/_kernels/_ckernels.c``
-with the C compiler Python was built with; nothing but the compiler and the
-Python headers is needed. The extension is optional: when it cannot be built,
-the install still succeeds and realquad runs on its pure-Python kernels
-(``realquad --version`` says so). Set ``REALQUAD_REQUIRE_COMPILED=1`` to make
-the build mandatory: it then stops with a message saying what to install.
+``pip install .`` and ``pip install -e .`` compile the C sources in ``realquad/_kernels/``
+(``_ckernels.c`` with the module, the ``*_kernels.c`` files by subject, the shared header
+``kernels.h``) into the one extension module ``realquad._kernels._ckernels``, with the
+C compiler Python was built with; nothing but the compiler and the Python headers is
+needed. The extension is optional: when it cannot be built, the install still succeeds
+and realquad runs on its pure-Python kernels (``realquad --version`` says so). Set
+``REALQUAD_REQUIRE_COMPILED=1`` to make the build mandatory: it then stops with a message
+saying what to install.
 """
 
 from __future__ import annotations
@@ -59,9 +61,20 @@ class OptionalBuildExt(build_ext):
         )
 
 
+#: The C files of the extension, by subject (shared helpers and prototypes: kernels.h).
+KERNEL_SOURCES = (
+    "_ckernels",
+    "cfrac_kernels",
+    "character_kernels",
+    "form_kernels",
+    "class_kernels",
+    "infrastructure_kernels",
+)
+
 KERNELS = Extension(
     "realquad._kernels._ckernels",
-    sources=["realquad/_kernels/_ckernels.c"],
+    sources=[f"realquad/_kernels/{name}.c" for name in KERNEL_SOURCES],
+    depends=["realquad/_kernels/kernels.h"],
     extra_compile_args=[]
     if sys.platform == "win32"
     else ["-O2", "-fno-fast-math", "-ffp-contract=off"],
