@@ -19,6 +19,7 @@ import sympy
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from realquad._backend import COMPILED
 from realquad.arith import Order, fundamental_discriminant_of
 from realquad.class_structure import forced_structures, forced_two_part, four_rank
 from realquad.classgroup import class_group, class_invariants
@@ -108,7 +109,11 @@ def test_fast_path_is_taken_for_most_fields() -> None:
     ds = squarefree_in(20_000, 21_000)
     class_forced = sum(1 for d in ds if _forced_class_columns(d, fundamental_discriminant_of(d)))
     unit_fast = sum(1 for d in ds if _fast_unit_columns(d, fundamental_discriminant_of(d)))
-    assert class_forced > 0.9 * len(ds) and unit_fast > 0.9 * len(ds)
+    assert class_forced > 0.9 * len(ds)
+    if "principal_regulator" in COMPILED:
+        # the compiled walk's long-double bound decides the 17-digit text for most fields;
+        # the pure twin's wider bound leaves them to the exact route (same rows, slower)
+        assert unit_fast > 0.9 * len(ds)
 
 
 def test_prime_signature_against_sympy() -> None:
