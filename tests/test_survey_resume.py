@@ -123,7 +123,8 @@ def test_kill_nine_at_random_moments_then_resume(tmp_path: Path) -> None:
 
 def test_interrupt_stops_cleanly(tmp_path: Path) -> None:
     target = tmp_path / "interrupted.sqlite"
-    command = survey_command(40000, 500)
+    # a range far longer than the wait for two chunks, so the run cannot finish before the signal
+    command = survey_command(2_000_000, 500)
     proc = subprocess.Popen(
         [*command, "--db", str(target), "--workers", "2"],
         stdout=subprocess.PIPE,
