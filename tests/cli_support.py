@@ -27,7 +27,7 @@ def run_json(capsys: Any, *args: str) -> dict:
     return json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
 
 
-def interrupted(args: list[str], after: float = 2.0) -> tuple[int, str, str]:
+def interrupted(args: list[str], after: float = 3.0) -> tuple[int, str, str]:
     """Start ``python -m realquad ARGS``, send SIGINT after ``after`` seconds, return the outcome."""
     proc = subprocess.Popen(
         [sys.executable, "-m", "realquad", *args],
