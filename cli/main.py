@@ -30,7 +30,13 @@ def _version_text() -> str:
 @click.group(context_settings=CONTEXT)
 @click.version_option(message="%(version)s", version=_version_text(), prog_name="realquad")
 def cli() -> None:
-    """Exact computation in real quadratic fields: Pell equations, units, regulators."""
+    """Exact computation in real quadratic fields and orders.
+
+    Continued fractions, Pell equations, fundamental units and regulators,
+    class groups and prime splitting, integer solutions of quadratic
+    equations in x and y, and surveys over ranges of fields. Every command
+    takes --json; every result names its method and its proof.
+    """
 
 
 for _command in COMMANDS:
