@@ -9,21 +9,24 @@ from __future__ import annotations
 import click
 from realquad_cli.main import cli
 
+WIDTH = 88
 
-def _help(command: click.Command, path: list[str], parent: click.Context | None) -> str:
-    ctx = click.Context(
-        command, info_name=path[-1], parent=parent, terminal_width=88, max_content_width=88
-    )
-    return ctx.get_help()
+
+def _context(command: click.Command, name: str, parent: click.Context | None) -> click.Context:
+    # make_context applies each command's own context settings (help option names, ...)
+    ctx = command.make_context(name, [], parent=parent, resilient_parsing=True)
+    ctx.terminal_width = WIDTH
+    ctx.max_content_width = WIDTH
+    return ctx
 
 
 def _walk(
     command: click.Command, path: list[str], parent: click.Context | None, out: list[str]
 ) -> None:
+    ctx = _context(command, path[-1], parent)
     level = "#" * min(len(path) + 1, 4)
-    out.append(f"{level} `{' '.join(path)}`\n\n```\n{_help(command, path, parent)}\n```\n")
+    out.append(f"{level} `{' '.join(path)}`\n\n```\n{ctx.get_help()}\n```\n")
     if isinstance(command, click.Group):
-        ctx = click.Context(command, info_name=path[-1], parent=parent)
         for name in sorted(command.list_commands(ctx)):
             sub = command.get_command(ctx, name)
             if sub is not None:
