@@ -3,19 +3,16 @@
 from __future__ import annotations
 
 import time
-from collections.abc import Callable
-from typing import Any, TypeVar
+from typing import Any
 
 import click
-from realquad_cli.commands.unit import ACCEPT_NEGATIVE, order_from_options
-from realquad_cli.output import emit, json_option
+from realquad_cli.orders import order_arguments, order_from_options
+from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
 from realquad.classgroup import ClassGroup, class_group
 from realquad.forms import Form
 from realquad.genus import Genera
 from realquad.ideals import Ideal
-
-Decorated = TypeVar("Decorated", bound=Callable[..., Any])
 
 #: Most reduced forms that ``--forms`` prints in the text form.
 SHOWN_FORMS = 2000
@@ -104,14 +101,6 @@ def _text(G: ClassGroup, payload: dict[str, Any], with_forms: bool) -> str:
             shown += len(cyc)
     lines.append(f"method: {G.method}; proof: {G.proof}")
     return "\n".join(lines)
-
-
-def order_arguments(f: Decorated) -> Decorated:
-    """The argument ``d`` (a field) and the option ``--disc D`` (an order), as in ``realquad unit``."""
-    f = click.option(
-        "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
-    )(f)
-    return click.argument("d", type=str, required=False)(f)
 
 
 @click.command("classgroup", context_settings=ACCEPT_NEGATIVE)

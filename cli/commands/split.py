@@ -5,9 +5,8 @@ from __future__ import annotations
 from typing import Any
 
 import click
-from realquad_cli.commands.classgroup import order_arguments
-from realquad_cli.commands.unit import ACCEPT_NEGATIVE, order_from_options
-from realquad_cli.output import emit, integer_text, json_option, put_integers
+from realquad_cli.orders import order_arguments, order_from_options
+from realquad_cli.output import ACCEPT_NEGATIVE, emit, integer_text, json_option, put_integers
 
 from realquad.arith import as_integer
 from realquad.classgroup import class_group

@@ -8,6 +8,7 @@ from typing import Any
 
 import click
 import mpmath
+from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import (
     ACCEPT_NEGATIVE,
     check_output_path,
@@ -19,7 +20,6 @@ from realquad_cli.output import (
     write_atomically,
 )
 
-from realquad.arith import Order, as_integer, field
 from realquad.dispatch import METHODS, fundamental_unit
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
@@ -27,20 +27,8 @@ from realquad.results import Unit
 from realquad.textio import decimal_digits, to_decimal
 
 
-def order_from_options(d: str | None, disc: str | None) -> Order:
-    """The order named by ``d`` (its field) or ``--disc D``; exactly one must be given."""
-    if (d is None) == (disc is None):
-        raise InputError("give either d (for the field Q(√d)) or --disc D (for an order), not both")
-    if disc is not None:
-        return Order(as_integer(disc, "--disc"))
-    return field(as_integer(d, "d"))
-
-
 @click.command("unit", context_settings=ACCEPT_NEGATIVE)
-@click.argument("d", type=str, required=False)
-@click.option(
-    "--disc", type=str, default=None, metavar="D", help="Discriminant of an order instead of d."
-)
+@order_arguments
 @click.option(
     "--digits",
     type=click.IntRange(1, 100_000),
