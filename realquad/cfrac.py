@@ -102,24 +102,9 @@ class QuadraticIrrational:
 
 
 def _format(P: int, D: int, Q: int) -> str:
+    """``(P + √D)/Q`` in lowest terms, with the square part of ``D`` taken out of the root."""
     k, s = _extract_square(D)
-    root = f"√{s}" if k == 1 else f"{k}√{s}"
-    g = _gcd3(P, k, Q)
-    P, kk, Q = P // g, k // g, Q // g
-    root = f"√{s}" if kk == 1 else f"{kk}√{s}"
-    if Q < 0:
-        P, Q = -P, -Q
-        root = "−" + root
-        body = f"{P} {root[0]} {root[1:]}" if P else root
-    else:
-        body = f"{P} + {root}" if P else root
-    return body if Q == 1 else f"({body})/{Q}"
-
-
-def _gcd3(a: int, b: int, c: int) -> int:
-    from math import gcd
-
-    return gcd(gcd(a, b), c) or 1
+    return str(QuadraticNumber(P, k, Q, s))
 
 
 def _extract_square(D: int) -> tuple[int, int]:

@@ -7,8 +7,6 @@ converts any size in quasi-linear time.
 5001
 >>> to_decimal(-12345)
 '-12345'
->>> summarize(10**50 + 7, 10)
-'1000000000…0000000007 (51 digits)'
 """
 
 from __future__ import annotations
@@ -30,11 +28,3 @@ def decimal_digits(n: object) -> int:
     if m < gmpy2.mpz(10) ** (k - 1):
         k -= 1
     return k
-
-
-def summarize(n: object, edge: int = 20) -> str:
-    """Leading and trailing digits and the digit count of a big integer."""
-    text = to_decimal(n)
-    sign = "-" if text.startswith("-") else ""
-    body = text.lstrip("-")
-    return f"{sign}{body[:edge]}…{body[-edge:]} ({len(body)} digits)"
