@@ -8,7 +8,7 @@
 * ``"auto"`` — the continued fraction while the estimated period is short,
   the infrastructure beyond. The period is estimated through ``R ≤ h·R``,
   the analytic class number formula's estimate
-  (:mod:`realquad.infrastructure.lfunction`), divided by Lévy's constant.
+  (:mod:`realquad.lfunction`), divided by Lévy's constant.
 
 The cut-offs differ by problem. For :func:`regulator` only ``R`` is wanted,
 and the benchmark (``tests/benchmarks/bench_infrastructure.py``,
@@ -37,17 +37,16 @@ True
 
 from __future__ import annotations
 
-import math
 from typing import Literal
 
-from realquad import units
+from realquad import lfunction, units
 from realquad._backend import BACKEND, kernels
 from realquad.arith import Order
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.infrastructure.lfunction import estimate_hR
 from realquad.infrastructure.regulator_bsgs import DEFAULT_MAX_TABLE, Progress, regulator_bsgs
 from realquad.infrastructure.regulator_bsgs import METHOD as BSGS_METHOD
+from realquad.lfunction import estimate_hR
 from realquad.results import Regulator, Unit
 
 Method = Literal["auto", "cfrac", "bsgs"]
@@ -64,13 +63,10 @@ UNIT_PERIOD_LIMIT = 10_000_000
 #: Discriminants this small always have a short period (``l < 2√D``-ish).
 _SMALL_DISCRIMINANT = 10**8
 
-#: Average growth of ``log ε`` per continued-fraction step (Lévy's constant π²/(12 log 2)).
-_LEVY = math.pi**2 / (12 * math.log(2))
-
 
 def estimated_period(D: int) -> float:
     """An estimate (an upper one, up to the Euler product's error) of the period length."""
-    return estimate_hR(D, 20_000).value / _LEVY
+    return lfunction.estimated_period(D, 20_000)
 
 
 def _regulator_limit(D: int) -> int:

@@ -37,6 +37,7 @@ import mpmath
 from realquad._backend import COMPILED, kernels, pure
 from realquad.arith import Order
 from realquad.errors import TooLargeError
+from realquad.lfunction import estimated_period
 from realquad.product_tree import matrix_product, matrix_product_column
 from realquad.results import Regulator, Unit
 
@@ -85,38 +86,10 @@ def _walk(kernel: str, D: int, max_period: int) -> tuple:
     return found
 
 
-#: Mean of log θ over a continued-fraction step (Lévy's constant π²/(12 log 2)).
-_LEVY = 1.1865691104156254
-
-
-def expected_period(D: int, prime_bound: int = 2000) -> float:
-    """Rough period length if the class number were 1: ``h R ≈ (√D/2) L(1, χ)``.
-
-    ``L(1, χ_D)`` is estimated by the Euler product over primes below
-    ``prime_bound``; the period is about ``R / 1.1866`` (Lévy's constant).
-    A class number ``h > 1`` shortens it by the factor ``h``. This is an
-    estimate for messages and planning only, never used as a result.
-
-    >>> 1e5 < expected_period(4 * 1000000000091) < 1e7
-    True
-    """
-    import math
-
-    from realquad.arith import kronecker
-
-    L = 1.0
-    sieve = bytearray([1]) * prime_bound
-    for p in range(2, prime_bound):
-        if sieve[p]:
-            sieve[p * p :: p] = bytearray(len(sieve[p * p :: p]))
-            L /= 1.0 - kronecker(D, p) / p
-    return math.sqrt(D) / 2 * L / _LEVY
-
-
 def _too_long_message(D: int, max_period: int) -> str:
     return (
         f"the period of the continued fraction of discriminant {D} exceeds "
-        f"{max_period:,} steps (about {expected_period(D):.3g} expected if the class number is 1); "
+        f"{max_period:,} steps (about {estimated_period(D, 2_000):.3g} expected if the class number is 1); "
         "the continued fraction cannot finish in reasonable time. "
         "Baby-step giant-step in the infrastructure is the method for this size."
     )

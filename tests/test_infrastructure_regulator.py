@@ -12,8 +12,8 @@ from hypothesis import strategies as st
 
 from realquad.infrastructure.distances import exact_principal_at, log_of_product, walk_to
 from realquad.infrastructure.ideals import Cycle, giant_step_float
-from realquad.infrastructure.lfunction import estimate_hR, primes_below
 from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+from realquad.lfunction import estimate_hR, primes_below
 from realquad.units import regulator as regulator_cfrac
 
 

@@ -3,8 +3,9 @@
 Modules: :mod:`ideals` (reduced ideals, baby steps, composition, reduction),
 :mod:`distances` (reaching a given distance by doubling, exact relative
 generators), :mod:`regulator_bsgs` (the regulator by baby-step giant-step),
-:mod:`compact` (compact representations of units), :mod:`lfunction` (the
-``h·R`` estimate that sizes the search).
+:mod:`compact` (compact representations of units). The ``h·R`` estimate
+that sizes the search is :mod:`realquad.lfunction`, shared with the
+continued-fraction side.
 """
 
 from realquad.infrastructure.ideals import Cycle

@@ -16,7 +16,7 @@ so ``k = 1``. A conjugate match has ``(k − 1)R < 2δ_B + log √D``, so
 ``k ≤ 3``; the candidates ``x/2`` and ``x/3`` are tested exactly. No
 assumption enters: the result is unconditional.
 
-The estimate ``E ≈ hR`` (:mod:`lfunction`) only affects speed, in two ways.
+The estimate ``E ≈ hR`` (:mod:`realquad.lfunction`) only affects speed, in two ways.
 It sizes the table; and giant steps across ``[0.98E, 1.02E]`` look for a copy
 of ``O`` there, whose distance ``x`` is then a multiple of ``R`` — when
 ``h = 1`` usually ``R`` itself. The main search then stops at
@@ -58,7 +58,7 @@ from realquad.infrastructure.distances import (
     walk_to,
 )
 from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
-from realquad.infrastructure.lfunction import estimate_hR
+from realquad.lfunction import estimate_hR
 from realquad.results import Regulator
 
 METHOD = "infrastructure baby-step giant-step"

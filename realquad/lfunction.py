@@ -13,6 +13,8 @@ error bound is claimed for it.
 >>> e = estimate_hR(4 * (10**9 + 7))
 >>> e.primes, round(e.value / 14693.62, 1)    # h = 1 for this field (from the cycle)
 (303, 1.0)
+>>> 1e5 < estimated_period(4 * 1000000000091, 2_000) < 1e7    # the period is 1,103,310
+True
 """
 
 from __future__ import annotations
@@ -71,3 +73,17 @@ def estimate_hR(D: int, bound: int | None = None) -> HREstimate:
             log_product -= math.log1p(-chi / p)
     value = math.exp(0.5 * math.log(D) - math.log(2) + log_product)
     return HREstimate(D, value, bound, len(primes))
+
+
+#: Average growth of ``log ε`` per continued-fraction step (Lévy's constant π²/(12 log 2)).
+LEVY = math.pi**2 / (12 * math.log(2))
+
+
+def estimated_period(D: int, bound: int | None = None) -> float:
+    """Period length of the continued fraction expected if the class number were 1.
+
+    ``R ≤ h·R``, and ``R`` grows by Lévy's constant per step on average, so
+    this is about ``h`` times the period; an estimate for planning and
+    messages, never a result.
+    """
+    return estimate_hR(D, bound).value / LEVY
