@@ -68,6 +68,7 @@ KERNEL_SOURCES = (
     "character_kernels",
     "form_kernels",
     "class_kernels",
+    "survey_kernels",
     "infrastructure_kernels",
 )
 

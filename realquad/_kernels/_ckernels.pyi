@@ -36,3 +36,6 @@ def form_class_table(
 def infrastructure_giant_step(
     D: int, r: int, sq: float, a: int, b: int, a2: int, b2: int
 ) -> tuple[int, int, float]: ...
+def survey_numbers(
+    radicands: list[int], primes: list[int], max_period: int, max_forms: int
+) -> list[tuple[int, int, int, int, int, tuple[int, int, int, int, int, float] | None] | None]: ...

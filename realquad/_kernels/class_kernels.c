@@ -13,6 +13,15 @@ powmod(uint64_t b, uint64_t e, uint64_t m)
 {
     uint64_t r = 1 % m;
     b %= m;
+    if (m >> 32 == 0) { /* products below 2^64: no 128-bit division */
+        while (e) {
+            if (e & 1)
+                r = r * b % m;
+            b = b * b % m;
+            e >>= 1;
+        }
+        return r;
+    }
     while (e) {
         if (e & 1)
             r = (uint64_t)((u128)r * b % m);
@@ -50,6 +59,55 @@ sqrt_mod_odd_prime(uint64_t n, uint64_t p)
     return (int64_t)root;
 }
 
+/*
+ * Square roots modulo the odd primes below SQRT_TABLE_LIMIT, tabulated once per
+ * process (about 2.2 MB): root_of[offset[p] + n] is a square root of n modulo p,
+ * or 0xFFFF when n is not a square. A survey asks the same small primes about
+ * every discriminant; one load replaces Euler's criterion and Tonelli-Shanks.
+ */
+#define SQRT_TABLE_LIMIT 4096
+static uint16_t *root_of;
+static uint32_t root_offset[SQRT_TABLE_LIMIT];
+
+static int
+build_root_table(void)
+{
+    static unsigned char composite[SQRT_TABLE_LIMIT];
+    uint32_t total = 0, p, x, i;
+    for (p = 2; p < SQRT_TABLE_LIMIT; p++)
+        if (!composite[p])
+            for (i = p * p; i < SQRT_TABLE_LIMIT; i += p)
+                composite[i] = 1;
+    for (p = 3; p < SQRT_TABLE_LIMIT; p += 2)
+        if (!composite[p])
+            root_offset[p] = total, total += p;
+    root_of = (uint16_t *)PyMem_Malloc((size_t)total * sizeof(uint16_t));
+    if (root_of == NULL) {
+        PyErr_NoMemory();
+        return -1;
+    }
+    memset(root_of, 0xFF, (size_t)total * sizeof(uint16_t));
+    for (p = 3; p < SQRT_TABLE_LIMIT; p += 2)
+        if (!composite[p])
+            for (x = 0; x <= p / 2; x++)
+                root_of[root_offset[p] + x * x % p] = (uint16_t)x;
+    return 0;
+}
+
+/* A square root of D modulo the odd prime p, or -1 (-2 on error). */
+static int64_t
+root_mod_prime(int64_t D, int64_t p)
+{
+    if (p < SQRT_TABLE_LIMIT) {
+        uint16_t t;
+        if (root_of == NULL && build_root_table() < 0)
+            return -2;
+        t = root_of[root_offset[p] + (uint32_t)((uint64_t)D % (uint64_t)p)];
+        return t == 0xFFFF ? -1 : (int64_t)t;
+    }
+    return sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
+}
+
 /* prime_form_b of _pure.py for a prime 2 <= p < 2^31 and 0 < D < 2^62 (the b is canonical). */
 static int64_t
 prime_b(int64_t D, int64_t p)
@@ -66,9 +124,9 @@ prime_b(int64_t D, int64_t p)
         else
             return -1;
     } else {
-        t = sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
+        t = root_mod_prime(D, p);
         if (t < 0)
-            return -1;
+            return t;
         b = ((t - D) % 2 == 0) ? t : p - t;
     }
     c = floordiv64(b * b - D, 4 * p);
@@ -88,18 +146,47 @@ gcd64(int64_t x, int64_t y)
     return x;
 }
 
-/* form_class_candidates of _pure.py into a growable array of triples; -1 on error. */
-static int
-candidates(int64_t D, int64_t conductor, PyObject *primes, int64_t **out, int64_t *count)
+/* A sequence of primes as a C array (PyMem_Free it); -1 on error. */
+int
+prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len)
 {
     PyObject *seq = PySequence_Fast(primes, "primes must be a sequence");
-    int64_t r = (int64_t)isqrt_u64((uint64_t)D), b0, n = 0, cap = 256, *v, p, b, q;
-    Py_ssize_t i, len;
+    Py_ssize_t i, n;
+    int64_t *v;
     if (seq == NULL)
         return -1;
-    v = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
+    n = PySequence_Fast_GET_SIZE(seq);
+    v = (int64_t *)PyMem_Malloc((size_t)(n + 1) * sizeof(int64_t));
     if (v == NULL) {
         Py_DECREF(seq);
+        PyErr_NoMemory();
+        return -1;
+    }
+    for (i = 0; i < n; i++)
+        if (get_i64(PySequence_Fast_GET_ITEM(seq, i), &v[i], "a prime") < 0) {
+            Py_DECREF(seq);
+            PyMem_Free(v);
+            return -1;
+        }
+    Py_DECREF(seq);
+    *out = v, *len = n;
+    return 0;
+}
+
+/*
+ * form_class_candidates of _pure.py into a growable array of triples; -1 on
+ * error. With lift set, each prime form (p, b, c) is replaced by the reduced
+ * form (p, b + 2pk, *) of its class with r - 2p < b + 2pk <= r (reduced because
+ * 2p < sqrt D): the same classes, for callers that only count them.
+ */
+static int
+candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, int lift, int64_t **out,
+           int64_t *count)
+{
+    int64_t r = (int64_t)isqrt_u64((uint64_t)D), b0, n = 0, cap = 256, *v, p, b, q;
+    Py_ssize_t i;
+    v = (int64_t *)PyMem_Malloc((size_t)(3 * cap) * sizeof(int64_t));
+    if (v == NULL) {
         PyErr_NoMemory();
         return -1;
     }
@@ -119,10 +206,8 @@ candidates(int64_t D, int64_t conductor, PyObject *primes, int64_t **out, int64_
     } while (0)
     b0 = ((r - D) % 2 == 0) ? r : r - 1;
     PUSH(-1, b0, (D - b0 * b0) / 4);
-    len = PySequence_Fast_GET_SIZE(seq);
     for (i = 0; i < len; i++) {
-        if (get_i64(PySequence_Fast_GET_ITEM(seq, i), &p, "a prime") < 0)
-            goto fail;
+        p = primes[i];
         if (p < 2 || p >= ((int64_t)1 << 31) || 4 * (i128)p * p >= D) {
             if (p >= 2 && 4 * (i128)p * p >= D)
                 break;
@@ -131,8 +216,13 @@ candidates(int64_t D, int64_t conductor, PyObject *primes, int64_t **out, int64_
         }
         if (conductor % p) {
             b = prime_b(D, p);
-            if (b >= 0)
-                PUSH(p, b, floordiv64(b * b - D, 4 * p));
+            if (b < -1)
+                goto fail;
+            if (b >= 0) {
+                if (lift)
+                    b += 2 * p * ((r - b) / (2 * p));
+                PUSH(p, b, (b * b - D) / (4 * p));
+            }
             continue;
         }
         for (q = p; 4 * (i128)q * q < D; q *= p) {
@@ -146,11 +236,9 @@ candidates(int64_t D, int64_t conductor, PyObject *primes, int64_t **out, int64_
         }
     }
 #undef PUSH
-    Py_DECREF(seq);
     *out = v, *count = n;
     return 0;
 fail:
-    Py_DECREF(seq);
     PyMem_Free(v);
     return -1;
 }
@@ -199,17 +287,23 @@ k_prime_form_b(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         PyErr_SetString(PyExc_OverflowError, "prime_form_b takes 0 < D < 2^62 and a prime p < 2^31");
         return NULL;
     }
-    return PyLong_FromLongLong((long long)prime_b(D, p));
+    p = prime_b(D, p);
+    return p < -1 ? NULL : PyLong_FromLongLong((long long)p);
 }
 
 PyObject *
 k_form_class_candidates(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
-    int64_t D, conductor, n, *v;
+    int64_t D, conductor, n, *v, *primes;
+    Py_ssize_t len;
     PyObject *out;
-    if (check_nargs(nargs, 3, "form_class_candidates") < 0 || class_kernel_args(args, &D, &conductor) < 0)
+    int rc;
+    if (check_nargs(nargs, 3, "form_class_candidates") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
+        prime_array(args[2], &primes, &len) < 0)
         return NULL;
-    if (candidates(D, conductor, args[2], &v, &n) < 0)
+    rc = candidates(D, conductor, primes, len, 0, &v, &n);
+    PyMem_Free(primes);
+    if (rc < 0)
         return NULL;
     out = triples_to_list(v, n);
     PyMem_Free(v);
@@ -220,61 +314,140 @@ k_form_class_candidates(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 /* class numbers: the narrow classes of D as cycles of reduced forms   */
 /* ------------------------------------------------------------------ */
 
-/* Open-addressing table (a, b) -> class; b > 0 for every reduced form, so b = 0 marks a free slot. */
+/*
+ * Open-addressing table (a, b) -> class for reduced forms, |a| and b below
+ * 2^31 (D < 2^62), keyed by one word. Slots carry the stamp of the walk that
+ * filled them, so starting a walk is a stamp increment, not a clearing; one
+ * table serves every walk of the process (the next one reuses its memory)
+ * unless it is in use, when a walk gets a private one.
+ */
 typedef struct {
-    int64_t a, b;
-    int64_t cls;
+    uint64_t key;
+    uint32_t stamp;
+    int32_t cls;
 } slot_t;
 
 typedef struct {
     slot_t *slots;
     size_t mask, used;
+    uint32_t stamp;
+    int shift;
 } table_t;
 
-static inline size_t
-slot_hash(int64_t a, int64_t b)
+static table_t shared_table;
+static int shared_busy;
+
+static inline uint64_t
+form_key(int64_t a, int64_t b)
 {
-    uint64_t h = (uint64_t)a * 0x9E3779B97F4A7C15ULL ^ ((uint64_t)b + 0x632BE59BD9B4E019ULL) * 0xC2B2AE3D27D4EB4FULL;
-    return (size_t)(h ^ (h >> 29));
+    return ((uint64_t)(a + ((int64_t)1 << 31)) << 32) | (uint64_t)b;
 }
 
-static slot_t *
-table_find(table_t *t, int64_t a, int64_t b)
+static inline size_t
+slot_index(const table_t *t, uint64_t key)
 {
-    size_t i = slot_hash(a, b) & t->mask;
-    while (t->slots[i].b != 0 && (t->slots[i].a != a || t->slots[i].b != b))
+    return (size_t)((key * 0x9E3779B97F4A7C15ULL) >> t->shift);
+}
+
+/* The slot of key, or the free slot where it would go. */
+static inline slot_t *
+table_slot(const table_t *t, uint64_t key)
+{
+    size_t i = slot_index(t, key);
+    while (t->slots[i].stamp == t->stamp && t->slots[i].key != key)
         i = (i + 1) & t->mask;
     return &t->slots[i];
 }
 
-static int
-table_put(table_t *t, int64_t a, int64_t b, int64_t cls)
+/* The class of (a, b), or -1 when it is not in the table. */
+static inline int64_t
+table_class(const table_t *t, int64_t a, int64_t b)
 {
-    slot_t *e;
-    if (2 * (t->used + 1) > t->mask + 1) {
-        size_t n = 2 * (t->mask + 1), i;
-        slot_t *old = t->slots, *fresh = (slot_t *)PyMem_Calloc(n, sizeof(slot_t));
-        size_t oldn = t->mask + 1;
-        if (fresh == NULL) {
-            PyErr_NoMemory();
-            return -1;
-        }
-        t->slots = fresh, t->mask = n - 1;
-        for (i = 0; i < oldn; i++)
-            if (old[i].b != 0)
-                *table_find(t, old[i].a, old[i].b) = old[i];
-        PyMem_Free(old);
+    slot_t *e = table_slot(t, form_key(a, b));
+    return e->stamp == t->stamp ? (int64_t)e->cls : -1;
+}
+
+static int
+table_resize(table_t *t, int bits)
+{
+    size_t n = (size_t)1 << bits, i, oldn = t->slots ? t->mask + 1 : 0;
+    slot_t *old = t->slots, *fresh = (slot_t *)PyMem_Calloc(n, sizeof(slot_t));
+    uint32_t stamp = t->stamp;
+    if (fresh == NULL) {
+        PyErr_NoMemory();
+        return -1;
     }
-    e = table_find(t, a, b);
-    if (e->b == 0)
-        t->used++;
-    e->a = a, e->b = b, e->cls = cls;
+    t->slots = fresh, t->mask = n - 1, t->shift = 64 - bits, t->stamp = 1;
+    for (i = 0; i < oldn; i++)
+        if (old[i].stamp == stamp && stamp != 0) {
+            slot_t *e = table_slot(t, old[i].key);
+            e->key = old[i].key, e->cls = old[i].cls, e->stamp = 1;
+        }
+    PyMem_Free(old);
     return 0;
 }
 
-/* Walk the rho cycle of the reduced form (a, b, c), filing every form under cls.
-   Returns its length, 0 when it is longer than limit, -1 on error. */
+/* Start a walk: the shared table with a fresh stamp, or a private table. */
 static int
+table_open(table_t **out)
+{
+    table_t *t;
+    if (!shared_busy) {
+        t = &shared_table, shared_busy = 1;
+    } else {
+        t = (table_t *)PyMem_Calloc(1, sizeof(table_t));
+        if (t == NULL) {
+            PyErr_NoMemory();
+            return -1;
+        }
+    }
+    t->used = 0;
+    if (t->slots == NULL) {
+        if (table_resize(t, 12) < 0)
+            goto fail;
+    } else if (++t->stamp == 0) { /* stamps wrapped: clear once */
+        memset(t->slots, 0, (t->mask + 1) * sizeof(slot_t));
+        t->stamp = 1;
+    }
+    *out = t;
+    return 0;
+fail:
+    if (t == &shared_table)
+        shared_busy = 0;
+    else
+        PyMem_Free(t);
+    return -1;
+}
+
+static void
+table_close(table_t *t)
+{
+    if (t == NULL)
+        return;
+    if (t == &shared_table) {
+        shared_busy = 0;
+        return;
+    }
+    PyMem_Free(t->slots);
+    PyMem_Free(t);
+}
+
+static inline int
+table_put(table_t *t, int64_t a, int64_t b, int64_t cls)
+{
+    uint64_t key = form_key(a, b);
+    slot_t *e;
+    if (2 * (t->used + 1) > t->mask + 1 && table_resize(t, 65 - t->shift) < 0)
+        return -1;
+    e = table_slot(t, key);
+    if (e->stamp != t->stamp)
+        t->used++;
+    e->key = key, e->stamp = t->stamp, e->cls = (int32_t)cls;
+    return 0;
+}
+
+/* File (a, b) under cls, and in dict (the class index for Python) when given. */
+static inline int
 file_form(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t cls)
 {
     PyObject *key, *value;
@@ -291,16 +464,29 @@ file_form(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t cls)
     return rc;
 }
 
+/* One rho step on a reduced form of D < 2^62 (so |a|, |c|, b <= r < 2^31), with
+   one division: t = 2|c|q - b for q = floor((r + b)/2|c|), and the new c is
+   a + s(t - b)/2 with s = (t + b)/2c, from (b^2 - D)/4c = a. */
+static inline void
+rho_reduced(int64_t *a, int64_t *b, int64_t *c, int64_t r)
+{
+    int64_t m2 = 2 * (*c < 0 ? -*c : *c), x = r + *b, q, t, nc;
+    q = (int64_t)((uint32_t)x / (uint32_t)m2); /* x < 2^32 */
+    t = m2 * q - *b;
+    nc = *a + (*c < 0 ? -q : q) * ((t - *b) / 2);
+    *a = *c, *b = t, *c = nc;
+}
+
+/* Walk the rho cycle of the reduced form (a, b, c), filing every form under cls.
+   Returns its length, 0 when it is longer than limit, -1 on error. */
 static int64_t
-file_cycle(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t c, int64_t D, int64_t r, int64_t limit,
-           int64_t cls)
+file_cycle(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t c, int64_t r, int64_t limit, int64_t cls)
 {
     int64_t a0 = a, b0 = b, k;
     if (file_form(t, dict, a, b, cls) < 0)
         return -1;
     for (k = 0; k < limit; k++) {
-        if (rho_step(&a, &b, &c, D, r) < 0)
-            return -1;
+        rho_reduced(&a, &b, &c, r);
         if (a == a0 && b == b0)
             return k + 1;
         if (file_form(t, dict, a, b, cls) < 0)
@@ -424,13 +610,7 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
 {
     int64_t b0 = ((r - D) % 2 == 0) ? r : r - 1, stored, L, i, h, j;
     int lists = keep != NULL && keep->index != NULL;
-    t->slots = (slot_t *)PyMem_Calloc(1024, sizeof(slot_t));
-    if (t->slots == NULL) {
-        PyErr_NoMemory();
-        return -1;
-    }
-    t->mask = 1023, t->used = 0;
-    L = file_cycle(t, lists ? keep->index : NULL, 1, b0, (b0 * b0 - D) / 4, D, r, max_forms, 0);
+    L = file_cycle(t, lists ? keep->index : NULL, 1, b0, (b0 * b0 - D) / 4, r, max_forms, 0);
     if (L <= 0)
         return (int)L;
     stored = L;
@@ -441,10 +621,10 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
     for (i = 0; i < ncand; i++) {
         int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
         Py_ssize_t gi = 0;
-        slot_t *hit;
+        int64_t hit;
         if (reduce_form(&ga, &gb, &gc, D, r) < 0)
             return -1;
-        if (table_find(t, ga, gb)->b != 0)
+        if (table_class(t, ga, gb) >= 0)
             continue;
         if (lists) {
             gi = PyList_GET_SIZE(keep->generators);
@@ -454,10 +634,10 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
         n = reps->n;
         xa = ga, xb = gb, xc = gc;
         for (j = 1;; j++) {
-            hit = table_find(t, xa, xb);
-            if (hit->b != 0) {
+            hit = table_class(t, xa, xb);
+            if (hit >= 0) {
                 if (lists) {
-                    PyObject *old = PyList_GET_ITEM(keep->vectors, (Py_ssize_t)hit->cls);
+                    PyObject *old = PyList_GET_ITEM(keep->vectors, (Py_ssize_t)hit);
                     if (append_new(keep->relations, relation(old, gi - PyTuple_GET_SIZE(old), j)) < 0)
                         return -1;
                 }
@@ -467,7 +647,7 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
                 int64_t ya = xa, yb = xb, yc = xc, cls = reps->n;
                 if (h > 0 && compose_reduce(xa, xb, reps->v[3 * h], reps->v[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
                     return -1;
-                L = file_cycle(t, lists ? keep->index : NULL, ya, yb, yc, D, r, max_forms - stored, cls);
+                L = file_cycle(t, lists ? keep->index : NULL, ya, yb, yc, r, max_forms - stored, cls);
                 if (L <= 0)
                     return (int)L;
                 stored += L;
@@ -509,33 +689,49 @@ class_discriminant(PyObject *arg, int64_t *D, int64_t *r)
     return 0;
 }
 
+/*
+ * (h+, j) of D < 2^62 into *h_plus and *j_principal (j = 1 when (-1, b0, c0)
+ * is principal): form_class_numbers of _pure.py on a C array of primes.
+ * Returns 1 when done, 0 beyond max_forms reduced forms, -1 on error.
+ */
+int
+class_numbers_core(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t nprimes, int64_t max_forms,
+                   int64_t *h_plus, int *j_principal)
+{
+    int64_t r = (int64_t)isqrt_u64((uint64_t)D), b0 = ((r - D) % 2 == 0) ? r : r - 1, ncand = 0, *cand = NULL;
+    reps_t reps = {NULL, 0, 0};
+    table_t *t = NULL;
+    int done = -1;
+    if (candidates(D, conductor, primes, nprimes, 1, &cand, &ncand) < 0 || table_open(&t) < 0)
+        goto out;
+    done = class_walk(D, r, cand, ncand, max_forms, t, &reps, NULL);
+    if (done > 0)
+        *h_plus = reps.n, *j_principal = table_class(t, -1, b0) == 0;
+out:
+    table_close(t);
+    PyMem_Free(reps.v);
+    PyMem_Free(cand);
+    return done;
+}
+
 /* form_class_numbers of _pure.py: the table without its Python lists. */
 PyObject *
 k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
-    int64_t D, conductor, r, b0, max_forms, ncand = 0, *cand = NULL;
-    reps_t reps = {NULL, 0, 0};
-    table_t t = {NULL, 0, 0};
-    PyObject *result = NULL;
-    slot_t *e;
-    int done;
+    int64_t D, conductor, r, max_forms, h_plus = 0, *primes;
+    Py_ssize_t nprimes;
+    int done, j = 0;
     if (check_nargs(nargs, 4, "form_class_numbers") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
-        class_discriminant(args[0], &D, &r) < 0 || get_limit(args[3], &max_forms) < 0)
+        class_discriminant(args[0], &D, &r) < 0 || get_limit(args[3], &max_forms) < 0 ||
+        prime_array(args[2], &primes, &nprimes) < 0)
         return NULL;
-    if (candidates(D, conductor, args[2], &cand, &ncand) < 0)
+    done = class_numbers_core(D, conductor, primes, nprimes, max_forms, &h_plus, &j);
+    PyMem_Free(primes);
+    if (done < 0)
         return NULL;
-    done = class_walk(D, r, cand, ncand, max_forms, &t, &reps, NULL);
-    if (done == 0) {
-        result = Py_None, Py_INCREF(result);
-    } else if (done > 0) {
-        b0 = ((r - D) % 2 == 0) ? r : r - 1;
-        e = table_find(&t, -1, b0);
-        result = Py_BuildValue("(Li)", (long long)reps.n, e->b != 0 && e->cls == 0);
-    }
-    PyMem_Free(t.slots);
-    PyMem_Free(reps.v);
-    PyMem_Free(cand);
-    return result;
+    if (done == 0)
+        Py_RETURN_NONE;
+    return Py_BuildValue("(Li)", (long long)h_plus, j);
 }
 
 /* form_class_table of _pure.py: the index (in the twin's order), representatives, vectors,
@@ -545,7 +741,7 @@ k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
     int64_t D, r, max_forms, ncand, i, *cand = NULL;
     reps_t reps = {NULL, 0, 0};
-    table_t t = {NULL, 0, 0};
+    table_t *t = NULL;
     class_lists_t keep = {NULL, NULL, NULL, NULL, NULL};
     PyObject *seq = NULL, *result = NULL, *representatives = NULL;
     int done;
@@ -582,7 +778,9 @@ k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     keep.relations = PyList_New(0);
     if (keep.index == NULL || keep.vectors == NULL || keep.generators == NULL || keep.relations == NULL)
         goto done;
-    done = class_walk(D, r, cand, ncand, max_forms, &t, &reps, &keep);
+    if (table_open(&t) < 0)
+        goto done;
+    done = class_walk(D, r, cand, ncand, max_forms, t, &reps, &keep);
     if (done == 0) {
         result = Py_None, Py_INCREF(result);
         goto done;
@@ -601,7 +799,7 @@ k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     }
     result = PyTuple_Pack(5, keep.index, representatives, keep.vectors, keep.generators, keep.relations);
 done:
-    PyMem_Free(t.slots);
+    table_close(t);
     PyMem_Free(reps.v);
     PyMem_Free(cand);
     Py_XDECREF(seq);

@@ -52,14 +52,17 @@ import json
 import math
 from collections import Counter
 from dataclasses import asdict, dataclass
+from functools import lru_cache
+from math import isqrt
 from typing import Any
 
 import gmpy2
 
+from realquad._backend import kernels, pure
 from realquad.arith import Order, fundamental_discriminant_of
 from realquad.class_structure import forced_structures, four_rank
+from realquad.classgroup import DEFAULT_MAX_FORMS, class_invariants, class_numbers, primes_below
 from realquad.classgroup import METHOD as CLASS_GROUP_METHOD
-from realquad.classgroup import class_invariants, class_numbers
 from realquad.factoring import factorize
 from realquad.results import Proof
 from realquad.survey.ranges import Chunk
@@ -79,6 +82,12 @@ METHOD = (
     "class group: cycles of reduced forms (class numbers), the structure by genus theory "
     f"where it is forced, else {CLASS_GROUP_METHOD}"
 )
+
+#: A regulator walk: ``principal_regulator``'s (period, parity, Q, mantissa, exponent, error bound).
+Walk = tuple[int, int, int, int, int, float]
+#: The survey kernel's numbers of one field: ``(D, t, no_three, h⁺, j, walk)``
+#: (``t`` primes divide ``D``, ``no_three`` if none is ``≡ 3 (mod 4)``, ``j = 1`` if ``N(ε) = −1``).
+Numbers = tuple[int, int, int, int, int, Walk | None]
 
 #: Fallbacks in this process: ``"class group"`` and ``"unit"`` rows that took the slow route.
 FALLBACKS: Counter[str] = Counter()
@@ -116,52 +125,31 @@ def _regulator_text(u: int, v: int, D: int) -> str:
     return f"{c.log(eps):.{REGULATOR_DIGITS}g}"
 
 
-def _prime_signature(d: int) -> tuple[int, bool]:
-    """``(t, j)``: the number of primes dividing ``D = disc Q(√d)``, and whether none is ``≡ 3 (mod 4)``.
+@lru_cache(maxsize=4096)
+def _forced_text(h_plus: int, norm: int, t: int, no_three: bool) -> tuple[str, str] | None:
+    """Both structures as stored (JSON) when genus theory forces them (few distinct inputs: cached)."""
+    found = forced_structures(h_plus, norm, t, no_three)
+    return None if found is None else (json.dumps(found[0]), json.dumps(found[1]))
 
-    Trial division up to ``∛d``; a cofactor ``m > 1`` left then has at most
-    two prime factors (both above ``∛d``, and ``m ≤ d``). A composite ``m``
-    with ``m ≡ 1 (mod 4)`` may be two primes ``≡ 1`` or two ``≡ 3 (mod 4)``:
-    only then is ``m`` factored.
 
-    >>> _prime_signature(79), _prime_signature(34), _prime_signature(5 * 13 * 17)
-    ((2, False), (2, True), (3, True))
+def _class_columns(numbers: Numbers) -> tuple[int, int, str, str, int] | None:
+    """``h, h⁺``, both structures and ``N(ε)`` from the kernel's numbers, or ``None`` if not forced.
+
+    ``h = h⁺`` when ``J = (−1, b₀, c₀)`` is principal (``N(ε) = −1``), else ``h⁺/2``.
     """
-    t = 1 if d % 4 == 3 else 0  # D = 4d: the prime 2 (d ≡ 2 mod 4 counts it below)
-    no_three = True
-    m = d
-    p = 2
-    while p * p * p <= m:
-        if m % p == 0:
-            m //= p
-            t += 1
-            no_three = no_three and p % 4 != 3
-        p += 1 if p == 2 else 2
-    if m > 1:
-        if gmpy2.is_prime(m):
-            t += 1
-            no_three = no_three and m % 4 != 3
-        elif m % 4 == 3:  # two primes, exactly one ≡ 3 (mod 4)
-            t, no_three = t + 2, False
-        else:
-            primes = list(factorize(m))
-            t += len(primes)
-            no_three = no_three and all(q % 4 != 3 for q in primes)
-    return t, no_three
-
-
-def _forced_class_columns(d: int, D: int) -> tuple[int, int, str, str, int] | None:
-    """``h, h⁺``, both structures and ``N(ε)`` without the group, or ``None`` if not forced."""
-    h, h_plus, norm = class_numbers(Order(D), conductor=1)  # D is fundamental
-    t, j_is_square = _prime_signature(d)
-    found = forced_structures(h_plus, norm, t, j_is_square)
+    D, t, no_three, h_plus, j_principal, _ = numbers
+    norm = -1 if j_principal else 1
+    h = h_plus if j_principal else h_plus // 2
+    found = _forced_text(h_plus, norm, t, bool(no_three))
     if found is None and h_plus % 4 == 0:  # the 2-part may need its 4-rank
-        primes = list(factorize(D))
-        found = forced_structures(h_plus, norm, t, j_is_square, four_rank(D, primes))
+        structures = forced_structures(
+            h_plus, norm, t, bool(no_three), four_rank(D, list(factorize(D)))
+        )
+        if structures is not None:
+            found = json.dumps(structures[0]), json.dumps(structures[1])
     if found is None:
         return None
-    wide, narrow = found
-    return h, h_plus, json.dumps(wide), json.dumps(narrow), norm
+    return h, h_plus, found[0], found[1], norm
 
 
 _LOG10_2 = _CONTEXT.log10(2)
@@ -169,7 +157,7 @@ _LN2 = _CONTEXT.const_log2()
 _INV_LN10 = _CONTEXT.div(1, _CONTEXT.log(10))
 
 
-def _fast_unit_columns(d: int, D: int) -> tuple[int, int, str, int] | None:
+def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
     """``N(ε)``, period, regulator text and digit count from the accumulated walk, or ``None``.
 
     The kernel gives ``log ε`` as ``log(M·2^e·Q/2)`` up to its bound ``err``;
@@ -181,16 +169,19 @@ def _fast_unit_columns(d: int, D: int) -> tuple[int, int, str, int] | None:
     second term is below ``e^{−2R}`` in size for ``R ≥ 30`` and is evaluated
     otherwise, when ``u`` has relative error at most ``coth(R)·T ≤ 3T``
     (every field has ``R ≥ log((1 + √5)/2) = 0.481…``).
+
+    For ``d ≡ 5 (mod 8)`` the text needs to know whether ``x = u/2``: it is
+    exactly when ``ε ∈ Z[√d]``, i.e. when the order ``Z[√d]`` (discriminant
+    ``4d``) has the regulator ``R`` rather than ``3R`` (its unit is ``ε`` or
+    ``ε³``: ``(O/2O)^×`` has order 3 for ``d ≡ 5 (mod 8)``), which its own walk
+    tells.
     """
-    steps, parity, q_mid, mantissa, exponent, err = _walk(
-        "principal_regulator", D, DEFAULT_MAX_PERIOD
-    )
-    c = _CONTEXT
-    R = c.add(c.log(mantissa * q_mid), c.mul(exponent - 1, _LN2))
+    steps, parity, q_mid, mantissa, exponent, err = walk
+    R, T = _walk_regulator(walk)
     r = float(R)
     if r < 0.45:
         return None
-    T = (err * 1.01 + (100 + 8 * r + 2 * abs(exponent)) * 2.0**-96) * 1.001
+    c = _CONTEXT
     low = f"{c.sub(R, T):.{REGULATOR_DIGITS}g}"
     if low != f"{c.add(R, T):.{REGULATOR_DIGITS}g}":
         return None
@@ -204,6 +195,13 @@ def _fast_unit_columns(d: int, D: int) -> tuple[int, int, str, int] | None:
         slack = 4 * T + 2.0**-78
     # x = u/2 unless D = d ≡ 5 (mod 8), where x is u or u/2 (for d ≡ 1 mod 8, u is even)
     candidates = (log_u, c.sub(log_u, _LOG10_2)) if d % 8 == 5 else (c.sub(log_u, _LOG10_2),)
+    if len(candidates) == 2 and int(gmpy2.floor(candidates[0])) != int(gmpy2.floor(candidates[1])):
+        order_walk = _walk("principal_regulator", 4 * d, DEFAULT_MAX_PERIOD)
+        # R4 is R or 3R, so R4 − 2R = ∓R: its sign is certain (R > 0.45 ≫ both error bounds)
+        if float(_walk_regulator(order_walk)[0]) > 2 * r:  # ε ∉ Z[√d]: x = u
+            candidates = candidates[:1]
+        else:  # ε ∈ Z[√d]: x = u/2
+            candidates = candidates[1:]
     floors = set()
     for value in candidates:
         k = int(gmpy2.floor(value))
@@ -215,6 +213,15 @@ def _fast_unit_columns(d: int, D: int) -> tuple[int, int, str, int] | None:
     return norm, steps, low, floors.pop() + 1
 
 
+def _walk_regulator(walk: Walk) -> tuple[Any, float]:
+    """``R`` (96-bit) from a regulator walk and the margin ``T`` bounding its error (see above)."""
+    _, _, q_mid, mantissa, exponent, err = walk
+    c = _CONTEXT
+    R = c.add(c.log(mantissa * q_mid), c.mul(exponent - 1, _LN2))
+    T = (err * 1.01 + (100 + 8 * float(R) + 2 * abs(exponent)) * 2.0**-96) * 1.001
+    return R, T
+
+
 def _slow_unit_columns(D: int) -> tuple[int, int, str, int]:
     """``N(ε)``, period, regulator text and digit count from the exact unit."""
     unit = fundamental_unit(Order(D))
@@ -222,21 +229,35 @@ def _slow_unit_columns(D: int) -> tuple[int, int, str, int]:
     return unit.norm, int(unit.period_length or 0), _regulator_text(u, v, D), unit.digits
 
 
-def survey_field(d: int) -> FieldRecord:
-    """The survey row of ``Q(√d)``, ``d > 1`` squarefree.
+def _numbers(ds: list[int]) -> list[Numbers | None]:
+    """The kernel's numbers for the squarefree ``ds`` (the pure twin beyond the compiled range)."""
+    discriminants = [d if d % 4 == 1 else 4 * d for d in ds]
+    for D in discriminants:
+        if D > 4 * DEFAULT_MAX_FORMS**2:  # beyond the cycle method: its own refusal
+            class_numbers(Order(D), conductor=1)
+    primes = primes_below(isqrt(max(ds)) + 2)
+    args = (ds, primes, DEFAULT_MAX_PERIOD, DEFAULT_MAX_FORMS)
+    try:
+        return kernels.survey_numbers(*args)  # type: ignore[no-any-return]
+    except OverflowError:
+        return pure.survey_numbers(*args)
 
-    >>> survey_field(79).class_group, survey_field(79).narrow_class_group
-    ('[3]', '[6]')
-    """
-    D = fundamental_discriminant_of(d)
-    forced = _forced_class_columns(d, D)
+
+def _record(d: int, numbers: Numbers | None) -> FieldRecord:
+    if numbers is None or numbers[5] is None:  # too large: the slow routes say why
+        D = fundamental_discriminant_of(d)
+        class_numbers(Order(D), conductor=1)
+        _walk("principal_regulator", D, DEFAULT_MAX_PERIOD)
+        raise AssertionError(f"the survey kernel refused d = {d} but the slow routes did not")
+    D = numbers[0]
+    forced = _class_columns(numbers)
     if forced is None:
         FALLBACKS["class group"] += 1
         h, h_plus, wide, narrow, cl_norm = class_invariants(Order(D))
         cl, cl_plus = json.dumps(wide), json.dumps(narrow)
     else:
         h, h_plus, cl, cl_plus, cl_norm = forced
-    unit_columns = _fast_unit_columns(d, D)
+    unit_columns = _fast_unit_columns(d, numbers[5])
     if unit_columns is None:
         FALLBACKS["unit"] += 1
         unit_columns = _slow_unit_columns(D)
@@ -259,6 +280,26 @@ def survey_field(d: int) -> FieldRecord:
     )
 
 
+def survey_fields(ds: list[int]) -> list[FieldRecord]:
+    """The survey rows of ``Q(√d)`` for the squarefree ``d > 1`` in ``ds``, in order.
+
+    >>> [row.class_number for row in survey_fields([79, 82, 85])]
+    [3, 4, 2]
+    """
+    if not ds:
+        return []
+    return [_record(d, numbers) for d, numbers in zip(ds, _numbers(ds), strict=True)]
+
+
+def survey_field(d: int) -> FieldRecord:
+    """The survey row of ``Q(√d)``, ``d > 1`` squarefree.
+
+    >>> survey_field(79).class_group, survey_field(79).narrow_class_group
+    ('[3]', '[6]')
+    """
+    return survey_fields([d])[0]
+
+
 def survey_chunk(chunk: Chunk) -> list[FieldRecord]:
     """The rows of every field in ``chunk`` (run in a worker process or on a Dask worker)."""
-    return [survey_field(d) for d in chunk.radicands()]
+    return survey_fields(chunk.radicands())
