@@ -435,21 +435,7 @@ def class_invariants(
 
 
 def _class_relations(order: Order, max_forms: int | None) -> tuple[int, bool, list[Triple], Any]:
-    """``(h⁺, J principal, generators, relations)``: the compiled table if built, else the kernel loop."""
-    D = order.discriminant
-    if "form_class_table" in COMPILED:
-        limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
-        _check_reach(D, limit)
-        try:
-            found = kernels.form_class_table(D, _candidates(D, order.conductor), limit)
-        except OverflowError:
-            found = False
-        if found is None:
-            raise TooLargeError(_too_large(D, limit))
-        if found:
-            index, representatives, _vectors, generators, relations = found
-            j = index.get((-1, Form.identity(D).b)) == 0
-            return len(representatives), j, [tuple(g) for g in generators], relations
+    """``(h⁺, J principal, generators, relations)`` of the class table, without its index."""
     h_plus, j, generators, relations = _run_class_kernel("form_class_relations", order, max_forms)
     return h_plus, bool(j), [tuple(g) for g in generators], relations
 

@@ -40,6 +40,8 @@ static PyMethodDef methods[] = {
      "All narrow classes of D reached from the principal cycle by the candidates, or None."},
     {"form_class_numbers", (PyCFunction)(void (*)(void))k_form_class_numbers, METH_FASTCALL,
      "(h+, 1 if (-1, b0, c0) is principal else 0) from the cycles of reduced forms, or None."},
+    {"form_class_relations", (PyCFunction)(void (*)(void))k_form_class_relations, METH_FASTCALL,
+     "(h+, j, generators, relations) of the class table, without its index and vectors, or None."},
     {"survey_numbers", (PyCFunction)(void (*)(void))k_survey_numbers, METH_FASTCALL,
      "(D, t, no_three, h+, j, principal_regulator) for each radicand d, or None beyond max_forms."},
     {"infrastructure_baby_steps", (PyCFunction)(void (*)(void))k_infrastructure_baby_steps, METH_FASTCALL,

@@ -39,3 +39,6 @@ def infrastructure_giant_step(
 def survey_numbers(
     radicands: list[int], primes: list[int], max_period: int, max_forms: int
 ) -> list[tuple[int, int, int, int, int, tuple[int, int, int, int, int, float] | None] | None]: ...
+def form_class_relations(
+    D: int, conductor: int, primes: list[int], max_forms: int
+) -> tuple[int, int, list[tuple[int, int, int]], list[list[int]]] | None: ...

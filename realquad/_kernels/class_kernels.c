@@ -600,17 +600,18 @@ reps_push(reps_t *reps, int64_t a, int64_t b, int64_t c)
  * candidate not yet in the table becomes a generator whose powers times the
  * classes known before it fill new cycles, until a power falls into a known
  * class. Returns 1 when done, 0 when more than max_forms forms would be
- * stored (the twin's None), -1 on error. With keep->index set, the Python
- * index, vectors, generators and relations are built in the twin's order,
- * and progress is called as the twin calls it.
+ * stored (the twin's None), -1 on error. With keep->vectors set, the Python
+ * vectors, generators and relations (and the index, when keep->index is set)
+ * are built in the twin's order, and progress is called as the twin calls it.
  */
 static int
 class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max_forms, table_t *t, reps_t *reps,
            class_lists_t *keep)
 {
     int64_t b0 = ((r - D) % 2 == 0) ? r : r - 1, stored, L, i, h, j;
-    int lists = keep != NULL && keep->index != NULL;
-    L = file_cycle(t, lists ? keep->index : NULL, 1, b0, (b0 * b0 - D) / 4, r, max_forms, 0);
+    int lists = keep != NULL && keep->vectors != NULL;
+    PyObject *index = lists ? keep->index : NULL;
+    L = file_cycle(t, index, 1, b0, (b0 * b0 - D) / 4, r, max_forms, 0);
     if (L <= 0)
         return (int)L;
     stored = L;
@@ -647,7 +648,7 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
                 int64_t ya = xa, yb = xb, yc = xc, cls = reps->n;
                 if (h > 0 && compose_reduce(xa, xb, reps->v[3 * h], reps->v[3 * h + 1], D, r, &ya, &yb, &yc) < 0)
                     return -1;
-                L = file_cycle(t, lists ? keep->index : NULL, ya, yb, yc, r, max_forms - stored, cls);
+                L = file_cycle(t, index, ya, yb, yc, r, max_forms - stored, cls);
                 if (L <= 0)
                     return (int)L;
                 stored += L;
@@ -732,6 +733,45 @@ k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     if (done == 0)
         Py_RETURN_NONE;
     return Py_BuildValue("(Li)", (long long)h_plus, j);
+}
+
+/* form_class_relations of _pure.py: (h+, j, generators, relations) of the class
+   table, without its index and vectors. */
+PyObject *
+k_form_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, conductor, r, max_forms, ncand = 0, *cand = NULL, *primes = NULL;
+    Py_ssize_t nprimes;
+    reps_t reps = {NULL, 0, 0};
+    table_t *t = NULL;
+    class_lists_t keep = {NULL, NULL, NULL, NULL, NULL};
+    PyObject *result = NULL;
+    int done;
+    if (check_nargs(nargs, 4, "form_class_relations") < 0 || class_kernel_args(args, &D, &conductor) < 0 ||
+        class_discriminant(args[0], &D, &r) < 0 || get_limit(args[3], &max_forms) < 0 ||
+        prime_array(args[2], &primes, &nprimes) < 0)
+        return NULL;
+    keep.vectors = PyList_New(0);
+    keep.generators = PyList_New(0);
+    keep.relations = PyList_New(0);
+    if (keep.vectors == NULL || keep.generators == NULL || keep.relations == NULL ||
+        candidates(D, conductor, primes, nprimes, 0, &cand, &ncand) < 0 || table_open(&t) < 0)
+        goto done;
+    done = class_walk(D, r, cand, ncand, max_forms, t, &reps, &keep);
+    if (done == 0)
+        result = Py_None, Py_INCREF(result);
+    else if (done > 0)
+        result = Py_BuildValue("(LiOO)", (long long)reps.n, table_class(t, -1, ((r - D) % 2 == 0) ? r : r - 1) == 0,
+                               keep.generators, keep.relations);
+done:
+    table_close(t);
+    PyMem_Free(reps.v);
+    PyMem_Free(cand);
+    PyMem_Free(primes);
+    Py_XDECREF(keep.vectors);
+    Py_XDECREF(keep.generators);
+    Py_XDECREF(keep.relations);
+    return result;
 }
 
 /* form_class_table of _pure.py: the index (in the twin's order), representatives, vectors,

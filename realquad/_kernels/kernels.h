@@ -322,6 +322,7 @@ KERNEL(k_prime_form_b);
 KERNEL(k_form_class_candidates);
 KERNEL(k_form_class_numbers);
 KERNEL(k_form_class_table);
+KERNEL(k_form_class_relations);
 KERNEL_PRIVATE int prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len);
 KERNEL_PRIVATE int class_numbers_core(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t nprimes,
                                       int64_t max_forms, int64_t *h_plus, int *j_principal);

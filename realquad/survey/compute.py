@@ -154,7 +154,8 @@ def _class_columns(numbers: Numbers) -> tuple[int, int, str, str, int] | None:
 
 _LOG10_2 = _CONTEXT.log10(2)
 _LN2 = _CONTEXT.const_log2()
-_INV_LN10 = _CONTEXT.div(1, _CONTEXT.log(10))
+_LN10_FLOAT = math.log(10)
+_LOG10_2_FLOAT = math.log10(2)
 
 
 def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
@@ -186,16 +187,19 @@ def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
     if low != f"{c.add(R, T):.{REGULATOR_DIGITS}g}":
         return None
     norm = -1 if parity else 1
-    if r >= 30:
-        log_u = c.mul(R, _INV_LN10)
-        slack = 2 * T + 2.0**-78 + 2 * math.exp(-2 * r)
+    log_u: Any
+    if r >= 30:  # binary64 suffices: one correctly rounded division, error below r·2^−51
+        log_u = r / _LN10_FLOAT
+        slack = 2 * T + 2.0**-78 + 2 * math.exp(-2 * r) + (r + 1) * 2.0**-48
+        log_half_u = log_u - _LOG10_2_FLOAT
     else:
         eps = c.exp(R)
         log_u = c.log10(c.add(eps, c.div(norm, eps)))
         slack = 4 * T + 2.0**-78
+        log_half_u = c.sub(log_u, _LOG10_2)
     # x = u/2 unless D = d ≡ 5 (mod 8), where x is u or u/2 (for d ≡ 1 mod 8, u is even)
-    candidates = (log_u, c.sub(log_u, _LOG10_2)) if d % 8 == 5 else (c.sub(log_u, _LOG10_2),)
-    if len(candidates) == 2 and int(gmpy2.floor(candidates[0])) != int(gmpy2.floor(candidates[1])):
+    candidates = (log_u, log_half_u) if d % 8 == 5 else (log_half_u,)
+    if len(candidates) == 2 and math.floor(candidates[0]) != math.floor(candidates[1]):
         order_walk = _walk("principal_regulator", 4 * d, DEFAULT_MAX_PERIOD)
         # R4 is R or 3R, so R4 − 2R = ∓R: its sign is certain (R > 0.45 ≫ both error bounds)
         if float(_walk_regulator(order_walk)[0]) > 2 * r:  # ε ∉ Z[√d]: x = u
@@ -204,7 +208,7 @@ def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
             candidates = candidates[1:]
     floors = set()
     for value in candidates:
-        k = int(gmpy2.floor(value))
+        k = int(math.floor(value))
         if value - k <= slack or k + 1 - value <= slack:
             return None
         floors.add(k)
