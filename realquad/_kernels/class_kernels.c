@@ -102,7 +102,8 @@ root_mod_prime(int64_t D, int64_t p)
         uint16_t t;
         if (root_of == NULL && build_root_table() < 0)
             return -2;
-        t = root_of[root_offset[p] + (uint32_t)((uint64_t)D % (uint64_t)p)];
+        uint32_t residue = (uint64_t)D >> 32 ? (uint32_t)((uint64_t)D % (uint64_t)p) : (uint32_t)D % (uint32_t)p;
+        t = root_of[root_offset[p] + residue];
         return t == 0xFFFF ? -1 : (int64_t)t;
     }
     return sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
@@ -129,9 +130,11 @@ prime_b(int64_t D, int64_t p)
             return t;
         b = ((t - D) % 2 == 0) ? t : p - t;
     }
-    c = floordiv64(b * b - D, 4 * p);
-    if (b % p == 0 && c % p == 0)
-        return -1;
+    if (b % p == 0) { /* p ramifies: the form must be primitive */
+        c = floordiv64(b * b - D, 4 * p);
+        if (c % p == 0)
+            return -1;
+    }
     return b;
 }
 
@@ -177,7 +180,9 @@ prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len)
  * form_class_candidates of _pure.py into a growable array of triples; -1 on
  * error. With lift set, each prime form (p, b, c) is replaced by the reduced
  * form (p, b + 2pk, *) of its class with r - 2p < b + 2pk <= r (reduced because
- * 2p < sqrt D): the same classes, for callers that only count them.
+ * 2p < sqrt D): the same classes, for callers that only count them; its c is
+ * left 0 (no form of a non-square D has c = 0) for class_walk to compute when
+ * it needs it.
  */
 static int
 candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, int lift, int64_t **out,
@@ -219,9 +224,12 @@ candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, 
             if (b < -1)
                 goto fail;
             if (b >= 0) {
-                if (lift)
-                    b += 2 * p * ((r - b) / (2 * p));
-                PUSH(p, b, (b * b - D) / (4 * p));
+                if (lift) { /* r - b and 2p are below 2^32; c = 0 marks "not computed" */
+                    b += 2 * p * (int64_t)((uint32_t)(r - b) / (uint32_t)(2 * p));
+                    PUSH(p, b, 0);
+                } else {
+                    PUSH(p, b, (b * b - D) / (4 * p));
+                }
             }
             continue;
         }
@@ -477,12 +485,17 @@ rho_reduced(int64_t *a, int64_t *b, int64_t *c, int64_t r)
     *a = *c, *b = t, *c = nc;
 }
 
+static int64_t file_cycle_mirrored(table_t *t, int64_t a, int64_t b, int64_t c, int64_t r, int64_t limit,
+                                   int64_t cls);
+
 /* Walk the rho cycle of the reduced form (a, b, c), filing every form under cls.
    Returns its length, 0 when it is longer than limit, -1 on error. */
 static int64_t
 file_cycle(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t c, int64_t r, int64_t limit, int64_t cls)
 {
     int64_t a0 = a, b0 = b, k;
+    if (dict == NULL)
+        return file_cycle_mirrored(t, a, b, c, r, limit, cls);
     if (file_form(t, dict, a, b, cls) < 0)
         return -1;
     for (k = 0; k < limit; k++) {
@@ -495,6 +508,84 @@ file_cycle(table_t *t, PyObject *dict, int64_t a, int64_t b, int64_t c, int64_t 
             return -1;
     }
     return 0;
+}
+
+/*
+ * file_cycle without the Python index, walking about half of a cycle when it
+ * can. A reduced form f = (a, b, c) and its mirror image (c, b, a) lie in
+ * inverse classes; a "centre" is a form with rho(f) = (c, b, a) (rho keeps b).
+ * A cycle with a centre is its own mirror image about it, the forms k1 - j
+ * and k1 + 1 + j mirroring each other, with a second centre half a cycle on.
+ * So the walk goes to the first centre k1 (keeping the mirror images of the
+ * forms it passes), files those images, then walks on from the image of the
+ * start, filing each form and its image, to the second centre: L/2 + 1 rho
+ * steps for a cycle of L forms. A cycle without a centre (a class of order
+ * above 2) is walked whole. Returns what file_cycle returns.
+ */
+static int64_t
+file_cycle_mirrored(table_t *t, int64_t a, int64_t b, int64_t c, int64_t r, int64_t limit, int64_t cls)
+{
+    int64_t a0 = a, b0 = b, c0 = c, na, nb, nc, k, k1, q, n = 0, cap = 256, *images, L = -1;
+    images = (int64_t *)PyMem_Malloc((size_t)(2 * cap) * sizeof(int64_t));
+    if (images == NULL) {
+        PyErr_NoMemory();
+        return -1;
+    }
+    for (k = 0;; k++) { /* to the first centre, or once round */
+        if (k >= limit) {
+            L = 0;
+            goto out;
+        }
+        if (n == cap) {
+            int64_t *grown = (int64_t *)PyMem_Realloc(images, (size_t)(4 * cap) * sizeof(int64_t));
+            if (grown == NULL) {
+                PyErr_NoMemory();
+                goto out;
+            }
+            images = grown, cap *= 2;
+        }
+        if (table_put(t, a, b, cls) < 0)
+            goto out;
+        images[2 * n] = c, images[2 * n + 1] = b, n++;
+        na = a, nb = b, nc = c;
+        rho_reduced(&na, &nb, &nc, r);
+        if (na == a0 && nb == b0) {
+            L = k + 1;
+            goto out;
+        }
+        if (nb == b)
+            break;
+        a = na, b = nb, c = nc;
+        if ((k & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
+            goto out;
+    }
+    k1 = k;
+    for (k = 0; k < n; k++)
+        if (table_put(t, images[2 * k], images[2 * k + 1], cls) < 0)
+            goto out;
+    a = c0, b = b0, c = a0; /* the image of the start, at 2 k1 + 1 */
+    for (q = 2 * k1 + 1;; q++) {
+        if (2 * (q + 1 - k1) > limit + 2) {
+            L = 0;
+            goto out;
+        }
+        na = a, nb = b, nc = c;
+        rho_reduced(&na, &nb, &nc, r);
+        if (nb == b) { /* the second centre, half a cycle after the first */
+            L = 2 * (q - k1);
+            goto out;
+        }
+        a = na, b = nb, c = nc;
+        if (table_put(t, a, b, cls) < 0 || table_put(t, c, b, cls) < 0)
+            goto out;
+        if ((q & 0xFFFFF) == 0xFFFFF && PyErr_CheckSignals() < 0)
+            goto out;
+    }
+out:
+    PyMem_Free(images);
+    if (L > limit)
+        L = 0;
+    return L;
 }
 
 static int
@@ -623,6 +714,11 @@ class_walk(int64_t D, int64_t r, const int64_t *cand, int64_t ncand, int64_t max
         int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2], xa, xb, xc, n;
         Py_ssize_t gi = 0;
         int64_t hit;
+        if (gc == 0) { /* a lifted candidate: reduced already, its c left to compute */
+            if (table_class(t, ga, gb) >= 0)
+                continue;
+            gc = (gb * gb - D) / (4 * ga);
+        }
         if (reduce_form(&ga, &gb, &gc, D, r) < 0)
             return -1;
         if (table_class(t, ga, gb) >= 0)
