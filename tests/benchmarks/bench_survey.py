@@ -3,10 +3,10 @@
 Targets (issue 6): every squarefree d ≤ 10⁶ (607,926 fields) in ≤ 30 s and
 every squarefree d ≤ 10⁷ in ≤ 10 minutes, on 2 cores with the compiled
 kernels. The workloads here time samples of 1000 consecutive squarefree d
-at several sizes (fields per second, and how it scales with d), a whole
-small survey through the store with two worker processes, and the store
-alone; run them once more with ``REALQUAD_PURE=1`` for the pure-Python
-figure.
+at several sizes as one chunk (fields per second, and how it scales with
+d), a whole small survey through the store with two worker processes, and
+the store alone; ``run.py --pure`` times them once more with
+``REALQUAD_PURE=1`` for the pure-Python figure.
 """
 
 from __future__ import annotations
@@ -16,7 +16,7 @@ import tempfile
 from collections.abc import Callable
 from typing import Any
 
-from realquad.survey.compute import _regulator_text, survey_field
+from realquad.survey.compute import _regulator_text, survey_field, survey_fields
 from realquad.survey.executors import make_executor
 from realquad.survey.ranges import Chunk, SurveyRange, squarefree_in
 from realquad.survey.store import SurveyStore
@@ -38,8 +38,10 @@ def _sample(lo: int) -> list[int]:
 
 
 def _rows(ds: list[int]) -> Callable[[], Any]:
+    """The rows of ``ds`` as a survey chunk computes them (one kernel call for all)."""
+
     def run() -> int:
-        return sum(survey_field(d).class_number for d in ds)
+        return sum(row.class_number for row in survey_fields(ds))
 
     return run
 
