@@ -153,6 +153,7 @@ def _class_columns(numbers: Numbers) -> tuple[int, int, str, str, int] | None:
 
 
 _LN2 = _CONTEXT.const_log2()
+_LN2_FLOAT = math.log(2)
 _LN10 = math.log(10)
 _LOG10_2 = math.log10(2)
 #: Allowance for libm's ``exp`` and ``log1p`` in the correction term (below 0.21 in size, so
@@ -204,7 +205,7 @@ def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
     if len(candidates) == 2 and math.floor(candidates[0]) != math.floor(candidates[1]):
         order_walk = _walk("principal_regulator", 4 * d, DEFAULT_MAX_PERIOD)
         # R4 is R or 3R, so R4 − 2R = ∓R: its sign is certain (R > 0.45 ≫ both error bounds)
-        if float(_walk_regulator(order_walk)[0]) > 2 * r:  # ε ∉ Z[√d]: x = u
+        if _walk_regulator_float(order_walk) > 2 * r:  # ε ∉ Z[√d]: x = u
             candidates = candidates[:1]
         else:  # ε ∈ Z[√d]: x = u/2
             candidates = candidates[1:]
@@ -226,6 +227,12 @@ def _walk_regulator(walk: Walk) -> tuple[Any, float]:
     R = c.add(c.log(mantissa * q_mid), c.mul(exponent - 1, _LN2))
     T = (err * 1.01 + (100 + 8 * float(R) + 2 * abs(exponent)) * 2.0**-96) * 1.001
     return R, T
+
+
+def _walk_regulator_float(walk: Walk) -> float:
+    """``R`` of a regulator walk in binary64 (within ``10^−9·R`` of it, ample to compare ``R`` with ``3R``)."""
+    _, _, q_mid, mantissa, exponent, _ = walk
+    return math.log(mantissa * q_mid) + (exponent - 1) * _LN2_FLOAT
 
 
 def _slow_unit_columns(D: int) -> tuple[int, int, str, int]:
