@@ -246,6 +246,9 @@ class SurveyStore:
             connection = sqlite3.connect(path, timeout=30, isolation_level=None)
             connection.execute("PRAGMA journal_mode = WAL")
             connection.execute("PRAGMA synchronous = NORMAL")
+            # up to 256 MB of pages in memory: the indexes of a survey of millions of
+            # fields stay cached instead of being read back for every chunk
+            connection.execute("PRAGMA cache_size = -262144")
             if _is_empty(connection):
                 _create(connection)
             _check_schema(connection, path)
