@@ -589,19 +589,6 @@ out:
 }
 
 static int
-reduce_form(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
-{
-    unsigned long count = 0;
-    while (!is_reduced(*a, *b, r)) {
-        if (rho_step(a, b, c, D, r) < 0)
-            return -1;
-        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
-            return -1;
-    }
-    return 0;
-}
-
-static int
 compose_reduce(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_t r, int64_t *A, int64_t *B,
                int64_t *C)
 {

@@ -44,15 +44,10 @@ PyObject *
 k_form_reduce(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
     int64_t a, b, c, D, r;
-    unsigned long count = 0;
     if (check_nargs(nargs, 5, "form_reduce") < 0 || get_form(args, &a, &b, &c, &D, &r) < 0)
         return NULL;
-    while (!is_reduced(a, b, r)) {
-        if (rho_step(&a, &b, &c, D, r) < 0)
-            return NULL;
-        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
-            return NULL;
-    }
+    if (reduce_form(&a, &b, &c, D, r) < 0)
+        return NULL;
     return Py_BuildValue("(LLL)", (long long)a, (long long)b, (long long)c);
 }
 
@@ -185,18 +180,13 @@ PyObject *
 k_form_compose_reduce(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
     int64_t a1, b1, a2, b2, D, r, A, B, C;
-    unsigned long count = 0;
     if (check_nargs(nargs, 6, "form_compose_reduce") < 0 || get_i64(args[0], &a1, "a1") < 0 ||
         get_i64(args[1], &b1, "b1") < 0 || get_i64(args[2], &a2, "a2") < 0 || get_i64(args[3], &b2, "b2") < 0 ||
         get_i64(args[4], &D, "D") < 0 || get_i64(args[5], &r, "r") < 0)
         return NULL;
     if (compose(a1, b1, a2, b2, D, &A, &B, &C) < 0)
         return NULL;
-    while (!is_reduced(A, B, r)) {
-        if (rho_step(&A, &B, &C, D, r) < 0)
-            return NULL;
-        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
-            return NULL;
-    }
+    if (reduce_form(&A, &B, &C, D, r) < 0)
+        return NULL;
     return Py_BuildValue("(LLL)", (long long)A, (long long)B, (long long)C);
 }

@@ -246,6 +246,20 @@ rho_step(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
     return 0;
 }
 
+/* Apply rho until (a, b, c) is reduced (checking for signals now and then); -1 on error. */
+static inline int
+reduce_form(int64_t *a, int64_t *b, int64_t *c, int64_t D, int64_t r)
+{
+    unsigned long count = 0;
+    while (!is_reduced(*a, *b, r)) {
+        if (rho_step(a, b, c, D, r) < 0)
+            return -1;
+        if ((++count & 0xFFFFF) == 0 && PyErr_CheckSignals() < 0)
+            return -1;
+    }
+    return 0;
+}
+
 /* Checked __int128 arithmetic: any overflow sets *bad. */
 static inline i128
 mul_c(i128 x, i128 y, int *bad)
