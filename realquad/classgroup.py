@@ -409,11 +409,12 @@ def class_group(
 
 def _class_group_bsgs(order: Order, progress: Callable[[int], None] | None) -> ClassGroup:
     """The group by baby-step giant-step in the infrastructure (under GRH), as a :class:`ClassGroup`."""
-    from realquad.dispatch import unit_from_search
+    from realquad.dispatch import check_reach, unit_from_search
     from realquad.infrastructure.class_group_bsgs import class_group_bsgs
 
-    found = class_group_bsgs(order, progress=progress)
     D = order.discriminant
+    check_reach(D)  # the regulator search comes first; refuse what it could not finish
+    found = class_group_bsgs(order, progress=progress)
     h_plus = found.narrow_class_number
     return ClassGroup(
         order=order,

@@ -98,8 +98,10 @@ METHOD = (
 #: Most reduced ideals the class windows may hold together (about 100 bytes each).
 DEFAULT_MAX_TABLE = 1 << 21
 
-#: Baby steps along the cycle of a prime ideal looking for a smooth norm before identifying it.
-SMOOTH_SEARCH_STEPS = 4096
+#: Baby steps along the cycle of a prime ideal looking for a smooth norm before identifying it:
+#: about four times the giant steps of one identification (a giant step costs several baby
+#: steps and smoothness tests), within these limits.
+SMOOTH_SEARCH_STEPS = (1024, 100_000)
 
 #: Giant steps cost about this many baby steps (compiled kernels; for sizing the windows).
 _GIANT_OVER_BABY = 16.0
@@ -228,10 +230,7 @@ class _Classes:
             if back or closed:
                 break
         if len(index) > self.max_table:
-            raise TooLargeError(
-                f"discriminant {D}: the class windows need more than {self.max_table:,} reduced "
-                "ideals (the class group is larger than the h·R estimate suggested)"
-            )
+            raise TooLargeError(_too_many_ideals(D, self.max_table))
 
     # -- identification ------------------------------------------------------
     def identify(self, ideal: Ideal) -> int | None:
@@ -389,17 +388,21 @@ def class_group_bsgs(
     search.table = None  # the regulator's baby steps are not needed any more
     estimate = estimate_hR(D).value
     window = _window(cycle, R, estimate, max_table)
+    if window > R and estimate / 1.19 > 2 * max_table:  # whole cycles of every class
+        raise TooLargeError(_too_many_ideals(D, max_table, estimate / 1.19))
     classes = _Classes(cycle, R, window, max_table)
     bound = bach_bound(D)
     generators: list[Ideal] = []
     relations: list[list[int]] = []
     identified = smooth = 0
     product_below = gmpy2.mpz(1)  # the primes < p, all of whose prime ideals lie in H
+    lo, hi = SMOOTH_SEARCH_STEPS
+    search_steps = int(min(hi, max(lo, 4 * R / window)))
     for p in primes_below(bound + 1):
         found = prime_form_coefficients(D, p)
         if found is not None:
             a, b, _ = cycle.reduce_float(found[0], found[1])
-            if not classes.full and _smooth_on_cycle(cycle, a, b, product_below):
+            if not classes.full and _smooth_on_cycle(cycle, a, b, product_below, search_steps):
                 smooth += 1
             else:
                 identified += 1
@@ -409,6 +412,14 @@ def class_group_bsgs(
             progress(len(classes))
     counts = (bound, identified, smooth)
     return _finish(order, cycle, classes, generators, relations, unit_norm, search, counts)
+
+
+def _too_many_ideals(D: int, max_table: int, expected: float | None = None) -> str:
+    about = "" if expected is None else f" (about {expected:.2g} expected from the h·R estimate)"
+    return (
+        f"discriminant {D}: the class windows need more than {max_table:,} reduced ideals{about}; "
+        "a class group this large for its regulator is beyond the baby-step giant-step method here"
+    )
 
 
 def _window(cycle: Cycle, R: float, estimate: float, max_table: int) -> float:
@@ -421,8 +432,9 @@ def _window(cycle: Cycle, R: float, estimate: float, max_table: int) -> float:
     return R + 2.0 if w >= R else w
 
 
-def _smooth_on_cycle(cycle: Cycle, a: int, b: int, product: gmpy2.mpz) -> bool:
-    """Whether a reduced ideal near ``(a, b)`` on its cycle has a norm with prime factors in ``product``."""
+def _smooth_on_cycle(cycle: Cycle, a: int, b: int, product: gmpy2.mpz, limit: int) -> bool:
+    """Whether one of the first ``limit`` reduced ideals from ``(a, b)`` on its cycle has a norm
+    with prime factors in ``product`` only."""
     if product == 1:
         return a == 1
     D, r, sq = cycle.discriminant, cycle.root, cycle.sqrt_float
@@ -439,7 +451,7 @@ def _smooth_on_cycle(cycle: Cycle, a: int, b: int, product: gmpy2.mpz) -> bool:
                 x //= g
             if x == 1:
                 return True
-        if steps >= SMOOTH_SEARCH_STEPS:
+        if steps >= limit:
             return False
         try:
             keys, _, a, b, dist, _back = _BABY_STEPS(D, r, sq, a, b, dist, 256)
