@@ -7,8 +7,12 @@ Theory*, §5.6 and Jacobson–Williams 2009, §9.4). Truncating the Euler produc
 ``L(1, χ) = ∏_p (1 − χ(p)/p)^{−1}`` at ``P`` leaves a relative error that is
 ``O(log(PD)/√P)``-small under GRH (E. Bach, "Improved approximations for
 Euler products", CMS Conf. Proc. 15, 1995) and typically far smaller; the
-value here is used only to size searches, never to decide an answer, so no
-error bound is claimed for it.
+value here is used only to size searches (the regulator's and the class
+group's baby-step giant-step), never to decide an answer, so no error bound
+is claimed for it: the explicit constants of such GRH bounds could not be
+checked against their source here, and none is invented. The class number
+under GRH comes from the group itself
+(:mod:`realquad.infrastructure.class_group_bsgs`), not from ``h·R``.
 
 >>> e = estimate_hR(4 * (10**9 + 7))
 >>> e.primes, round(e.value / 14693.62, 1)    # h = 1 for this field (from the cycle)

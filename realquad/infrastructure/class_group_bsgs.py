@@ -406,7 +406,7 @@ def class_group_bsgs(
                 smooth += 1
             else:
                 identified += 1
-                _extend(classes, (a, b), generators, relations)
+                _extend(classes, (a, b), generators, relations, estimate / R)
         product_below *= p
         if progress is not None:
             progress(len(classes))
@@ -462,36 +462,87 @@ def _smooth_on_cycle(cycle: Cycle, a: int, b: int, product: gmpy2.mpz, limit: in
 
 
 def _extend(
-    classes: _Classes, g: Ideal, generators: list[Ideal], relations: list[list[int]]
+    classes: _Classes,
+    g: Ideal,
+    generators: list[Ideal],
+    relations: list[list[int]],
+    expected_classes: float,
 ) -> None:
-    """Add the cosets of ``⟨H, g⟩`` (nothing when ``g ∈ H``) and the relation ``g^k ∈ H``."""
-    cyc = classes.cycle
-    hit = classes.identify(g)
-    if hit is not None:
+    """Add the cosets of ``⟨H, g⟩`` (nothing when ``g ∈ H``) and the relation ``g^k ∈ H``.
+
+    The least ``k`` is found by baby-step giant-step among the powers: the
+    cosets ``gʲH``, ``j ≤ s``, are added after checking each (``gʲ ∉ H``),
+    then ``g^{s·i}`` is identified for ``i = 2, 3, …`` against all of them;
+    the first hit, in ``gʲH``, gives ``k = s·i − j`` (the cosets being
+    distinct, no smaller exponent was skipped), and the cosets up to
+    ``g^{k−1}H`` follow without identification. ``s ≈ √(h/|H|)`` from the
+    estimate of ``h`` (a speed hint: any ``s`` is correct).
+    """
+    if classes.identify(g) is not None:
         return
     m = len(classes)
     n = len(generators)
     generators.append(g)
     for vec in classes.vectors:
         vec.append(0)
+    s = max(2, math.isqrt(max(1, int(expected_classes / m))) + 1)
     power, k = g, 1
-    while True:
-        for i in range(m):
-            a, b, _ = cyc.reduce_float(*cyc.multiply(*power, *classes.representatives[i])[1:])
-            vector = list(classes.vectors[i])
-            vector[n] = k
-            classes.add((a, b), vector)
-        k += 1
-        a, b, _ = cyc.reduce_float(*cyc.multiply(*power, *g)[1:])
-        power = (a, b)
+    _add_coset(classes, m, n, power, k)
+    while k < s:  # baby steps: g^k checked against H, then its coset stored
+        power, k = _times(classes.cycle, power, g), k + 1
         hit = classes.identify(power)
         if hit is not None:
-            if hit >= m:  # pragma: no cover - k is the least exponent
-                raise ArithmeticError("internal error: a power fell into a new coset")
-            relation = [-e for e in classes.vectors[hit]]
-            relation[n] += k
-            relations.append(relation)
+            _relation(classes, relations, hit, n, k)
             return
+        _add_coset(classes, m, n, power, k)
+    giant, exponent = power, s
+    while True:  # giant steps g^{s·i}
+        power, exponent = _times(classes.cycle, power, giant), exponent + s
+        hit = classes.identify(power)
+        if hit is not None:
+            break
+    j = classes.vectors[hit][n]
+    order = exponent - j
+    _relation(classes, relations, hit, n, exponent)
+    power = _power(classes.cycle, g, s + 1)
+    for k in range(s + 1, order):  # the remaining cosets, distinct by the minimality of the order
+        _add_coset(classes, m, n, power, k)
+        power = _times(classes.cycle, power, g)
+
+
+def _times(cycle: Cycle, x: Ideal, y: Ideal) -> Ideal:
+    a, b, _ = cycle.reduce_float(*cycle.multiply(*x, *y)[1:])
+    return a, b
+
+
+def _power(cycle: Cycle, x: Ideal, e: int) -> Ideal:
+    out = cycle.principal
+    while e:
+        if e & 1:
+            out = _times(cycle, out, x)
+        e >>= 1
+        if e:
+            x = _times(cycle, x, x)
+    return out
+
+
+def _add_coset(classes: _Classes, m: int, n: int, power: Ideal, k: int) -> None:
+    """Store the coset ``g^k·H`` (``H`` the first ``m`` classes, ``g`` the generator number ``n``)."""
+    for i in range(m):
+        vector = list(classes.vectors[i])
+        vector[n] = k
+        classes.add(_times(classes.cycle, power, classes.representatives[i]), vector)
+
+
+def _relation(
+    classes: _Classes, relations: list[list[int]], hit: int, n: int, exponent: int
+) -> None:
+    """``g^exponent`` lies in the stored class ``hit``: the relation ``exponent·g − v_hit = 0``."""
+    relation = [-e for e in classes.vectors[hit]]
+    relation[n] += exponent
+    if relation[n] <= 0:  # pragma: no cover - the least exponent is positive
+        raise ArithmeticError("internal error: a power fell into a later coset")
+    relations.append(relation)
 
 
 def _finish(
