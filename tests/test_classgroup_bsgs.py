@@ -218,3 +218,9 @@ def test_relations_hold_in_the_group() -> None:
             for _ in range(e % found.narrow_class_number):
                 F = F.compose(g)
         assert exact.is_principal(F)
+
+
+def test_progress_reports_the_classes_found() -> None:
+    seen: list[int] = []
+    G = class_group_bsgs(10**10 + 37, progress=seen.append)
+    assert seen and seen == sorted(seen) and seen[-1] == G.class_number

@@ -142,7 +142,10 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
             now = time.monotonic()
             if now - last[0] >= 2:  # at most one line every two seconds
                 last[0] = now
-                click.echo(f"realquad: {classes:,} classes found so far …", err=True)
+                if classes == 0:  # baby-step giant-step: the regulator comes first
+                    click.echo("realquad: searching the regulator …", err=True)
+                else:
+                    click.echo(f"realquad: {classes:,} classes found so far …", err=True)
 
     G = class_group(order, progress=progress, method=method)
     payload = _payload(G, with_forms)

@@ -73,6 +73,7 @@ ch. 10–13; H. Cohen, *A Course in Computational Algebraic Number Theory*,
 
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -181,17 +182,10 @@ class _Classes:
         self.principal_distances: list[float] = []
         self.add(cycle.principal, [])
         self.giant: tuple[int, int, float] | None = None
-        self.signed_giant: tuple[int, int, float, int] | None = None
         if not self.full:
             margin = 4 * math.log(cycle.discriminant) + 8
             near = walk_to(cycle, self.window - margin)
             self.giant = (*near.ideal, near.distance)
-            self.signed_giant = self._signed_giant_ideal(margin)
-
-    @property
-    def stored_window(self) -> float:
-        """The distance every window reaches at least (the principal one's is the shortest kept)."""
-        return self.principal_distances[-1] if self.principal_distances else 0.0
 
     def __len__(self) -> int:
         return len(self.representatives)
@@ -258,10 +252,10 @@ class _Classes:
         return None
 
     # -- signs of generators of principal ideals -------------------------------
-    def _signed_giant_ideal(self, margin: float) -> tuple[int, int, float, int]:
+    def _signed_giant_ideal(self) -> tuple[int, int, float, int]:
         """A principal window ideal ``G`` with distance ``≤ w − margin``, and the sign of ``N(γ_G)``."""
-        target = self.window - margin
-        j = max(i for i, d in enumerate(self.principal_distances) if d <= target)
+        target = self.window - 4 * math.log(self.cycle.discriminant) - 8
+        j = bisect.bisect_right(self.principal_distances, target) - 1
         key = self.principal_keys[j]
         a, b = divmod(key, self.width)
         return a, b, self.principal_distances[j], -1 if (j + 1) % 2 else 1
@@ -280,8 +274,7 @@ class _Classes:
         if hit is None and self.full:  # pragma: no cover - callers pass principal ideals
             raise ArithmeticError("internal error: ideal not on the principal cycle")
         if hit is None:
-            assert self.signed_giant is not None
-            aG, bG, s, sG = self.signed_giant
+            aG, bG, s, sG = self._signed_giant_ideal()
             travelled = 0.0
             while hit is None:
                 if travelled > self.R + self.window + 2.0:  # pragma: no cover
@@ -371,7 +364,8 @@ def class_group_bsgs(
 ) -> BSGSClassGroup:
     """``Cl`` and ``Cl⁺`` of a real quadratic field (fundamental ``D``), under GRH (see the module notes).
 
-    ``progress`` is called after each prime with the number of classes found so far.
+    ``progress`` is called now and then with the number of classes found so
+    far: ``0`` while the regulator is being searched, then after each prime.
     """
     if not isinstance(order, Order):
         order = Order(order)
@@ -382,7 +376,7 @@ def class_group_bsgs(
             f"discriminants); {D} has conductor {order.conductor}: use the exact method"
         )
     cycle = Cycle(D)
-    search = regulator_bsgs(D, 30)
+    search = regulator_bsgs(D, 30, progress=None if progress is None else (lambda _: progress(0)))
     R = float(search.regulator.value)
     unit_norm = CompactRepresentation.from_factors(D, search.factors).norm
     search.table = None  # the regulator's baby steps are not needed any more
