@@ -224,3 +224,51 @@ def test_progress_reports_the_classes_found() -> None:
     seen: list[int] = []
     G = class_group_bsgs(10**10 + 37, progress=seen.append)
     assert seen and seen == sorted(seen) and seen[-1] == G.class_number
+
+
+def test_group_object_from_the_infrastructure() -> None:
+    # the same ClassGroup type; listing classes needs the exact method and says so
+    D = 10**10 + 37
+    G = class_group(D, method="bsgs")
+    exact = class_group(D, method="exact")
+    assert G.genus.number_of_genera == exact.genus.number_of_genera == 4  # 3 prime factors: 2²
+    assert G.genus.two_rank == exact.genus.two_rank
+    assert str(G.regulator) == str(exact.regulator)  # R unconditional both ways (30 digits)
+    assert G.unit.proof == "unconditional"
+    with pytest.raises(DomainError):
+        G.narrow_classes()
+
+
+def test_oeis_class_number_one(oeis) -> None:  # type: ignore[no-untyped-def]
+    # OEIS A003656: fundamental discriminants D > 0 with class number 1 (an outside source)
+    terms = oeis["A003656"]["terms"]
+    found = [
+        D
+        for D in fundamental_discriminants(5, terms[-1] + 1)
+        if class_group_bsgs(D).class_number == 1
+    ]
+    assert found == terms
+    # OEIS A003172: squarefree n > 1 with Q(√n) of class number 1
+    terms = oeis["A003172"]["terms"]
+    found = [
+        n
+        for n in range(2, terms[-1] + 1)
+        if is_fundamental(n if n % 4 == 1 else 4 * n)
+        and class_group_bsgs(n if n % 4 == 1 else 4 * n).class_number == 1
+    ]
+    assert found == terms
+
+
+@pytest.mark.parametrize(
+    ("d", "h", "h_plus", "norm"),
+    [
+        (79, 3, 6, 1),  # from memory: Q(√79), h = 3, ε = 80 + 9√79 of norm +1
+        (223, 3, 6, 1),  # from memory: Q(√223), h = 3
+        (10, 2, 2, -1),  # from memory: Q(√10), h = 2, ε = 3 + √10
+        (3, 1, 2, 1),  # from memory: Q(√3), ε = 2 + √3
+        (82, 4, 4, -1),  # from memory: Q(√82), h = 4, ε = 9 + √82
+    ],
+)
+def test_small_fields_from_memory(d: int, h: int, h_plus: int, norm: int) -> None:
+    G = class_group_bsgs(d if d % 4 == 1 else 4 * d)
+    assert (G.class_number, G.narrow_class_number, G.unit_norm) == (h, h_plus, norm)
