@@ -145,7 +145,8 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
                 if classes == 0:  # baby-step giant-step: the regulator comes first
                     click.echo("realquad: searching the regulator …", err=True)
                 else:
-                    click.echo(f"realquad: {classes:,} classes found so far …", err=True)
+                    noun = "class" if classes == 1 else "classes"
+                    click.echo(f"realquad: {classes:,} {noun} found so far …", err=True)
 
     G = class_group(order, progress=progress, method=method)
     payload = _payload(G, with_forms)
