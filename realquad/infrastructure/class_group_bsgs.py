@@ -47,10 +47,15 @@ the baby step at which the walk meets the principal window. So
 ``Σ rᵢ 𝔤ᵢ = [N(α) < 0]·J`` in ``Cl⁺``, with ``2J = 0`` and ``J = 0`` exactly
 when ``N(ε) = −1``.
 
+**Cross-check.** ``h·R`` must lie in the interval that holds under GRH by
+the explicit Euler-product bound of Belabas and Friedman
+(:func:`realquad.lfunction.hR_interval`); a class number outside it stops
+with an internal error. The bound is used as a check only, never to
+shorten the search.
+
 The cost is about ``h·w`` baby steps and ``(number of identifications)·R/w``
 giant steps, with ``w`` chosen from the ``h·R`` estimate of
-:mod:`realquad.lfunction` (a speed hint only: no explicit error bound for
-it is used, so it never decides anything).
+:mod:`realquad.lfunction` (a speed hint only: it never decides anything).
 
 >>> G = class_group_bsgs(4 * 79)            # Q(√79): h = 3, h⁺ = 6 (exact method below)
 >>> G.class_number, G.narrow_class_number, G.invariants, G.narrow_invariants, G.unit_norm, G.proof
@@ -88,7 +93,7 @@ from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import walk_to
 from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
 from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
-from realquad.lfunction import estimate_hR, primes_below
+from realquad.lfunction import HRInterval, estimate_hR, hR_interval, primes_below
 from realquad.smith_normal_form import SmithForm, smith_normal_form
 
 METHOD = (
@@ -156,6 +161,7 @@ class BSGSClassGroup:
     window: float = 0.0
     baby_steps: int = 0
     giant_steps: int = 0
+    hR_check: HRInterval | None = field(default=None, repr=False)
     method: str = METHOD
     proof: str = "GRH"
 
@@ -570,6 +576,13 @@ def _finish(
             raise ArithmeticError(
                 f"internal check failed: invariants {smith.invariants} of {D} do not multiply to {expected}"
             )
+    R = classes.R
+    check = hR_interval(D, _interval_x(D))
+    if not check.contains(h * R):  # pragma: no cover - both hold under GRH
+        raise ArithmeticError(
+            f"internal check failed: h·R = {h * R:.6g} for {D} lies outside "
+            f"[{check.lower:.6g}, {check.upper:.6g}], the interval that holds under GRH"
+        )
     b0 = cycle.principal[1]
     triples: list[Triple] = [(-1, b0, (D - b0 * b0) // 4)]
     # the ideal [a, (b + √D)/2] is the class of the form (a, −b, c)
@@ -594,4 +607,10 @@ def _finish(
         window=classes.window,
         baby_steps=len(classes.index),
         giant_steps=classes.giant_steps,
+        hR_check=check,
     )
+
+
+def _interval_x(D: int) -> int:
+    """Primes up to ``X`` for the ``h·R`` interval: ``100·D^{1/4}`` within ``[10⁴, 10⁶]``."""
+    return min(1_000_000, max(10_000, 100 * math.isqrt(math.isqrt(D))))
