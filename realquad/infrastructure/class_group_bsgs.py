@@ -94,6 +94,7 @@ from realquad.infrastructure.distances import walk_to
 from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
 from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
 from realquad.lfunction import HRInterval, estimate_hR, hR_interval, primes_below
+from realquad.results import Proof
 from realquad.smith_normal_form import SmithForm, smith_normal_form
 
 METHOD = (
@@ -163,7 +164,7 @@ class BSGSClassGroup:
     giant_steps: int = 0
     hR_check: HRInterval | None = field(default=None, repr=False)
     method: str = METHOD
-    proof: str = "GRH"
+    proof: Proof = "GRH"
 
 
 # --------------------------------------------------------------------------- the class windows
