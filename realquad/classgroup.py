@@ -48,7 +48,7 @@ from typing import TYPE_CHECKING, Any
 
 from realquad._backend import COMPILED, kernels, pure
 from realquad.arith import Order, isqrt
-from realquad.errors import DomainError, TooLargeError
+from realquad.errors import DomainError, InputError, TooLargeError
 from realquad.forms import Form, call_kernel
 from realquad.results import Proof, Regulator, Unit
 from realquad.smith_normal_form import SmithForm, smith_normal_form
@@ -283,6 +283,11 @@ class ClassGroup:
     @property
     def table(self) -> ClassTable:
         """Every narrow class with its reduced forms (built on first use: lookups, genera, --forms)."""
+        if self.method != METHOD:
+            raise DomainError(
+                "listing every class (and locating a form in the group) needs the exact cycle "
+                f"method; this group was found by {self.method}"
+            )
         if self._table is None:
             table = class_table(self.discriminant, self.order.conductor, self._max_forms)
             if [tuple(g) for g in table.generators] != [tuple(g) for g in self._raw_generators]:
@@ -334,23 +339,107 @@ class ClassGroup:
         return genera(self)
 
 
+#: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
+CLASS_GROUP_METHODS = ("auto", "exact", "bsgs")
+
+#: Estimated number of reduced forms (about ``2h·R/1.19``) up to which ``method="auto"`` runs the
+#: exact cycle method; beyond, baby-step giant-step under GRH is faster (docs/performance.md).
+AUTO_EXACT_FORMS = 400_000
+
+
+def choose_class_group_method(
+    order: Order, method: str = "auto", max_forms: int | None = None
+) -> str:
+    """``"exact"`` or ``"bsgs"``, resolving ``"auto"`` by the estimated number of reduced forms.
+
+    ``"auto"`` keeps the exact (unconditional) method while the estimate
+    ``2·E/1.19`` (``E`` the ``h·R`` estimate of :mod:`realquad.lfunction`, a
+    speed hint) is at most :data:`AUTO_EXACT_FORMS`, and always for orders
+    of conductor > 1 within the exact method's reach (the baby-step
+    giant-step method covers fields only).
+
+    >>> choose_class_group_method(Order(4 * 79)), choose_class_group_method(Order(10**16 + 61))
+    ('exact', 'bsgs')
+    """
+    from realquad.lfunction import estimated_period
+
+    if method not in CLASS_GROUP_METHODS:
+        raise InputError(f"method must be one of {', '.join(CLASS_GROUP_METHODS)}, got {method!r}")
+    if method != "auto":
+        return method
+    D = order.discriminant
+    limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
+    within_reach = D <= 4 * limit * limit
+    if within_reach and (D < 10**8 or order.conductor != 1):
+        return "exact"
+    if within_reach and 2 * estimated_period(D, 20_000) <= min(AUTO_EXACT_FORMS, limit):
+        return "exact"
+    return "bsgs"
+
+
 def class_group(
     order: Order | int,
     max_forms: int | None = None,
     progress: Callable[[int], None] | None = None,
+    method: str = "auto",
 ) -> ClassGroup:
     """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant).
+
+    ``method``: ``"exact"`` (cycles of reduced forms, unconditional),
+    ``"bsgs"`` (baby-step giant-step in the infrastructure,
+    :mod:`realquad.infrastructure.class_group_bsgs`; fields only, proof
+    ``"GRH"``) or ``"auto"`` (:func:`choose_class_group_method`).
+    ``progress`` is called now and then with the number of classes found so far.
 
     >>> G = class_group(420)         # conductor 2 in Q(√105)
     >>> G.narrow_invariants, G.invariants, G.unit_norm
     ([2, 2], [2], 1)
     >>> G.generators
     [Form(8, 14, -7)]
+    >>> H = class_group(4 * 79, method="bsgs")
+    >>> H.narrow_invariants, H.proof, class_group(4 * 79).proof
+    ([6], 'GRH', 'unconditional')
     """
-    from realquad.units import fundamental_unit
-
     if not isinstance(order, Order):
         order = Order(order)
+    if choose_class_group_method(order, method, max_forms) == "bsgs":
+        return _class_group_bsgs(order, progress)
+    return _class_group_exact(order, max_forms, progress)
+
+
+def _class_group_bsgs(order: Order, progress: Callable[[int], None] | None) -> ClassGroup:
+    """The group by baby-step giant-step in the infrastructure (under GRH), as a :class:`ClassGroup`."""
+    from realquad.dispatch import check_reach, unit_from_search
+    from realquad.infrastructure.class_group_bsgs import class_group_bsgs
+
+    D = order.discriminant
+    check_reach(D)  # the regulator search comes first; refuse what it could not finish
+    found = class_group_bsgs(order, progress=progress)
+    h_plus = found.narrow_class_number
+    return ClassGroup(
+        order=order,
+        class_number=found.class_number,
+        narrow_class_number=h_plus,
+        invariants=found.invariants,
+        narrow_invariants=found.narrow_invariants,
+        generators=_forms_from_vectors(D, found.generators, found.wide.generators, h_plus),
+        narrow_generators=_forms_from_vectors(D, found.generators, found.narrow.generators, h_plus),
+        unit_norm=found.unit_norm,
+        method=found.method,
+        proof="GRH",
+        unit=unit_from_search(order, found.regulator_search),
+        _raw_generators=found.generators,
+        _narrow_smith=found.narrow,
+        _wide_smith=found.wide,
+    )
+
+
+def _class_group_exact(
+    order: Order, max_forms: int | None, progress: Callable[[int], None] | None
+) -> ClassGroup:
+    """The group by cycles of reduced forms (exact, unconditional)."""
+    from realquad.units import fundamental_unit
+
     D = order.discriminant
     limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
     _check_reach(D, limit)

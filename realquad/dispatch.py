@@ -44,7 +44,12 @@ from realquad._backend import BACKEND, kernels
 from realquad.arith import Order
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.infrastructure.regulator_bsgs import DEFAULT_MAX_TABLE, Progress, regulator_bsgs
+from realquad.infrastructure.regulator_bsgs import (
+    DEFAULT_MAX_TABLE,
+    BSGSResult,
+    Progress,
+    regulator_bsgs,
+)
 from realquad.infrastructure.regulator_bsgs import METHOD as BSGS_METHOD
 from realquad.lfunction import estimate_hR
 from realquad.results import Regulator, Unit
@@ -125,7 +130,12 @@ def check_reach(D: int) -> None:
 def _bsgs_unit(order: Order, progress: Progress | None) -> Unit:
     D = order.discriminant
     check_reach(D)
-    found = regulator_bsgs(D, 30, progress=progress)
+    return unit_from_search(order, regulator_bsgs(D, 30, progress=progress))
+
+
+def unit_from_search(order: Order, found: BSGSResult) -> Unit:
+    """The :class:`Unit` of a finished baby-step giant-step regulator search (unit kept compact)."""
+    D = order.discriminant
     eps = CompactRepresentation.from_factors(D, found.factors)
     first = found.regulator
 

@@ -109,7 +109,7 @@ def decompose_prime(
         order = Order(order)
     p = _check_prime(p)
     D, f = order.discriminant, order.conductor
-    group = group if group is not None else class_group(order)
+    group = group if group is not None else class_group(order, method="exact")
     kind = KINDS[kronecker(D, p)]
     field_kind = KINDS[kronecker(order.fundamental_discriminant, p)]
     if f % p == 0:
@@ -161,6 +161,6 @@ def split_primes(
     bound = as_integer(bound, "bound")
     if bound < 2:
         raise InputError(f"the bound must be at least 2, got {bound}")
-    group = group if group is not None else class_group(order)
+    group = group if group is not None else class_group(order, method="exact")
     cycle = _PrincipalCycle(order.discriminant)
     return [decompose_prime(order, p, group, cycle) for p in primes_below(bound + 1)]

@@ -205,7 +205,11 @@ def test_bad_input():
     with pytest.raises(InputError):
         class_group(7)
     with pytest.raises(TooLargeError):
-        class_group(field(10**6 + 3), max_forms=10)
+        class_group(field(10**6 + 3), max_forms=10, method="exact")
+    # beyond the exact method's reach "auto" moves to baby-step giant-step (under GRH)
+    assert class_group(field(10**6 + 3), max_forms=10).proof == "GRH"
+    with pytest.raises(InputError):
+        class_group(5, method="nope")
 
 
 def test_primes_below():

@@ -107,8 +107,11 @@ def test_bad_input(capsys, args, needle):
 
 def test_too_large_is_refused(capsys, monkeypatch):
     monkeypatch.setattr(classgroup_module, "DEFAULT_MAX_FORMS", 50)
-    code, _, err = run(capsys, "classgroup", "1000003")
+    code, _, err = run(capsys, "classgroup", "1000003", "--method", "exact")
     assert code == 2 and "baby-step giant-step" in err.lower()
+    # "auto" moves on to baby-step giant-step (under GRH) instead
+    data = run_json(capsys, "classgroup", "1000003")
+    assert data["proof"] == "GRH" and "baby-step giant-step" in data["method"]
 
 
 @pytest.fixture

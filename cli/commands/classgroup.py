@@ -9,7 +9,8 @@ import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
-from realquad.classgroup import ClassGroup, class_group
+from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
+from realquad.errors import InputError
 from realquad.forms import Form
 from realquad.genus import Genera
 from realquad.ideals import Ideal
@@ -111,13 +112,28 @@ def _text(G: ClassGroup, payload: dict[str, Any], with_forms: bool) -> str:
     is_flag=True,
     help="List the reduced forms (the cycle) of every narrow class.",
 )
+@click.option(
+    "--method",
+    type=click.Choice(CLASS_GROUP_METHODS),
+    default="auto",
+    show_default=True,
+    help="exact: cycles of reduced forms (unconditional); bsgs: baby-step giant-step in the "
+    "infrastructure (fields, under GRH); auto: by size.",
+)
 @json_option
-def command(d: str | None, disc: str | None, with_forms: bool, as_json: bool) -> None:
+def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_json: bool) -> None:
     """Class numbers h and h⁺ and the groups Cl and Cl⁺ of Q(√d), or of the order of discriminant D.
 
-    Example: realquad classgroup 79; realquad classgroup --disc 1300 --forms
+    Example: realquad classgroup 79; realquad classgroup --disc 1300 --forms;
+    realquad classgroup --disc 100000000000000000129 --method bsgs
     """
     order = order_from_options(d, disc)
+    if with_forms and method == "bsgs":
+        raise InputError(
+            "--forms lists every class, which the exact method does: use --method exact or auto"
+        )
+    if with_forms:
+        method = "exact"
     progress = None
     if order.discriminant > 10**11:
         last = [time.monotonic()]
@@ -126,8 +142,12 @@ def command(d: str | None, disc: str | None, with_forms: bool, as_json: bool) ->
             now = time.monotonic()
             if now - last[0] >= 2:  # at most one line every two seconds
                 last[0] = now
-                click.echo(f"realquad: {classes:,} classes found so far …", err=True)
+                if classes == 0:  # baby-step giant-step: the regulator comes first
+                    click.echo("realquad: searching the regulator …", err=True)
+                else:
+                    noun = "class" if classes == 1 else "classes"
+                    click.echo(f"realquad: {classes:,} {noun} found so far …", err=True)
 
-    G = class_group(order, progress=progress)
+    G = class_group(order, progress=progress, method=method)
     payload = _payload(G, with_forms)
     emit(payload, _text(G, payload, with_forms), as_json)

@@ -104,13 +104,13 @@ def command(
         raise InputError("give either --primes-up-to B or --prime P, not both")
     if prime is not None:
         p = as_integer(prime, "--prime")
-        G = class_group(order)
+        G = class_group(order, method="exact")
         results = [decompose_prime(order, p, G)]
     else:
         B = as_integer(bound, "--primes-up-to") if bound is not None else 50
         if B < 2 or B > MAX_BOUND:
             raise InputError(f"--primes-up-to must be between 2 and {MAX_BOUND:,}, got {B}")
-        G = class_group(order)
+        G = class_group(order, method="exact")
         results = split_primes(order, B, G)
     principal = Form.identity(order.discriminant)
     payload: dict[str, Any] = {

@@ -3,7 +3,9 @@
 Modules: :mod:`ideals` (reduced ideals, baby steps, composition, reduction),
 :mod:`distances` (reaching a given distance by doubling, exact relative
 generators), :mod:`regulator_bsgs` (the regulator by baby-step giant-step),
-:mod:`compact` (compact representations of units). The ``h·R`` estimate
+:mod:`compact` (compact representations of units), :mod:`principal` (the
+principal ideal test), :mod:`class_group_bsgs` (class groups under GRH by
+baby-step giant-step in the class group). The ``h·R`` estimate
 that sizes the search is :mod:`realquad.lfunction`, shared with the
 continued-fraction side.
 """
