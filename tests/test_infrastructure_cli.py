@@ -139,8 +139,8 @@ def test_out_of_reach_is_refused_before_starting(capsys) -> None:  # type: ignor
 
 def test_ctrl_c_during_the_infrastructure_search() -> None:
     """SIGINT during a long baby-step giant-step search: status 130, one line, nothing on stdout."""
-    # the least prime D ≡ 1 (mod 4) above 10²⁶: a search of well over ten seconds here
-    D = 100000000000000000000000273
+    # the least prime D ≡ 1 (mod 4) above 10³⁰: a search of well over ten seconds here
+    D = 1000000000000000000000000000057
     code, out, err = interrupted(["unit", "--disc", str(D), "--method", "bsgs", "--json"])
     assert code == 130, (code, err)
     assert out == "" and err.strip() == "realquad: interrupted"
