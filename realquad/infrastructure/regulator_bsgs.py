@@ -29,6 +29,13 @@ Once a multiple is pinned, the copy of ``O`` near it is re-reached by an exact
 doubling walk (:mod:`distances`), which yields the unit in compact form and
 ``R`` to any precision with a rigorous error bound.
 
+The baby-step table and both loops live in the kernels
+(:mod:`realquad.infrastructure.table`): compiled for ``D < 2¹⁰⁶``, the pure
+twin beyond, with the same steps and the same distances. The table is held to
+:data:`~realquad.infrastructure.table.MEMORY_BUDGET` bytes (``max_table``
+ideals); distances carry rigorous error bounds, which enter only the window in
+which the final exact walk looks for ``O``.
+
 >>> res = regulator_bsgs(4 * (10**9 + 7), 30)
 >>> str(res.regulator)
 '14693.6218553638695813127964412'
