@@ -268,7 +268,7 @@ floor_quotient(i128 x, i128 y)
     i128 q, m;
     if (!(est > -0x1p50 && est < 0x1p50))
         return floordiv(x, y);
-    q = (int64_t)floor(est);
+    q = (int64_t)est; /* truncated: off by at most one either way, corrected below */
     m = x - q * y;
     while (m < 0)
         m += y, q -= 1;
@@ -277,19 +277,44 @@ floor_quotient(i128 x, i128 y)
     return q;
 }
 
+/* (g, u, v) with u x + v y = g = gcd(x, y), for 0 < x, y < 2^53: Euclid with each quotient
+   from a double division (exact operands), corrected exactly — a 64-bit integer division
+   costs several times more. The Bezout factors are the ones floor-quotient Euclid gives. */
+static void
+xgcd53(int64_t x, int64_t y, int64_t *g, int64_t *u, int64_t *v)
+{
+    int64_t X = x, Y = y, U0 = 1, V0 = 0, U1 = 0, V1 = 1, Q, R, T;
+    while (Y != 0) {
+        Q = (int64_t)((double)X / (double)Y);
+        R = X - Q * Y;
+        if (R < 0)
+            R += Y, Q -= 1;
+        else if (R >= Y)
+            R -= Y, Q += 1;
+        X = Y, Y = R;
+        T = U0 - Q * U1, U0 = U1, U1 = T;
+        T = V0 - Q * V1, V0 = V1, V1 = T;
+    }
+    *g = X, *u = U0, *v = V0;
+}
+
 /* reduce([a, b][a2, b2]); -1 with OverflowError set outside the ranges above. */
 static int
 giant_step_core(const infra_field *f, i128 a, i128 b, i128 a2, i128 b2, i128 *ao, i128 *bo, double *shift)
 {
     const i128 D = f->D, r = f->r, lim = (i128)1 << INFRA_IDEAL_BITS;
     const double sq = f->sq;
-    i128 g, x1, y1, d, a3, b3, c, q, bt, ct, two_a, an;
+    i128 g, y1, d, a3, b3, c, q, bt, ct, two_a, an;
     double prod;
     if (a <= 0 || a >= lim || a2 <= 0 || a2 >= lim || abs128(b) >= 2 * lim || abs128(b2) >= 2 * lim) {
         PyErr_SetString(PyExc_OverflowError, "the compiled giant step takes norms below 2^53");
         return -1;
     }
-    xgcd128(a, a2, &g, &x1, &y1);
+    {
+        int64_t g64, x64, y64;
+        xgcd53((int64_t)a, (int64_t)a2, &g64, &x64, &y64);
+        g = g64, y1 = y64;
+    }
     if (g == 1) {
         i128 k = 0;
         a3 = a * a2;
