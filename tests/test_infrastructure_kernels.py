@@ -265,3 +265,13 @@ def test_progress_callback_can_stop_the_search() -> None:
     with pytest.raises(Stop):
         regulator_bsgs(10**24 + 49, 20, max_table=2048, estimate=1e9, progress=progress)
     assert seen == sorted(seen) and len(seen) == 3
+
+
+def test_baby_steps_report_progress(monkeypatch: pytest.MonkeyPatch) -> None:
+    import realquad.infrastructure.table as table_module
+
+    monkeypatch.setattr(table_module, "PROGRESS_EVERY", 2)
+    seen: list[float] = []
+    table = BabyStepTable(Cycle(10**20 + 129))
+    table.extend(20_000.0, seen.append)
+    assert len(seen) >= 4 and seen == sorted(seen) and seen[-1] <= table.distance

@@ -51,7 +51,6 @@ Notes 56, 1982; Jacobson–Williams, *Solving the Pell Equation*, ch. 10.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import mpmath
@@ -69,6 +68,7 @@ from realquad.infrastructure.table import (
     MEMORY_BUDGET,
     BabyStepTable,
     Hit,
+    Progress,
     compiled_table,
     max_ideals,
 )
@@ -88,8 +88,6 @@ _GIANT_OVER_BABY_PURE = 9.0
 _GIANT_OVER_BABY_COMPILED = 12.0
 
 _ULP = 2.0**-52
-
-Progress = Callable[[float], None]
 
 #: The baby-step table (kept under its former name).
 _Table = BabyStepTable
@@ -141,8 +139,8 @@ def regulator_bsgs(
     ``estimate`` (an approximation of ``h·R``, computed when not given) only
     sizes the baby-step table. ``max_table`` caps the ideals stored (default:
     what :data:`~realquad.infrastructure.table.MEMORY_BUDGET` holds).
-    ``progress`` is called now and then with the distance the giant steps
-    have covered.
+    ``progress`` is called now and then with the distance covered, first by
+    the baby steps, then by the giant steps (increasing).
     """
     cycle = Cycle(D)
     if estimate is None:
@@ -154,7 +152,7 @@ def regulator_bsgs(
     table = BabyStepTable(
         cycle, capacity=min(max_table, int(target / 1.1)) + CHECKPOINT, max_ideals=max_table
     )
-    table.extend(target)
+    table.extend(target, progress)
     giant = 0
     if table.period is not None:
         multiple, window = table.period, 16 * table.error + 1e-6

@@ -52,6 +52,9 @@ _ULP = 2.0**-52
 #: Baby steps between two kept checkpoints.
 CHECKPOINT = 1024
 
+#: Checkpoints between two calls of the baby steps' progress callback (about a million steps).
+PROGRESS_EVERY = 1024
+
 _TABLE_KERNELS = (
     "infrastructure_table_new",
     "infrastructure_table_size",
@@ -141,8 +144,12 @@ class BabyStepTable:
         """Whether the compiled kernels hold this table."""
         return self.ops is not _pure
 
-    def extend(self, limit: float) -> None:
-        """Baby steps until the last stored distance is at least ``limit``."""
+    def extend(self, limit: float, progress: Progress | None = None) -> None:
+        """Baby steps until the last stored distance is at least ``limit``.
+
+        ``progress`` is called with the distance reached every
+        :data:`PROGRESS_EVERY` checkpoints (about a million steps).
+        """
         a, b, hi, lo = self.a, self.b, self.distance, self.low
         extend, handle, checkpoints = (
             self.ops.infrastructure_table_extend,
@@ -156,6 +163,8 @@ class BabyStepTable:
                 self.period = hi
                 break
             checkpoints.append((a, b, hi, lo))
+            if progress is not None and len(checkpoints) % PROGRESS_EVERY == 0:
+                progress(hi)
         self.a, self.b, self.distance, self.low = a, b, hi, lo
         n, log_D = len(self), math.log(self.cycle.discriminant)
         # each step: its log with error ≤ 4·log D ulp; the double-double sum ≤ ulp²·δ_B
