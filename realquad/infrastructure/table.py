@@ -31,6 +31,7 @@ into a number of ideals (about 46 million compiled for 2 GiB).
 
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -121,7 +122,7 @@ class BabyStepTable:
     ``capacity`` is the number of ideals to make room for at once (the table
     grows as needed); :meth:`extend` stops once ``max_ideals`` are stored
     (overshooting by less than :data:`CHECKPOINT`). ``distance`` is ``δ_B``
-    (the last ideal stored); every
+    (the last ideal stored; ``distance + low`` is the unrounded sum); every
     :data:`CHECKPOINT`-th ideal is also kept with its distance, to build giant
     steps from; ``period`` is ``R`` when ``O`` came back during the baby steps.
     """
@@ -133,7 +134,8 @@ class BabyStepTable:
         self.ops: Any = _kernels_for(D)
         self.handle = self.ops.infrastructure_table_new(D, cycle.root, cycle.sqrt_float, capacity)
         a, b = cycle.principal
-        self.checkpoints: list[tuple[int, int, float, float]] = [(a, b, 0.0, 0.0)]
+        self.checkpoints: list[tuple[int, int, float]] = [(a, b, 0.0)]
+        self._lows = [0.0]  # the low parts of the checkpoints' distances
         self.a, self.b, self.distance, self.low = a, b, 0.0, 0.0
         self.sum_error = 0.0  # bound on the error of distance + low
         self.error = 0.0  # bound on the error of every stored distance
@@ -151,18 +153,16 @@ class BabyStepTable:
         :data:`PROGRESS_EVERY` checkpoints (about a million steps).
         """
         a, b, hi, lo = self.a, self.b, self.distance, self.low
-        extend, handle, checkpoints = (
-            self.ops.infrastructure_table_extend,
-            self.handle,
-            self.checkpoints,
-        )
+        extend, handle = self.ops.infrastructure_table_extend, self.handle
+        checkpoints, lows = self.checkpoints, self._lows
         cap = math.inf if self.max_ideals is None else self.max_ideals
         while hi < limit and len(self) < cap:
             a, b, hi, lo, back = extend(handle, a, b, hi, lo, CHECKPOINT)
             if back:
                 self.period = hi
                 break
-            checkpoints.append((a, b, hi, lo))
+            checkpoints.append((a, b, hi))
+            lows.append(lo)
             if progress is not None and len(checkpoints) % PROGRESS_EVERY == 0:
                 progress(hi)
         self.a, self.b, self.distance, self.low = a, b, hi, lo
@@ -191,7 +191,11 @@ class BabyStepTable:
     def _below(self, x: float) -> tuple[int, int, list[float]]:
         """The last stored ideal with distance ``≤ x``: ``(a, b, parts)``, distance ``= Σ parts``."""
         c = self.cycle
-        a, b, hi, lo = next(p for p in reversed(self.checkpoints) if p[2] <= x)
+        i = bisect.bisect_right(self.checkpoints, x, key=lambda p: p[2]) - 1  # distances increase
+        if i < 0:  # pragma: no cover - callers ask for 0 ≤ x
+            raise ValueError("distance below the order's")
+        a, b, hi = self.checkpoints[i]
+        lo = self._lows[i]
         parts = [hi, lo]
         dist = hi
         while True:
