@@ -33,7 +33,7 @@ from realquad.errors import DomainError, InputError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import exact_ideal_at
 from realquad.infrastructure.ideals import Cycle
-from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
+from realquad.infrastructure.regulator_bsgs import BSGSResult, extend_for_sweep, regulator_bsgs
 from realquad.infrastructure.table import BabyStepTable
 
 
@@ -85,8 +85,13 @@ def principal_ideal_test(D: int, a: int, b: int) -> PrincipalityResult:
 
 @lru_cache(maxsize=4)
 def _search(D: int) -> BSGSResult:
-    """The regulator search of ``D`` with its baby-step table (kept for repeated tests)."""
-    return regulator_bsgs(D, 20)
+    """The regulator search of ``D`` with its baby-step table (kept for repeated tests).
+
+    The table is extended to balance the tests' giant steps over a whole period.
+    """
+    found = regulator_bsgs(D, 20)
+    extend_for_sweep(found, float(found.regulator.value))
+    return found
 
 
 def _distance_on_cycle(

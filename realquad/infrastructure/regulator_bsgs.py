@@ -170,6 +170,24 @@ def regulator_bsgs(
     return _finish(cycle, table, multiple, window, digits, giant, estimate)
 
 
+def extend_for_sweep(result: BSGSResult, distance: float) -> BabyStepTable:
+    """The search's baby-step table, extended to balance giant steps over ``distance``.
+
+    The search sizes its table for its own short sweep; a walk of giant steps
+    over a whole period (a principal ideal test) wants a larger one. Bounded
+    by the default memory budget.
+    """
+    table = result.table
+    assert table is not None
+    D = table.cycle.discriminant
+    cap = max_ideals(MEMORY_BUDGET, D)
+    target = _table_target(table.cycle, distance, cap)
+    if table.period is None and target > table.distance:
+        table.max_ideals = max(cap, table.max_ideals or 0)
+        table.extend(target)
+    return table
+
+
 #: Cost of one test "is O at distance y?" (a doubling walk, in Python) in giant steps,
 #: measured (≈ 3–6 ms against ≈ 1 µs compiled and ≈ 15 µs pure giant steps).
 _WALK_OVER_GIANT_COMPILED = 4000.0
