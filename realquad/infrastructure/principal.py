@@ -83,11 +83,12 @@ def principal_ideal_test(D: int, a: int, b: int) -> PrincipalityResult:
     return PrincipalityResult(D, a, b, True, generator)
 
 
-@lru_cache(maxsize=4)
+@lru_cache(maxsize=2)
 def _search(D: int) -> BSGSResult:
     """The regulator search of ``D`` with its baby-step table (kept for repeated tests).
 
-    The table is extended to balance the tests' giant steps over a whole period.
+    The table is extended to balance the tests' giant steps over a whole period;
+    at D ≈ 10³⁰ that is the memory budget (1.5 GiB), hence two fields kept at most.
     """
     found = regulator_bsgs(D, 20)
     extend_for_sweep(found, float(found.regulator.value))
