@@ -355,3 +355,16 @@ def test_short_sweeps_with_prime_tests_give_the_regulator(
     D = discriminant_near(n)
     res = regulator_bsgs(D, 25, max_table=4096)
     assert str(res.regulator) == str(regulator_cfrac(D, 25))
+
+
+@pytest.mark.slow
+def test_regulator_just_below_the_compiled_limit() -> None:
+    # D = the largest prime ≡ 1 (mod 4) below 2¹⁰⁶: R ≈ 6·10¹⁵ by two searches with different
+    # tables (so different giant steps and sweeps); their float walks land hundreds of baby
+    # steps apart, which the exact walk must absorb.
+    D = 81129638414606681695789005143657
+    assert gmpy2.is_prime(D) and D % 4 == 1 and D < 1 << 106 < D + 1000
+    first = regulator_bsgs(D, 30)
+    second = regulator_bsgs(D, 30, max_table=8_000_000)
+    assert str(first.regulator) == str(second.regulator)
+    assert 5e15 < float(first.regulator.value) < 7e15
