@@ -13,6 +13,7 @@ from hypothesis import strategies as st
 from realquad.infrastructure.distances import exact_principal_at, log_of_product, walk_to
 from realquad.infrastructure.ideals import Cycle, giant_step_float
 from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+from realquad.infrastructure.table import compiled_table
 from realquad.lfunction import estimate_hR, primes_below
 from realquad.units import regulator as regulator_cfrac
 
@@ -358,6 +359,9 @@ def test_short_sweeps_with_prime_tests_give_the_regulator(
 
 
 @pytest.mark.slow
+@pytest.mark.skipif(
+    not compiled_table(81129638414606681695789005143657), reason="a test of the compiled kernels"
+)
 def test_regulator_just_below_the_compiled_limit() -> None:
     # D = the largest prime ≡ 1 (mod 4) below 2¹⁰⁶: R ≈ 6·10¹⁵ by two searches with different
     # tables (so different giant steps and sweeps); their float walks land hundreds of baby
