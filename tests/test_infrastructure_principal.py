@@ -105,3 +105,22 @@ def test_fuzz_principal_ideal_test_raises_only_clean_errors(D: int, a: int, b: i
     except RealquadError:
         return
     assert res.principal == principal_by_forms(D, a, b)
+
+
+def test_the_search_table_is_extended_for_a_sweep_over_the_period() -> None:
+    # D = 10²⁴ + 49: the regulator search keeps a table for its short sweep (a few 10⁵ ideals);
+    # the test's sweep over R wants about √(6·1.19·R) of distance. The generators found then
+    # have norm ±p (exact, from the compact form's factors: independent of the float search).
+    from realquad.infrastructure.principal import _search
+    from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+
+    D = 10**24 + 49
+    plain = regulator_bsgs(D, 20)
+    found = _search(D)
+    assert found.table is not None and plain.table is not None
+    assert found.table.distance > 2 * plain.table.distance
+    assert str(found.regulator) == str(plain.regulator)
+    for p, b in ideals_above_small_primes(D, 3)[:3]:
+        res = principal_ideal_test(D, p, b)
+        if res.principal:
+            assert res.generator is not None and abs(res.generator.norm) == p

@@ -13,6 +13,7 @@ from hypothesis import strategies as st
 from realquad.infrastructure.distances import exact_principal_at, log_of_product, walk_to
 from realquad.infrastructure.ideals import Cycle, giant_step_float
 from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+from realquad.infrastructure.table import compiled_table
 from realquad.lfunction import estimate_hR, primes_below
 from realquad.units import regulator as regulator_cfrac
 
@@ -329,3 +330,45 @@ def test_probe_finds_only_multiples_of_the_regulator(n: int) -> None:
         if found is not None:
             k = found[0] / R
             assert abs(k - round(k)) < 1e-6 and round(k) >= 1
+
+
+@given(st.integers(10**9, 10**12), st.sampled_from([2, 3, 4, 6, 12, 35, 97]))
+def test_prime_factors_of_a_multiple_are_divided_out(n: int, k: int) -> None:
+    # x = kR with no R ≤ swept: the walks near x/p must bring x down to R (continued fraction).
+    from realquad.infrastructure.regulator_bsgs import _divide_out_primes
+
+    D = discriminant_near(n)
+    R = float(regulator_cfrac(D, 20))
+    x, err = _divide_out_primes(Cycle(D), k * R, 1e-6, R / 2)
+    assert abs(x - R) < 1e-6 * R and err < R / 4
+
+
+@pytest.mark.parametrize("n", [10**12 + 244, 4 * (10**11 + 3), 4 * 999999999989, 10**10 + 1])
+def test_short_sweeps_with_prime_tests_give_the_regulator(
+    n: int, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # Walks made to look cheap: the sweep stops far below x/2 and the prime tests do the rest
+    # (the first of these fields has h = 6 by the continued fraction's R and the estimate).
+    import realquad.infrastructure.regulator_bsgs as bsgs
+
+    monkeypatch.setattr(bsgs, "_WALK_OVER_GIANT_COMPILED", 0.01)
+    monkeypatch.setattr(bsgs, "_WALK_OVER_GIANT_PURE", 0.01)
+    D = discriminant_near(n)
+    res = regulator_bsgs(D, 25, max_table=4096)
+    assert str(res.regulator) == str(regulator_cfrac(D, 25))
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(
+    not compiled_table(81129638414606681695789005143657), reason="a test of the compiled kernels"
+)
+def test_regulator_just_below_the_compiled_limit() -> None:
+    # D = the largest prime ≡ 1 (mod 4) below 2¹⁰⁶: R ≈ 6·10¹⁵ by two searches with different
+    # tables (so different giant steps and sweeps); their float walks land hundreds of baby
+    # steps apart, which the exact walk must absorb.
+    D = 81129638414606681695789005143657
+    assert gmpy2.is_prime(D) and D % 4 == 1 and D < 1 << 106 < D + 1000
+    first = regulator_bsgs(D, 30)
+    second = regulator_bsgs(D, 30, max_table=8_000_000)
+    assert str(first.regulator) == str(second.regulator)
+    assert 5e15 < float(first.regulator.value) < 7e15

@@ -430,62 +430,6 @@ def test_class_kernels_refuse_beyond_62_bits():
         compiled.form_class_numbers(1 << 62, 1, [2, 3], 10)
 
 
-# -- infrastructure baby steps ---------------------------------------------------
-
-
-@needs_compiled
-@given(st.integers(5, (1 << 105) - 1).map(_discriminant), st.integers(0, 300))
-@example(4 * 1000000000091, 5000)
-@example((1 << 62) + 1, 10)  # one above a square: short cycles
-@example(10**20 + 1, 200)
-def test_baby_steps_agree(D, count):
-    """The compiled baby steps give the twin's keys and distances bit for bit."""
-    r = math.isqrt(D)
-    sq = math.sqrt(D)
-    b = r if (r - D) % 2 == 0 else r - 1
-    args = (D, r, sq, 1, b, 0.0, count)
-    first = pure.infrastructure_baby_steps(*args)
-    assert compiled.infrastructure_baby_steps(*args) == first
-    if first[0]:  # resume from the last ideal reached, as the search does
-        _keys, _dists, a, b, dist, _back = first
-        again = (D, r, sq, a, b, dist, count)
-        assert compiled.infrastructure_baby_steps(*again) == pure.infrastructure_baby_steps(*again)
-
-
-@needs_compiled
-@given(
-    st.integers(5, pure.MAX_WORD_DISCRIMINANT - 64).map(_discriminant),
-    st.integers(1, 80),
-    st.integers(1, 80),
-)
-@example(4 * 1000000000091, 7, 7)  # equal ideals: the non-coprime composition
-@example(pure.MAX_WORD_DISCRIMINANT - 2, 1, 50)
-def test_giant_steps_agree(D, k1, k2):
-    """reduce(𝔞·𝔟) for ideals k1 and k2 baby steps from the order: the twin's result bit for bit."""
-    r = math.isqrt(D)
-    sq = math.sqrt(D)
-    b0 = r if (r - D) % 2 == 0 else r - 1
-    first = pure.infrastructure_baby_steps(D, r, sq, 1, b0, 0.0, k1)
-    second = pure.infrastructure_baby_steps(D, r, sq, 1, b0, 0.0, k2)
-    for x, y in [(first, second), (first, first), (second, second)]:
-        args = (D, r, sq, x[2], x[3], y[2], y[3])
-        assert compiled.infrastructure_giant_step(*args) == pure.infrastructure_giant_step(*args)
-
-
-@needs_compiled
-def test_giant_step_refuses_beyond_62_bits():
-    D = (1 << 62) + 1
-    with pytest.raises(OverflowError):
-        compiled.infrastructure_giant_step(D, math.isqrt(D), math.sqrt(D), 1, 1, 1, 1)
-
-
-@needs_compiled
-def test_baby_steps_refuse_beyond_106_bits():
-    D = (1 << 106) + 1
-    with pytest.raises(OverflowError):
-        compiled.infrastructure_baby_steps(D, math.isqrt(D), math.sqrt(D), 1, 1, 0.0, 3)
-
-
 # -- arbitrary arguments: no crash, and the twin's answer or OverflowError ------------
 
 any_int = st.integers() | st.sampled_from(EDGES + [INT64_MAX + 1, INT64_MIN - 1, 1 << 64, 1 << 127])

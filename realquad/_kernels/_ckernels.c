@@ -50,6 +50,17 @@ static PyMethodDef methods[] = {
      "reduce([a, b][a2, b2]) on reduced principal ideals, with the distance change."},
     {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D, reduced."},
+    /* infrastructure: the baby-step table and the giant-step search */
+    {"infrastructure_table_new", (PyCFunction)(void (*)(void))k_infrastructure_table_new, METH_FASTCALL,
+     "An empty baby-step table (open addressing) for D < 2^106."},
+    {"infrastructure_table_size", (PyCFunction)(void (*)(void))k_infrastructure_table_size, METH_FASTCALL,
+     "(ideals stored, bytes allocated) of a baby-step table."},
+    {"infrastructure_table_get", (PyCFunction)(void (*)(void))k_infrastructure_table_get, METH_FASTCALL,
+     "The stored distance of a reduced ideal, or None."},
+    {"infrastructure_table_extend", (PyCFunction)(void (*)(void))k_infrastructure_table_extend, METH_FASTCALL,
+     "Baby steps stored in the table, with double-double distances."},
+    {"infrastructure_giant_search", (PyCFunction)(void (*)(void))k_infrastructure_giant_search, METH_FASTCALL,
+     "Giant steps until one meets the table, passes a distance, or a budget is spent."},
     {NULL, NULL, 0, NULL},
 };
 

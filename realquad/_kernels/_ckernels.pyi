@@ -42,3 +42,28 @@ def survey_numbers(
 def form_class_relations(
     D: int, conductor: int, primes: list[int], max_forms: int
 ) -> tuple[int, int, list[tuple[int, int, int]], list[list[int]]] | None: ...
+
+# infrastructure: the baby-step table (a capsule) and the giant-step search
+def infrastructure_table_new(D: int, r: int, sq: float, capacity: int) -> object: ...
+def infrastructure_table_size(table: object) -> tuple[int, int]: ...
+def infrastructure_table_get(table: object, a: int, b: int) -> float | None: ...
+def infrastructure_table_extend(
+    table: object, a: int, b: int, hi: float, lo: float, count: int
+) -> tuple[int, int, float, float, int]: ...
+def infrastructure_giant_search(
+    table: object,
+    a: int,
+    b: int,
+    aG: int,
+    bG: int,
+    s: float,
+    lo_step: float,
+    hi_step: float,
+    base: float,
+    e0: float,
+    e1: float,
+    clog: float,
+    stop: float,
+    budget: int,
+    progress: object,
+) -> tuple[int, int, int, int, float, float, float]: ...

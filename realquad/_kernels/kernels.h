@@ -345,6 +345,12 @@ KERNEL(k_survey_numbers);
 /* infrastructure_kernels.c */
 KERNEL(k_infrastructure_baby_steps);
 KERNEL(k_infrastructure_giant_step);
+/* infrastructure_kernels.c: the baby-step table and the giant-step search */
+KERNEL(k_infrastructure_table_new);
+KERNEL(k_infrastructure_table_size);
+KERNEL(k_infrastructure_table_get);
+KERNEL(k_infrastructure_table_extend);
+KERNEL(k_infrastructure_giant_search);
 
 #undef KERNEL
 

@@ -158,7 +158,7 @@ def principal_near(cycle: Cycle, x: float, window: float) -> list[float]:
     return found
 
 
-def exact_principal_at(cycle: Cycle, x: float, steps: int = 64) -> Factors:
+def exact_principal_at(cycle: Cycle, x: float, steps: int | None = None) -> Factors:
     """Factors of a unit ``γ`` with ``O = γ·O`` at distance close to ``x`` (a float estimate).
 
     Raises ``ArithmeticError`` if ``O`` is not within ``steps`` baby steps of ``x``.
@@ -166,19 +166,38 @@ def exact_principal_at(cycle: Cycle, x: float, steps: int = 64) -> Factors:
     return exact_ideal_at(cycle, x, cycle.principal, steps)
 
 
-def exact_ideal_at(cycle: Cycle, x: float, target: Ideal, steps: int = 64) -> Factors:
+def search_radius(x: float) -> int:
+    """Baby steps either way that cover the float error of two doubling walks to ``≈ x``.
+
+    Each walk's float distance is off by at most ``1e-12·x`` (the bound the
+    searches use), and the distance grows by more than ``log 2`` every two
+    baby steps (``θ_{i+1}θ_{i+2} > 2``; from memory, cf. Jacobson–Williams
+    2009, ch. 10); so ``64 + 6e-12·x`` steps cover the two walks' errors.
+    """
+    return 64 + int(6e-12 * x)
+
+
+def exact_ideal_at(cycle: Cycle, x: float, target: Ideal, steps: int | None = None) -> Factors:
     """Factors of ``γ`` with ``L_target = γ·O``, for a reduced principal ``target`` near distance ``x``.
 
-    Walks to ``x`` exactly and searches up to ``steps`` baby steps either
-    way for ``target``; raises ``ArithmeticError`` if it is not there.
+    Walks to ``x`` exactly and searches up to ``steps`` baby steps either way
+    for ``target`` (default :func:`search_radius`), by float steps first, then
+    repeats the steps needed with exact multipliers; raises ``ArithmeticError``
+    if it is not there.
     """
+    if steps is None:
+        steps = search_radius(x)
     near = walk_to(cycle, max(0.0, x), exact=True)
     assert near.factors is not None
     for direction in ("forward", "backward"):
-        w = _Walker(cycle, exact=True)
+        w = _Walker(cycle, exact=False)
         w.ideal, w.distance = near.ideal, near.distance
-        for _ in range(steps + 1):
+        for count in range(steps + 1):
             if w.ideal == target:
+                w = _Walker(cycle, exact=True)
+                w.ideal, w.distance = near.ideal, near.distance
+                for _ in range(count):
+                    getattr(w, direction)()
                 last, e = near.factors[-1]
                 return near.factors[:-1] + [(last * w.mu, e)]
             getattr(w, direction)()

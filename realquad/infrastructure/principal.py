@@ -32,8 +32,9 @@ from functools import lru_cache
 from realquad.errors import DomainError, InputError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import exact_ideal_at
-from realquad.infrastructure.ideals import Cycle, giant_step_float
-from realquad.infrastructure.regulator_bsgs import BSGSResult, regulator_bsgs
+from realquad.infrastructure.ideals import Cycle
+from realquad.infrastructure.regulator_bsgs import BSGSResult, extend_for_sweep, regulator_bsgs
+from realquad.infrastructure.table import BabyStepTable
 
 
 @dataclass(frozen=True)
@@ -82,44 +83,39 @@ def principal_ideal_test(D: int, a: int, b: int) -> PrincipalityResult:
     return PrincipalityResult(D, a, b, True, generator)
 
 
-@lru_cache(maxsize=4)
+@lru_cache(maxsize=2)
 def _search(D: int) -> BSGSResult:
-    """The regulator search of ``D`` with its baby-step table (kept for repeated tests)."""
-    return regulator_bsgs(D, 20)
+    """The regulator search of ``D`` with its baby-step table (kept for repeated tests).
+
+    The table is extended to balance the tests' giant steps over a whole period;
+    at D ≈ 10³⁰ that is the memory budget (1.5 GiB), hence two fields kept at most.
+    """
+    found = regulator_bsgs(D, 20)
+    extend_for_sweep(found, float(found.regulator.value))
+    return found
 
 
-def _distance_on_cycle(cycle: Cycle, table: object, a: int, b: int, R: float) -> float | None:
+def _distance_on_cycle(
+    cycle: Cycle, table: BabyStepTable, a: int, b: int, R: float
+) -> float | None:
     """The distance in ``[0, R)`` of the reduced ideal ``(a, b)`` on the principal cycle, or ``None``."""
-    D, r = cycle.discriminant, cycle.root
-    width = 2 * r + 2
-    index: dict[int, float] = table.index  # type: ignore[attr-defined]
-    cover: float = table.distance  # type: ignore[attr-defined]
-
-    def lookup(a: int, b: int) -> float | None:
-        hit = index.get(a * width + b)
-        if hit is not None:
-            return hit
-        hit = index.get(a * width + r - (r + b) % (2 * a))
-        if hit is not None:
-            return -hit - math.log(a)
-        return None
-
-    hit = lookup(a, b)
+    hit = table.lookup(a, b)
     if hit is not None:
         return hit % R
-    if table.period is not None:  # type: ignore[attr-defined]
+    hit = table.lookup(a, cycle.conjugate(a, b))
+    if hit is not None:
+        return (-hit - math.log(a)) % R
+    if table.period is not None:
         return None  # the table holds the whole cycle
     # giant ideal G₁ with distance s ≤ 2·cover − margin: the last baby ideal squared would be too far
-    margin = 8 * math.log(D) + 8
-    aG, bG, s = table.giant_ideal(margin)  # type: ignore[attr-defined]
-    travelled = 0.0
-    while travelled <= R + 2 * cover + margin:
-        a, b, c = giant_step_float(D, r, cycle.sqrt_float, a, b, aG, bG)
-        step = s + c
-        if not (0 < step < 2 * cover - 1.0):  # pragma: no cover - by the margin
-            raise ArithmeticError("internal error: giant step too long for the baby-step table")
-        travelled += step
-        hit = lookup(a, b)
-        if hit is not None:
-            return (hit - travelled) % R
+    cover = table.distance
+    margin = 8 * math.log(cycle.discriminant) + 8
+    giant = table.giant(margin)
+    found = table.search(
+        a, b, giant, base=0.0, lo_step=0.0, hi_step=2 * cover - 1.0, stop=R + 2 * cover + margin
+    )
+    if found.status == "direct":
+        return (found.found - found.distance) % R
+    if found.status == "conjugate":
+        return (-found.found - math.log(found.a) - found.distance) % R
     return None

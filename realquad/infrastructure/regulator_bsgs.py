@@ -18,16 +18,27 @@ assumption enters: the result is unconditional.
 
 The estimate ``E ≈ hR`` (:mod:`realquad.lfunction`) only affects speed, in two ways.
 It sizes the table; and giant steps across ``[0.98E, 1.02E]`` look for a copy
-of ``O`` there, whose distance ``x`` is then a multiple of ``R`` — when
-``h = 1`` usually ``R`` itself. The main search then stops at
-``g > x/2 + δ_B``: an ``R ≤ x/2`` would have been found by then, so ``R = x``.
-A wrong estimate finds nothing and costs 4 % of a sweep. When the search runs
-past what the table was sized for, the table is doubled and the search goes
-on.
+of ``O`` there, whose distance ``x = kR`` is then a multiple of ``R`` (when
+``h = 1`` usually ``R`` itself). The main search then sweeps only to
+``B = x/M`` (``M`` balances the two costs below, ``M = 2`` for small fields):
+a match there is the first one, hence ``R``. Otherwise no ``R ≤ B`` exists,
+so every prime factor ``p`` of ``k`` has ``p < x/B``, and each such ``p`` is
+found by looking for ``O`` near ``x/p`` (a doubling walk) and divided out; a
+prime left in ``k`` would have put ``O`` at ``x/p`` when ``p`` was tested, so
+the final ``x`` is ``R``. A wrong estimate finds nothing and costs 4 % of a
+sweep, which then runs to ``R``. When the search runs past what the table was
+sized for, the table is doubled and the search goes on.
 
 Once a multiple is pinned, the copy of ``O`` near it is re-reached by an exact
 doubling walk (:mod:`distances`), which yields the unit in compact form and
 ``R`` to any precision with a rigorous error bound.
+
+The baby-step table and both loops live in the kernels
+(:mod:`realquad.infrastructure.table`): compiled for ``D < 2¹⁰⁶``, the pure
+twin beyond, with the same steps and the same distances. The table is held to
+:data:`~realquad.infrastructure.table.MEMORY_BUDGET` bytes (``max_table``
+ideals); distances carry rigorous error bounds, which enter only the window in
+which the final exact walk looks for ``O``.
 
 >>> res = regulator_bsgs(4 * (10**9 + 7), 30)
 >>> str(res.regulator)
@@ -44,12 +55,10 @@ Notes 56, 1982; Jacobson–Williams, *Solving the Pell Equation*, ch. 10.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import mpmath
 
-from realquad._kernels import _pure
 from realquad.infrastructure.distances import (
     Factors,
     exact_principal_at,
@@ -57,33 +66,35 @@ from realquad.infrastructure.distances import (
     principal_near,
     walk_to,
 )
-from realquad.infrastructure.ideals import Cycle, giant_step_float, infrastructure_kernel
-from realquad.lfunction import estimate_hR
+from realquad.infrastructure.ideals import Cycle
+from realquad.infrastructure.table import (
+    CHECKPOINT,
+    MEMORY_BUDGET,
+    BabyStepTable,
+    Hit,
+    Progress,
+    compiled_table,
+    max_ideals,
+)
+from realquad.lfunction import estimate_hR, primes_below
 from realquad.results import Regulator
 
 METHOD = "infrastructure baby-step giant-step"
 
-#: Most reduced ideals kept in the baby-step table (memory ≈ 120 bytes each).
-DEFAULT_MAX_TABLE = 1 << 20
+#: Most reduced ideals kept in the baby-step table by default: what :data:`MEMORY_BUDGET`
+#: (2 GiB) holds — about 47 million with the compiled table (24-byte slots), 16 million
+#: in the pure twin's dict.
+DEFAULT_MAX_TABLE = max_ideals(MEMORY_BUDGET)
 
-#: Measured cost of a giant step over a baby step, for sizing the table: about 9 with the
-#: pure-Python baby steps, 16 with the compiled ones (dict insertion then dominates).
+#: Measured cost of a giant step over a baby step, for sizing the table: about 9 in the
+#: pure twin, 12 compiled (a giant step composes and reduces ≈ 25 times at D ≈ 10³⁰).
 _GIANT_OVER_BABY_PURE = 9.0
-_GIANT_OVER_BABY_COMPILED = 16.0
+_GIANT_OVER_BABY_COMPILED = 12.0
 
 _ULP = 2.0**-52
 
-#: Baby steps between two kept checkpoints.
-_CHECKPOINT = 256
-
-Progress = Callable[[float], None]
-
-_BABY_STEPS = infrastructure_kernel("infrastructure_baby_steps")
-_GIANT_OVER_BABY = (
-    _GIANT_OVER_BABY_PURE
-    if _BABY_STEPS is _pure.infrastructure_baby_steps
-    else _GIANT_OVER_BABY_COMPILED
-)
+#: The baby-step table (kept under its former name).
+_Table = BabyStepTable
 
 
 @dataclass
@@ -95,94 +106,27 @@ class BSGSResult:
     baby_steps: int
     giant_steps: int
     estimate: float | None
-    table: _Table | None = field(default=None, repr=False)
+    table: BabyStepTable | None = field(default=None, repr=False)
 
     @property
     def proof(self) -> str:
         return self.regulator.proof
 
 
-class _Table:
-    """Baby steps from ``O``: every reduced principal ideal with distance in ``[0, δ_B]``.
-
-    ``index`` maps :meth:`Cycle.key` to the (binary64) distance; every
-    ``_CHECKPOINT``-th ideal is also kept with its distance, to build giant
-    steps from.
-    """
-
-    def __init__(self, cycle: Cycle) -> None:
-        self.cycle = cycle
-        a, b = cycle.principal
-        self.index: dict[int, float] = {cycle.key(a, b): 0.0}
-        self.checkpoints: list[tuple[int, int, float]] = [(a, b, 0.0)]
-        self.a, self.b, self.distance = a, b, 0.0
-        self.error = 0.0  # bound on the rounding error of the stored distances
-        self.period: float | None = None  # R when O came back during the baby steps
-
-    def extend(self, limit: float) -> None:
-        """Baby steps until the last stored distance is at least ``limit``."""
-        c = self.cycle
-        D, r, sq = c.discriminant, c.root, c.sqrt_float
-        a, b, dist = self.a, self.b, self.distance
-        index, checkpoints = self.index, self.checkpoints
-        while dist < limit:
-            try:
-                keys, dists, a, b, dist, back = _BABY_STEPS(D, r, sq, a, b, dist, _CHECKPOINT)
-            except OverflowError:
-                keys, dists, a, b, dist, back = _pure.infrastructure_baby_steps(
-                    D, r, sq, a, b, dist, _CHECKPOINT
-                )
-            index.update(zip(keys, dists, strict=True))
-            if back:
-                self.period = dist
-                break
-            checkpoints.append((a, b, dist))
-        self.a, self.b, self.distance = a, b, dist
-        # each step: one rounding of the sum and a log with error ≤ 2 ulp of ≤ log D
-        self.error = len(index) * (_ULP * (dist + 4 * math.log(D)))
-
-    def __len__(self) -> int:
-        return len(self.index)
-
-    def ideal_below(self, x: float) -> tuple[int, int, float]:
-        """The last stored ideal with distance ``≤ x``, with its distance (``0 ≤ x ≤ δ_B``)."""
-        c = self.cycle
-        a, b, dist = next(p for p in reversed(self.checkpoints) if p[2] <= x)
-        while True:
-            a1, b1 = c.rho(a, b)
-            step = c.rho_log_float(a, b, a1, b1)
-            if dist + step > x or a1 == 1:
-                return a, b, dist
-            a, b, dist = a1, b1, dist + step
-
-    def giant_ideal(self, margin: float) -> tuple[int, int, float]:
-        """``G₁ = reduce(L_B·L_m)`` with ``δ(L_m) ≤ δ_B − margin``: ``(a, b, s)``, ``s ≈ 2δ_B − margin``."""
-        c = self.cycle
-        am, bm, dm = self.ideal_below(self.distance - margin)
-        aG, bG, shift = giant_step_float(
-            c.discriminant, c.root, c.sqrt_float, self.a, self.b, am, bm
-        )
-        s = self.distance + dm + shift
-        # up to 32 baby steps back, prefer a norm with no prime factor below 17: most giant
-        # steps then compose coprime norms (the fast Chinese-remainder case)
-        a, b, t = aG, bG, s
-        for _ in range(32):
-            if math.gcd(a, 30030) == 1:
-                return a, b, t
-            prev = c.rho_inverse(a, b)
-            t -= c.rho_log_float(*prev, a, b)
-            a, b = prev
-            if t < self.distance + margin / 2:
-                break
-        return aG, bG, s
+def _ratio(D: int) -> float:
+    return _GIANT_OVER_BABY_COMPILED if compiled_table(D) else _GIANT_OVER_BABY_PURE
 
 
-def _table_target(cycle: Cycle, estimate: float | None, max_table: int) -> float:
+def _table_target(
+    cycle: Cycle, estimate: float | None, max_table: int, ratio: float | None = None
+) -> float:
     """Baby-step coverage ``δ_B`` balancing baby and giant work for ``R ≈ estimate``."""
     margin = 16 * math.log(cycle.discriminant) + 16
     if estimate is None:
         estimate = math.sqrt(cycle.discriminant)
-    coverage = math.sqrt(1.19 * estimate * _GIANT_OVER_BABY / 2)
+    if ratio is None:
+        ratio = _ratio(cycle.discriminant)
+    coverage = math.sqrt(1.19 * estimate * ratio / 2)
     return max(8 * margin, min(coverage, 1.19 * max_table))
 
 
@@ -191,35 +135,145 @@ def regulator_bsgs(
     digits: int = 30,
     *,
     estimate: float | None = None,
-    max_table: int = DEFAULT_MAX_TABLE,
+    max_table: int | None = None,
     progress: Progress | None = None,
 ) -> BSGSResult:
     """The regulator of the order of discriminant ``D`` by baby-step giant-step.
 
     ``estimate`` (an approximation of ``h·R``, computed when not given) only
-    sizes the baby-step table. ``progress`` is called now and then with the
-    distance the giant steps have covered.
+    sizes the baby-step table. ``max_table`` caps the ideals stored (default:
+    what :data:`~realquad.infrastructure.table.MEMORY_BUDGET` holds).
+    ``progress`` is called now and then with the distance covered, first by
+    the baby steps, then by the giant steps (increasing).
     """
     cycle = Cycle(D)
     if estimate is None:
         estimate = estimate_hR(cycle.discriminant).value
-    table = _Table(cycle)
-    # sized for a sweep to E/2: the probe below usually leaves only that much to search
-    table.extend(_table_target(cycle, estimate / 2, max_table))
+    if max_table is None:
+        max_table = max_ideals(MEMORY_BUDGET, cycle.discriminant)
+    target = _table_target(cycle, _planned_distance(cycle, estimate, max_table), max_table)
+    table = BabyStepTable(
+        cycle, capacity=min(max_table, int(target / 1.1)) + CHECKPOINT, max_ideals=max_table
+    )
+    table.extend(target, progress)
     giant = 0
     if table.period is not None:
         multiple, window = table.period, 16 * table.error + 1e-6
     else:
         probe = _probe(cycle, table, estimate)
-        multiple, window, giant = _giant_steps(cycle, table, max_table, progress, probe)
+        if probe is None:
+            found, window, giant = _giant_steps(cycle, table, max_table, progress)
+            assert found is not None  # with no stopping distance, the search ends on a match
+            multiple = found
+        else:
+            multiple, window, giant = _certify(cycle, table, max_table, progress, probe)
     return _finish(cycle, table, multiple, window, digits, giant, estimate)
+
+
+def extend_for_sweep(result: BSGSResult, distance: float) -> BabyStepTable:
+    """The search's baby-step table, extended to balance giant steps over ``distance``.
+
+    The search sizes its table for its own short sweep; a walk of giant steps
+    over a whole period (a principal ideal test) wants a larger one. Bounded
+    by the default memory budget.
+    """
+    table = result.table
+    assert table is not None
+    D = table.cycle.discriminant
+    cap = max_ideals(MEMORY_BUDGET, D)
+    target = _table_target(table.cycle, distance, cap)
+    if table.period is None and target > table.distance:
+        table.max_ideals = max(cap, table.max_ideals or 0)
+        table.extend(target)
+    return table
+
+
+#: Cost of one test "is O at distance y?" (a doubling walk, in Python) in giant steps,
+#: measured (≈ 3–6 ms against ≈ 1 µs compiled and ≈ 15 µs pure giant steps).
+_WALK_OVER_GIANT_COMPILED = 4000.0
+_WALK_OVER_GIANT_PURE = 300.0
+
+
+def _prime_bound(x: float, cover: float, D: int) -> int:
+    """``M`` balancing a sweep to ``x/M`` against tests of ``x/p`` for the primes ``p < M``.
+
+    The sweep costs ``x/(2·δ_B·M)`` giant steps, the tests ``π(M) ≈ M/log M``
+    walks; ``M = 2`` (no test) when the sweep to ``x/2`` is cheap.
+    """
+    walk = _WALK_OVER_GIANT_COMPILED if compiled_table(D) else _WALK_OVER_GIANT_PURE
+    scale = x / (2 * cover * walk)
+    M = 2.0
+    for _ in range(6):
+        M = max(2.0, math.sqrt(scale * max(1.0, math.log(M))))
+    return int(M)
+
+
+def _planned_distance(cycle: Cycle, estimate: float, max_table: int) -> float:
+    """The distance the giant steps are expected to cover: the probe, then a sweep to ``E/M``."""
+    cover = _table_target(cycle, estimate / 2, max_table)
+    for _ in range(2):
+        M = _prime_bound(estimate, cover, cycle.discriminant)
+        planned = 2 * _PROBE_WIDTH * estimate + estimate / M
+        cover = _table_target(cycle, planned, max_table)
+    return planned
+
+
+def _certify(
+    cycle: Cycle,
+    table: BabyStepTable,
+    max_table: int,
+    progress: Progress | None,
+    probe: tuple[float, float, int],
+) -> tuple[float, float, int]:
+    """``R`` from a multiple ``x = kR`` found by the probe: ``(R, error window, giant steps)``.
+
+    Giant steps sweep to ``B = x/M`` (:func:`_prime_bound`); a match there
+    is ``R`` itself (the first match, as in :func:`_giant_steps`). Otherwise
+    ``R > B``, and :func:`_divide_out_primes` removes the prime factors of
+    ``k``, all below ``x/B``.
+    """
+    x, err, steps = probe
+    swept = x / _prime_bound(x, table.distance, cycle.discriminant) + 1.0
+    found, window, steps = _giant_steps(cycle, table, max_table, progress, swept, steps)
+    if found is not None:
+        return found, window, steps
+    x, err = _divide_out_primes(cycle, x, err, swept)
+    return x, err, steps
+
+
+def _divide_out_primes(cycle: Cycle, x: float, err: float, swept: float) -> tuple[float, float]:
+    """``R`` from ``x ≈ kR`` (within ``err``) when no ``R ≤ swept`` exists: ``(R, error)``.
+
+    A prime ``q | k`` has ``R ≤ x/q``, so ``q < (x + err)/swept``. The primes
+    below that are tested in turn for a copy of ``O`` near ``x/p``; a copy
+    found is a multiple of ``R`` (whatever ``p``), ``x`` becomes its distance
+    and the tests start again. When none is found, ``k = 1``: a prime ``q | k``
+    would have put ``O`` at ``x/q``.
+    """
+    p_index = 0
+    primes = primes_below(int((x + err) / swept) + 2)
+    while p_index < len(primes) and primes[p_index] < (x + err) / swept:
+        p = primes[p_index]
+        window = err / p + 1e-12 * x / p + 1.0  # with the walk's own float error, 1e-12·x/p
+        found = principal_near(cycle, x / p, window)
+        if found:
+            x = found[0]
+            err = 1e-12 * x + 1e-9  # the doubling walk's float distance (as in _finish)
+            p_index = 0
+        else:
+            p_index += 1
+    return x, err
 
 
 #: Half-width of the window searched around the estimate of ``h·R``, relative to it.
 _PROBE_WIDTH = 0.02
 
 
-def _probe(cycle: Cycle, table: _Table, estimate: float) -> tuple[float, float, int] | None:
+def _margin(cycle: Cycle) -> float:
+    return 8 * math.log(cycle.discriminant) + 8
+
+
+def _probe(cycle: Cycle, table: BabyStepTable, estimate: float) -> tuple[float, float, int] | None:
     """A multiple of ``R`` near the estimate ``E`` of ``h·R``: ``(x, error, giant steps)`` or ``None``.
 
     Giant steps across ``[E(1 − w), E(1 + w)]``; a table match there is a copy
@@ -231,102 +285,111 @@ def _probe(cycle: Cycle, table: _Table, estimate: float) -> tuple[float, float, 
     lo, hi = estimate * (1 - _PROBE_WIDTH), estimate * (1 + _PROBE_WIDTH)
     if lo <= 4 * cover:
         return None
-    D, r, sq = cycle.discriminant, cycle.root, cycle.sqrt_float
-    aG, bG, s = table.giant_ideal(8 * math.log(D) + 8)
+    G = table.giant(_margin(cycle))
     near = walk_to(cycle, lo)
     (a, b), g = near.ideal, near.distance
-    steps = 0
-    while g <= hi + s:
-        err = 1e-12 * hi + steps * (2 * _ULP * hi + 1e-12) + 3 * table.error
-        x = _match(cycle, table, a, b, g, err)
-        if x is not None:
-            return x, err, steps
-        a, b, c = giant_step_float(D, r, sq, a, b, aG, bG)
-        g += s + c
-        steps += 1
+    e0 = 1e-12 * hi + table.error  # the doubling walk's float distance, the table's
+    start = _start_hit(cycle, table, a, b, g)
+    if start is not None:
+        return _multiple(cycle, table, start, e0), e0, 0
+    hit = table.search(
+        a, b, G, base=g, lo_step=1.0, hi_step=2 * cover - 4 * table.error - 1.0, stop=hi + G.s
+    )
+    if hit.status in ("direct", "conjugate"):
+        err = _hit_error(hit, G.error, e0)
+        return _multiple(cycle, table, hit, err), err, hit.steps
+    return None
+
+
+def _hit_error(hit: Hit, s_error: float, e0: float) -> float:
+    """Bound on the error of a search's distance ``g = base + j·s + C`` (``e0``: base and table)."""
+    return e0 + hit.steps * s_error + hit.C_error + 2 * _ULP * abs(hit.distance)
+
+
+def _start_hit(cycle: Cycle, table: BabyStepTable, a: int, b: int, g: float) -> Hit | None:
+    """The reduced ideal ``(a, b)`` at distance ``g`` as a search result, if it is in the table."""
+    found = table.lookup(a, b)
+    if found is not None:
+        return Hit("direct", a, b, 0, 0.0, 0.0, found, g)
+    found = table.lookup(a, cycle.conjugate(a, b))
+    if found is not None:
+        return Hit("conjugate", a, b, 0, 0.0, 0.0, found, g)
     return None
 
 
 def _giant_steps(
     cycle: Cycle,
-    table: _Table,
+    table: BabyStepTable,
     max_table: int,
     progress: Progress | None,
-    probe: tuple[float, float, int] | None = None,
-) -> tuple[float, float, int]:
-    """Giant steps until a match; returns ``(multiple of R, error window, steps)``.
+    stop: float = math.inf,
+    steps: int = 0,
+) -> tuple[float | None, float, int]:
+    """Giant steps from ``O`` until a match: ``(multiple of R, error window, steps)``.
 
-    With a known multiple ``x`` from :func:`_probe`, the search stops once
-    ``g > x/2 + δ_B``: a regulator ``R ≤ x/2`` would have matched by then
-    (at the first ``g ≥ R − δ_B``, which is ``< R + δ_B``), so ``R = x``.
+    The first match gives ``R`` (see the module's docstring). With a finite
+    ``stop`` the search gives up once ``g > stop + δ_B``, returning ``None``
+    for the multiple: then no ``R ≤ stop`` exists, since it would have matched
+    by then (at the first ``g ≥ R − δ_B``, which is ``< R + δ_B``).
     """
-    D, r = cycle.discriminant, cycle.root
-    margin = 8 * math.log(D) + 8
-    # current giant ideal (a, b) at distance base + j·s + C
+    margin = _margin(cycle)
+    ratio = _ratio(cycle.discriminant)
+    # current giant ideal (a, b) at distance base (error ≤ base_error)
     a, b = cycle.principal
     base, base_error = 0.0, 0.0
-    steps = 0 if probe is None else probe[2]
-    stop = math.inf if probe is None else probe[0] / 2 + 1.0
     while True:
         cover = table.distance
-        aG, bG, s = table.giant_ideal(margin)
-        s_error = 3 * table.error + 64 * _ULP * (s + margin)
-        if not (cover < s - 1.0 and s < 2 * cover - 1.0):  # pragma: no cover - by the margin
+        G = table.giant(margin)
+        if not (cover < G.s - 1.0 and G.s < 2 * cover - 1.0):  # pragma: no cover - by the margin
             raise ArithmeticError("internal error: giant step outside the baby-step window")
-        lo_step, hi_step = 1.0, 2 * cover - 4 * table.error - 1.0
-        j, C, C_error = 0, 0.0, 0.0
         full = len(table) >= max_table
-        budget = 1 << 62 if full else max(64, int(4 * len(table) / _GIANT_OVER_BABY))
-        sq = cycle.sqrt_float
-        while budget > 0:
-            budget -= 1
-            a, b, c = giant_step_float(D, r, sq, a, b, aG, bG)
-            if not (lo_step < s + c < hi_step):  # pragma: no cover - the margin covers it
-                raise ArithmeticError("internal error: giant step too long for the baby-step table")
-            j += 1
-            C += c
-            C_error += _ULP * (abs(C) + 64 * math.log(D))
-            g = base + j * s + C
-            if steps == 0 and j == 1 and g <= cover:  # pragma: no cover - s > cover
-                raise ArithmeticError("internal error: first giant step inside the table")
-            err = base_error + j * s_error + C_error + _ULP * g + table.error
-            x = _match(cycle, table, a, b, g, err)
-            if x is not None:
-                return x, err, steps + j
-            if probe is not None and g - err > stop + table.distance:
-                return probe[0], probe[1], steps + j
-            if progress is not None and j % 4096 == 0:
-                progress(g)
+        budget = 1 << 62 if full else max(64, int(4 * len(table) / ratio))
+        e0 = base_error + table.error
+        hit = table.search(
+            a,
+            b,
+            G,
+            base=base,
+            lo_step=1.0,
+            hi_step=2 * cover - 4 * table.error - 1.0,
+            e0=e0,
+            stop=stop + table.distance,
+            budget=budget,
+            progress=progress,
+        )
+        err = _hit_error(hit, G.error, e0)
+        if hit.status in ("direct", "conjugate"):
+            return _multiple(cycle, table, hit, err), err, steps + hit.steps
+        if hit.status == "stop":
+            return None, err, steps + hit.steps
         # the table was too small for R: double it and continue from here
-        steps += j
-        base, base_error = base + j * s + C, base_error + j * s_error + C_error
+        steps += hit.steps
+        a, b = hit.a, hit.b
+        base, base_error = hit.distance, err - table.error
         table.extend(table.distance * min(2.0, max_table / len(table)))
         if table.period is not None:  # pragma: no cover - R ≤ new coverage
             return table.period, 16 * table.error + 1e-6, steps
         # the current giant ideal is checked again against the larger table
-        x = _match(cycle, table, a, b, base, base_error + table.error)
-        if x is not None:
-            return x, base_error + table.error, steps
+        again = _start_hit(cycle, table, a, b, base)
+        if again is not None:
+            err = base_error + table.error
+            return _multiple(cycle, table, again, err), err, steps
 
 
-def _match(cycle: Cycle, table: _Table, a: int, b: int, g: float, err: float) -> float | None:
-    """The multiple of ``R`` given by a giant ideal ``(a, b)`` at distance ``g`` found in the table."""
-    r = cycle.root
-    width = 2 * r + 2
-    found = table.index.get(a * width + b)
-    if found is not None:
-        x = g - found
+def _multiple(cycle: Cycle, table: BabyStepTable, hit: Hit, err: float) -> float:
+    """The multiple of ``R`` given by a giant ideal found in the table."""
+    if hit.status == "direct":
+        x = hit.distance - hit.found
     else:
-        found = table.index.get(a * width + r - (r + b) % (2 * a))
-        if found is None:
-            return None
-        x = _divide_conjugate_multiple(cycle, table, g + found + math.log(a), err)
+        x = _divide_conjugate_multiple(
+            cycle, table, hit.distance + hit.found + math.log(hit.a), err
+        )
     if not x > table.distance:  # pragma: no cover - giant steps start beyond the table
         raise ArithmeticError("internal error: a giant step matched inside the baby-step table")
     return x
 
 
-def _divide_conjugate_multiple(cycle: Cycle, table: _Table, x: float, err: float) -> float:
+def _divide_conjugate_multiple(cycle: Cycle, table: BabyStepTable, x: float, err: float) -> float:
     """``x = kR`` with ``k ≤ 3`` from a conjugate match: return ``R``."""
     for k in (3, 2):
         if x / k > table.distance and principal_near(cycle, x / k, err / k + 1.0):
@@ -336,7 +399,7 @@ def _divide_conjugate_multiple(cycle: Cycle, table: _Table, x: float, err: float
 
 def _finish(
     cycle: Cycle,
-    table: _Table,
+    table: BabyStepTable,
     multiple: float,
     window: float,
     digits: int,
