@@ -67,6 +67,7 @@ KERNEL_SOURCES = (
     "cfrac_kernels",
     "character_kernels",
     "form_kernels",
+    "prime_form_kernels",
     "class_kernels",
     "survey_kernels",
     "infrastructure_kernels",

@@ -28,9 +28,11 @@
  * division, checked __int128 arithmetic, Euclid, rho, prototypes);
  * cfrac_kernels.c (principal_*, convergent_leaves); character_kernels.c
  * (kronecker_symbols); form_kernels.c (form_*, extended_gcd, composition);
- * class_kernels.c (prime forms, class candidates, class numbers and table);
- * infrastructure_kernels.c (baby and giant steps); _ckernels.c (the method
- * table and the module).
+ * prime_form_kernels.c (prime forms, square roots mod p, class candidates);
+ * class_kernels.c (class numbers, relations and table: cycles of reduced
+ * forms in a hash table); survey_kernels.c (survey_numbers: many fields per
+ * call); infrastructure_kernels.c (baby and giant steps, the baby-step table
+ * and the giant-step search); _ckernels.c (the method table and the module).
  */
 #ifndef REALQUAD_KERNELS_H
 #define REALQUAD_KERNELS_H
@@ -331,13 +333,18 @@ KERNEL(k_form_cycle);
 KERNEL(k_extended_gcd);
 KERNEL(k_form_compose);
 KERNEL(k_form_compose_reduce);
-/* class_kernels.c */
+/* prime_form_kernels.c */
 KERNEL(k_prime_form_b);
 KERNEL(k_form_class_candidates);
+/* class_kernels.c */
 KERNEL(k_form_class_numbers);
 KERNEL(k_form_class_table);
 KERNEL(k_form_class_relations);
+/* prime_form_kernels.c: the candidates of the class walks */
 KERNEL_PRIVATE int prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len);
+KERNEL_PRIVATE int candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, int lift,
+                              int64_t **out, int64_t *count);
+KERNEL_PRIVATE int class_kernel_args(PyObject *const *args, int64_t *D, int64_t *conductor);
 KERNEL_PRIVATE int class_numbers_core(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t nprimes,
                                       int64_t max_forms, int64_t *h_plus, int *j_principal);
 /* survey_kernels.c */
