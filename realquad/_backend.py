@@ -38,7 +38,8 @@ def _public_names(module: ModuleType) -> list[str]:
     for name, value in vars(module).items():
         if name.startswith("_"):
             continue
-        if callable(value) and getattr(value, "__module__", None) == module.__name__:
+        home = getattr(value, "__module__", None) or ""
+        if callable(value) and home.startswith(module.__name__):  # _pure and its part _pure_forms
             names.append(name)
         elif name.isupper():
             names.append(name)
