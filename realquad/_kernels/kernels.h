@@ -183,6 +183,56 @@ isqrt_u64(uint64_t n)
 }
 
 /* ------------------------------------------------------------------ */
+/* modular arithmetic and Euclid on words (prime forms, survey)        */
+/* ------------------------------------------------------------------ */
+
+static inline uint64_t
+mulmod_u64(uint64_t a, uint64_t b, uint64_t m)
+{
+    return (uint64_t)((u128)a * b % m);
+}
+
+/* b^e mod m; below 2^32 the products fit a word and need no 128-bit division. */
+static inline uint64_t
+powmod(uint64_t b, uint64_t e, uint64_t m)
+{
+    uint64_t r = 1 % m;
+    b %= m;
+    if (m >> 32 == 0) {
+        while (e) {
+            if (e & 1)
+                r = r * b % m;
+            b = b * b % m;
+            e >>= 1;
+        }
+        return r;
+    }
+    while (e) {
+        if (e & 1)
+            r = mulmod_u64(r, b, m);
+        b = mulmod_u64(b, b, m);
+        e >>= 1;
+    }
+    return r;
+}
+
+static inline uint64_t
+gcd_u64(uint64_t x, uint64_t y)
+{
+    while (y) {
+        uint64_t t = x % y;
+        x = y, y = t;
+    }
+    return x;
+}
+
+static inline int64_t
+gcd64(int64_t x, int64_t y)
+{
+    return (int64_t)gcd_u64((uint64_t)(x < 0 ? -x : x), (uint64_t)(y < 0 ? -y : y));
+}
+
+/* ------------------------------------------------------------------ */
 /* binary quadratic forms: rho (form and class kernels)                */
 /* ------------------------------------------------------------------ */
 

@@ -10,29 +10,6 @@
 /* prime forms and class-group candidates (p < 2^31 here)              */
 /* ------------------------------------------------------------------ */
 
-static uint64_t
-powmod(uint64_t b, uint64_t e, uint64_t m)
-{
-    uint64_t r = 1 % m;
-    b %= m;
-    if (m >> 32 == 0) { /* products below 2^64: no 128-bit division */
-        while (e) {
-            if (e & 1)
-                r = r * b % m;
-            b = b * b % m;
-            e >>= 1;
-        }
-        return r;
-    }
-    while (e) {
-        if (e & 1)
-            r = (uint64_t)((u128)r * b % m);
-        b = (uint64_t)((u128)b * b % m);
-        e >>= 1;
-    }
-    return r;
-}
-
 /* A square root of n modulo the odd prime p (Tonelli-Shanks), or -1. */
 static int64_t
 sqrt_mod_odd_prime(uint64_t n, uint64_t p)
@@ -138,17 +115,6 @@ prime_b(int64_t D, int64_t p)
             return -1;
     }
     return b;
-}
-
-static int64_t
-gcd64(int64_t x, int64_t y)
-{
-    x = x < 0 ? -x : x, y = y < 0 ? -y : y;
-    while (y) {
-        int64_t t = x % y;
-        x = y, y = t;
-    }
-    return x;
 }
 
 /* A sequence of primes as a C array (PyMem_Free it); -1 on error. */

@@ -7,26 +7,6 @@
  */
 #include "kernels.h"
 
-static inline uint64_t
-mulmod_u64(uint64_t a, uint64_t b, uint64_t m)
-{
-    return (uint64_t)((u128)a * b % m);
-}
-
-static uint64_t
-powmod_u64(uint64_t b, uint64_t e, uint64_t m)
-{
-    uint64_t r = 1;
-    b %= m;
-    while (e) {
-        if (e & 1)
-            r = mulmod_u64(r, b, m);
-        b = mulmod_u64(b, b, m);
-        e >>= 1;
-    }
-    return r;
-}
-
 /* Miller-Rabin to the first twelve prime bases: exact below 3.18 * 10^23
    (Sorenson and Webster, Math. Comp. 86 (2017), the bound psi_12; from
    memory), so for every n < 2^64. */
@@ -44,7 +24,7 @@ is_prime_u64(uint64_t n)
     while (d % 2 == 0)
         d /= 2, s++;
     for (i = 0; i < 12; i++) {
-        x = powmod_u64(bases[i], d, n);
+        x = powmod(bases[i], d, n);
         if (x == 1 || x == n - 1)
             continue;
         for (k = 1; k < s; k++) {
@@ -56,16 +36,6 @@ is_prime_u64(uint64_t n)
             return 0;
     }
     return 1;
-}
-
-static uint64_t
-gcd_u64(uint64_t x, uint64_t y)
-{
-    while (y) {
-        uint64_t t = x % y;
-        x = y, y = t;
-    }
-    return x;
 }
 
 /* A proper factor of the odd composite n (Pollard rho, Brent's cycle finding). */
