@@ -82,6 +82,8 @@ import bisect
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from functools import partial
+from typing import TypeVar
 
 import gmpy2
 
@@ -331,6 +333,19 @@ def _signed_multiply(cycle: Cycle, x: Ideal, y: Ideal) -> tuple[tuple[int, int, 
 
 Signed = tuple[int, int, int]  # (a, b, σ): a reduced ideal and the sign of its multiplier
 
+_T = TypeVar("_T")
+
+
+def _times_power(total: _T, x: _T, e: int, times: Callable[[_T, _T], _T]) -> _T:
+    """``total·x^e`` (``e ≥ 0``) by square-and-multiply, with the product ``times``."""
+    while e:
+        if e & 1:
+            total = times(total, x)
+        e >>= 1
+        if e:
+            x = times(x, x)
+    return total
+
 
 def _signed_times(cycle: Cycle, x: Signed, y: Signed) -> Signed:
     """``L_z = μ·L_x·L_y``: the product of two signed elements (signs multiply)."""
@@ -350,13 +365,7 @@ def _signed_product(cycle: Cycle, ideals: list[Ideal], exponents: list[int]) -> 
         if e == 0:
             continue
         base: Signed = (ideal[0], ideal[1] if e > 0 else cycle.conjugate(*ideal), 1)
-        e = abs(e)
-        while e:
-            if e & 1:
-                total = _signed_times(cycle, total, base)
-            e >>= 1
-            if e:
-                base = _signed_times(cycle, base, base)
+        total = _times_power(total, base, abs(e), partial(_signed_times, cycle))
     return total
 
 
@@ -517,14 +526,7 @@ def _times(cycle: Cycle, x: Ideal, y: Ideal) -> Ideal:
 
 
 def _power(cycle: Cycle, x: Ideal, e: int) -> Ideal:
-    out = cycle.principal
-    while e:
-        if e & 1:
-            out = _times(cycle, out, x)
-        e >>= 1
-        if e:
-            x = _times(cycle, x, x)
-    return out
+    return _times_power(cycle.principal, x, e, partial(_times, cycle))
 
 
 def _add_coset(classes: _Classes, m: int, n: int, power: Ideal, k: int) -> None:
