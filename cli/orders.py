@@ -7,7 +7,8 @@ from typing import Any, TypeVar
 
 import click
 
-from realquad.arith import Order, as_integer, field
+from realquad.core.integers import as_integer
+from realquad.core.orders import Order, field
 from realquad.errors import InputError
 
 Decorated = TypeVar("Decorated", bound=Callable[..., Any])

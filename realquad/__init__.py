@@ -1,4 +1,19 @@
-"""realquad: exact computation in real quadratic fields and orders.
+"""realquad: exact computation in real (and imaginary) quadratic fields and orders.
+
+The library is organised by problem, one package each, its public function in
+the package's ``__init__`` choosing among the methods beneath it
+(``docs/architecture.md``):
+
+* :mod:`realquad.cfrac` — continued fractions;
+* :mod:`realquad.units` — fundamental units and regulators;
+* :mod:`realquad.classgroup` — class numbers and class groups;
+* :mod:`realquad.splitting` — decomposition of primes and their classes;
+* :mod:`realquad.equations` — Pell, norm, binary-form and general quadratic equations;
+* :mod:`realquad.survey` — tabulation over ranges of fields;
+
+on top of the shared :mod:`realquad.core` (orders, numbers, forms, ideals,
+primes, linear algebra) and :mod:`realquad.infrastructure` (reduced principal
+ideals with distances). The names below are the public API.
 
 >>> import realquad
 >>> realquad.pell(13).x
@@ -8,7 +23,6 @@
 """
 
 from realquad._backend import BACKEND
-from realquad.arith import Order, field, kronecker
 from realquad.cfrac import (
     ContinuedFraction,
     QuadraticIrrational,
@@ -17,15 +31,23 @@ from realquad.cfrac import (
     from_periodic,
 )
 from realquad.classgroup import ClassGroup, class_group, class_numbers
-from realquad.conics import solve_quadratic
-from realquad.dispatch import fundamental_unit, regulator
+from realquad.core.forms import Form
+from realquad.core.ideals import Ideal
+from realquad.core.numbers import QuadraticNumber
+from realquad.core.orders import Order, field
+from realquad.core.primes import kronecker
+from realquad.equations import (
+    NormEquationSolution,
+    PellSolution,
+    parse_equation,
+    pell,
+    solve_binary_form,
+    solve_norm_equation,
+    solve_quadratic,
+)
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
-from realquad.forms import Form
-from realquad.norm_equations import NormEquationSolution, solve_norm_equation
-from realquad.pell import PellSolution, pell
-from realquad.quadratic_number import QuadraticNumber
-from realquad.results import Regulator, Unit
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
+from realquad.units import Regulator, Unit, fundamental_unit, regulator
 
 __version__ = "0.1.0"
 
@@ -35,6 +57,7 @@ __all__ = [
     "ContinuedFraction",
     "DomainError",
     "Form",
+    "Ideal",
     "InputError",
     "NormEquationSolution",
     "Order",
@@ -55,9 +78,11 @@ __all__ = [
     "from_periodic",
     "fundamental_unit",
     "kronecker",
-    "solve_norm_equation",
-    "solve_quadratic",
+    "parse_equation",
     "pell",
     "regulator",
+    "solve_binary_form",
+    "solve_norm_equation",
+    "solve_quadratic",
     "split_primes",
 ]

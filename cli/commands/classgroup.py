@@ -2,18 +2,18 @@
 
 from __future__ import annotations
 
-import time
 from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
+from realquad_cli.progress import ProgressLine
 
 from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
+from realquad.classgroup.genus import Genera
+from realquad.core.forms import Form
+from realquad.core.ideals import Ideal
 from realquad.errors import InputError
-from realquad.forms import Form
-from realquad.genus import Genera
-from realquad.ideals import Ideal
 
 #: Most reduced forms that ``--forms`` prints in the text form.
 SHOWN_FORMS = 2000
@@ -134,20 +134,8 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
         )
     if with_forms:
         method = "exact"
-    progress = None
-    if order.discriminant > 10**11:
-        last = [time.monotonic()]
-
-        def progress(classes: int) -> None:
-            now = time.monotonic()
-            if now - last[0] >= 2:  # at most one line every two seconds
-                last[0] = now
-                if classes == 0:  # baby-step giant-step: the regulator comes first
-                    click.echo("realquad: searching the regulator …", err=True)
-                else:
-                    noun = "class" if classes == 1 else "classes"
-                    click.echo(f"realquad: {classes:,} {noun} found so far …", err=True)
-
+    # small groups take the lean kernel, which reports nothing; beyond 10¹¹ the full table reports
+    progress = ProgressLine() if order.discriminant > 10**11 else None
     G = class_group(order, progress=progress, method=method)
     payload = _payload(G, with_forms)
     emit(payload, _text(G, payload, with_forms), as_json)

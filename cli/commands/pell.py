@@ -16,8 +16,8 @@ from realquad_cli.output import (
     write_atomically,
 )
 
-from realquad.arith import as_integer
-from realquad.pell import pell
+from realquad.core.integers import as_integer
+from realquad.equations.pell import pell
 from realquad.textio import decimal_digits, to_decimal
 
 

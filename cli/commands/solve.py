@@ -16,11 +16,11 @@ from realquad_cli.output import (
     write_atomically,
 )
 
-from realquad.arith import as_integer
-from realquad.conics import solve_quadratic
-from realquad.equation_parser import parse_equation
+from realquad.core.integers import as_integer
+from realquad.equations.conics import solve_quadratic
+from realquad.equations.families import Family, LineFamily, OrbitFamily, QuadraticSolutions
+from realquad.equations.parser import parse_equation
 from realquad.errors import InputError
-from realquad.solution_families import Family, LineFamily, OrbitFamily, QuadraticSolutions
 from realquad.textio import to_decimal
 
 #: Seconds between the progress lines a long run writes to a terminal.

@@ -8,10 +8,10 @@ import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import ACCEPT_NEGATIVE, emit, integer_text, json_option, put_integers
 
-from realquad.arith import as_integer
 from realquad.classgroup import class_group
+from realquad.core.forms import Form
+from realquad.core.integers import as_integer
 from realquad.errors import InputError
-from realquad.forms import Form
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
 
 #: Largest bound accepted by --primes-up-to.

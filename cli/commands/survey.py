@@ -10,7 +10,7 @@ from typing import Any
 import click
 from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
-from realquad.arith import as_integer
+from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.survey.executors import make_executor
 from realquad.survey.progress import choose_mode

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import sys
-import time
 from typing import Any
 
 import click
@@ -19,12 +17,13 @@ from realquad_cli.output import (
     size_options,
     write_atomically,
 )
+from realquad_cli.progress import ProgressLine
 
-from realquad.dispatch import METHODS, fundamental_unit
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.results import Unit
 from realquad.textio import decimal_digits, to_decimal
+from realquad.units import METHODS, fundamental_unit
+from realquad.units.results import Unit
 
 
 @click.command("unit", context_settings=ACCEPT_NEGATIVE)
@@ -72,7 +71,7 @@ def command(
         )
     if compact:
         method = "bsgs"
-    with Progress() as progress:
+    with ProgressLine() as progress:
         eps = fundamental_unit(order, method, progress=progress)
         reg = eps.regulator(digits)
     form = eps.compact()
@@ -184,24 +183,3 @@ def _compact_text(form: CompactRepresentation) -> str:
             op = "−" if a.y < 0 else "+"
             lines.append(f"  ({a.x} {op} {abs(a.y)}√{D})/{a.c} ^ {e}")
     return "\n".join(lines)
-
-
-class Progress:
-    """Shows how far the giant steps have gone on stderr, for runs longer than a few seconds."""
-
-    def __init__(self) -> None:
-        self.start = time.monotonic()
-        self.shown = False
-
-    def __enter__(self) -> Progress:
-        return self
-
-    def __call__(self, distance: float) -> None:
-        if time.monotonic() - self.start < 3 or not sys.stderr.isatty():
-            return
-        click.echo(f"\rbaby-step giant-step: distance {distance:.4g} searched", nl=False, err=True)
-        self.shown = True
-
-    def __exit__(self, *exc: object) -> None:
-        if self.shown:
-            click.echo("", err=True)

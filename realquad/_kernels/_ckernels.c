@@ -65,7 +65,7 @@ static PyMethodDef methods[] = {
 };
 
 static struct PyModuleDef module = {
-    PyModuleDef_HEAD_INIT, "_ckernels", "realquad's compiled word-size kernels (see _pure.py for the twins).", -1,
+    PyModuleDef_HEAD_INIT, "_ckernels", "realquad's compiled word-size kernels (each C file has its pure-Python twin, the .py file of the same name).", -1,
     methods,
 };
 

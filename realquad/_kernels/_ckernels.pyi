@@ -1,4 +1,4 @@
-# Type stub of the compiled kernels; each matches its twin in _pure.py.
+# Type stub of the compiled kernels; each matches its pure-Python twin (the .py file named like its .c file).
 
 MAX_WORD_DISCRIMINANT: int
 MAX_CFRAC_DISCRIMINANT: int

@@ -361,7 +361,7 @@ reps_push(reps_t *reps, int64_t a, int64_t b, int64_t c)
 }
 
 /*
- * form_class_table of _pure.py, step for step: from the principal cycle, each
+ * form_class_table of class_kernels.py, step for step: from the principal cycle, each
  * candidate not yet in the table becomes a generator whose powers times the
  * classes known before it fill new cycles, until a power falls into a known
  * class. Returns 1 when done, 0 when more than max_forms forms would be
@@ -462,7 +462,7 @@ class_discriminant(PyObject *arg, int64_t *D, int64_t *r)
 
 /*
  * (h+, j) of D < 2^62 into *h_plus and *j_principal (j = 1 when (-1, b0, c0)
- * is principal): form_class_numbers of _pure.py on a C array of primes.
+ * is principal): form_class_numbers of class_kernels.py on a C array of primes.
  * Returns 1 when done, 0 beyond max_forms reduced forms, -1 on error.
  */
 int
@@ -485,7 +485,7 @@ out:
     return done;
 }
 
-/* form_class_numbers of _pure.py: the table without its Python lists. */
+/* form_class_numbers of class_kernels.py: the table without its Python lists. */
 PyObject *
 k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
@@ -505,7 +505,7 @@ k_form_class_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     return Py_BuildValue("(Li)", (long long)h_plus, j);
 }
 
-/* form_class_relations of _pure.py: (h+, j, generators, relations) of the class
+/* form_class_relations of class_kernels.py: (h+, j, generators, relations) of the class
    table, without its index and vectors. */
 PyObject *
 k_form_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
@@ -544,7 +544,7 @@ done:
     return result;
 }
 
-/* form_class_table of _pure.py: the index (in the twin's order), representatives, vectors,
+/* form_class_table of class_kernels.py: the index (in the twin's order), representatives, vectors,
    generators and relations. */
 PyObject *
 k_form_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)

@@ -118,7 +118,7 @@ mod_any(i128 a, i128 b)
     return (SMALL62(a) && SMALL62(b)) ? (i128)floormod64((int64_t)a, (int64_t)b) : floormod(a, b);
 }
 
-/* form_compose of _pure.py on int64 inputs; -1 with an exception set on failure. */
+/* form_compose of form_kernels.py on int64 inputs; -1 with an exception set on failure. */
 int
 compose(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_t *Ao, int64_t *Bo, int64_t *Co)
 {

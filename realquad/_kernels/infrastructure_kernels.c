@@ -166,7 +166,7 @@ fail:
 /* ------------------------------------------------------------------ */
 
 /*
- * infrastructure_giant_step of _pure.py for D < 2^106 and ideals with a, a2 < 2^53,
+ * infrastructure_giant_step of infrastructure_kernels.py for D < 2^106 and ideals with a, a2 < 2^53,
  * |b|, |b2| < 2^54 (every reduced ideal). The composition gives a3 = a a2/d^2 < 2^106
  * and b3 < 2^108; the reduction walks the form (a, b, c), b^2 - 4ac = D, whose
  * coefficients all stay below 2^108: c is updated by c + k(b + ak) under b -> b + 2ak

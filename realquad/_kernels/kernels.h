@@ -2,7 +2,7 @@
  * realquad._kernels._ckernels: the compiled word-size kernels.
  *
  * Each kernel (declared at the end of this header) is the compiled counterpart
- * of the function of the same name in _pure.py and returns the same results
+ * of the function of the same name in the twin (the .py file of the same name as the .c file) and returns the same results
  * (principal_regulator: the same quantity with its own rigorous error bound,
  * see cfrac_kernels.c). Every integer is range-checked: an argument or a
  * result outside the range a kernel handles raises OverflowError, and the
@@ -331,7 +331,7 @@ add_c(i128 x, i128 y, int *bad)
     return z;
 }
 
-/* extended_gcd of _pure.py, step for step (floor divmod); inputs |x|, |y| < 2^126. */
+/* extended_gcd of the twins, step for step (floor divmod); inputs |x|, |y| < 2^126. */
 /* The extended Euclidean loop of the twin on one integer type (floor quotients). */
 #define XGCD_BODY(type, div)                                                                           \
     do {                                                                                               \
@@ -358,7 +358,7 @@ xgcd128(i128 x, i128 y, i128 *g, i128 *u, i128 *v)
         XGCD_BODY(i128, floordiv);
 }
 
-/* form_compose of _pure.py on int64 inputs (form_kernels.c); -1 with an exception set on failure. */
+/* form_compose of the twins on int64 inputs (form_kernels.c); -1 with an exception set on failure. */
 KERNEL_PRIVATE int
 compose(int64_t a1, int64_t b1, int64_t a2, int64_t b2, int64_t D, int64_t *Ao, int64_t *Bo, int64_t *Co);
 

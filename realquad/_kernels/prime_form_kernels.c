@@ -88,7 +88,7 @@ root_mod_prime(int64_t D, int64_t p)
     return sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
 }
 
-/* prime_form_b of _pure.py for a prime 2 <= p < 2^31 and 0 < D < 2^62 (the b is canonical). */
+/* prime_form_b of prime_form_kernels.py for a prime 2 <= p < 2^31 and 0 < D < 2^62 (the b is canonical). */
 static int64_t
 prime_b(int64_t D, int64_t p)
 {
@@ -145,7 +145,7 @@ prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len)
 }
 
 /*
- * form_class_candidates of _pure.py into a growable array of triples; -1 on
+ * form_class_candidates of prime_form_kernels.py into a growable array of triples; -1 on
  * error. With lift set, each prime form (p, b, c) is replaced by the reduced
  * form (p, b + 2pk, *) of its class with r - 2p < b + 2pk <= r (reduced because
  * 2p < sqrt D): the same classes, for callers that only count them; its c is

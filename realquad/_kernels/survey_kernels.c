@@ -1,6 +1,6 @@
 /*
  * Survey kernels: the numbers behind one survey row for many fields in one
- * call (survey_numbers of _pure.py), so a chunk of fields costs one trip
+ * call (survey_numbers of survey_kernels.py), so a chunk of fields costs one trip
  * from Python: the prime signature of the discriminant, the narrow class
  * number with the sign of the unit (class_kernels.c) and the regulator walk
  * (cfrac_kernels.c).
@@ -70,7 +70,7 @@ proper_factor(uint64_t n)
 
 /*
  * The number t of primes dividing D = disc Q(sqrt d) (d > 1 squarefree) and
- * whether none of them is 3 (mod 4), as _prime_signature of _pure.py: trial
+ * whether none of them is 3 (mod 4), as _prime_signature of survey_kernels.py: trial
  * division of the odd part m of d while p^3 <= m, after which m has at most two
  * prime factors; a composite m = 1 (mod 4) is split by Pollard rho.
  */
@@ -100,7 +100,7 @@ prime_signature(int64_t d, int *t, int *no_three)
     }
 }
 
-/* survey_numbers of _pure.py. */
+/* survey_numbers of survey_kernels.py. */
 PyObject *
 k_survey_numbers(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {

@@ -10,9 +10,9 @@ precision, the unit modulo an integer, products and powers; exact expansion
 (Horner's rule on each chain, so intermediate sizes double per level) only on
 request.
 
->>> from realquad.infrastructure.regulator_bsgs import regulator_bsgs
+>>> from realquad.infrastructure.regulator_search import search_regulator
 >>> D = 4 * 61
->>> eps = CompactRepresentation.from_factors(D, regulator_bsgs(D, 20).factors)
+>>> eps = CompactRepresentation.from_factors(D, search_regulator(D, 20).factors)
 >>> eps.norm, eps.expand()
 (-1, (59436, 3805))
 >>> (eps * eps).expand() == eps.power(2).expand()
@@ -35,9 +35,9 @@ from fractions import Fraction
 import gmpy2
 import mpmath
 
+from realquad.core.numbers import QuadraticNumber
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.distances import Factors, log_of_product
-from realquad.quadratic_number import QuadraticNumber
 
 
 @dataclass(frozen=True)

@@ -34,8 +34,8 @@ from dataclasses import dataclass
 
 import mpmath
 
-from realquad.infrastructure.ideals import Cycle, Ideal
-from realquad.quadratic_number import QuadraticNumber
+from realquad.core.numbers import QuadraticNumber
+from realquad.infrastructure.ideals import Cycle, ReducedIdeal
 
 Factors = list[tuple[QuadraticNumber, int]]
 
@@ -48,7 +48,7 @@ class NearIdeal:
     (only when asked for) give ``γ = ∏ α^e`` exactly.
     """
 
-    ideal: Ideal
+    ideal: ReducedIdeal
     distance: float
     factors: Factors | None
 
@@ -177,7 +177,7 @@ def search_radius(x: float) -> int:
     return 64 + int(6e-12 * x)
 
 
-def exact_ideal_at(cycle: Cycle, x: float, target: Ideal, steps: int | None = None) -> Factors:
+def exact_ideal_at(cycle: Cycle, x: float, target: ReducedIdeal, steps: int | None = None) -> Factors:
     """Factors of ``γ`` with ``L_target = γ·O``, for a reduced principal ``target`` near distance ``x``.
 
     Walks to ``x`` exactly and searches up to ``steps`` baby steps either way

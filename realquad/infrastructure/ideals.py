@@ -34,18 +34,15 @@ and H. C. Williams, *Solving the Pell Equation*, Springer 2009, ch. 10.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any
 
 import gmpy2
 
-from realquad._backend import kernels
-from realquad._kernels import _pure
-from realquad.arith import check_discriminant
-from realquad.quadratic_number import QuadraticNumber
+from realquad._backend import call_kernel
+from realquad.core.numbers import QuadraticNumber
+from realquad.core.orders import check_discriminant
 
-Ideal = tuple[int, int]
+ReducedIdeal = tuple[int, int]
 
 
 @dataclass(frozen=True)
@@ -57,7 +54,7 @@ class Cycle:
     sqrt_float: float = field(init=False)
 
     def __post_init__(self) -> None:
-        D = check_discriminant(self.discriminant)
+        D = check_discriminant(self.discriminant, real=True)
         object.__setattr__(self, "discriminant", D)
         object.__setattr__(self, "root", int(gmpy2.isqrt(D)))
         object.__setattr__(self, "sqrt_float", float(gmpy2.sqrt(gmpy2.mpfr(D, 80))))
@@ -75,7 +72,7 @@ class Cycle:
         return t < 0 or t * t < self.discriminant
 
     @property
-    def principal(self) -> Ideal:
+    def principal(self) -> ReducedIdeal:
         """The order itself, ``(1, b₀)``."""
         return (1, self.normalize(1, self.discriminant & 1))
 
@@ -88,20 +85,15 @@ class Cycle:
         return a * (2 * self.root + 2) + b
 
     # -- baby steps ----------------------------------------------------------
-    def rho(self, a: int, b: int) -> Ideal:
+    def rho(self, a: int, b: int) -> ReducedIdeal:
         """The next reduced ideal of the cycle (the continued-fraction step)."""
         bt = b - 2 * a * ((b + self.root) // (2 * a))
         return (self.discriminant - bt * bt) // (4 * a), -bt
 
-    def rho_inverse(self, a: int, b: int) -> Ideal:
+    def rho_inverse(self, a: int, b: int) -> ReducedIdeal:
         """The previous reduced ideal of the cycle."""
         prev = (self.discriminant - b * b) // (4 * a)
         return prev, self.normalize(prev, -b)
-
-    def rho_multiplier(self, a: int, b: int) -> QuadraticNumber:
-        """``θ₁ = (b₁ + √D)/(2a₁)`` with ``rho(a, b) = (a₁, b₁)``: ``L₁ = θ₁ L``."""
-        a1, b1 = self.rho(a, b)
-        return QuadraticNumber(b1, 1, 2 * a1, self.discriminant)
 
     def rho_log_float(self, a: int, b: int, a1: int, b1: int) -> float:
         """``log θ₁`` in binary64 for the step ``(a, b) → (a₁, b₁)``, without cancellation."""
@@ -179,18 +171,6 @@ class Cycle:
         raise ArithmeticError("internal error: reduction did not terminate")  # pragma: no cover
 
 
-def infrastructure_kernel(name: str) -> Callable[..., Any]:
-    """The compiled kernel ``name`` when the compiled module has it, else its pure twin.
-
-    A compiled kernel raises ``OverflowError`` beyond its word size; callers
-    then use :data:`realquad._kernels._pure`'s function of the same name.
-    """
-    return getattr(kernels, name, None) or getattr(_pure, name)  # type: ignore[no-any-return]
-
-
-_GIANT_STEP = infrastructure_kernel("infrastructure_giant_step")
-
-
 def giant_step_float(
     D: int, r: int, sq: float, a: int, b: int, a2: int, b2: int
 ) -> tuple[int, int, float]:
@@ -200,7 +180,4 @@ def giant_step_float(
     :meth:`Cycle.reduce_float`, as one plain-integer kernel
     (``infrastructure_giant_step``; ``r = ⌊√D⌋``, ``sq ≈ √D``).
     """
-    try:
-        return _GIANT_STEP(D, r, sq, a, b, a2, b2)  # type: ignore[no-any-return]
-    except OverflowError:
-        return _pure.infrastructure_giant_step(D, r, sq, a, b, a2, b2)
+    return call_kernel("infrastructure_giant_step", D, r, sq, a, b, a2, b2)  # type: ignore[no-any-return]

@@ -33,7 +33,7 @@ from realquad.errors import DomainError, InputError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import exact_ideal_at
 from realquad.infrastructure.ideals import Cycle
-from realquad.infrastructure.regulator_bsgs import BSGSResult, extend_for_sweep, regulator_bsgs
+from realquad.infrastructure.regulator_search import BSGSResult, extend_for_sweep, search_regulator
 from realquad.infrastructure.table import BabyStepTable
 
 
@@ -70,7 +70,7 @@ def principal_ideal_test(D: int, a: int, b: int) -> PrincipalityResult:
     check_ideal(D, a, b)
     aJ, bJ, mu = cycle.reduce_exact(a, b)
     found = _search(D)
-    R = float(found.regulator.value)
+    R = float(found.value)
     table = found.table
     assert table is not None
     x = _distance_on_cycle(cycle, table, aJ, bJ, R)
@@ -90,8 +90,8 @@ def _search(D: int) -> BSGSResult:
     The table is extended to balance the tests' giant steps over a whole period;
     at D ≈ 10³⁰ that is the memory budget (1.5 GiB), hence two fields kept at most.
     """
-    found = regulator_bsgs(D, 20)
-    extend_for_sweep(found, float(found.regulator.value))
+    found = search_regulator(D, 20)
+    extend_for_sweep(found, float(found.value))
     return found
 
 

@@ -33,13 +33,13 @@ from __future__ import annotations
 
 import bisect
 import math
-from collections.abc import Callable
 from dataclasses import dataclass
+from functools import partial
 from types import ModuleType, SimpleNamespace
 from typing import Any
 
-from realquad._backend import COMPILED, kernels
-from realquad._kernels import _pure
+from realquad._backend import COMPILED, kernels, pure
+from realquad.core.progress import Progress
 from realquad.infrastructure.ideals import Cycle, giant_step_float
 
 #: Bytes the baby-step table may take (the compiled table's slots; the twin's dict estimated).
@@ -64,19 +64,18 @@ _TABLE_KERNELS = (
     "infrastructure_giant_search",
 )
 
-Progress = Callable[[float], None]
 
 
 def _kernels_for(D: int) -> ModuleType | SimpleNamespace:
     """The compiled table kernels when they are built and take ``D``, else the twin's."""
     if all(name in COMPILED for name in _TABLE_KERNELS) and D < 1 << 106:
         return kernels
-    return _pure
+    return pure
 
 
 def compiled_table(D: int) -> bool:
     """Whether a table for ``D`` runs on the compiled kernels."""
-    return _kernels_for(D) is not _pure
+    return _kernels_for(D) is not pure
 
 
 def max_ideals(budget: int = MEMORY_BUDGET, D: int = 5) -> int:
@@ -144,12 +143,12 @@ class BabyStepTable:
     @property
     def compiled(self) -> bool:
         """Whether the compiled kernels hold this table."""
-        return self.ops is not _pure
+        return self.ops is not pure
 
     def extend(self, limit: float, progress: Progress | None = None) -> None:
         """Baby steps until the last stored distance is at least ``limit``.
 
-        ``progress`` is called with the distance reached every
+        ``progress`` hears the distance reached every
         :data:`PROGRESS_EVERY` checkpoints (about a million steps).
         """
         a, b, hi, lo = self.a, self.b, self.distance, self.low
@@ -164,7 +163,7 @@ class BabyStepTable:
             checkpoints.append((a, b, hi))
             lows.append(lo)
             if progress is not None and len(checkpoints) % PROGRESS_EVERY == 0:
-                progress(hi)
+                progress("distance searched", hi)
         self.a, self.b, self.distance, self.low = a, b, hi, lo
         n, log_D = len(self), math.log(self.cycle.discriminant)
         # each step: its log with error ≤ 4·log D ulp; the double-double sum ≤ ulp²·δ_B
@@ -173,11 +172,6 @@ class BabyStepTable:
 
     def __len__(self) -> int:
         return int(self.ops.infrastructure_table_size(self.handle)[0])
-
-    @property
-    def nbytes(self) -> int:
-        """Memory the table takes (exact when compiled, estimated for the twin's dict)."""
-        return int(self.ops.infrastructure_table_size(self.handle)[1])
 
     def lookup(self, a: int, b: int) -> float | None:
         """The stored distance of the reduced ideal ``(a, b)`` (``b`` normalised), or ``None``."""
@@ -246,11 +240,6 @@ class BabyStepTable:
         )
         return GiantIdeal(a, b, s, error)
 
-    def giant_ideal(self, margin: float) -> tuple[int, int, float]:
-        """``(a, b, s)`` of :meth:`giant`."""
-        g = self.giant(margin)
-        return g.a, g.b, g.s
-
     def search(
         self,
         a: int,
@@ -289,7 +278,7 @@ class BabyStepTable:
             64 * math.log(D),
             stop,
             budget,
-            progress,
+            None if progress is None else partial(progress, "distance searched"),
         )
         if status == 4:  # pragma: no cover - the margin keeps every step in bounds
             raise ArithmeticError("internal error: giant step too long for the baby-step table")

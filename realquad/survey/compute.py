@@ -58,16 +58,17 @@ from typing import Any
 
 import gmpy2
 
-from realquad._backend import kernels, pure
-from realquad.arith import Order, fundamental_discriminant_of
-from realquad.class_structure import forced_structures, four_rank
-from realquad.classgroup import DEFAULT_MAX_FORMS, class_invariants, class_numbers, primes_below
-from realquad.classgroup import METHOD as CLASS_GROUP_METHOD
-from realquad.factoring import factorize
-from realquad.results import Proof
+from realquad._backend import call_kernel
+from realquad.classgroup.exact import DEFAULT_MAX_FORMS, class_invariants, class_numbers
+from realquad.classgroup.exact import METHOD as CLASS_GROUP_METHOD
+from realquad.classgroup.structure import forced_structures, four_rank
+from realquad.core.orders import Order, fundamental_discriminant_of
+from realquad.core.primes import factorize, primes_below
+from realquad.core.results import Proof
 from realquad.survey.ranges import Chunk
-from realquad.units import DEFAULT_MAX_PERIOD, METHOD_ACCUMULATED, _walk, fundamental_unit
-from realquad.units import METHOD as UNIT_METHOD
+from realquad.units import fundamental_unit
+from realquad.units.cfrac import DEFAULT_MAX_PERIOD, METHOD_ACCUMULATED, principal_regulator_walk
+from realquad.units.cfrac import METHOD as UNIT_METHOD
 
 #: Binary precision of the regulator evaluation (see the module docstring).
 REGULATOR_BITS = 96
@@ -203,7 +204,7 @@ def _fast_unit_columns(d: int, walk: Walk) -> tuple[int, int, str, int] | None:
     # x = u/2 unless D = d ≡ 5 (mod 8), where x is u or u/2 (for d ≡ 1 mod 8, u is even)
     candidates = (log_u, log_u - _LOG10_2) if d % 8 == 5 else (log_u - _LOG10_2,)
     if len(candidates) == 2 and math.floor(candidates[0]) != math.floor(candidates[1]):
-        order_walk = _walk("principal_regulator", 4 * d, DEFAULT_MAX_PERIOD)
+        order_walk = principal_regulator_walk(4 * d, DEFAULT_MAX_PERIOD)
         # R4 is R or 3R, so R4 − 2R = ∓R: its sign is certain (R > 0.45 ≫ both error bounds)
         if _walk_regulator_float(order_walk) > 2 * r:  # ε ∉ Z[√d]: x = u
             candidates = candidates[:1]
@@ -237,7 +238,7 @@ def _walk_regulator_float(walk: Walk) -> float:
 
 def _slow_unit_columns(D: int) -> tuple[int, int, str, int]:
     """``N(ε)``, period, regulator text and digit count from the exact unit."""
-    unit = fundamental_unit(Order(D))
+    unit = fundamental_unit(Order(D), "cfrac")
     u, v = unit.half_integer_coordinates()
     return unit.norm, int(unit.period_length or 0), _regulator_text(u, v, D), unit.digits
 
@@ -250,17 +251,14 @@ def _numbers(ds: list[int]) -> list[Numbers | None]:
             class_numbers(Order(D), conductor=1)
     primes = primes_below(isqrt(max(ds)) + 2)
     args = (ds, primes, DEFAULT_MAX_PERIOD, DEFAULT_MAX_FORMS)
-    try:
-        return kernels.survey_numbers(*args)  # type: ignore[no-any-return]
-    except OverflowError:
-        return pure.survey_numbers(*args)
+    return call_kernel("survey_numbers", *args)  # type: ignore[no-any-return]
 
 
 def _record(d: int, numbers: Numbers | None) -> FieldRecord:
     if numbers is None or numbers[5] is None:  # too large: the slow routes say why
         D = fundamental_discriminant_of(d)
         class_numbers(Order(D), conductor=1)
-        _walk("principal_regulator", D, DEFAULT_MAX_PERIOD)
+        principal_regulator_walk(D, DEFAULT_MAX_PERIOD)
         raise AssertionError(f"the survey kernel refused d = {d} but the slow routes did not")
     D = numbers[0]
     forced = _class_columns(numbers)

@@ -23,6 +23,8 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 from typing import Literal
 
+from realquad.core.integers import isqrt
+from realquad.core.primes import primes_below
 from realquad.errors import InputError
 
 Kind = Literal["d", "D"]
@@ -31,34 +33,13 @@ Kind = Literal["d", "D"]
 DEFAULT_CHUNK_SIZE = 2000
 
 
-def primes_up_to(limit: int) -> list[int]:
-    """Primes ``p ≤ limit`` by the sieve of Eratosthenes."""
-    if limit < 2:
-        return []
-    sieve = bytearray([1]) * (limit + 1)
-    sieve[0:2] = b"\x00\x00"
-    for p in range(2, int(limit**0.5) + 1):
-        if sieve[p]:
-            sieve[p * p :: p] = bytearray(len(range(p * p, limit + 1, p)))
-    return [p for p in range(limit + 1) if sieve[p]]
-
-
-def _isqrt(n: int) -> int:
-    r = int(n**0.5)
-    while r * r > n:
-        r -= 1
-    while (r + 1) * (r + 1) <= n:
-        r += 1
-    return r
-
-
 def squarefree_in(lo: int, hi: int) -> list[int]:
     """The squarefree integers ``d`` with ``max(lo, 2) ≤ d ≤ hi``, by a segmented sieve."""
     lo = max(lo, 2)
     if hi < lo:
         return []
     marks = bytearray([1]) * (hi - lo + 1)
-    for p in primes_up_to(_isqrt(hi)):
+    for p in primes_below(isqrt(hi) + 1):
         q = p * p
         first = -(-lo // q) * q
         if first <= hi:

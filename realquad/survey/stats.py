@@ -29,7 +29,7 @@ from collections import Counter
 from dataclasses import dataclass, field
 from typing import Any
 
-from realquad.survey.ranges import primes_up_to
+from realquad.core.primes import primes_below
 from realquad.survey.store import RowFilter, SurveyStore
 
 #: Cohen–Lenstra: the predicted share of ``h = 1`` among real quadratic fields of prime discriminant.
@@ -90,7 +90,7 @@ def survey_report(
     )
     d_max = rows[-1][0] if rows else 0
     prime = bytearray(d_max + 1)
-    for p in primes_up_to(d_max):
+    for p in primes_below(d_max + 1):
         prime[p] = 1
     h_counts: Counter[int] = Counter()
     odd_counts: Counter[int] = Counter()

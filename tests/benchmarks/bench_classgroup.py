@@ -9,10 +9,11 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
-from realquad.arith import Order
-from realquad.classgroup import class_group, class_numbers, primes_below
-from realquad.factoring import squarefree_decomposition
-from realquad.forms import Form, prime_form
+from realquad.classgroup import class_group
+from realquad.classgroup.exact import class_numbers
+from realquad.core.forms import Form, prime_form
+from realquad.core.orders import Order
+from realquad.core.primes import primes_below, squarefree_decomposition
 
 #: Fundamental discriminants near 10¹⁰: 10¹⁰ + 1 = 101·3541·27961 (small regulator,
 #: h⁺ = 6672) and 10¹⁰ + 37 = 103·137·708667 (h⁺ = 8, long cycles).

@@ -15,7 +15,8 @@ from typing import Any
 
 import gmpy2
 
-from realquad.classgroup import class_group, class_invariants
+from realquad.classgroup import class_group
+from realquad.classgroup.exact import class_invariants
 
 
 def prime_discriminant(k: int) -> int:

@@ -26,8 +26,9 @@ from typing import Any
 import gmpy2
 
 from realquad._backend import BACKEND
-from realquad.infrastructure.regulator_bsgs import regulator_bsgs
-from realquad.units import regulator as regulator_cfrac
+from realquad.infrastructure.regulator_search import search_regulator
+from realquad.units.bsgs import regulator_from_search
+from realquad.units.cfrac import regulator_cfrac
 
 #: Largest 10^k the pure twin is timed at (beyond 10³⁰ it would take minutes).
 PURE_MAX_K = 30
@@ -45,7 +46,7 @@ def prime_discriminant(k: int) -> int:
 
 
 def _bsgs(D: int) -> Callable[[], Any]:
-    return lambda: regulator_bsgs(D, 30).regulator
+    return lambda: regulator_from_search(search_regulator(D, 30))
 
 
 def _cfrac(D: int) -> Callable[[], Any]:
@@ -76,9 +77,9 @@ def main(max_k: int) -> None:
     for w in workloads(max_k):
         D = int(w["name"].split("D = ")[1].split()[0])
         t0 = time.perf_counter()
-        found = regulator_bsgs(D, 30)
+        found = search_regulator(D, 30)
         elapsed = time.perf_counter() - t0
-        value = found.regulator
+        value = regulator_from_search(found)
         line = (
             f"{w['name']}: {elapsed:.3f} s, R = {value} "
             f"({found.baby_steps} baby, {found.giant_steps} giant steps)"

@@ -13,7 +13,8 @@ from collections.abc import Callable
 from typing import Any
 
 from realquad._backend import kernels, pure
-from realquad.arith import isqrt, kronecker
+from realquad.core.integers import isqrt
+from realquad.core.primes import kronecker
 
 #: A discriminant just below 2⁶¹ (≡ 1 mod 4, not a square); the forms kernels take any D < 2⁶².
 D = (1 << 61) + 1 + 4 * 7
@@ -57,7 +58,7 @@ def _primes(limit: int) -> list[int]:
 
 
 def _class_numbers(space: Any, D: int) -> Callable[[], Any]:
-    from realquad.arith import Order
+    from realquad.core.orders import Order
 
     args = (D, Order(D).conductor, _primes(isqrt(D // 4) + 2), 10**8)
 

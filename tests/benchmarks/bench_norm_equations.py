@@ -18,8 +18,8 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
-from realquad.arith import kronecker
-from realquad.norm_equations import _cycle_leaves, _principal_cycle, _units, solve_norm_equation
+from realquad.core.primes import kronecker
+from realquad.equations.norm import _cycle_leaves, _principal_cycle, _units, solve_norm_equation
 
 LARGE = [(10**12 + 1234567, -1), (10**12 + 3 * 10**6, -1), (10**12 + 39, -1), (10**12 + 39, 1)]
 

@@ -12,8 +12,8 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
-from realquad.pell import pell
-from realquad.units import fundamental_unit
+from realquad.equations.pell import pell
+from realquad.units.cfrac import fundamental_unit_cfrac as fundamental_unit
 
 SHARED = [410286423278424, 10000000147]
 LONG = 1000000000091

@@ -21,7 +21,7 @@ from realquad.survey.executors import make_executor
 from realquad.survey.ranges import Chunk, SurveyRange, squarefree_in
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import tabulate
-from realquad.units import fundamental_unit
+from realquad.units.cfrac import fundamental_unit_cfrac as fundamental_unit
 
 SAMPLE = 1000
 #: The issue's targets, as the rate one of two cores must reach at the top of the range

@@ -1,0 +1,270 @@
+"""Continued fractions of rationals and quadratic irrationals ``(P + √D)/Q``.
+
+Every real quadratic irrational can be written ``θ = (P + √D)/Q`` with
+integers ``P, Q ≠ 0``, ``D > 0`` not a square and ``Q | D − P²``; its partial
+quotients follow from the exact recurrence
+
+    a = ⌊θ⌋,   P' = aQ − P,   Q' = (D − P'²)/Q.
+
+By Lagrange the expansion is eventually periodic and by Galois the purely
+periodic part starts at the first *reduced* complete quotient
+(``θ > 1`` and ``−1 < θ' < 0``).
+
+>>> cf = continued_fraction("sqrt(61)")
+>>> cf.preperiod, cf.period
+([7], [1, 4, 3, 1, 2, 2, 1, 3, 4, 1, 14])
+>>> str(continued_fraction("(1+sqrt(13))/2"))
+'[2; (3)]'
+>>> continued_fraction("355/113").preperiod
+[3, 7, 16]
+>>> str(from_periodic([1], [2]))
+'√2'
+>>> list(convergents("sqrt(2)", 4))
+[(1, 1), (3, 2), (7, 5), (17, 12)]
+
+References: O. Perron, *Die Lehre von den Kettenbrüchen*, Teubner 1913/1954;
+H. Cohen, *A Course in Computational Algebraic Number Theory*, §5.7.
+"""
+
+from __future__ import annotations
+
+import itertools
+from collections.abc import Iterator
+from dataclasses import dataclass
+from fractions import Fraction
+
+from realquad.cfrac.parser import parse_real_quadratic
+from realquad.core.integers import is_square, isqrt
+from realquad.core.numbers import QuadraticNumber
+from realquad.errors import DomainError, InputError, TooLargeError
+
+#: Default bound on the number of states a period search may visit.
+DEFAULT_MAX_TERMS = 20_000_000
+
+
+@dataclass(frozen=True)
+class QuadraticIrrational:
+    """``(P + √D)/Q`` with ``Q | D − P²`` (the normal form used by the recurrence)."""
+
+    P: int
+    D: int
+    Q: int
+
+    def __post_init__(self) -> None:
+        if self.Q == 0:
+            raise InputError("denominator must not be zero")
+        if self.D <= 0 or is_square(self.D):
+            raise DomainError(f"√{self.D} is not irrational")
+        if (self.D - self.P * self.P) % self.Q:
+            raise InputError("normal form needs Q | D − P²")
+
+    @classmethod
+    def normalize(cls, p: int, k: int, n: int, q: int) -> QuadraticIrrational:
+        """The normal form of ``(p + k√n)/q``."""
+        if k == 0 or q == 0 or n <= 0 or is_square(n):
+            raise DomainError("not a quadratic irrational")
+        if k < 0:
+            p, q, k = -p, -q, -k
+        D = k * k * n
+        if (D - p * p) % q:
+            aq = abs(q)
+            p, D, q = p * aq, D * q * q, q * aq
+        return cls(p, D, q)
+
+    def floor(self) -> int:
+        r = isqrt(self.D)
+        if self.Q > 0:
+            return (self.P + r) // self.Q
+        return (-self.P - r - 1) // (-self.Q)
+
+    def is_reduced(self) -> bool:
+        """``θ > 1`` and ``−1 < θ' < 0`` (exactly; reduced implies ``Q > 0``)."""
+        P, Q, r = self.P, self.Q, isqrt(self.D)
+        return Q > 0 and P <= r and r >= Q - P and r < P + Q
+
+    def same_number(self, other: QuadraticIrrational) -> bool:
+        """Whether both normal forms denote the same real number.
+
+        >>> QuadraticIrrational(0, 8, 2).same_number(QuadraticIrrational(0, 2, 1))
+        True
+        """
+        return (
+            Fraction(self.P, self.Q) == Fraction(other.P, other.Q)
+            and Fraction(self.D, self.Q * self.Q) == Fraction(other.D, other.Q * other.Q)
+            and (self.Q > 0) == (other.Q > 0)
+        )
+
+    def as_number(self) -> QuadraticNumber:
+        return QuadraticNumber(self.P, 1, self.Q, self.D)
+
+    def __str__(self) -> str:
+        return _format(self.P, self.D, self.Q)
+
+
+def _format(P: int, D: int, Q: int) -> str:
+    """``(P + √D)/Q`` in lowest terms, with the square part of ``D`` taken out of the root."""
+    k, s = _extract_square(D)
+    return str(QuadraticNumber(P, k, Q, s))
+
+
+def _extract_square(D: int) -> tuple[int, int]:
+    """``D = k² s`` with ``k`` the largest square factor found by trial division up to 10⁴."""
+    k, s = 1, D
+    p = 2
+    while p * p <= s and p < 10_000:
+        while s % (p * p) == 0:
+            s //= p * p
+            k *= p
+        p += 1 if p == 2 else 2
+    return k, s
+
+
+@dataclass(frozen=True)
+class ContinuedFraction:
+    """The expansion ``[a₀; a₁, …]``: ``preperiod`` then ``period`` repeated forever.
+
+    For a rational number ``period`` is empty and ``preperiod`` holds all
+    partial quotients (the last one ≥ 2, except for the integer 1... as usual
+    the shorter of the two expansions).
+    """
+
+    value: QuadraticIrrational | Fraction
+    preperiod: list[int]
+    period: list[int]
+
+    @property
+    def is_rational(self) -> bool:
+        return isinstance(self.value, Fraction)
+
+    def terms(self) -> Iterator[int]:
+        """All partial quotients, the period repeated without end."""
+        yield from self.preperiod
+        if self.period:
+            yield from itertools.cycle(self.period)
+
+    def __str__(self) -> str:
+        head = ", ".join(map(str, self.preperiod[1:]))
+        a0 = self.preperiod[0] if self.preperiod else self.period[0]
+        if not self.period:
+            return f"[{a0}; {head}]" if head else f"[{a0}]"
+        per = ", ".join(map(str, self.period))
+        if not self.preperiod:
+            return f"[({per})]"
+        return f"[{a0}; {head + ', ' if head else ''}({per})]"
+
+
+def _as_value(x: object) -> QuadraticIrrational | Fraction:
+    if isinstance(x, (QuadraticIrrational, Fraction)):
+        return x
+    if isinstance(x, int):
+        return Fraction(x)
+    if isinstance(x, str):
+        parsed = parse_real_quadratic(x)
+        if isinstance(parsed, Fraction):
+            return parsed
+        return QuadraticIrrational.normalize(*parsed)
+    if isinstance(x, QuadraticNumber):
+        if x.y == 0:
+            return Fraction(int(x.x), int(x.c))
+        return QuadraticIrrational.normalize(int(x.x), int(x.y), x.d, int(x.c))
+    raise InputError(f"cannot expand {type(x).__name__} as a continued fraction")
+
+
+def _rational_expansion(q: Fraction) -> list[int]:
+    n, d = q.numerator, q.denominator
+    out = []
+    while d:
+        a = n // d
+        out.append(a)
+        n, d = d, n - a * d
+    return out
+
+
+def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> ContinuedFraction:
+    """The continued fraction of a rational or quadratic irrational.
+
+    ``x`` may be a :class:`QuadraticIrrational`, a ``Fraction``/``int``, a
+    :class:`QuadraticNumber` or a string such as ``"sqrt(61)"``,
+    ``"(1+sqrt(13))/2"``, ``"355/113"``; a bare integer string ``"61"`` means
+    ``√61``. Raises :class:`TooLargeError` when the period is longer than
+    ``max_terms``.
+    """
+    value = _as_value(x)
+    if isinstance(value, Fraction):
+        return ContinuedFraction(value, _rational_expansion(value), [])
+    P, D, Q = value.P, value.D, value.Q
+    r = isqrt(D)
+    pre: list[int] = []
+    state = QuadraticIrrational(P, D, Q)
+    # 1. advance until reduced (a bounded number of steps, ~log of the height)
+    while not state.is_reduced():
+        a = state.floor()
+        pre.append(a)
+        P = a * Q - P
+        Q = (D - P * P) // Q
+        state = QuadraticIrrational(P, D, Q)
+        if len(pre) > max_terms:
+            raise TooLargeError("pre-period longer than the term limit")
+    # 2. walk the purely periodic part until the first reduced state returns
+    P0, Q0 = P, Q
+    period: list[int] = []
+    append = period.append
+    for _ in range(max_terms):
+        a = (P + r) // Q
+        append(a)
+        P = a * Q - P
+        Q = (D - P * P) // Q
+        if P == P0 and Q == Q0:
+            return ContinuedFraction(value, pre, period)
+    raise TooLargeError(
+        f"the period is longer than {max_terms:,} terms; raise the limit or use the unit "
+        "and regulator commands, which need only half of the period"
+    )
+
+
+def convergents(
+    x: object, count: int | None = None, bound: int | None = None
+) -> Iterator[tuple[int, int]]:
+    """Convergents ``(p_k, q_k)`` of ``x``: at most ``count`` of them, or while ``q_k ≤ bound``."""
+    cf = continued_fraction(x)
+    p0, p1, q0, q1 = 1, 0, 0, 1
+    for i, a in enumerate(cf.terms()):
+        if count is not None and i >= count:
+            return
+        p0, p1 = a * p0 + p1, p0
+        q0, q1 = a * q0 + q1, q0
+        if bound is not None and q0 > bound:
+            return
+        yield p0, q0
+
+
+def from_periodic(preperiod: list[int], period: list[int]) -> QuadraticIrrational | Fraction:
+    """The number whose continued fraction is ``preperiod`` then ``period`` repeated.
+
+    >>> str(from_periodic([7], [1, 4, 3, 1, 2, 2, 1, 3, 4, 1, 14]))
+    '√61'
+    """
+    if not preperiod and not period:
+        raise InputError("empty continued fraction")
+    for i, a in enumerate(itertools.chain(preperiod, period)):
+        if i > 0 and a <= 0:
+            raise InputError("partial quotients after the first must be positive")
+    if not period:
+        value = Fraction(preperiod[-1])
+        for a in reversed(preperiod[:-1]):
+            value = a + 1 / value
+        return value
+    # purely periodic φ = [b0; …, b_{n−1}, φ] satisfies q φ² + (q' − p) φ − p' = 0
+    p, pp, q, qq = 1, 0, 0, 1
+    for b in period:
+        p, pp = b * p + pp, p
+        q, qq = b * q + qq, q
+    disc = (qq - p) ** 2 + 4 * q * pp
+    phi = QuadraticNumber(p - qq, 1, 2 * q, disc)
+    # θ = [a0; …, a_{k−1}, φ] = (A φ + B)/(C φ + E)
+    A, B, C, E = 1, 0, 0, 1
+    for a in preperiod:
+        A, B = a * A + B, A
+        C, E = a * C + E, C
+    theta = (phi * A + B) / (phi * C + E)
+    return QuadraticIrrational.normalize(int(theta.x), int(theta.y), theta.d, int(theta.c))

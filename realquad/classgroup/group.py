@@ -1,0 +1,181 @@
+"""The class groups ``Cl`` and ``Cl⁺`` of an order as every method returns them.
+
+:class:`ClassGroup` is the one result type of :func:`realquad.classgroup.class_group`
+whichever method ran (its ``method`` and ``proof`` say which); :class:`ClassTable`
+lists every narrow class with its reduced forms, for the methods that walk them all.
+
+>>> from realquad.classgroup import class_group
+>>> G = class_group(4 * 79)
+>>> G.class_number, G.narrow_invariants, G.generators, G.lists_classes
+(3, [6], [Form(3, 14, -10)], True)
+
+References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
+Springer 1993, §5.2 (narrow and wide class groups), §2.4.4 (Smith normal form).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+from dataclasses import field as dataclass_field
+from functools import cached_property
+
+from realquad.classgroup.genus import Genera, genera
+from realquad.core.forms import Form
+from realquad.core.ideals import Ideal
+from realquad.core.linalg import SmithForm
+from realquad.core.orders import Order
+from realquad.core.results import Proof
+from realquad.errors import DomainError
+from realquad.units import Regulator, Unit
+
+Triple = tuple[int, int, int]
+
+
+@dataclass
+class ClassTable:
+    """Every narrow class of ``D``: its reduced forms, a representative, its exponent vector.
+
+    ``index`` maps each reduced form ``(a, b)`` to its class number;
+    ``vectors[i]`` writes class ``i`` on ``generators`` (raw, not Smith);
+    ``relations`` are the triangular relations among the raw generators.
+    """
+
+    D: int
+    index: dict[tuple[int, int], int]
+    representatives: list[Triple]
+    vectors: list[tuple[int, ...]]
+    generators: list[Triple]
+    relations: list[list[int]]
+    principal_cycle_length: int
+
+    @property
+    def narrow_class_number(self) -> int:
+        return len(self.representatives)
+
+    @property
+    def j_is_principal(self) -> bool:
+        """Whether ``(−1, b₀, c₀)`` lies in the principal cycle (``N(ε) = −1``)."""
+        return self.index.get((-1, Form.identity(self.D).b)) == 0
+
+    def class_index(self, form: Form | Ideal) -> int:
+        """The class number of a primitive form (or invertible ideal) of discriminant ``D``."""
+        if not isinstance(form, Form):
+            form = form.form()
+        if form.discriminant != self.D or not form.is_primitive():
+            raise DomainError(f"{form} is not a primitive form of discriminant {self.D}")
+        G = form.reduced()
+        return self.index[(G.a, G.b)]
+
+
+def forms_from_vectors(
+    D: int, generators: list[Triple], vectors: list[list[int]], modulus: int
+) -> list[Form]:
+    """The reduced forms ``∏ gᵢ^{eᵢ}`` for each exponent vector (exponents taken mod ``modulus``).
+
+    >>> forms_from_vectors(316, [(3, 2, -26)], [[3], [0]], 6)
+    [Form(-2, 14, 15), Form(1, 16, -15)]
+    """
+    out = []
+    for vec in vectors:
+        F: Form | None = None
+        for e, g in zip(vec, generators, strict=False):
+            e %= modulus
+            if e:
+                G = Form._raw(*g)
+                G = G if e == 1 else G.power(e)
+                F = G if F is None else F.compose(G)
+        out.append(F if F is not None else Form.identity(D))
+    return out
+
+
+@dataclass(eq=False)
+class ClassGroup:
+    """``Cl(D)`` and ``Cl⁺(D)`` of an order: orders, invariants ``d₁ | d₂ | …`` and generators.
+
+    ``generators[t]`` is a reduced form whose class has order ``invariants[t]``
+    in the wide group (likewise ``narrow_generators`` in ``Cl⁺``).
+    ``unit_norm`` is the norm of the fundamental unit, which decides
+    ``h⁺ = h`` (norm −1) or ``h⁺ = 2h`` (norm +1).
+    """
+
+    order: Order
+    class_number: int
+    narrow_class_number: int
+    invariants: list[int]
+    narrow_invariants: list[int]
+    generators: list[Form]
+    narrow_generators: list[Form]
+    unit_norm: int
+    method: str
+    proof: Proof
+    unit: Unit = dataclass_field(repr=False)
+    _raw_generators: list[Triple] = dataclass_field(repr=False)
+    _narrow_smith: SmithForm = dataclass_field(repr=False)
+    _wide_smith: SmithForm = dataclass_field(repr=False)
+    _table_source: Callable[[], ClassTable] | None = dataclass_field(default=None, repr=False)
+    _table: ClassTable | None = dataclass_field(default=None, repr=False)
+
+    @property
+    def table(self) -> ClassTable:
+        """Every narrow class with its reduced forms (built on first use: lookups, genera, --forms).
+
+        Only a method that lists the classes (the exact cycle method) can give it.
+        """
+        if self._table is None:
+            if self._table_source is None:
+                raise DomainError(
+                    "listing every class (and locating a form in the group) needs the exact cycle "
+                    f"method; this group was found by {self.method}"
+                )
+            table = self._table_source()
+            if [tuple(g) for g in table.generators] != [tuple(g) for g in self._raw_generators]:
+                raise ArithmeticError("internal check failed: class table and relations disagree")
+            self._table = table
+        return self._table
+
+    @property
+    def lists_classes(self) -> bool:
+        """Whether :attr:`table` (every class with its forms) is available for this group."""
+        return self._table is not None or self._table_source is not None
+
+    @cached_property
+    def regulator(self) -> Regulator:
+        """The regulator ``log ε`` (30 significant digits), from the same continued fraction."""
+        return self.unit.regulator(30)
+
+    @property
+    def discriminant(self) -> int:
+        return self.order.discriminant
+
+    def narrow_class_of(self, form: Form | Ideal) -> list[int]:
+        """Coordinates of the class of ``form`` on :attr:`narrow_generators` (mod the invariants)."""
+        return self._narrow_smith.coordinates(
+            list(self.table.vectors[self.table.class_index(form)])
+        )
+
+    def class_of(self, form: Form | Ideal) -> list[int]:
+        """Coordinates of the wide class of ``form`` on :attr:`generators`."""
+        return self._wide_smith.coordinates(list(self.table.vectors[self.table.class_index(form)]))
+
+    def is_narrowly_principal(self, form: Form | Ideal) -> bool:
+        return self.table.class_index(form) == 0
+
+    def is_principal(self, form: Form | Ideal) -> bool:
+        return not any(self.class_of(form))
+
+    def narrow_classes(self) -> list[list[Form]]:
+        """The reduced forms of every narrow class (its cycle), the principal class first."""
+        return [Form._raw(*rep).cycle() for rep in self.table.representatives]
+
+    def ideal_generators(self, narrow: bool = False) -> list[Ideal]:
+        """The generators as ideals ``[a, (−b + √D)/2]`` (``a > 0``) of the order."""
+        forms = self.narrow_generators if narrow else self.generators
+        return [Ideal.from_form(F) for F in forms]
+
+    @cached_property
+    def genus(self) -> Genera:
+        """Genus characters and genera of ``Cl⁺`` (:class:`realquad.classgroup.genus.Genera`)."""
+        return genera(self)
+
+

@@ -1,0 +1,263 @@
+"""Result types for quadratic equations in two integer unknowns.
+
+The integer solutions of a quadratic equation in ``x, y`` are a finite set
+plus finitely many *families*, each generated from one point:
+
+* :class:`OrbitFamily` — the orbit ``{T^k(P) : k ∈ Z}`` of a fundamental
+  solution ``P`` under an affine automorph ``T(v) = M v + t`` (``det M = 1``,
+  hyperbolic), together with the mirrored orbit ``{2C − T^k(P)}`` when
+  ``reflection`` is set (``C`` the centre of the conic; for ``x² − dy² = n``
+  this is ``±(x, y)``);
+* :class:`LineFamily` — the points ``(x₀ + t·dx, y₀ + t·dy)``, ``t ∈ Z``;
+* :class:`ParabolaFamily` — the points ``(x(t), y(t))`` for two integer
+  polynomials of degree at most two.
+
+:class:`QuadraticSolutions` collects them with the finite solutions and says
+how they were found (``method``) and how sure the answer is (``proof``).
+
+>>> T = AffineMap((3, 4, 2, 3))             # multiplication by 3 + 2√2 on (x, y)
+>>> fam = OrbitFamily((1, 0), T, (Fraction(0), Fraction(0)), reflection=True)
+>>> [fam.solution(k) for k in (-1, 0, 1, 2)]
+[(3, -2), (1, 0), (3, 2), (17, 12)]
+>>> fam.bounded(20)
+[(-1, 0), (1, 0), (-3, -2), (-3, 2), (3, -2), (3, 2), (-17, -12), (-17, 12), (17, -12), (17, 12)]
+>>> LineFamily((-1, 0), (0, 1)).bounded(1)
+[(-1, -1), (-1, 0), (-1, 1)]
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from math import floor
+
+from realquad.core.integers import isqrt
+from realquad.core.results import Proof
+from realquad.errors import InputError, TooLargeError
+
+Point = tuple[int, int]
+
+#: Most points :meth:`bounded` will list before refusing.
+MAX_LISTED = 1_000_000
+
+
+@dataclass(frozen=True)
+class AffineMap:
+    """``v ↦ M v + t`` with ``M = (m11, m12, m21, m22)`` of determinant 1."""
+
+    matrix: tuple[int, int, int, int]
+    translation: tuple[int, int] = (0, 0)
+
+    def __call__(self, v: tuple) -> tuple:
+        a, b, c, d = self.matrix
+        return (
+            a * v[0] + b * v[1] + self.translation[0],
+            c * v[0] + d * v[1] + self.translation[1],
+        )
+
+    def inverse(self) -> AffineMap:
+        a, b, c, d = self.matrix
+        t1, t2 = self.translation
+        return AffineMap((d, -b, -c, a), (-(d * t1 - b * t2), -(-c * t1 + a * t2)))
+
+    def compose(self, other: AffineMap) -> AffineMap:
+        """``self ∘ other``."""
+        a, b, c, d = self.matrix
+        e, f, g, h = other.matrix
+        t = self(other.translation)
+        return AffineMap(
+            (a * e + b * g, a * f + b * h, c * e + d * g, c * f + d * h), (int(t[0]), int(t[1]))
+        )
+
+    def power(self, k: int) -> AffineMap:
+        base = self if k >= 0 else self.inverse()
+        k = abs(k)
+        out = AffineMap((1, 0, 0, 1))
+        while k:
+            if k & 1:
+                out = out.compose(base)
+            base = base.compose(base)
+            k >>= 1
+        return out
+
+
+def _sort_key(p: Point) -> tuple[int, int, int]:
+    return (max(abs(p[0]), abs(p[1])), p[0], p[1])
+
+
+def sort_points(points: set[Point] | list[Point]) -> list[Point]:
+    """Points sorted by ``max(|x|, |y|)``, then ``x``, then ``y``."""
+    return sorted(set(points), key=_sort_key)
+
+
+def _check_bound(B: int) -> int:
+    if isinstance(B, bool) or not isinstance(B, int) or B < 0:
+        raise InputError(f"the bound must be a non-negative integer, got {B!r}")
+    return B
+
+
+@dataclass(frozen=True)
+class OrbitFamily:
+    """The orbit of ``fundamental`` under ``automorph`` (and its mirror image through ``center``).
+
+    ``unit`` is ``(t, u, D)`` when the automorph is multiplication by
+    ``t + u√D`` on ``x + y√D`` (norm equations), else ``None``.
+    """
+
+    fundamental: Point
+    automorph: AffineMap
+    center: tuple[Fraction, Fraction]
+    reflection: bool = False
+    unit: tuple[int, int, int] | None = None
+    kind: str = field(default="orbit", init=False, repr=False)
+
+    def mirror(self, v: Point) -> Point:
+        """``2C − v``, the point reflection through the centre."""
+        return (int(2 * self.center[0] - v[0]), int(2 * self.center[1] - v[1]))
+
+    def solution(self, k: int, reflected: bool = False) -> Point:
+        """``T^k(P)`` (or its mirror image), for any integer ``k``."""
+        if isinstance(k, bool) or not isinstance(k, int):
+            raise InputError("k must be an integer")
+        if reflected and not self.reflection:
+            raise InputError("this family has no mirrored half")
+        p = self.automorph.power(k)(self.fundamental)
+        v = (int(p[0]), int(p[1]))
+        return self.mirror(v) if reflected else v
+
+    def _walk(self, start: Point, step: AffineMap, B: int, out: set[Point]) -> None:
+        # |y − y_c| along an orbit is A λ^k + B' λ^−k in absolute value: unimodal in k.
+        # Once it exceeds B + |y_c| while not decreasing, every later point is outside.
+        yc = Fraction(self.center[1])
+        num, den = yc.numerator, yc.denominator  # work with den·(y − y_c), in integers
+        limit = den * B + abs(num)
+        (a, b, c, d), (t1, t2) = step.matrix, step.translation
+        x, y = start
+        prev = None
+        count = 0
+        while True:
+            g = abs(den * y - num)
+            if -B <= x <= B and -B <= y <= B:
+                out.add((x, y))
+                count += 1
+                if count > MAX_LISTED:
+                    raise TooLargeError(f"more than {MAX_LISTED:,} solutions in the box")
+            if prev is not None and g > limit and g >= prev:
+                return
+            prev = g
+            x, y = a * x + b * y + t1, c * x + d * y + t2
+
+    def bounded(self, B: int) -> list[Point]:
+        """Every member with ``|x|, |y| ≤ B``, sorted (generated from the orbit, no box scan)."""
+        B = _check_bound(B)
+        out: set[Point] = set()
+        starts = [self.fundamental]
+        if self.reflection:
+            starts.append(self.mirror(self.fundamental))
+        for s in starts:
+            self._walk(s, self.automorph, B, out)
+            self._walk(s, self.automorph.inverse(), B, out)
+        return sort_points(out)
+
+
+def _interval(lo: Fraction, hi: Fraction, x0: int, dx: int, B: int) -> tuple[Fraction, Fraction]:
+    if dx == 0:
+        return (lo, hi) if abs(x0) <= B else (Fraction(1), Fraction(0))
+    a, b = Fraction(-B - x0, dx), Fraction(B - x0, dx)
+    if a > b:
+        a, b = b, a
+    return max(lo, a), min(hi, b)
+
+
+@dataclass(frozen=True)
+class LineFamily:
+    """The integer points ``(x₀ + t·dx, y₀ + t·dy)``, ``t ∈ Z``."""
+
+    point: Point
+    direction: Point
+    kind: str = field(default="line", init=False, repr=False)
+
+    @property
+    def fundamental(self) -> Point:
+        return self.point
+
+    def solution(self, k: int) -> Point:
+        return (self.point[0] + k * self.direction[0], self.point[1] + k * self.direction[1])
+
+    def bounded(self, B: int) -> list[Point]:
+        B = _check_bound(B)
+        big = Fraction(10) ** 9999
+        lo, hi = _interval(-big, big, self.point[0], self.direction[0], B)
+        lo, hi = _interval(lo, hi, self.point[1], self.direction[1], B)
+        if lo > hi:
+            return []
+        t0, t1 = -floor(-lo), floor(hi)
+        if t1 - t0 + 1 > MAX_LISTED:
+            raise TooLargeError(
+                f"{t1 - t0 + 1} points of a line lie in the box (limit {MAX_LISTED:,})"
+            )
+        return sort_points([self.solution(t) for t in range(t0, t1 + 1)])
+
+
+@dataclass(frozen=True)
+class ParabolaFamily:
+    """The points ``(x(t), y(t))``, ``t ∈ Z``, with ``x(t) = x₂t² + x₁t + x₀`` (likewise ``y``)."""
+
+    x_polynomial: tuple[int, int, int]
+    y_polynomial: tuple[int, int, int]
+    kind: str = field(default="parabola", init=False, repr=False)
+
+    @property
+    def fundamental(self) -> Point:
+        return self.solution(0)
+
+    def solution(self, k: int) -> Point:
+        x2, x1, x0 = self.x_polynomial
+        y2, y1, y0 = self.y_polynomial
+        return (x2 * k * k + x1 * k + x0, y2 * k * k + y1 * k + y0)
+
+    def bounded(self, B: int) -> list[Point]:
+        B = _check_bound(B)
+        c2, c1, c0 = self.x_polynomial if self.x_polynomial[0] else self.y_polynomial
+        if c2 == 0:  # pragma: no cover - constructed only with a quadratic coordinate
+            raise InputError("not a parabola")
+        # |c2 t² + c1 t + c0| ≤ B forces |t| ≤ T
+        T = (abs(c1) + isqrt(c1 * c1 + 4 * abs(c2) * (B + abs(c0))) + 1) // (2 * abs(c2)) + 1
+        if 2 * T + 1 > 4 * MAX_LISTED:
+            raise TooLargeError(
+                f"about {2 * T + 1} points of a parabola lie in the box (limit {MAX_LISTED:,})"
+            )
+        pts = (self.solution(t) for t in range(-T, T + 1))
+        return sort_points([p for p in pts if abs(p[0]) <= B and abs(p[1]) <= B])
+
+
+Family = OrbitFamily | LineFamily | ParabolaFamily
+
+
+@dataclass
+class QuadraticSolutions:
+    """All integer solutions of ``a x² + b xy + c y² + d x + e y + f = 0``.
+
+    ``coefficients`` is ``(a, b, c, d, e, f)``; ``solutions`` lists the
+    solutions outside every family (all of them when ``finite``), sorted.
+    """
+
+    coefficients: tuple[int, int, int, int, int, int]
+    finite: bool
+    families: list[Family]
+    solutions: list[Point]
+    method: str
+    proof: Proof = "unconditional"
+    notes: list[str] = field(default_factory=list)
+
+    def bounded(self, B: int) -> list[Point]:
+        """Every solution with ``|x|, |y| ≤ B``, sorted by ``max(|x|, |y|)``, then ``x``, ``y``."""
+        B = _check_bound(B)
+        out = {p for p in self.solutions if abs(p[0]) <= B and abs(p[1]) <= B}
+        for fam in self.families:
+            out.update(fam.bounded(B))
+        return sort_points(out)
+
+    def satisfies(self, x: int, y: int) -> bool:
+        a, b, c, d, e, f = self.coefficients
+        return a * x * x + b * x * y + c * y * y + d * x + e * y + f == 0

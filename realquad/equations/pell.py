@@ -1,0 +1,183 @@
+"""The Pell equations ``x² − d y² = N`` for ``N ∈ {1, −1, 4, −4}``.
+
+Their positive solutions are the units of norm ``N/|N|`` of an order, written
+in coordinates: for ``N = ±1`` the units ``x + y√d`` of ``Z[√d]``
+(discriminant ``4d``); for ``N = ±4`` the units ``(x + y√d)/2`` of the order
+of discriminant ``d`` when ``d ≡ 0, 1 (mod 4)``, and twice the ``±1``
+solutions otherwise. ``N = −1`` and ``N = −4`` are solvable exactly when that
+unit has norm −1, i.e. when its period is odd.
+
+>>> s = pell(61)
+>>> (s.x, s.y)
+(1766319049, 226153980)
+>>> pell(61, -1).x, pell(3, -1).solvable
+(29718, False)
+>>> pell(13, -4).x, pell(13, -4).y
+(3, 1)
+>>> [pell(2).solution(k) for k in range(1, 4)]
+[(3, 2), (17, 12), (99, 70)]
+
+References: H. W. Lenstra Jr., "Solving the Pell equation", *Notices AMS* 49
+(2002) 182–192; M. J. Jacobson Jr. and H. C. Williams, *Solving the Pell
+Equation*, Springer 2009.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+
+from realquad.core.integers import as_integer, is_square, isqrt
+from realquad.core.numbers import QuadraticNumber
+from realquad.core.orders import Order
+from realquad.core.primes import divisors_from_factorization, factorize
+from realquad.core.results import Proof
+from realquad.errors import InputError
+from realquad.units import DEFAULT_MAX_PERIOD, Unit, fundamental_unit
+
+PELL_NORMS = (1, -1, 4, -4)
+
+
+@dataclass
+class PellSolution:
+    """The answer to ``x² − d y² = norm``: solvability and the fundamental solution.
+
+    ``x`` and ``y`` are the least positive solution (``y > 0``), or ``None``
+    when there is none. For a square ``d`` the equation has finitely many
+    solutions, listed in ``finite_solutions`` (those with ``x, y ≥ 0``).
+    """
+
+    d: int
+    norm: int
+    solvable: bool
+    x: int | None
+    y: int | None
+    period_length: int | None
+    method: str
+    proof: Proof = "unconditional"
+    reason: str | None = None
+    finite_solutions: list[tuple[int, int]] | None = None
+    _unit: Unit | None = field(default=None, repr=False)
+
+    @property
+    def discriminant(self) -> int | None:
+        return self._unit.order.discriminant if self._unit else None
+
+    def _base(self) -> QuadraticNumber:
+        """The unit ``β`` with ``β^k ↔`` the k-th solution of norm ``+N/|N|·...``."""
+        assert self._unit is not None
+        return self._unit.expand()
+
+    def _coords(self, q: QuadraticNumber) -> tuple[int, int]:
+        d = self.d
+        # q = (X + Y√r)/c with r the radicand; rewrite as x + y√d (N = ±1) or (x + y√d)/2.
+        scale = 1 if abs(self.norm) == 1 else 2
+        k2 = d // q.d  # d = k² r
+        k = isqrt(k2)
+        X, Y, c = int(q.x) * scale, int(q.y) * scale, int(q.c)
+        assert X % c == 0 and Y % (c * k) == 0
+        return X // c, Y // (c * k)
+
+    def solution(self, k: int) -> tuple[int, int]:
+        """The k-th positive solution (k ≥ 1; k = 0 gives the trivial one for N > 0)."""
+        k = as_integer(k, "k")
+        if not self.solvable:
+            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        if self._unit is None:
+            sols = self.finite_solutions or []
+            if not 0 <= k < len(sols):
+                raise InputError(f"there are only {len(sols)} solutions with x, y ≥ 0")
+            return sols[k]
+        if k < 0:
+            raise InputError("k must be non-negative")
+        eps = self._base()
+        if self.norm > 0:
+            if k == 0:
+                return (1, 0) if self.norm == 1 else (2, 0)
+            step = eps if self._unit.norm == 1 else eps * eps
+            return self._coords(step**k)
+        if k == 0:
+            raise InputError("k must be at least 1 for a negative norm")
+        return self._coords(eps ** (2 * k - 1))
+
+    def solutions(self) -> Iterator[tuple[int, int]]:
+        """Iterate over the positive solutions in increasing order."""
+        if self._unit is None:
+            yield from (s for s in self.finite_solutions or [] if s[1] > 0)
+            return
+        eps = self._base()
+        step = eps if self._unit.norm == 1 else eps * eps
+        current = eps if self.norm < 0 else step
+        while True:
+            yield self._coords(current)
+            current = current * step
+
+
+def _square_case(d: int, N: int) -> PellSolution:
+    s = isqrt(d)
+    sols: set[tuple[int, int]] = set()
+    for e in divisors_from_factorization(factorize(N)):
+        for a, b in ((e, N // e), (-e, -(N // e))):
+            # a = x − s y, b = x + s y
+            if (a + b) % 2 == 0 and (b - a) % (2 * s) == 0:
+                x, y = (a + b) // 2, (b - a) // (2 * s)
+                if x >= 0 and y >= 0:
+                    sols.add((x, y))
+    ordered = sorted(sols, key=lambda t: (t[1], t[0]))
+    positive = [t for t in ordered if t[1] > 0]
+    best = positive[0] if positive else (ordered[0] if ordered else None)
+    reason = (
+        f"d = {d} = {s}² is a perfect square, so x² − dy² = (x − {s}y)(x + {s}y) = {N} "
+        f"has only finitely many solutions: {len(ordered)} with x, y ≥ 0"
+    )
+    return PellSolution(
+        d=d,
+        norm=N,
+        solvable=bool(ordered),
+        x=best[0] if best else None,
+        y=best[1] if best else None,
+        period_length=None,
+        method="factorisation of the norm (square d)",
+        reason=reason,
+        finite_solutions=ordered,
+    )
+
+
+def pell_discriminant(d: int, N: int) -> int:
+    """Discriminant of the order whose units give the solutions of ``x² − dy² = N``."""
+    if abs(N) == 1:
+        return 4 * d
+    return d if d % 4 in (0, 1) else 4 * d
+
+
+def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSolution:
+    """Solve ``x² − d y² = norm`` for ``norm ∈ {1, −1, 4, −4}`` and integer ``d > 0``."""
+    d = as_integer(d, "d")
+    N = as_integer(norm, "norm")
+    if N not in PELL_NORMS:
+        raise InputError(f"norm must be one of 1, -1, 4, -4, got {N}")
+    if d <= 0:
+        raise InputError(f"d must be a positive integer, got {d}")
+    if is_square(d):
+        return _square_case(d, N)
+    unit = fundamental_unit(Order(pell_discriminant(d, N)), "cfrac", max_period=max_period)
+    solvable = N > 0 or unit.norm == -1
+    result = PellSolution(
+        d=d,
+        norm=N,
+        solvable=solvable,
+        x=None,
+        y=None,
+        period_length=unit.period_length,
+        method=unit.method,
+        proof=unit.proof,
+        _unit=unit,
+    )
+    if not solvable:
+        result.reason = (
+            f"the fundamental unit of discriminant {unit.order.discriminant} has norm +1 "
+            f"(even period {unit.period_length}), so no unit has norm −1"
+        )
+        return result
+    result.x, result.y = result.solution(1)
+    return result

@@ -1,0 +1,169 @@
+"""How a prime decomposes in a real quadratic order, and which class its prime ideals lie in.
+
+For a prime ``p`` not dividing the conductor ``f`` of the order of
+discriminant ``D``, the Kronecker symbol decides:
+
+* ``(D/p) = 1``: *split*, ``pO = 𝔭𝔭'`` with ``𝔭 = [p, (−b + √D)/2]``, ``b² ≡ D (mod 4p)``,
+  ``𝔭'`` its conjugate (the inverse class);
+* ``(D/p) = 0``: *ramified*, ``pO = 𝔭²``;
+* ``(D/p) = −1``: *inert*, ``pO`` is prime, of norm ``p²``, principal.
+
+A prime ideal of norm ``p`` corresponds to the prime form ``(p, b, c)``; its
+narrow class is trivial exactly when the principal form
+``x² + b₀xy + c₀y²`` (:meth:`realquad.forms.Form.identity`) takes the value
+``p`` — a prime can pass the residue test ``(D/p) = 1`` and still not be
+represented, when its class is not principal. For ``p | f`` no invertible
+ideal has norm ``p`` and no primitive form of discriminant ``D`` represents
+``p``; the result says so (``divides_conductor``) and gives the behaviour in
+the maximal order (``field_kind``).
+
+>>> s = decompose_prime(316, 5)            # Q(√79): 5 splits, its class has order 3 in Cl⁺ ≅ Z/6
+>>> s.kind, [str(i) for i in s.ideals], s.classes, s.represented_by_principal
+('split', ['[5, (−4 + √316)/2]', '[5, (4 + √316)/2]'], [[2], [4]], False)
+>>> s.form, s.form.value(s.x, s.y)
+(Form(5, 14, -6), 5)
+>>> t = decompose_prime(316, 2)            # 2 ramifies into a narrowly principal ideal
+>>> t.kind, t.represented_by_principal, (t.x, t.y), Form.identity(316).value(t.x, t.y)
+('ramified', True, (1, 1), 2)
+
+References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
+Springer 1993, §5.2 (Proposition 5.1.4 for the decomposition of primes);
+D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §1–3 and §7.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import gmpy2
+
+from realquad.classgroup import ClassGroup, class_group
+from realquad.core.forms import Form, prime_form
+from realquad.core.ideals import Ideal
+from realquad.core.integers import as_integer
+from realquad.core.linalg import IDENTITY_MATRIX, Matrix, matrix_inverse, matrix_multiply
+from realquad.core.orders import Order
+from realquad.core.primes import kronecker, primes_below
+from realquad.errors import InputError
+
+KINDS = {1: "split", 0: "ramified", -1: "inert"}
+
+
+@dataclass(frozen=True)
+class PrimeDecomposition:
+    """The prime ideals above ``p`` and their classes.
+
+    ``classes[i]`` is the narrow class of ``ideals[i]`` as coordinates on
+    the group's ``narrow_generators`` (``wide_classes`` on ``generators``).
+    ``form`` is a reduced form of the class of ``ideals[0]`` with
+    ``form.value(x, y) = p``; when ``represented_by_principal`` the pair
+    ``(x, y)`` instead solves ``x² + b₀xy + c₀y² = p`` for the principal
+    form ``Form.identity(D) = (1, b₀, c₀)``.
+    """
+
+    p: int
+    kind: str
+    divides_conductor: bool
+    field_kind: str
+    ideals: list[Ideal]
+    classes: list[list[int]]
+    wide_classes: list[list[int]]
+    represented_by_principal: bool
+    form: Form | None
+    x: int | None
+    y: int | None
+
+
+class _PrincipalCycle:
+    """The reduced forms ``G`` of the principal class with ``N``, ``(1, b₀, c₀)·N = G``.
+
+    The matrices grow like the fundamental unit along the cycle, so they are
+    made lazily: only as far along the cycle as a principal prime needs.
+    """
+
+    def __init__(self, D: int) -> None:
+        self.position = {G: k for k, G in enumerate(Form.identity(D).cycle())}
+        self.matrices: list[Matrix] = [IDENTITY_MATRIX]
+        self.current = Form.identity(D)
+
+    def matrix(self, G: Form) -> Matrix:
+        k = self.position[G]
+        while len(self.matrices) <= k:
+            self.current, R = self.current.rho()
+            self.matrices.append(matrix_multiply(self.matrices[-1], R))
+        return self.matrices[k]
+
+
+def _check_prime(p: object) -> int:
+    value = as_integer(p, "p")
+    if value < 2 or not gmpy2.is_prime(value, 40):
+        raise InputError(f"p must be a prime, got {value}")
+    return value
+
+
+def decompose_prime(
+    order: Order | int,
+    p: int,
+    group: ClassGroup | None = None,
+    _cycle: _PrincipalCycle | None = None,
+) -> PrimeDecomposition:
+    """The decomposition of the prime ``p`` in an order, with the classes of its prime ideals."""
+    if not isinstance(order, Order):
+        order = Order(order)
+    p = _check_prime(p)
+    D, f = order.discriminant, order.conductor
+    group = group if group is not None else class_group(order, method="exact")
+    kind = KINDS[kronecker(D, p)]
+    field_kind = KINDS[kronecker(order.fundamental_discriminant, p)]
+    if f % p == 0:
+        return PrimeDecomposition(p, kind, True, field_kind, [], [], [], False, None, None, None)
+    if kind == "inert":
+        unit = Ideal.of_order(D)
+        zero = [0] * len(group.narrow_invariants)
+        inert = Ideal(D, p, unit.a, unit.b)
+        return PrimeDecomposition(
+            p,
+            kind,
+            False,
+            field_kind,
+            [inert],
+            [zero],
+            [[0] * len(group.invariants)],
+            False,
+            None,
+            None,
+            None,
+        )
+    F = prime_form(D, p)
+    assert F is not None  # p ∤ f and (D/p) ≠ −1
+    forms = [F] if kind == "ramified" else [F, F.inverse()]
+    ideals = [Ideal.from_form(G) for G in forms]
+    classes = [group.narrow_class_of(G) for G in forms]
+    wide = [group.class_of(G) for G in forms]
+    G, M = F.reduce()  # F·M = G, so G(M⁻¹ (1, 0)) = F(1, 0) = p
+    principal = group.is_narrowly_principal(F)
+    if principal:
+        cycle = _cycle if _cycle is not None else _PrincipalCycle(D)
+        N = matrix_multiply(cycle.matrix(G), matrix_inverse(M))  # (1, b₀, c₀)·N = F
+        x, y = N[0], N[2]
+    else:
+        x, y = M[3], -M[2]
+    return PrimeDecomposition(p, kind, False, field_kind, ideals, classes, wide, principal, G, x, y)
+
+
+def split_primes(
+    order: Order | int, bound: int, group: ClassGroup | None = None
+) -> list[PrimeDecomposition]:
+    """:func:`decompose_prime` for every prime ``p ≤ bound``.
+
+    >>> [s.kind for s in split_primes(5, 11)]
+    ['inert', 'inert', 'ramified', 'inert', 'split']
+    """
+    if not isinstance(order, Order):
+        order = Order(order)
+    bound = as_integer(bound, "bound")
+    if bound < 2:
+        raise InputError(f"the bound must be at least 2, got {bound}")
+    group = group if group is not None else class_group(order, method="exact")
+    cycle = _PrincipalCycle(order.discriminant)
+    return [decompose_prime(order, p, group, cycle) for p in primes_below(bound + 1)]

@@ -1,0 +1,143 @@
+"""Fundamental units and regulators: one public function each, choosing the method by size.
+
+* ``"cfrac"`` — the half-period continued fraction (:mod:`realquad.units.cfrac`):
+  exact and unconditional, cost proportional to the period ``l ≈ R/1.19``;
+* ``"bsgs"`` — baby-step giant-step in the infrastructure
+  (:mod:`realquad.units.bsgs`): unconditional, cost about ``√R`` steps,
+  the unit kept in compact form;
+* ``"auto"`` — the continued fraction while the estimated period is short,
+  the infrastructure beyond. The period is estimated through ``R ≤ h·R``,
+  the analytic class number formula's estimate
+  (:mod:`realquad.core.lfunction`), divided by Lévy's constant.
+
+The cut-offs differ by problem. For :func:`regulator` only ``R`` is wanted,
+and the benchmark (``tests/benchmarks/bench_infrastructure.py``,
+docs/performance.md) shows baby-step giant-step faster from periods of a few
+ten thousand on with the pure-Python kernels (:data:`REGULATOR_PERIOD_LIMIT`) and
+from a few hundred thousand on with the compiled ones
+(:data:`REGULATOR_PERIOD_LIMIT_COMPILED`). For
+:func:`fundamental_unit` the continued fraction also yields the period length
+and the expanded unit through its product tree, so it is kept up to
+:data:`UNIT_PERIOD_LIMIT` (about ``D ≈ 10¹³``, as in the design notes); past
+that the unit could not be printed anyway and stays compact.
+
+Both methods return the same :class:`~realquad.units.results.Unit` and
+:class:`~realquad.units.results.Regulator`, whose ``method`` says which one ran.
+
+>>> fundamental_unit(5).method.startswith("continued fraction")
+True
+>>> regulator(4 * (10**16 + 61)).method, fundamental_unit(4 * (10**12 + 39)).period_length
+('infrastructure baby-step giant-step', 532572)
+>>> u = fundamental_unit(4 * (10**9 + 7), method="bsgs")
+>>> u.method, u.proof, u.norm
+('infrastructure baby-step giant-step', 'unconditional', 1)
+>>> str(u.regulator(20)) == str(regulator(4 * (10**9 + 7), 20, method="cfrac"))
+True
+"""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from realquad._backend import BACKEND, kernels
+from realquad.core.lfunction import estimated_period
+from realquad.core.orders import Order
+from realquad.core.progress import Progress
+from realquad.errors import InputError
+from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
+from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
+from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
+
+Method = Literal["auto", "cfrac", "bsgs"]
+METHODS = ("auto", "cfrac", "bsgs")
+
+#: Estimated period up to which ``regulator(..., method="auto")`` walks the continued fraction
+#: with the pure-Python kernels, and with the compiled ones (benchmark, docs/performance.md).
+REGULATOR_PERIOD_LIMIT = 40_000
+REGULATOR_PERIOD_LIMIT_COMPILED = 300_000
+
+#: Estimated period up to which ``fundamental_unit(..., method="auto")`` walks the continued fraction.
+UNIT_PERIOD_LIMIT = 10_000_000
+
+#: Discriminants this small always have a short period (``l < 2√D``-ish).
+_SMALL_DISCRIMINANT = 10**8
+
+
+def _regulator_limit(D: int) -> int:
+    compiled = BACKEND == "compiled" and D <= getattr(kernels, "MAX_CFRAC_DISCRIMINANT", 0)
+    return REGULATOR_PERIOD_LIMIT_COMPILED if compiled else REGULATOR_PERIOD_LIMIT
+
+
+def choose_method(order: Order, method: str = "auto", limit: int | None = None) -> str:
+    """``"cfrac"`` or ``"bsgs"``, resolving ``"auto"`` by the estimated period against ``limit``.
+
+    The default ``limit`` is the regulator's cut-off for the kernels in use.
+
+    >>> choose_method(Order(4 * 61)), choose_method(Order(4 * (10**16 + 61)))
+    ('cfrac', 'bsgs')
+    """
+    if method not in METHODS:
+        raise InputError(f"method must be one of {', '.join(METHODS)}, got {method!r}")
+    if method != "auto":
+        return method
+    D = order.discriminant
+    if limit is None:
+        limit = _regulator_limit(D)
+    if D < _SMALL_DISCRIMINANT or estimated_period(D, 20_000) <= limit:
+        return "cfrac"
+    return "bsgs"
+
+
+def fundamental_unit(
+    order: Order | int,
+    method: Method | str = "auto",
+    *,
+    max_period: int = DEFAULT_MAX_PERIOD,
+    progress: Progress | None = None,
+) -> Unit:
+    """The fundamental unit ``ε > 1`` of an order (an :class:`Order` or its discriminant).
+
+    ``max_period`` bounds the continued fraction's walk (it refuses a longer
+    period); ``progress`` hears from the baby-step giant-step search.
+
+    >>> u = fundamental_unit(4 * 61)
+    >>> (u.x, u.y, u.norm)
+    (29718, 3805, -1)
+    """
+    order = Order.of(order).require_real(NO_UNIT_OF_INFINITE_ORDER)
+    if choose_method(order, method, UNIT_PERIOD_LIMIT) == "cfrac":
+        return fundamental_unit_cfrac(order, max_period)
+    return fundamental_unit_bsgs(order, progress)
+
+
+def regulator(
+    order: Order | int,
+    digits: int = 30,
+    method: Method | str = "auto",
+    *,
+    max_period: int = DEFAULT_MAX_PERIOD,
+    progress: Progress | None = None,
+) -> Regulator:
+    """The regulator ``log ε`` of an order to ``digits`` significant digits.
+
+    >>> str(regulator(5, 20))
+    '0.48121182505960344750'
+    >>> str(regulator(4 * (10**12 + 39), method="bsgs"))[:12]
+    '631893.23081'
+    """
+    order = Order.of(order).require_real(NO_UNIT_OF_INFINITE_ORDER)
+    if choose_method(order, method) == "cfrac":
+        return regulator_cfrac(order, digits, max_period)
+    return regulator_bsgs(order, digits, progress)
+
+
+__all__ = [
+    "DEFAULT_MAX_PERIOD",
+    "METHODS",
+    "Method",
+    "Regulator",
+    "Unit",
+    "choose_method",
+    "fundamental_unit",
+    "regulator",
+]

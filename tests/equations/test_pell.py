@@ -1,0 +1,177 @@
+"""Pell equations x² − dy² = N, N ∈ {1, −1, 4, −4}, against outside references."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from hypothesis import example, given
+from hypothesis import strategies as st
+
+from realquad import InputError, pell
+from realquad.core.integers import is_square
+
+
+def test_oeis_a002350_a002349(oeis):
+    """x and y of the least solution of x² − ny² = 1: OEIS A002350 and A002349."""
+    xs = oeis["A002350"]["terms"]  # OEIS A002350 (offset 1)
+    ys = oeis["A002349"]["terms"]  # OEIS A002349 (offset 1)
+    for n in range(1, min(len(xs), len(ys)) + 1):
+        sol = pell(n)
+        if is_square(n):
+            # OEIS convention for squares: x = 1, y = 0.
+            assert (xs[n - 1], ys[n - 1]) == (1, 0)
+            assert (sol.x, sol.y) == (1, 0)
+        else:
+            assert (sol.x, sol.y) == (xs[n - 1], ys[n - 1]), n
+
+
+def _sympy_least(d: int, N: int) -> tuple[int, int] | None:
+    from sympy.solvers.diophantine.diophantine import diop_DN
+
+    sols = [(abs(int(x)), abs(int(y))) for x, y in diop_DN(d, N)]
+    sols = [s for s in sols if s[1] > 0]
+    return min(sols, key=lambda t: (t[1], t[0])) if sols else None
+
+
+def test_against_sympy_all_d_up_to_2000():
+    """Reference library: sympy's diop_DN(d, ±1) for every non-square d ≤ 2000."""
+    for d in range(2, 2001):
+        if is_square(d):
+            continue
+        for N in (1, -1):
+            ref = _sympy_least(d, N)
+            sol = pell(d, N)
+            if ref is None:
+                assert not sol.solvable, (d, N)
+            else:
+                assert (sol.x, sol.y) == ref, (d, N)
+
+
+def test_against_sympy_sample():
+    """Quick sample of the full sympy comparison (sympy diop_DN)."""
+    for d in list(range(2, 120)) + [409, 661, 991, 1000, 1997]:
+        if is_square(d):
+            continue
+        for N in (1, -1):
+            ref = _sympy_least(d, N)
+            sol = pell(d, N)
+            assert (ref is None) == (not sol.solvable), (d, N)
+            if ref is not None:
+                assert (sol.x, sol.y) == ref, (d, N)
+
+
+def _brute_least(d: int, N: int, ymax: int) -> tuple[int, int] | None:
+    for y in range(1, ymax + 1):
+        x2 = N + d * y * y
+        if x2 >= 0:
+            x = math.isqrt(x2)
+            if x * x == x2:
+                return (x, y)
+    return None
+
+
+def test_brute_force_minimality():
+    """Independent brute force over y: the answer is the least positive solution."""
+    for d in range(2, 200):
+        if is_square(d):
+            continue
+        for N in (1, -1, 4, -4):
+            sol = pell(d, N)
+            found = _brute_least(d, N, 3000)
+            if sol.solvable:
+                assert sol.x * sol.x - d * sol.y * sol.y == N
+                if found is not None:
+                    assert (sol.x, sol.y) == found, (d, N)
+                else:
+                    assert sol.y > 3000
+            else:
+                assert found is None, (d, N)
+
+
+@given(st.integers(2, 10**12), st.sampled_from([1, -1, 4, -4]))
+@example(1000000000091, 1)
+@example(10**12 + 1, -1)  # period 1: d = k² + 1
+@example(5, -4)
+def test_solution_satisfies_equation(d, N):
+    if is_square(d):
+        return
+    try:
+        sol = pell(d, N, max_period=200_000)
+    except Exception as exc:  # only the size refusal is acceptable
+        assert type(exc).__name__ == "TooLargeError"
+        return
+    if sol.solvable:
+        assert sol.x > 0 and sol.y > 0
+        assert sol.x * sol.x - d * sol.y * sol.y == N
+    # N = −1 solvable exactly when the period of the unit is odd
+    if N == -1:
+        assert sol.solvable == (sol.period_length % 2 == 1)
+
+
+def test_known_small_cases():
+    assert (pell(61).x, pell(61).y) == (1766319049, 226153980)  # OEIS A002350/A002349, n = 61
+    assert (pell(61, -1).x, pell(61, -1).y) == (
+        29718,
+        3805,
+    )  # 29718² − 61·3805² = −1, checked below
+    assert 29718**2 - 61 * 3805**2 == -1
+    assert (pell(13, -4).x, pell(13, -4).y) == (3, 1)  # 9 − 13 = −4
+    assert (pell(5, 4).x, pell(5, 4).y) == (3, 1)  # 9 − 5 = 4
+    assert not pell(3, -1).solvable  # −1 is not a square mod 3
+    assert not pell(
+        34, -1
+    ).solvable  # period of √34 is even (4), though −1 is a square mod 34... by brute force above
+    assert not pell(7, -4).solvable
+
+
+def test_k_th_solutions_and_iterator():
+    s = pell(2)
+    assert [s.solution(k) for k in range(0, 4)] == [(1, 0), (3, 2), (17, 12), (99, 70)]
+    it = s.solutions()
+    assert [next(it) for _ in range(3)] == [(3, 2), (17, 12), (99, 70)]
+    neg = pell(2, -1)
+    assert [neg.solution(k) for k in (1, 2, 3)] == [(1, 1), (7, 5), (41, 29)]
+    for x, y in [neg.solution(k) for k in (1, 2, 3)]:
+        assert x * x - 2 * y * y == -1
+    four = pell(5, 4)
+    sols = [four.solution(k) for k in range(1, 6)]
+    assert all(x * x - 5 * y * y == 4 for x, y in sols)
+    # every solution of x² − 5y² = 4 with y ≤ 2000, by brute force, appears in order
+    brute = [(math.isqrt(4 + 5 * y * y), y) for y in range(1, 2001) if is_square(4 + 5 * y * y)]
+    gen = four.solutions()
+    listed = []
+    while True:
+        t = next(gen)
+        if t[1] > 2000:
+            break
+        listed.append(t)
+    assert listed == brute
+
+
+def test_d_not_congruent_for_norm_four():
+    # d ≡ 2, 3 (mod 4): solutions of ±4 are twice those of ±1
+    for d in (2, 3, 6, 7, 10, 11, 14):
+        s1, s4 = pell(d, 1), pell(d, 4)
+        assert (s4.x, s4.y) == (2 * s1.x, 2 * s1.y)
+
+
+def test_square_d_finite():
+    s = pell(9, 1)
+    assert s.solvable and (s.x, s.y) == (1, 0) and s.finite_solutions == [(1, 0)]
+    assert "perfect square" in s.reason
+    assert pell(1, -1).finite_solutions == [(0, 1)]  # 0 − 1 = −1
+    assert not pell(4, -1).solvable
+    assert pell(4, -4).finite_solutions == [(0, 1)]
+
+
+@pytest.mark.parametrize("bad", [0, -5, "x", "2.5", True])
+def test_bad_d(bad):
+    with pytest.raises(InputError):
+        pell(bad)
+
+
+@pytest.mark.parametrize("norm", [0, 2, -2, 3, 5, 16])
+def test_bad_norm(norm):
+    with pytest.raises(InputError):
+        pell(7, norm)

@@ -1,0 +1,136 @@
+"""Compact representations of units against the continued-fraction unit and modular checks."""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+import gmpy2
+import mpmath
+import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
+from realquad.errors import DomainError, TooLargeError
+from realquad.infrastructure.compact import CompactRepresentation, abs_product_is_one, coprime_base
+from realquad.infrastructure.regulator_search import search_regulator
+from realquad.units.cfrac import fundamental_unit_cfrac as unit_cfrac
+from realquad.units.cfrac import regulator_cfrac
+
+PRIMES = [
+    10**9 + 7,
+    998244353,
+    2**61 - 1,
+    1000003,
+]  # primes (from memory; gmpy2.is_prime confirms below)
+
+
+def discriminant_near(n: int) -> int:
+    D = max(n, 5)
+    while D % 4 not in (0, 1) or gmpy2.is_square(D):
+        D += 1
+    return D
+
+
+def compact_unit(D: int) -> CompactRepresentation:
+    return CompactRepresentation.from_factors(D, search_regulator(D, 20).factors)
+
+
+@given(st.integers(5, 10**8))
+def test_expansion_equals_continued_fraction_unit(n: int) -> None:
+    D = discriminant_near(n)
+    eps = compact_unit(D)
+    reference = unit_cfrac(D)  # realquad.units: independent continued-fraction code
+    assert eps.expand() == reference.half_integer_coordinates()
+    assert eps.norm == reference.norm
+
+
+@given(st.integers(10**8, 10**16))
+def test_norm_is_one_modulo_primes(n: int) -> None:
+    # ε = x + y√D (mod p) must satisfy x² − D y² ≡ N(ε) for every prime p not dividing a denominator.
+    D = discriminant_near(n)
+    eps = compact_unit(D)
+    checked = 0
+    for p in PRIMES:
+        assert gmpy2.is_prime(p)
+        try:
+            x, y = eps.modulo(p)
+        except DomainError:
+            continue
+        assert (x * x - D * y * y - eps.norm) % p == 0
+        checked += 1
+    assert checked >= 2
+
+
+@given(st.integers(5, 10**12))
+def test_log_equals_regulator(n: int) -> None:
+    D = discriminant_near(n)
+    eps = compact_unit(D)
+    value, bound = eps.log(40)
+    reference = regulator_cfrac(D, 40)
+    with mpmath.workdps(60):
+        assert (
+            abs(value - reference.value)
+            <= bound + reference.error_bound + reference.value * mpmath.mpf(10) ** -39
+        )
+
+
+def test_products_and_powers_stay_consistent() -> None:
+    D = 4 * (10**9 + 7)
+    eps = compact_unit(D)
+    u, v = eps.expand()
+    cube = eps.power(3)
+    assert cube.expand() == (eps * eps * eps).expand()
+    p = 10**9 + 9
+    x, y = eps.modulo(p)
+    cx, cy = cube.modulo(p)
+    # (x + y√D)³ mod p by hand
+    x2, y2 = (x * x + D * y * y) % p, 2 * x * y % p
+    assert (cx, cy) == ((x2 * x + D * y2 * y) % p, (x2 * y + y2 * x) % p)
+    inverse = eps.power(-1)
+    assert (eps * inverse).expand() == (2, 0)
+    value, _ = cube.log(30)
+    with mpmath.workdps(50):
+        assert abs(value - 3 * regulator_cfrac(D, 30).value) < mpmath.mpf(10) ** -24
+    # x from (u + v√D)/2 agrees with the mod-p reduction
+    half = pow(2, -1, p)
+    assert (u * half % p, v * half % p) == (x, y)
+
+
+def test_expansion_refused_beyond_max_digits() -> None:
+    eps = compact_unit(4 * (10**12 + 39))
+    with pytest.raises(TooLargeError, match="digits"):
+        eps.expand(max_digits=1000)
+    assert (
+        eps.digits_estimate() == 274428
+    )  # about R/log 10 with R = 631893.23… (continued fraction)
+
+
+def test_compact_size_is_logarithmic() -> None:
+    eps = compact_unit(10**18 + 9)
+    assert eps.size <= 32  # log₂ R + 1 levels for R ≈ 5.3·10⁸
+    assert all(abs(a.c) < 10**25 for chain in eps.chains for a, _ in chain.factors)
+
+
+def test_modulus_sharing_a_denominator_is_refused() -> None:
+    eps = compact_unit(4 * (10**9 + 7))
+    with pytest.raises(DomainError):
+        eps.modulo(2)
+
+
+@given(st.lists(st.integers(1, 10**6), min_size=1, max_size=8))
+def test_coprime_base_is_coprime_and_generates(numbers: list[int]) -> None:
+    base = coprime_base(numbers)
+    for i, a in enumerate(base):
+        for b in base[i + 1 :]:
+            assert gmpy2.gcd(a, b) == 1
+    for n in numbers:
+        for b in base:
+            while n % b == 0:
+                n //= b
+        assert n == 1
+
+
+def test_abs_product_is_one() -> None:
+    assert abs_product_is_one([(Fraction(6, 5), 4), (Fraction(25, 36), 2)])
+    assert not abs_product_is_one([(Fraction(6, 5), 4), (Fraction(25, 36), 3)])
+    assert abs_product_is_one([(Fraction(-1, 1), 2**60)])
