@@ -15,14 +15,13 @@ import click
 from realquad_cli.commands import COMMANDS
 
 import realquad
+from realquad._backend import BACKEND, BUILD_NOTE
 from realquad.errors import RealquadError
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
 
 def _version_text() -> str:
-    from realquad._backend import BACKEND, BUILD_NOTE
-
     note = f" ({BUILD_NOTE})" if BUILD_NOTE else ""
     return f"realquad {realquad.__version__}, kernels: {BACKEND}{note}"
 

@@ -23,6 +23,7 @@ ideals with distances). The names below are the public API.
 """
 
 from realquad._backend import BACKEND
+from realquad._version import __version__
 from realquad.cfrac import (
     ContinuedFraction,
     QuadraticIrrational,
@@ -49,9 +50,8 @@ from realquad.errors import DomainError, InputError, RealquadError, TooLargeErro
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
 from realquad.units import Regulator, Unit, fundamental_unit, regulator
 
-__version__ = "0.1.0"
-
 __all__ = [
+    "__version__",
     "BACKEND",
     "ClassGroup",
     "ContinuedFraction",

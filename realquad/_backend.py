@@ -72,7 +72,9 @@ def _twin_table() -> dict[str, Any]:
     return table
 
 
-def _namespaces(compiled: ModuleType | None) -> tuple[SimpleNamespace, SimpleNamespace, frozenset[str]]:
+def _namespaces(
+    compiled: ModuleType | None,
+) -> tuple[SimpleNamespace, SimpleNamespace, frozenset[str]]:
     twins = _twin_table()
     table = dict(twins)
     served = set()

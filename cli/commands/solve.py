@@ -2,6 +2,10 @@
 
 from __future__ import annotations
 
+import re
+import sys
+import threading
+import time
 from typing import Any
 
 import click
@@ -31,17 +35,12 @@ class _Ticker:
     """Writes an elapsed-time line to a terminal's stderr every :data:`TICK` seconds until stopped."""
 
     def __init__(self, what: str) -> None:
-        import sys
-        import threading
-
         self.what, self.stop = what, threading.Event()
         self.thread = (
             threading.Thread(target=self._run, daemon=True) if sys.stderr.isatty() else None
         )
 
     def _run(self) -> None:
-        import time
-
         start = time.monotonic()
         while not self.stop.wait(TICK):
             click.echo(
@@ -144,8 +143,6 @@ class _Sizer:
 
 def parse_bound(text: str) -> int:
     """A non-negative integer, also written as a power ``10^100`` or ``10**100``."""
-    import re
-
     m = re.fullmatch(r"\s*(\d{1,6})\s*(?:\^|\*\*)\s*(\d{1,5})\s*", text)
     value = int(m.group(1)) ** int(m.group(2)) if m else as_integer(text, "--bound")
     if value < 0:

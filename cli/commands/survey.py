@@ -13,6 +13,7 @@ from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.survey.executors import make_executor
+from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
 from realquad.survey.stats import SurveyReport, survey_report
@@ -375,16 +376,12 @@ def report_command(
     """
     where = _row_filter(None, None, None, d_min, d_max)
     if plot is not None:
-        from realquad.survey.plots import check_plot_path
-
         check_plot_path(plot)
     with SurveyStore.open_for_reading(db) as store:
         report = survey_report(store, where, top)
         if report.fields == 0:
             raise InputError(f"no surveyed fields in {db!r} match the range")
         if plot is not None:
-            from realquad.survey.plots import plot_report
-
             plot_report(report, store, plot, where)
     payload = _report_payload(report, db)
     n = report.fields

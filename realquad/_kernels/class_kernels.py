@@ -13,8 +13,8 @@ from __future__ import annotations
 
 from gmpy2 import isqrt
 
-from realquad._kernels.form_kernels import form_compose, form_cycle, form_reduce
-from realquad._kernels.prime_form_kernels import _principal_b, form_class_candidates
+from realquad._kernels.form_kernels import form_compose, form_cycle, form_reduce, principal_b
+from realquad._kernels.prime_form_kernels import form_class_candidates
 
 
 def form_class_table(
@@ -33,7 +33,7 @@ def form_class_table(
     ``None``) receives the class count every 1000 classes.
     """
     r = int(isqrt(D))
-    b0 = _principal_b(D, r)
+    b0 = principal_b(D, r)
     start = (1, b0, (b0 * b0 - D) // 4)
     walk = form_cycle(start[0], start[1], start[2], D, r, max_forms)
     if walk is None:
@@ -98,7 +98,7 @@ def form_class_numbers(
         return None
     index, representatives = table[0], table[1]
     r = int(isqrt(D))
-    b0 = _principal_b(D, r)
+    b0 = principal_b(D, r)
     return len(representatives), int(index.get((-1, b0)) == 0)
 
 
@@ -117,5 +117,5 @@ def form_class_relations(
         return None
     index, representatives, _, generators, relations = table
     r = int(isqrt(D))
-    b0 = _principal_b(D, r)
+    b0 = principal_b(D, r)
     return len(representatives), int(index.get((-1, b0)) == 0), generators, relations

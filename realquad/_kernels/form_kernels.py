@@ -100,3 +100,8 @@ def form_compose_reduce(a1: int, b1: int, a2: int, b2: int, D: int, r: int) -> t
     """
     A, B, C = form_compose(a1, b1, a2, b2, D)
     return form_reduce(A, B, C, D, r)
+
+
+def principal_b(D: int, r: int) -> int:
+    """The ``b`` of the reduced principal form ``(1, b, ·)``: ``b < √D`` largest, ``b ≡ D (mod 2)``."""
+    return r if (r - D) % 2 == 0 else r - 1

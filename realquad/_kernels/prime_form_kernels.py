@@ -15,10 +15,7 @@ import math
 
 from gmpy2 import isqrt, kronecker
 
-
-def _principal_b(D: int, r: int) -> int:
-    """The ``b`` of the reduced principal form ``(1, b, ·)``: ``b < √D`` largest, ``b ≡ D (mod 2)``."""
-    return r if (r - D) % 2 == 0 else r - 1
+from realquad._kernels.form_kernels import principal_b
 
 
 def sqrt_mod_prime(n: int, p: int) -> int:
@@ -83,7 +80,7 @@ def form_class_candidates(D: int, conductor: int, primes: list[int]) -> list[tup
     primitive ``(p^k, b, c)`` with ``4p^{2k} < D``.
     """
     r = int(isqrt(D))
-    b0 = _principal_b(D, r)
+    b0 = principal_b(D, r)
     out = [(-1, b0, (D - b0 * b0) // 4)]
     for p in primes:
         if 4 * p * p >= D:

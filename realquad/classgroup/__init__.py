@@ -28,8 +28,8 @@ genus theory), :mod:`~realquad.classgroup.genus` (genus characters).
 
 from __future__ import annotations
 
-from realquad.classgroup.bsgs import class_group_bsgs
 from realquad.classgroup import exact
+from realquad.classgroup.bsgs import class_group_bsgs
 from realquad.classgroup.exact import class_group_exact, class_numbers
 from realquad.classgroup.group import ClassGroup, ClassTable
 from realquad.core.lfunction import estimated_period

@@ -99,7 +99,7 @@ from realquad.core.results import Proof
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import walk_to
-from realquad.infrastructure.ideals import Cycle, giant_step_float
+from realquad.infrastructure.ideals import Cycle, ReducedIdeal, giant_step_float
 from realquad.infrastructure.regulator_search import BSGSResult, search_regulator
 from realquad.units.bsgs import check_reach, unit_from_search
 
@@ -122,10 +122,8 @@ _GIANT_OVER_BABY = 16.0
 #: Identifications expected (the primes the smooth search leaves), for sizing the windows.
 _EXPECTED_IDENTIFICATIONS = 16
 
-from realquad.infrastructure.ideals import ReducedIdeal
 
 Triple = tuple[int, int, int]
-
 
 
 def bach_bound(D: int) -> int:
@@ -321,7 +319,9 @@ def _signed_reduce(cycle: Cycle, a: int, b: int) -> tuple[tuple[int, int, int], 
     raise ArithmeticError("internal error: reduction did not terminate")  # pragma: no cover
 
 
-def _signed_multiply(cycle: Cycle, x: ReducedIdeal, y: ReducedIdeal) -> tuple[tuple[int, int, int], float]:
+def _signed_multiply(
+    cycle: Cycle, x: ReducedIdeal, y: ReducedIdeal
+) -> tuple[tuple[int, int, int], float]:
     """``reduce(L_x·L_y)`` with the sign of the multiplier and the distance change.
 
     ``I_x I_y = d·I₃`` gives ``L_x L_y = (d a₃/(a_x a_y))·L₃``, a positive factor.

@@ -121,7 +121,9 @@ def class_numbers(
     >>> class_numbers(4 * 223), class_numbers(5), class_numbers(4 * 223, conductor=1)
     ((3, 6, 1), (1, 1, -1), (3, 6, 1))
     """
-    order = Order.of(order).require_real("the cycle method computes class groups of real quadratic orders")
+    order = Order.of(order).require_real(
+        "the cycle method computes class groups of real quadratic orders"
+    )
     h_plus, j_principal = _run_class_kernel("form_class_numbers", order, max_forms, conductor)
     if j_principal:
         return h_plus, h_plus, -1
@@ -150,7 +152,9 @@ def class_group_exact(
     D = order.discriminant
     limit = DEFAULT_MAX_FORMS if max_forms is None else max_forms
     _check_reach(D, limit)
-    unit = fundamental_unit(order, "cfrac", max_period=limit)  # a longer period is refused below anyway
+    unit = fundamental_unit(
+        order, "cfrac", max_period=limit
+    )  # a longer period is refused below anyway
     period = unit.period_length or 0
     if (period if period % 2 == 0 else 2 * period) > limit:  # the principal cycle alone
         raise TooLargeError(_too_large(D, limit))
@@ -215,7 +219,9 @@ def class_invariants(
     >>> class_invariants(4 * 79), class_invariants(420)
     ((3, 6, [3], [6], 1), (2, 4, [2], [2, 2], 1))
     """
-    order = Order.of(order).require_real("the cycle method computes class groups of real quadratic orders")
+    order = Order.of(order).require_real(
+        "the cycle method computes class groups of real quadratic orders"
+    )
     D = order.discriminant
     h_plus, j_principal, generators, relations = _class_relations(order, max_forms)
     narrow, wide = _smith_forms(relations, len(generators), j_principal)

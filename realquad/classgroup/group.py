@@ -177,5 +177,3 @@ class ClassGroup:
     def genus(self) -> Genera:
         """Genus characters and genera of ``Cl⁺`` (:class:`realquad.classgroup.genus.Genera`)."""
         return genera(self)
-
-

@@ -41,7 +41,7 @@ import gmpy2
 from realquad._backend import call_kernel
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import IDENTITY_MATRIX, Matrix, matrix_inverse, matrix_multiply
-from realquad.errors import DomainError, InputError
+from realquad.errors import DomainError, InputError, TooLargeError
 
 
 @dataclass(frozen=True, slots=True)
@@ -176,8 +176,6 @@ class Form:
         >>> Form.identity(13).cycle()
         [Form(1, 3, -1), Form(-1, 3, 1)]
         """
-        from realquad.errors import TooLargeError
-
         D = self.discriminant
         r = isqrt(D)
         a, b, c = call_kernel("form_reduce", self.a, self.b, self.c, D, r)
@@ -274,7 +272,6 @@ class Form:
             N = matrix_multiply(N, R)
             if current == F1:
                 return None
-        from realquad.errors import TooLargeError
 
         raise TooLargeError(f"the cycle of discriminant {D} is longer than {max_length:,} forms")
 

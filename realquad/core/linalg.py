@@ -53,8 +53,6 @@ IDENTITY_MATRIX: Matrix = (1, 0, 0, 1)
 AnyMatrix = tuple[Any, Any, Any, Any]
 
 
-
-
 def matrix_multiply(M: AnyMatrix, N: AnyMatrix) -> AnyMatrix:
     """``M N`` (entries of any ring: integers, fractions, ``mpz``, ``mpfr``)."""
     a, b, c, d = M

@@ -71,6 +71,7 @@ MAX_HARD_DIGITS = 60
 #: Trial division by the primes below this bound before anything else.
 _TRIAL_LIMIT = 10_000
 
+
 def factorize(n: int) -> dict[int, int]:
     """Return the prime factorisation of ``|n|`` as ``{prime: exponent}``.
 

@@ -44,6 +44,7 @@ from math import gcd, lcm
 import gmpy2
 import mpmath
 
+from realquad._backend import kernels
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.numbers import pair_multiply, pair_power
@@ -65,7 +66,7 @@ from realquad.equations.norm import (
     square_solutions,
 )
 from realquad.equations.pell import pell
-from realquad.errors import TooLargeError
+from realquad.errors import DomainError, TooLargeError
 
 Matrix = tuple[int, int, int, int]
 
@@ -224,8 +225,6 @@ def integer_line(alpha: int, beta: int, gamma: int) -> LineFamily | None:
     >>> integer_line(2, 4, -6)
     LineFamily(point=(1, 1), direction=(2, -1))
     """
-    from realquad._backend import kernels
-
     g, u, v = kernels.extended_gcd(alpha, beta)
     if gamma % g:
         return None
@@ -263,7 +262,8 @@ def solve_transformed(
 
     if D < 0:
         return finite(
-            definite_solutions(D, K), f"definite: x² + {-D}y² = {K} by square roots and reduction of forms"
+            definite_solutions(D, K),
+            f"definite: x² + {-D}y² = {K} by square roots and reduction of forms",
         )
     if K == 0 and not is_square(D):
         return finite([(0, 0)], f"P² = {D}Q² forces P = Q = 0")
@@ -362,8 +362,6 @@ def solve_binary_form(a: int, b: int, c: int, n: int) -> QuadraticSolutions:
     a, b, c, n = (as_integer(v, name) for v, name in ((a, "a"), (b, "b"), (c, "c"), (n, "n")))
     coefficients = (a, b, c, 0, 0, -n)
     if a == b == c == 0:
-        from realquad.errors import DomainError
-
         if n:
             return QuadraticSolutions(coefficients, True, [], [], "0 = n has no solution")
         raise DomainError("the equation 0 = 0 holds for every pair (x, y)")

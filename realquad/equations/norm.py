@@ -498,7 +498,12 @@ def solve_norm_equation(d: int, n: int) -> NormEquationSolution:
         return _lines(d, n)
     if d < 0:
         return _result(
-            d, n, finite=True, families=[], solutions=definite_solutions(d, n), method=METHOD_DEFINITE
+            d,
+            n,
+            finite=True,
+            families=[],
+            solutions=definite_solutions(d, n),
+            method=METHOD_DEFINITE,
         )
     if is_square(d):
         sols = square_solutions(isqrt(d), n)

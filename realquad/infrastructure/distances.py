@@ -177,7 +177,9 @@ def search_radius(x: float) -> int:
     return 64 + int(6e-12 * x)
 
 
-def exact_ideal_at(cycle: Cycle, x: float, target: ReducedIdeal, steps: int | None = None) -> Factors:
+def exact_ideal_at(
+    cycle: Cycle, x: float, target: ReducedIdeal, steps: int | None = None
+) -> Factors:
     """Factors of ``γ`` with ``L_target = γ·O``, for a reduced principal ``target`` near distance ``x``.
 
     Walks to ``x`` exactly and searches up to ``steps`` baby steps either way

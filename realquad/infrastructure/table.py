@@ -65,7 +65,6 @@ _TABLE_KERNELS = (
 )
 
 
-
 def _kernels_for(D: int) -> ModuleType | SimpleNamespace:
     """The compiled table kernels when they are built and take ``D``, else the twin's."""
     if all(name in COMPILED for name in _TABLE_KERNELS) and D < 1 << 106:

@@ -14,13 +14,17 @@ rerunning the survey computes them again.
 
 from __future__ import annotations
 
+import ctypes
 import multiprocessing
 import os
 import signal
+import socket
 import sys
+import threading
 import time
 from collections.abc import Callable, Iterable, Iterator
 from typing import Any
+from urllib.parse import urlsplit
 
 from realquad.errors import InputError
 from realquad.survey.ranges import Chunk
@@ -50,8 +54,6 @@ def _ignore_interrupts() -> None:
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     if sys.platform.startswith("linux"):
         try:
-            import ctypes
-
             libc = ctypes.CDLL(None, use_errno=True)
             libc.prctl(1, int(signal.SIGKILL))  # PR_SET_PDEATHSIG
         except (OSError, AttributeError):  # pragma: no cover - depends on the C library
@@ -145,8 +147,6 @@ def _connect_within(client_class: Any, address: str, timeout: float) -> Any:
     TCP connections but never answers the handshake can hold it longer than
     the client's own timeout.
     """
-    import threading
-
     outcome: dict[str, Any] = {}
 
     def connect() -> None:
@@ -166,9 +166,6 @@ def _connect_within(client_class: Any, address: str, timeout: float) -> Any:
 
 def _check_reachable(address: str, timeout: float) -> None:
     """Fail at once, with a clear message, when nothing listens at a ``tcp://host:port`` address."""
-    import socket
-    from urllib.parse import urlsplit
-
     text = address if "://" in address else "tcp://" + address
     try:
         parts = urlsplit(text)

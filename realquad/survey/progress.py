@@ -21,6 +21,16 @@ import sys
 import time
 from typing import Any, Literal, TextIO
 
+from rich.console import Console
+from rich.progress import (
+    BarColumn,
+    MofNCompleteColumn,
+    Progress,
+    TextColumn,
+    TimeElapsedColumn,
+    TimeRemainingColumn,
+)
+
 Mode = Literal["bar", "lines", "quiet"]
 
 
@@ -63,16 +73,6 @@ class SurveyProgress:
 
     def __enter__(self) -> SurveyProgress:
         if self.mode == "bar":
-            from rich.console import Console
-            from rich.progress import (
-                BarColumn,
-                MofNCompleteColumn,
-                Progress,
-                TextColumn,
-                TimeElapsedColumn,
-                TimeRemainingColumn,
-            )
-
             self._bar = Progress(
                 TextColumn("survey"),
                 BarColumn(),

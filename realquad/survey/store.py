@@ -51,7 +51,9 @@ import time
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, fields
 from typing import Any
+from urllib.parse import quote
 
+from realquad._version import __version__
 from realquad.errors import InputError
 from realquad.survey.compute import FieldRecord
 from realquad.survey.ranges import Chunk
@@ -199,8 +201,6 @@ def _connect_read_only(path: str, allow_empty: bool = False) -> sqlite3.Connecti
 
 
 def _uri_path(path: str) -> str:
-    from urllib.parse import quote
-
     return quote(os.path.abspath(path))
 
 
@@ -363,8 +363,6 @@ class SurveyStore:
 
 
 def _create(connection: sqlite3.Connection) -> None:
-    from realquad import __version__
-
     connection.execute("BEGIN IMMEDIATE")
     try:
         for statement in _SCHEMA.split(";"):

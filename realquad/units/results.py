@@ -17,6 +17,7 @@ import mpmath
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import Proof
+from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
 NO_UNIT_OF_INFINITE_ORDER = "an imaginary quadratic order has no unit of infinite order"
@@ -99,8 +100,6 @@ class Unit:
     def digits(self) -> int:
         """Number of decimal digits of ``x`` in the expanded form."""
         if "digits" not in self._cache:
-            from realquad.textio import decimal_digits
-
             self._cache["digits"] = decimal_digits(self.expand().x)
         return self._cache["digits"]  # type: ignore[return-value]
 

@@ -231,8 +231,8 @@ def test_shortcut_and_cycle_table_agree() -> None:
     from realquad.equations.norm import (
         _primitive_lmm,
         _primitive_short,
-        pell_units,
         balanced_representative,
+        pell_units,
     )
 
     for d in range(5, 400):

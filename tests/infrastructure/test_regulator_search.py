@@ -103,13 +103,17 @@ def test_known_regulators() -> None:
     # Q(√94): ε = 2143295 + 221064√94 (from memory; also in realquad/__init__.py's doctest)
     assert (
         abs(
-            float(regulator_from_search(search_regulator(4 * 94, 20))) - math.log(2143295 + 221064 * math.sqrt(94))
+            float(regulator_from_search(search_regulator(4 * 94, 20)))
+            - math.log(2143295 + 221064 * math.sqrt(94))
         )
         < 1e-9
     )
     # Z[√61]: ε = 29718 + 3805√61, the least solution of x² − 61y² = −1 (from memory)
     assert (
-        abs(float(regulator_from_search(search_regulator(4 * 61, 20))) - math.log(29718 + 3805 * math.sqrt(61)))
+        abs(
+            float(regulator_from_search(search_regulator(4 * 61, 20)))
+            - math.log(29718 + 3805 * math.sqrt(61))
+        )
         < 1e-9
     )
 
