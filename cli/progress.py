@@ -1,15 +1,17 @@
-"""The one progress reporter of the command line: a line on a terminal's stderr now and then.
+"""The progress reporters of the command line: a line on a terminal's stderr now and then.
 
 Commands hand an instance to the library as its ``progress`` callback
 (:data:`realquad.core.progress.Progress`: ``progress(what, amount)``). Nothing
 is printed for the first :data:`QUIET_SECONDS` seconds, nor more often than
 every :data:`EVERY_SECONDS` seconds, nor when stderr is not a terminal (so
-pipes and files stay clean).
+pipes and files stay clean). :class:`ElapsedTicker` does the same for a
+computation that reports nothing itself: the time elapsed so far.
 """
 
 from __future__ import annotations
 
 import sys
+import threading
 import time
 
 import click
@@ -41,3 +43,29 @@ class ProgressLine:
 
     def __exit__(self, *exc: object) -> None:
         return None
+
+
+class ElapsedTicker:
+    """Writes an elapsed-time line to a terminal's stderr every :data:`EVERY_SECONDS` seconds until stopped."""
+
+    def __init__(self, what: str) -> None:
+        self.what, self.stop = what, threading.Event()
+        self.thread = (
+            threading.Thread(target=self._run, daemon=True) if sys.stderr.isatty() else None
+        )
+
+    def _run(self) -> None:
+        start = time.monotonic()
+        while not self.stop.wait(EVERY_SECONDS):
+            click.echo(
+                f"realquad: {self.what}: {time.monotonic() - start:.0f} s so far (Ctrl-C stops)",
+                err=True,
+            )
+
+    def __enter__(self) -> ElapsedTicker:
+        if self.thread is not None:
+            self.thread.start()
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.stop.set()

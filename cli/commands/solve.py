@@ -3,9 +3,6 @@
 from __future__ import annotations
 
 import re
-import sys
-import threading
-import time
 from typing import Any
 
 import click
@@ -19,6 +16,7 @@ from realquad_cli.output import (
     size_options,
     write_atomically,
 )
+from realquad_cli.progress import ElapsedTicker
 
 from realquad.core.integers import as_integer
 from realquad.equations.conics import solve_quadratic
@@ -26,36 +24,6 @@ from realquad.equations.families import Family, LineFamily, OrbitFamily, Quadrat
 from realquad.equations.parser import parse_equation
 from realquad.errors import InputError
 from realquad.textio import to_decimal
-
-#: Seconds between the progress lines a long run writes to a terminal.
-TICK = 5.0
-
-
-class _Ticker:
-    """Writes an elapsed-time line to a terminal's stderr every :data:`TICK` seconds until stopped."""
-
-    def __init__(self, what: str) -> None:
-        self.what, self.stop = what, threading.Event()
-        self.thread = (
-            threading.Thread(target=self._run, daemon=True) if sys.stderr.isatty() else None
-        )
-
-    def _run(self) -> None:
-        start = time.monotonic()
-        while not self.stop.wait(TICK):
-            click.echo(
-                f"realquad: {self.what}: {time.monotonic() - start:.0f} s so far (Ctrl-C stops)",
-                err=True,
-            )
-
-    def __enter__(self) -> _Ticker:
-        if self.thread is not None:
-            self.thread.start()
-        return self
-
-    def __exit__(self, *exc: object) -> None:
-        self.stop.set()
-
 
 NAMES = ("a", "b", "c", "d", "e", "f")
 MONOMIALS = ("x²", "xy", "y²", "x", "y", "")
@@ -344,7 +312,7 @@ def command(
         raise InputError("--member must be at most 10^6 in absolute value")
     check_output_path(output)
     coefficients = parse_equation(text)
-    with _Ticker("solving"):
+    with ElapsedTicker("solving"):
         sol = solve_quadratic(*coefficients)
         payload, lines = build(sol, b, k, max_digits)
     if output is not None:

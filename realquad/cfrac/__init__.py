@@ -17,17 +17,21 @@ from __future__ import annotations
 from realquad.cfrac.expansion import (
     ContinuedFraction,
     QuadraticIrrational,
+    complete_quotients,
     continued_fraction,
     convergents,
     from_periodic,
+    to_reduced,
 )
 from realquad.cfrac.parser import parse_real_quadratic
 
 __all__ = [
     "ContinuedFraction",
     "QuadraticIrrational",
+    "complete_quotients",
     "continued_fraction",
     "convergents",
     "from_periodic",
     "parse_real_quadratic",
+    "to_reduced",
 ]

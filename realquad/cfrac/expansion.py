@@ -72,15 +72,11 @@ class QuadraticIrrational:
         return cls(p, D, q)
 
     def floor(self) -> int:
-        r = isqrt(self.D)
-        if self.Q > 0:
-            return (self.P + r) // self.Q
-        return (-self.P - r - 1) // (-self.Q)
+        return floor_of(self.P, self.Q, isqrt(self.D))
 
     def is_reduced(self) -> bool:
         """``θ > 1`` and ``−1 < θ' < 0`` (exactly; reduced implies ``Q > 0``)."""
-        P, Q, r = self.P, self.Q, isqrt(self.D)
-        return Q > 0 and P <= r and r >= Q - P and r < P + Q
+        return is_reduced(self.P, self.Q, isqrt(self.D))
 
     def same_number(self, other: QuadraticIrrational) -> bool:
         """Whether both normal forms denote the same real number.
@@ -99,6 +95,62 @@ class QuadraticIrrational:
 
     def __str__(self) -> str:
         return _format(self.P, self.D, self.Q)
+
+
+def floor_of(P: int, Q: int, r: int) -> int:
+    """``⌊(P + √D)/Q⌋`` for ``r = ⌊√D⌋``, ``D`` not a square.
+
+    >>> floor_of(0, 1, 7), floor_of(3, -5, 3)     # ⌊√61⌋, ⌊(3 + √13)/(−5)⌋
+    (7, -2)
+    """
+    return (P + r) // Q if Q > 0 else (-P - r - 1) // (-Q)
+
+
+def is_reduced(P: int, Q: int, r: int) -> bool:
+    """Whether ``θ = (P + √D)/Q`` is reduced (``θ > 1``, ``−1 < θ' < 0``), for ``r = ⌊√D⌋``.
+
+    >>> is_reduced(7, 1, 7), is_reduced(0, 1, 7)   # 7 + √61 is, √61 is not
+    (True, False)
+    """
+    return Q > 0 and P <= r and r >= Q - P and r < P + Q
+
+
+def complete_quotients(P: int, D: int, Q: int) -> Iterator[tuple[int, int, int]]:
+    """``(a_k, P_k, Q_k)`` for the complete quotients ``(P_k + √D)/Q_k`` of ``(P + √D)/Q``, forever.
+
+    ``Q | D − P²`` is kept by the recurrence ``a = ⌊θ⌋``, ``P' = aQ − P``,
+    ``Q' = (D − P'²)/Q``; every walk along a continued fraction in the package
+    (expansions, the principal cycle of the norm equations) is this one.
+
+    >>> from itertools import islice
+    >>> list(islice(complete_quotients(0, 13, 1), 4))
+    [(3, 0, 1), (1, 3, 4), (1, 1, 3), (1, 2, 3)]
+    """
+    r = isqrt(D)
+    while True:
+        a = floor_of(P, Q, r)
+        yield a, P, Q
+        P = a * Q - P
+        Q = (D - P * P) // Q
+
+
+def to_reduced(P: int, D: int, Q: int, max_terms: int) -> tuple[list[int], int, int]:
+    """The partial quotients before the first reduced complete quotient, and that one's ``(P, Q)``.
+
+    A bounded number of steps, about the logarithm of the height (Galois).
+
+    >>> to_reduced(0, 61, 1, 100)
+    ([7], 7, 12)
+    """
+    r = isqrt(D)
+    quotients: list[int] = []
+    for a, P1, Q1 in complete_quotients(P, D, Q):
+        if is_reduced(P1, Q1, r):
+            return quotients, P1, Q1
+        if len(quotients) >= max_terms:
+            break
+        quotients.append(a)
+    raise TooLargeError("pre-period longer than the term limit")
 
 
 def _format(P: int, D: int, Q: int) -> str:
@@ -192,30 +244,17 @@ def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> Continu
     value = _as_value(x)
     if isinstance(value, Fraction):
         return ContinuedFraction(value, _rational_expansion(value), [])
-    P, D, Q = value.P, value.D, value.Q
-    r = isqrt(D)
-    pre: list[int] = []
-    state = QuadraticIrrational(P, D, Q)
-    # 1. advance until reduced (a bounded number of steps, ~log of the height)
-    while not state.is_reduced():
-        a = state.floor()
-        pre.append(a)
-        P = a * Q - P
-        Q = (D - P * P) // Q
-        state = QuadraticIrrational(P, D, Q)
-        if len(pre) > max_terms:
-            raise TooLargeError("pre-period longer than the term limit")
-    # 2. walk the purely periodic part until the first reduced state returns
-    P0, Q0 = P, Q
+    D = value.D
+    # 1. advance until reduced, 2. walk the purely periodic part until that state returns
+    pre, P0, Q0 = to_reduced(value.P, D, value.Q, max_terms)
     period: list[int] = []
     append = period.append
-    for _ in range(max_terms):
-        a = (P + r) // Q
-        append(a)
-        P = a * Q - P
-        Q = (D - P * P) // Q
-        if P == P0 and Q == Q0:
+    for a, P, Q in complete_quotients(P0, D, Q0):
+        if period and P == P0 and Q == Q0:
             return ContinuedFraction(value, pre, period)
+        if len(period) >= max_terms:
+            break
+        append(a)
     raise TooLargeError(
         f"the period is longer than {max_terms:,} terms; raise the limit or use the unit "
         "and regulator commands, which need only half of the period"

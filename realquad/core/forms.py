@@ -33,6 +33,7 @@ ANTS-V, LNCS 2369 (2002) 120–133.
 
 from __future__ import annotations
 
+from collections.abc import Iterator
 from dataclasses import dataclass
 from math import gcd
 
@@ -262,18 +263,30 @@ class Form:
             return None
         F1, M1 = self.reduce()
         G1, M2 = other.reduce()
-        D = self.discriminant
-        N = IDENTITY_MATRIX
-        current = F1
-        for _ in range(max_length):
+        for current, N in F1.cycle_matrices(max_length):
             if current == G1:
                 return matrix_multiply(matrix_multiply(M1, N), matrix_inverse(M2))
+        return None
+
+    def cycle_matrices(self, max_length: int = 10_000_000) -> Iterator[tuple[Form, Matrix]]:
+        """The rho cycle from this reduced form, each ``G`` with ``N``, ``F·N = G``, once round.
+
+        The matrices grow like the fundamental unit along the cycle, so
+        callers take only as many as they need.
+
+        >>> [(str(G), N) for G, N in Form.identity(13).cycle_matrices()]
+        [('(1, 3, -1)', (1, 0, 0, 1)), ('(-1, 3, 1)', (0, -1, 1, -3))]
+        """
+        current, N = self, IDENTITY_MATRIX
+        for _ in range(max_length):
+            yield current, N
             current, R = current.rho()
             N = matrix_multiply(N, R)
-            if current == F1:
-                return None
-
-        raise TooLargeError(f"the cycle of discriminant {D} is longer than {max_length:,} forms")
+            if current == self:
+                return
+        raise TooLargeError(
+            f"the cycle of discriminant {self.discriminant} is longer than {max_length:,} forms"
+        )
 
 
 def _nucomp(a1: int, b1: int, c1: int, a2: int, b2: int, c2: int, D: int) -> tuple[int, int, int]:

@@ -32,6 +32,7 @@ from fractions import Fraction
 from math import floor
 
 from realquad.core.integers import isqrt
+from realquad.core.linalg import matrix_multiply
 from realquad.core.results import Proof
 from realquad.errors import InputError, TooLargeError
 
@@ -62,12 +63,8 @@ class AffineMap:
 
     def compose(self, other: AffineMap) -> AffineMap:
         """``self ∘ other``."""
-        a, b, c, d = self.matrix
-        e, f, g, h = other.matrix
         t = self(other.translation)
-        return AffineMap(
-            (a * e + b * g, a * f + b * h, c * e + d * g, c * f + d * h), (int(t[0]), int(t[1]))
-        )
+        return AffineMap(matrix_multiply(self.matrix, other.matrix), (int(t[0]), int(t[1])))
 
     def power(self, k: int) -> AffineMap:
         base = self if k >= 0 else self.inverse()

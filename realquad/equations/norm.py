@@ -54,6 +54,7 @@ import gmpy2
 import mpmath
 
 from realquad._backend import kernels
+from realquad.cfrac import complete_quotients, to_reduced
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import matrix_multiply, matrix_product
 from realquad.core.numbers import pair_multiply, pair_power
@@ -118,37 +119,21 @@ def _principal_cycle(d: int) -> _PrincipalCycle:
     """The reduced states ``(P_k + √d)/Q_k`` of the period of ``√d``, from ``⌊√d⌋ + √d``."""
     r = isqrt(d)
     width = 2 * r + 2
-    P, Q = r, 1
     quotients: list[int] = []
     Qs: list[int] = []
     index: dict[int, int] = {}
-    k = 0
-    while True:
+    for k, (a, P, Q) in enumerate(complete_quotients(r, d, 1)):
+        if k and Q == 1:  # back at ⌊√d⌋ + √d, the one reduced state with Q = 1
+            break
         index[P * width + Q] = k
         Qs.append(Q)
-        a = (P + r) // Q
         quotients.append(a)
-        P2 = a * Q - P
-        Q = (d - P2 * P2) // Q
-        P = P2
-        k += 1
-        if Q == 1:
-            break
         if k > MAX_CYCLE:
             raise TooLargeError(
                 f"the period of the continued fraction of √{d} exceeds {MAX_CYCLE:,} terms; "
                 "the norm-equation solver walks the whole period and cannot finish in reasonable time"
             )
     return _PrincipalCycle(d, r, quotients, Qs, index)
-
-
-def _floor(P: int, Q: int, r: int) -> int:
-    """``⌊(P + √d)/Q⌋`` for ``r = ⌊√d⌋``, ``d`` not a square."""
-    return (P + r) // Q if Q > 0 else (-P - r - 1) // (-Q)
-
-
-def _is_reduced(P: int, Q: int, r: int) -> bool:
-    return Q > 0 and 0 < P <= r and r - P < Q <= r + P
 
 
 def _convergent(quotients: list[int]) -> tuple[int, int, int, int]:
@@ -342,17 +327,10 @@ def _join_all(d: int, m: int, states: list[tuple[int, list[int], int]]) -> list[
 def _primitive_lmm(d: int, m: int, factors: dict[int, int]) -> list[Point]:
     """One solution (not yet canonical) in each class of primitive solutions."""
     cyc = _principal_cycle(d)
-    r = cyc.r
     am = abs(m)
     states: list[tuple[int, list[int], int]] = []
     for z in square_roots_mod(d, am, factors):
-        P, Q = z, am
-        quot: list[int] = []
-        while not _is_reduced(P, Q, r):
-            a = _floor(P, Q, r)
-            quot.append(a)
-            P = a * Q - P
-            Q = (d - P * P) // Q
+        quot, P, Q = to_reduced(z, d, am, MAX_CYCLE)
         j = cyc.index.get(cyc.key(P, Q))
         if j is not None:  # else J_z is not principal
             states.append((z, quot, j))

@@ -94,9 +94,6 @@ _GIANT_OVER_BABY_COMPILED = 12.0
 
 _ULP = 2.0**-52
 
-#: The baby-step table (kept under its former name).
-_Table = BabyStepTable
-
 
 @dataclass
 class BSGSResult:

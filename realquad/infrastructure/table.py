@@ -176,11 +176,6 @@ class BabyStepTable:
         """The stored distance of the reduced ideal ``(a, b)`` (``b`` normalised), or ``None``."""
         return self.ops.infrastructure_table_get(self.handle, a, b)  # type: ignore[no-any-return]
 
-    @property
-    def index(self) -> _Index:
-        """The table as a mapping from :meth:`Cycle.key` to the distance (read only)."""
-        return _Index(self)
-
     def _below(self, x: float) -> tuple[int, int, list[float]]:
         """The last stored ideal with distance ``≤ x``: ``(a, b, parts)``, distance ``= Σ parts``."""
         c = self.cycle
@@ -292,29 +287,3 @@ class GiantIdeal:
     b: int
     s: float
     error: float
-
-
-class _Index:
-    """Read-only mapping view of a :class:`BabyStepTable` keyed by ``a·(2r + 2) + b``."""
-
-    def __init__(self, table: BabyStepTable) -> None:
-        self._table = table
-        self._r = table.cycle.root
-        self._width = 2 * self._r + 2
-
-    def get(self, key: int, default: float | None = None) -> float | None:
-        a = (key + self._r) // self._width
-        found = self._table.lookup(a, key - a * self._width)
-        return default if found is None else found
-
-    def __contains__(self, key: object) -> bool:
-        return isinstance(key, int) and self.get(key) is not None
-
-    def __getitem__(self, key: int) -> float:
-        found = self.get(key)
-        if found is None:
-            raise KeyError(key)
-        return found
-
-    def __len__(self) -> int:
-        return len(self._table)

@@ -41,7 +41,7 @@ from realquad.classgroup import ClassGroup, class_group
 from realquad.core.forms import Form, prime_form
 from realquad.core.ideals import Ideal
 from realquad.core.integers import as_integer
-from realquad.core.linalg import IDENTITY_MATRIX, Matrix, matrix_inverse, matrix_multiply
+from realquad.core.linalg import Matrix, matrix_inverse, matrix_multiply
 from realquad.core.orders import Order
 from realquad.core.primes import kronecker, primes_below
 from realquad.errors import InputError
@@ -83,14 +83,13 @@ class _PrincipalCycle:
 
     def __init__(self, D: int) -> None:
         self.position = {G: k for k, G in enumerate(Form.identity(D).cycle())}
-        self.matrices: list[Matrix] = [IDENTITY_MATRIX]
-        self.current = Form.identity(D)
+        self.walk = Form.identity(D).cycle_matrices()
+        self.matrices: list[Matrix] = []
 
     def matrix(self, G: Form) -> Matrix:
         k = self.position[G]
         while len(self.matrices) <= k:
-            self.current, R = self.current.rho()
-            self.matrices.append(matrix_multiply(self.matrices[-1], R))
+            self.matrices.append(next(self.walk)[1])
         return self.matrices[k]
 
 

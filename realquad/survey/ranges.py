@@ -107,7 +107,3 @@ class SurveyRange:
             stop = min((start // size + 1) * size - 1, self.hi)
             yield Chunk(self.kind, start, stop)
             start = stop + 1
-
-    def field_count(self) -> int:
-        """The number of fields in the range (sieves the whole range)."""
-        return sum(len(c.radicands()) for c in self.chunks(1 << 20))

@@ -323,12 +323,6 @@ class SurveyStore:
             ).fetchone()[0]
         return ids
 
-    def completed_chunks(self) -> list[tuple[str, int, int]]:
-        return [
-            tuple(r)
-            for r in self.connection.execute("SELECT kind, lo, hi FROM chunks ORDER BY kind, lo")
-        ]
-
     # -- rows -------------------------------------------------------------------
 
     def count(self, where: RowFilter | None = None) -> int:

@@ -321,13 +321,14 @@ def test_any_table_size_and_estimate_give_the_same_regulator(
 
 @given(st.integers(10**9, 10**12))
 def test_probe_finds_only_multiples_of_the_regulator(n: int) -> None:
-    from realquad.infrastructure.regulator_search import _probe, _Table, _table_target
+    from realquad.infrastructure.regulator_search import _probe, _table_target
+    from realquad.infrastructure.table import BabyStepTable
 
     D = discriminant_near(n)
     cyc = Cycle(D)
     R = float(regulator_cfrac(D, 20))
     E = estimate_hR(D).value
-    table = _Table(cyc)
+    table = BabyStepTable(cyc)
     table.extend(_table_target(cyc, E / 2, 1 << 20))
     if table.period is not None:
         return  # the baby steps already hold the whole cycle; no probe is made
