@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 import click
 from realquad_cli.output import (
     ACCEPT_NEGATIVE,
@@ -14,6 +12,7 @@ from realquad_cli.output import (
 )
 
 from realquad.cfrac import continued_fraction
+from realquad.textio import MINUS, signed
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
@@ -38,33 +37,17 @@ def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> Non
     cf = continued_fraction(expr)
     n_terms = len(cf.preperiod) + len(cf.period)
     cut = max_terms != 0 and n_terms > max_terms
-    payload: dict[str, Any] = {"expression": expr, "value": str(cf.value)}
-    if not cf.is_rational:
-        v = cf.value
-        payload["normal_form"] = {"P": v.P, "D": v.D, "Q": v.Q}  # type: ignore[union-attr]
+    payload = {"expression": expr, **cf.to_dict(max_terms), "truncated": cut}
+    value = str(cf.value).replace("-", MINUS)
     if cut:
-        keep_pre = cf.preperiod[:max_terms]
-        keep_per = cf.period[: max(0, max_terms - len(keep_pre))]
-        payload["preperiod"] = keep_pre
-        payload["period"] = keep_per
+        shown = ", ".join(signed(a) for a in (cf.preperiod + cf.period)[:max_terms])
+        text = f"{value} = [{shown}, …]  (first {max_terms:,} of {n_terms:,} terms; --max-terms 0 for all)"
     else:
-        payload["preperiod"] = cf.preperiod
-        payload["period"] = cf.period
-    payload["preperiod_length"] = len(cf.preperiod)
-    payload["period_length"] = len(cf.period)
-    payload["truncated"] = cut
-    payload["method"] = (
-        "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q"
-        if not cf.is_rational
-        else "Euclidean algorithm"
-    )
-    payload["proof"] = "unconditional"
-    if cut:
-        shown = ", ".join(map(str, (cf.preperiod + cf.period)[:max_terms]))
-        text = f"{cf.value} = [{shown}, …]  (first {max_terms} of {n_terms} terms; --max-terms 0 for all)"
-    else:
-        text = f"{cf.value} = {cf}"
-    lines = [text, f"pre-period length {len(cf.preperiod)}, period length {len(cf.period)}"]
+        text = f"{value} = {str(cf).replace('-', MINUS)}"
+    lines = [
+        text,
+        f"pre-period length {len(cf.preperiod):,}, period length {len(cf.period):,}",
+    ]
     if output is not None:
         write_atomically(
             output,

@@ -36,6 +36,7 @@ from fractions import Fraction
 from realquad.cfrac.parser import parse_real_quadratic
 from realquad.core.integers import is_square, isqrt
 from realquad.core.numbers import QuadraticNumber
+from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError, TooLargeError
 
 #: Default bound on the number of states a period search may visit.
@@ -187,6 +188,40 @@ class ContinuedFraction:
     @property
     def is_rational(self) -> bool:
         return isinstance(self.value, Fraction)
+
+    @property
+    def method(self) -> str:
+        if self.is_rational:
+            return "Euclidean algorithm"
+        return "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q"
+
+    proof: Proof = "unconditional"
+
+    def to_dict(self, max_terms: int = 0) -> JSONObject:
+        """The JSON shape of an expansion (``docs/json.md``, *ContinuedFraction*).
+
+        ``max_terms`` (0: all) keeps at most that many partial quotients in
+        ``preperiod`` and ``period`` together; the lengths are always the full ones.
+
+        >>> continued_fraction("(1+sqrt(13))/2").to_dict()["normal_form"]
+        {'P': 1, 'D': 13, 'Q': 2}
+        """
+        pre, per = self.preperiod, self.period
+        if max_terms and len(pre) + len(per) > max_terms:
+            pre, per = pre[:max_terms], per[: max(0, max_terms - len(pre))]
+        value = self.value
+        return {
+            "value": str(value),
+            "normal_form": None
+            if isinstance(value, Fraction)
+            else {"P": value.P, "D": value.D, "Q": value.Q},
+            "preperiod": list(pre),
+            "period": list(per),
+            "preperiod_length": len(self.preperiod),
+            "period_length": len(self.period),
+            "method": self.method,
+            "proof": self.proof,
+        }
 
     def terms(self) -> Iterator[int]:
         """All partial quotients, the period repeated without end."""

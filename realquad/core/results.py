@@ -9,9 +9,13 @@ nothing else). Each also has ``to_dict()``, the JSON shape documented in
 
 from __future__ import annotations
 
-from typing import Literal
+from typing import Any, Literal
 
 #: How sure a result is: proved outright, or proved assuming the generalised Riemann hypothesis.
 Proof = Literal["unconditional", "GRH"]
 
 PROOFS: tuple[Proof, ...] = ("unconditional", "GRH")
+
+#: A JSON object as ``to_dict()`` returns it: integers stay exact Python ints (of any size),
+#: real numbers are decimal strings, the rest lists, strings, booleans and ``None``.
+JSONObject = dict[str, Any]

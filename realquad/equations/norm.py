@@ -65,6 +65,7 @@ from realquad.core.primes import (
     square_roots_mod,
     valuation,
 )
+from realquad.core.results import JSONObject
 from realquad.equations.families import (
     AffineMap,
     LineFamily,
@@ -92,6 +93,10 @@ class NormEquationSolution(QuadraticSolutions):
     d: int = 0
     n: int = 0
     classes: list[Point] = field(default_factory=list)
+
+    def to_dict(self, bound: int | None = None) -> JSONObject:
+        """:meth:`QuadraticSolutions.to_dict` with ``d`` and ``n`` of ``x² − d y² = n`` beside."""
+        return {"d": self.d, "n": self.n, **super().to_dict(bound)}
 
 
 # ---------------------------------------------------------------------------

@@ -31,8 +31,10 @@ from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.primes import divisors_from_factorization, factorize
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
+from realquad.equations.families import point_dict
 from realquad.errors import InputError
+from realquad.textio import decimal_digits
 from realquad.units import DEFAULT_MAX_PERIOD, Unit, fundamental_unit
 
 PELL_NORMS = (1, -1, 4, -4)
@@ -77,6 +79,28 @@ class PellSolution:
         X, Y, c = int(q.x) * scale, int(q.y) * scale, int(q.c)
         assert X % c == 0 and Y % (c * k) == 0
         return X // c, Y // (c * k)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of the answer (``docs/json.md``, *PellSolution*): ``x² − d y² = n``.
+
+        >>> pell(61, -1).to_dict()["x"], pell(3, -1).to_dict()["solvable"]
+        (29718, False)
+        """
+        return {
+            "d": self.d,
+            "n": self.norm,
+            "solvable": self.solvable,
+            "x": self.x,
+            "y": self.y,
+            "digits": None if self.x is None else decimal_digits(self.x),
+            "period_length": self.period_length,
+            "reason": self.reason,
+            "finite_solutions": None
+            if self.finite_solutions is None
+            else [point_dict(p) for p in self.finite_solutions],
+            "method": self.method,
+            "proof": self.proof,
+        }
 
     def solution(self, k: int) -> tuple[int, int]:
         """The k-th positive solution (k ≥ 1; k = 0 gives the trivial one for N > 0)."""

@@ -16,7 +16,7 @@ import mpmath
 
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
@@ -45,6 +45,16 @@ class Regulator:
 
     def __float__(self) -> float:
         return float(self.value)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a regulator (``docs/json.md``, *Regulator*): decimals as strings."""
+        return {
+            "value": str(self),
+            "digits": self.digits,
+            "error_bound": mpmath.nstr(self.error_bound, 3),
+            "method": self.method,
+            "proof": self.proof,
+        }
 
 
 @dataclass(eq=False)
@@ -110,6 +120,45 @@ class Unit:
             self._cache[key] = self._regulator(digits)
         return self._cache[key]  # type: ignore[return-value]
 
+    def estimated_digits(self) -> int:
+        """Decimal digits of ``x`` from ``log ε`` alone, without expanding (possibly one too many).
+
+        ``x ≈ ε·c/2`` has ``⌊log₁₀ ε⌋ + 1`` digits, or one fewer when ``c = 1``
+        and ``ε`` is just above a power of ten.
+        """
+        with mpmath.workdps(40):
+            return int(mpmath.floor(self.regulator(40).value / mpmath.log(10))) + 1
+
     def power(self, k: int) -> QuadraticNumber:
         """``ε^k`` exactly (``k`` may be negative)."""
         return self.expand() ** k
+
+    def to_dict(
+        self, expand: bool = True, with_compact: bool = False, regulator_digits: int = 30
+    ) -> JSONObject:
+        """The JSON shape of a fundamental unit (``docs/json.md``, *Unit*).
+
+        ``expand=False`` leaves out the expanded number (``number`` is ``None``,
+        ``digits`` then estimated from the regulator); ``with_compact`` adds the
+        compact representation when the method kept one; the regulator is given
+        to ``regulator_digits`` significant digits.
+
+        >>> from realquad.units import fundamental_unit
+        >>> d = fundamental_unit(5).to_dict()
+        >>> d["number"], d["norm"], d["digits"], d["regulator"]["value"][:8]
+        ({'x': 1, 'y': 1, 'denominator': 2, 'radicand': 5}, -1, 1, '0.481211')
+        """
+        out: JSONObject = {
+            "order": self.order.to_dict(),
+            "number": self.expand().to_dict() if expand else None,
+            "norm": self.norm,
+            "digits": self.digits if expand else self.estimated_digits(),
+            "digits_exact": expand,
+            "regulator": self.regulator(regulator_digits).to_dict(),
+            "period_length": self.period_length,
+        }
+        compact = self.compact() if with_compact else None
+        out["compact"] = None if compact is None else compact.to_dict()
+        out["method"] = self.method
+        out["proof"] = self.proof
+        return out
