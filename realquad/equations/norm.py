@@ -65,7 +65,6 @@ from realquad.core.primes import (
     square_roots_mod,
     valuation,
 )
-from realquad.core.results import JSONObject
 from realquad.equations.families import (
     AffineMap,
     LineFamily,
@@ -93,10 +92,6 @@ class NormEquationSolution(QuadraticSolutions):
     d: int = 0
     n: int = 0
     classes: list[Point] = field(default_factory=list)
-
-    def to_dict(self, bound: int | None = None) -> JSONObject:
-        """:meth:`QuadraticSolutions.to_dict` with ``d`` and ``n`` of ``x² − d y² = n`` beside."""
-        return {"d": self.d, "n": self.n, **super().to_dict(bound)}
 
 
 # ---------------------------------------------------------------------------
