@@ -12,7 +12,7 @@ from realquad_cli.output import (
 )
 
 from realquad.cfrac import continued_fraction
-from realquad.textio import MINUS, signed
+from realquad.textio import MINUS, plural, signed
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
@@ -46,7 +46,9 @@ def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> Non
         text = f"{value} = {str(cf).replace('-', MINUS)}"
     lines = [
         text,
-        f"pre-period length {len(cf.preperiod):,}, period length {len(cf.period):,}",
+        f"a rational number: {plural(len(cf.preperiod), 'partial quotient')}, no period"
+        if cf.is_rational
+        else f"pre-period length {len(cf.preperiod):,}, period length {len(cf.period):,}",
     ]
     if output is not None:
         write_atomically(

@@ -36,6 +36,7 @@ from fractions import Fraction
 from realquad.cfrac.parser import parse_real_quadratic
 from realquad.core.integers import is_square, isqrt
 from realquad.core.numbers import QuadraticNumber
+from realquad.core.primes import square_factor
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError, TooLargeError
 
@@ -156,20 +157,8 @@ def to_reduced(P: int, D: int, Q: int, max_terms: int) -> tuple[list[int], int, 
 
 def _format(P: int, D: int, Q: int) -> str:
     """``(P + √D)/Q`` in lowest terms, with the square part of ``D`` taken out of the root."""
-    k, s = _extract_square(D)
+    k, s = square_factor(D)
     return str(QuadraticNumber(P, k, Q, s))
-
-
-def _extract_square(D: int) -> tuple[int, int]:
-    """``D = k² s`` with ``k`` the largest square factor found by trial division up to 10⁴."""
-    k, s = 1, D
-    p = 2
-    while p * p <= s and p < 10_000:
-        while s % (p * p) == 0:
-            s //= p * p
-            k *= p
-        p += 1 if p == 2 else 2
-    return k, s
 
 
 @dataclass(frozen=True)
