@@ -91,7 +91,7 @@ def command(
             " (--compact prints the compact form)"
         )
     period = "" if eps.period_length is None else f"; period length {eps.period_length:,}"
-    about = "" if expanded else "about "
+    about = "" if payload["digits_exact"] else "about "
     lines += [
         f"norm {signed_unit(eps.norm)}; x has {about}{plural(n_digits, 'digit')}{period}",
         f"regulator log ε = {reg}",

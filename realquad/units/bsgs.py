@@ -27,6 +27,8 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.errors import TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
+from realquad.infrastructure.distances import principal_near
+from realquad.infrastructure.ideals import Cycle
 from realquad.infrastructure.regulator_search import (
     DEFAULT_MAX_TABLE,
     METHOD,
@@ -88,7 +90,20 @@ def unit_from_search(order: Order, found: BSGSResult) -> Unit:
         _expander=lambda: eps.expand(MAX_EXPANDED_DIGITS),
         _regulator=regulator_to,
         _compact=lambda: eps,
+        _denominator=lambda: _denominator(D, float(found.value), float(found.error_bound)),
     )
+
+
+def _denominator(D: int, R: float, error: float) -> int:
+    """``c`` of ``ε = (x + y√r)/c`` for odd ``D``: 1 exactly when ``ε ∈ Z[√D]``.
+
+    The order ``Z[√D]`` (discriminant ``4D``) has the unit ``ε`` or ``ε³``
+    (``(O/2O)^×`` has order 3 or 1), so ``ε ∈ Z[√D]`` exactly when its
+    infrastructure has a copy of ``O`` at distance ``R`` (and not first at
+    ``3R``): one doubling walk to ``R`` decides.
+    """
+    window = error + 1e-12 * R + 1e-6  # the doubling walk's own float error
+    return 1 if principal_near(Cycle(4 * D), R, min(window, R / 2)) else 2
 
 
 def fundamental_unit_bsgs(order: Order, progress: Progress | None = None) -> Unit:
