@@ -15,6 +15,7 @@ counts with the right plural (:func:`plural`).
 
 from __future__ import annotations
 
+import re
 from collections.abc import Iterable, Sequence
 
 import gmpy2
@@ -90,3 +91,34 @@ def plural(count: int, word: str, words: str | None = None) -> str:
     ('1 digit', '1,234 digits', '2 families')
     """
     return f"{count:,} {word if count == 1 else (words or word + 's')}"
+
+
+_LONG_NUMBER = re.compile(r"[0-9]{61,}")
+
+
+def shown(n: object) -> str:
+    """An integer for a message: in full up to 60 digits, else its ends and its length.
+
+    >>> shown(-12), shown(10**70)
+    ('-12', '10000000000000000000…00000000000000000000 (71 digits)')
+    """
+    text = to_decimal(n)
+    return summarise_numbers(text)
+
+
+def summarise_numbers(text: str) -> str:
+    """``text`` with every run of more than 60 digits cut to its ends and its length.
+
+    >>> summarise_numbers("d = " + "7" * 100 + " is too large")
+    'd = 77777777777777777777…77777777777777777777 (100 digits) is too large'
+    """
+    return _LONG_NUMBER.sub(lambda m: f"{m[0][:20]}…{m[0][-20:]} ({len(m[0]):,} digits)", text)
+
+
+def about(x: float) -> str:
+    """A large estimate in words: ``about 7.9e+15``; beyond floating point, ``more than 1e+300``.
+
+    >>> about(7.94e15), about(float("inf"))
+    ('about 7.9e+15', 'more than 1e+300')
+    """
+    return f"about {x:.2g}" if x < 1e300 else "more than 1e+300"

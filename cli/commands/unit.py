@@ -78,7 +78,8 @@ def command(
     c = payload["number"]["denominator"] if expanded else None
     shape = f"x + y√{r}" if c == 1 else f"(x + y√{r})/{c or 'c, c ∈ {1, 2}'}"
     lines = [
-        f"order of discriminant {order.discriminant} in Q(√{r}), conductor {order.conductor}",
+        f"order of discriminant {sizer.text(order.discriminant)} in Q(√{sizer.text(r)}), "
+        f"conductor {sizer.text(order.conductor)}",
         f"fundamental unit ε = {shape}",
     ]
     if expanded:

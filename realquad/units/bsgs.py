@@ -35,6 +35,7 @@ from realquad.infrastructure.regulator_search import (
     BSGSResult,
     search_regulator,
 )
+from realquad.textio import about, shown
 from realquad.units.results import Regulator, Unit
 
 #: Largest number of giant steps the infrastructure search is started for (hours of work).
@@ -52,14 +53,14 @@ def check_reach(D: int) -> None:
     ...     check_reach(10**60 + 1)
     ... except TooLargeError as exc:
     ...     print(str(exc)[:60])
-    the regulator of D = 100000000000000000000000000000000000000
+    the regulator of D = 10000000000000000000…000000000000000000
     """
     E = estimate_hR(D, 2_000).value
     steps = E / (2 * 1.19 * DEFAULT_MAX_TABLE)
     if steps > MAX_GIANT_STEPS:
         raise TooLargeError(
-            f"the regulator of D = {D} needs about {steps:.1e} giant steps of baby-step "
-            f"giant-step (R may be near {E:.1e}); this is beyond reach of the methods "
+            f"the regulator of D = {shown(D)} needs {about(steps)} giant steps of baby-step "
+            f"giant-step (R may be {about(E)}); this is beyond reach of the methods "
             "implemented here (subexponential methods are planned)"
         )
 

@@ -41,7 +41,7 @@ def test_large_discriminant_by_infrastructure(capsys) -> None:  # type: ignore[n
     assert data["method"] == "continued fraction (half period, product tree)"  # period 532572 < 10⁷
     data = run_json(capsys, "unit", "--disc", str(D), "--method", "bsgs")
     assert data["regulator"]["value"] == str(regulator_cfrac(D, 30))
-    assert data["number"] is None and data["digits_exact"] is False
+    assert data["number"] is None and data["digits_exact"] is True  # counted from R exactly
     assert data["digits"] == 274428 and data["period_length"] is None
 
 

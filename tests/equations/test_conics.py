@@ -244,7 +244,10 @@ def test_parabolic_equations_with_planted_solutions() -> None:
 @pytest.mark.parametrize(
     ("equation", "families"),
     [
-        ((1, -7, -7, 0, 0, 7), [(0, 1)]),  # x² − 7xy − 7y² = −7: (7, 1) is the next member of (0, 1)
+        (
+            (1, -7, -7, 0, 0, 7),
+            [(0, 1)],
+        ),  # x² − 7xy − 7y² = −7: (7, 1) is the next member of (0, 1)
         ((1, -1, -1, -1, 0, 0), [(0, 0)]),  # x² − xy − y² = x: (1, 0) is the next member of (0, 0)
     ],
 )
