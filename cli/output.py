@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import json
 import os
+import re
 import tempfile
 from collections.abc import Callable
 from typing import Any, TypeVar
@@ -23,9 +24,45 @@ from realquad.textio import MINUS, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
-#: Context settings of every command: a token like ``-5`` reaches the argument
-#: (and its one-line error) instead of being taken for an unknown option.
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
+#: A token that is a negative number (``-5``, ``-1/2``), not an option: no option starts with a digit.
+_NEGATIVE = re.compile(r"-[0-9]")
+
+
+class Command(click.Command):
+    """A command whose arguments may be negative numbers, and whose options are checked strictly.
+
+    A token such as ``-5`` is a value, never an option (its minus becomes the
+    minus sign ``−``, which every parser of the package reads as minus); an
+    unknown option is "no such option" with the nearest name; an option given
+    twice is an error instead of the last one silently winning.
+    """
+
+    def parse_args(self, ctx: click.Context, args: list[str]) -> list[str]:
+        args = [MINUS + a[1:] if _NEGATIVE.match(a) else a for a in args]
+        self._refuse_repeats(args)
+        return super().parse_args(ctx, args)
+
+    def _refuse_repeats(self, args: list[str]) -> None:
+        names: dict[str, str] = {}
+        for param in self.params:
+            if isinstance(param, click.Option) and not param.multiple and not param.count:
+                for name in (*param.opts, *param.secondary_opts):
+                    names[name] = param.opts[0]
+        seen: set[str] = set()
+        for arg in args:
+            if arg == "--":
+                break
+            option = names.get(arg.split("=", 1)[0])
+            if option is not None:
+                if option in seen:
+                    raise click.UsageError(f"option {option} is given more than once")
+                seen.add(option)
+
+
+class Group(click.Group):
+    """A group of :class:`Command` subcommands (``command_class``)."""
+
+    command_class = Command
 
 #: Digits kept at each end of a summarised integer.
 EDGE = 20

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 from realquad_cli.output import (
-    ACCEPT_NEGATIVE,
+    Command,
     check_output_path,
     emit,
     json_option,
@@ -15,7 +15,7 @@ from realquad.cfrac import continued_fraction
 from realquad.textio import MINUS, plural, signed
 
 
-@click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
+@click.command("cfrac", cls=Command)
 @click.argument("expr", type=str)
 @click.option(
     "--max-terms",
