@@ -56,8 +56,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         cli.main(args=args, prog_name="realquad", standalone_mode=False)
     except click.exceptions.NoArgsIsHelpError as exc:
-        click.echo(exc.ctx.get_help() if exc.ctx else "", err=True)
-        return 2
+        name = exc.ctx.command_path if exc.ctx else "realquad"
+        return error(f"missing command: {name} needs one (see {name} --help)")
     except click.UsageError as exc:
         return error(exc.format_message())
     except click.exceptions.Exit as exc:

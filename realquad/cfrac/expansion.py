@@ -35,6 +35,7 @@ from fractions import Fraction
 
 from realquad.cfrac.parser import parse_real_quadratic
 from realquad.core.integers import is_square, isqrt
+from realquad.core.lfunction import estimated_period
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.primes import square_factor
 from realquad.core.results import JSONObject, Proof
@@ -42,6 +43,10 @@ from realquad.errors import DomainError, InputError, TooLargeError
 
 #: Default bound on the number of states a period search may visit.
 DEFAULT_MAX_TERMS = 20_000_000
+
+#: Terms walked before a period estimated far beyond the limit is refused (short periods, as for
+#: ``√(n² + 1)``, are found first whatever the estimate says).
+_FIRST_TERMS = 100_000
 
 
 @dataclass(frozen=True)
@@ -278,6 +283,8 @@ def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> Continu
             return ContinuedFraction(value, pre, period)
         if len(period) >= max_terms:
             break
+        if len(period) == _FIRST_TERMS and estimated_period(D, 2_000) > 100 * max_terms:
+            break  # a period estimated hopelessly long: refuse now rather than after max_terms
         append(a)
     raise TooLargeError(
         f"the period is longer than {max_terms:,} terms; raise the limit or use the unit "
