@@ -45,13 +45,18 @@ def bounded_integer(n: int, max_digits: int) -> tuple[int | None, dict[str, Any]
     return None, {"digits": k, "leading": text[:edge], "trailing": text[-edge:]}
 
 
-def integer_text(n: int, max_digits: int) -> str:
-    """The integer in full, or its leading and trailing digits and digit count."""
+def integer_text(n: int, max_digits: int, hint: bool = True) -> str:
+    """The integer in full, or its leading and trailing digits and digit count.
+
+    ``hint=False`` leaves out the advice on how to see all digits (for lists,
+    which give it once).
+    """
     value, summary = bounded_integer(n, max_digits)
     if summary is None:
         return to_decimal(n)
     sign = "-" if n < 0 else ""
-    return f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']} digits; --max-digits 0 or --output FILE for all)"
+    advice = "; --max-digits 0 or --output FILE for all" if hint else ""
+    return f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']} digits{advice})"
 
 
 def put_integers(payload: dict[str, Any], values: dict[str, int], max_digits: int) -> bool:
@@ -104,6 +109,17 @@ def json_option(f: F) -> F:
     )(f)
 
 
+def max_digits_option(f: F) -> F:
+    """``--max-digits K``: the longest integer printed in full (0 = no limit)."""
+    return click.option(
+        "--max-digits",
+        type=click.IntRange(min=0),
+        default=1000,
+        show_default=True,
+        help="Longest integer printed in full; longer ones are summarised (0 = no limit).",
+    )(f)
+
+
 def size_options(f: F) -> F:
     """``--max-digits K`` and ``--output FILE``, shared by commands that print big integers."""
     f = click.option(
@@ -114,14 +130,7 @@ def size_options(f: F) -> F:
         metavar="FILE",
         help="Write the full values to FILE (whatever --max-digits says).",
     )(f)
-    f = click.option(
-        "--max-digits",
-        type=click.IntRange(min=0),
-        default=1000,
-        show_default=True,
-        help="Longest integer printed in full; longer ones are summarised (0 = no limit).",
-    )(f)
-    return f
+    return max_digits_option(f)
 
 
 def emit(payload: dict[str, Any], text: str, as_json: bool) -> None:

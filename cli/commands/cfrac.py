@@ -1,7 +1,13 @@
-"""``realquad cfrac EXPR``: continued fraction of a rational or quadratic irrational."""
+"""``realquad cfrac EXPR``: continued fraction of a rational or quadratic irrational.
+
+With ``--convergents K`` also its first ``K`` convergents, with ``--best B``
+its best rational approximations with denominator at most ``B``.
+"""
 
 from __future__ import annotations
 
+import itertools
+from collections.abc import Iterable
 from typing import Any
 
 import click
@@ -9,11 +15,53 @@ from realquad_cli.output import (
     ACCEPT_NEGATIVE,
     check_output_path,
     emit,
+    integer_text,
     json_option,
+    max_digits_option,
+    put_integers,
     write_atomically,
 )
 
-from realquad.cfrac import continued_fraction
+from realquad.cfrac import Approximation, best_approximations, continued_fraction, convergents
+from realquad.core.integers import as_integer
+from realquad.errors import InputError
+from realquad.textio import to_decimal
+
+KIND_NAMES = {
+    1: "first kind (closest p/q: convergents and intermediate fractions)",
+    2: "second kind (smallest |qx − p|: convergents)",
+}
+DIGITS_ADVICE = "(long integers summarised; --max-digits 0 or --output FILE for all)"
+
+
+def _fraction_entry(p: int, q: int, max_digits: int) -> dict[str, Any]:
+    """``{"p": …, "q": …}``, a too-long integer as ``None`` plus ``p_summary``/``q_summary``."""
+    entry: dict[str, Any] = {}
+    put_integers(entry, {"p": p, "q": q}, max_digits)
+    return entry
+
+
+def _fraction_text(p: int, q: int, max_digits: int) -> str:
+    return f"{integer_text(p, max_digits, hint=False)}/{integer_text(q, max_digits, hint=False)}"
+
+
+def _summarised(entries: list[dict[str, Any]]) -> bool:
+    return any("p_summary" in e or "q_summary" in e for e in entries)
+
+
+def _first(items: Iterable[Any], max_terms: int) -> tuple[list[Any], bool]:
+    """The first ``max_terms`` items (all for 0) and whether there were more."""
+    if max_terms == 0:
+        return list(items), False
+    kept = list(itertools.islice(items, max_terms + 1))
+    return kept[:max_terms], len(kept) > max_terms
+
+
+def _positive(text: str, name: str) -> int:
+    n = as_integer(text, name)
+    if n < 1:
+        raise InputError(f"{name} must be a positive integer, got {n}")
+    return n
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
@@ -23,17 +71,57 @@ from realquad.cfrac import continued_fraction
     type=click.IntRange(min=0),
     default=1000,
     show_default=True,
-    help="Most partial quotients printed (0 = no limit).",
+    help="Most partial quotients, convergents or approximations printed (0 = no limit).",
 )
 @click.option(
-    "--output", type=str, default=None, metavar="FILE", help="Write all partial quotients to FILE."
+    "--convergents",
+    "n_convergents",
+    type=str,
+    default=None,
+    metavar="K",
+    help="Also print the first K convergents p/q.",
+)
+@click.option(
+    "--best",
+    "best",
+    type=str,
+    default=None,
+    metavar="B",
+    help="Also print the best rational approximations with denominator at most B.",
+)
+@click.option(
+    "--kind",
+    type=click.IntRange(1, 2),
+    default=1,
+    show_default=True,
+    help="With --best: 1 = closest p/q (convergents and intermediate fractions), "
+    "2 = smallest |qx − p| (convergents).",
+)
+@max_digits_option
+@click.option(
+    "--output",
+    type=str,
+    default=None,
+    metavar="FILE",
+    help="Write all partial quotients (and the fractions asked for, in full) to FILE.",
 )
 @json_option
-def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> None:
+def command(
+    expr: str,
+    max_terms: int,
+    n_convergents: str | None,
+    best: str | None,
+    kind: int,
+    max_digits: int,
+    output: str | None,
+    as_json: bool,
+) -> None:
     """Continued fraction of d (meaning √d), sqrt(d), (P+sqrt(D))/Q or a/b.
 
-    Example: realquad cfrac "(1+sqrt(13))/2"
+    Example: realquad cfrac "(1+sqrt(13))/2"; realquad cfrac 61 --convergents 12 --best 1000
     """
+    count = None if n_convergents is None else _positive(n_convergents, "--convergents")
+    bound = None if best is None else _positive(best, "--best")
     check_output_path(output)
     cf = continued_fraction(expr)
     n_terms = len(cf.preperiod) + len(cf.period)
@@ -65,15 +153,65 @@ def command(expr: str, max_terms: int, output: str | None, as_json: bool) -> Non
     else:
         text = f"{cf.value} = {cf}"
     lines = [text, f"pre-period length {len(cf.preperiod)}, period length {len(cf.period)}"]
-    if output is not None:
-        write_atomically(
-            output,
-            "preperiod "
-            + " ".join(map(str, cf.preperiod))
-            + "\nperiod "
-            + " ".join(map(str, cf.period))
-            + "\n",
+    file_lines = [
+        "preperiod " + " ".join(map(str, cf.preperiod)),
+        "period " + " ".join(map(str, cf.period)),
+    ]
+    if count is not None:
+        every = list(convergents(cf.value, count)) if output is not None else None
+        pairs, more = _first(
+            every if every is not None else convergents(cf.value, count), max_terms
         )
+        payload["convergents"] = [_fraction_entry(p, q, max_digits) for p, q in pairs]
+        payload["convergents_truncated"] = more
+        lines.append(
+            f"convergents p_k/q_k, k = 0..{len(pairs) - 1}"
+            + (f" (first {len(pairs)}; --max-terms 0 for all {count})" if more else "")
+            + ":"
+        )
+        lines += [f"{k:>6}  {_fraction_text(p, q, max_digits)}" for k, (p, q) in enumerate(pairs)]
+        if every is not None:
+            file_lines.append("convergents " + " ".join(f"{p}/{q}" for p, q in _decimal(every)))
+    if bound is not None:
+        found = best_approximations(cf.value, bound, 1 if kind == 1 else 2)
+        every_best = list(found) if output is not None else None
+        approx, more = _first(every_best if every_best is not None else found, max_terms)
+        payload["best_approximations"] = [_approximation_entry(a, max_digits) for a in approx]
+        payload["best_approximations_kind"] = kind
+        payload["best_approximations_truncated"] = more
+        lines.append(
+            f"best approximations of the {KIND_NAMES[kind]} with q ≤ {integer_text(bound, max_digits)}"
+            + (f" (first {len(approx)}; --max-terms 0 for all)" if more else "")
+            + ":"
+        )
+        lines += [
+            f"  {_fraction_text(a.p, a.q, max_digits)}"
+            + (
+                ""
+                if a.is_convergent
+                else f"  (intermediate, t = {a.step} of a_{a.index} = {a.quotient})"
+            )
+            for a in approx
+        ]
+        if every_best is not None:
+            file_lines.append(
+                "best " + " ".join(f"{p}/{q}" for p, q in _decimal((a.p, a.q) for a in every_best))
+            )
+    if _summarised(payload.get("convergents", []) + payload.get("best_approximations", [])):
+        lines.append(DIGITS_ADVICE)
+    if output is not None:
+        write_atomically(output, "\n".join(file_lines) + "\n")
         payload["output"] = output
         lines.append(f"all terms written to {output}")
     emit(payload, "\n".join(lines), as_json)
+
+
+def _approximation_entry(a: Approximation, max_digits: int) -> dict[str, Any]:
+    entry = _fraction_entry(a.p, a.q, max_digits)
+    entry["convergent"] = a.is_convergent
+    return entry
+
+
+def _decimal(pairs: Iterable[tuple[int, int]]) -> Iterable[tuple[str, str]]:
+    """Integers of any size as decimal text (not through ``str``, see ``realquad.textio``)."""
+    return ((to_decimal(p), to_decimal(q)) for p, q in pairs)
