@@ -189,7 +189,7 @@ def command(
             + (
                 ""
                 if a.is_convergent
-                else f"  (intermediate, t = {a.step} of a_{a.index} = {a.quotient})"
+                else f"  (intermediate, t = {a.t} of a_{a.k} = {a.a})"
             )
             for a in approx
         ]

@@ -50,20 +50,21 @@ from realquad.errors import InputError
 class Approximation(NamedTuple):
     """The fraction ``p/q`` with its place in the expansion.
 
-    ``p/q = (p_{k−2} + t·p_{k−1})/(q_{k−2} + t·q_{k−1})`` with ``k = index``,
-    ``t = step`` and ``a_k = quotient``; ``step == quotient`` for the
-    convergent ``p_k/q_k`` (for ``k = 0``, ``a₀/1``, both are ``a₀``).
+    ``p/q = (p_{k−2} + t·p_{k−1})/(q_{k−2} + t·q_{k−1})`` with ``1 ≤ t ≤ a``,
+    ``a = a_k`` the partial quotient; ``t == a`` for the convergent
+    ``p_k/q_k`` (for ``k = 0``, ``a₀/1``, both are ``a₀``).
     """
 
     p: int
     q: int
-    index: int
-    step: int
-    quotient: int
+    k: int
+    t: int
+    a: int
 
     @property
     def is_convergent(self) -> bool:
-        return self.step == self.quotient
+        """Whether ``p/q`` is the convergent ``p_k/q_k`` (``t = a_k``)."""
+        return self.t == self.a
 
 
 def sign_of(x: QuadraticIrrational | Fraction, s: int, r: int) -> int:
