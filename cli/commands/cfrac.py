@@ -186,11 +186,7 @@ def command(
         )
         lines += [
             f"  {_fraction_text(a.p, a.q, max_digits)}"
-            + (
-                ""
-                if a.is_convergent
-                else f"  (intermediate, t = {a.t} of a_{a.k} = {a.a})"
-            )
+            + ("" if a.is_convergent else f"  (intermediate, t = {a.t} of a_{a.k} = {a.a})")
             for a in approx
         ]
         if every_best is not None:

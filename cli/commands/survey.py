@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+from dataclasses import replace
 from typing import Any
 
 import click
@@ -12,6 +13,7 @@ from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
+from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
 from realquad.survey.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
@@ -227,8 +229,116 @@ def _json_row(row: dict[str, Any]) -> dict[str, Any]:
     return out
 
 
+def _query_options(f: Any) -> Any:
+    """The conditions only ``query`` takes (on structures, primes, regulators) and the sort."""
+    for option in reversed(
+        [
+            click.option(
+                "--class-group",
+                "class_group",
+                type=str,
+                default=None,
+                metavar="GROUP",
+                help='Only fields whose class group Cl is GROUP ("C2 x C2", "2,2", "Z/2 x Z/4", "1").',
+            ),
+            click.option(
+                "--narrow-class-group",
+                "narrow_class_group",
+                type=str,
+                default=None,
+                metavar="GROUP",
+                help="Only fields whose narrow class group Cl⁺ is GROUP.",
+            ),
+            click.option(
+                "--p-rank",
+                "p_ranks",
+                type=str,
+                multiple=True,
+                metavar="P=R",
+                help="Only fields where R invariant factors of Cl are divisible by the prime P "
+                "(2=2: 2-rank 2). Repeatable.",
+            ),
+            click.option(
+                "--narrow-p-rank",
+                "narrow_p_ranks",
+                type=str,
+                multiple=True,
+                metavar="P=R",
+                help="The same for Cl⁺. Repeatable.",
+            ),
+            click.option("--prime-d", is_flag=True, help="Only fields with d prime."),
+            click.option(
+                "--prime-discriminant",
+                is_flag=True,
+                help="Only fields whose discriminant D is prime (D = d ≡ 1 mod 4).",
+            ),
+            click.option(
+                "--regulator-min",
+                type=str,
+                default=None,
+                metavar="X",
+                help="Only fields with regulator ≥ X (exact decimal comparison).",
+            ),
+            click.option(
+                "--regulator-max",
+                type=str,
+                default=None,
+                metavar="X",
+                help="Only fields with regulator ≤ X (exact decimal comparison).",
+            ),
+            click.option(
+                "--sort",
+                type=str,
+                default=None,
+                metavar="COLUMN",
+                help=f"Sort by COLUMN ({', '.join(COLUMNS)}) instead of d.",
+            ),
+            click.option("--desc", "descending", is_flag=True, help="Sort in decreasing order."),
+        ]
+    ):
+        f = option(f)
+    return f
+
+
+def _query_filter(base: RowFilter, conditions: dict[str, Any]) -> RowFilter:
+    """``base`` with the conditions of :func:`_query_options`, checked (bad ones raise InputError)."""
+    p_ranks = tuple(parse_p_rank(text) for text in conditions["p_ranks"])
+    narrow_p_ranks = tuple(parse_p_rank(text) for text in conditions["narrow_p_ranks"])
+    lo = conditions["regulator_min"]
+    hi = conditions["regulator_max"]
+    low = None if lo is None else parse_decimal(lo, "--regulator-min")
+    high = None if hi is None else parse_decimal(hi, "--regulator-max")
+    if low is not None and high is not None and low > high:
+        raise InputError(f"empty range: --regulator-min {lo} is larger than --regulator-max {hi}")
+    groups = {
+        key: None if conditions[key] is None else parse_group(conditions[key])
+        for key in ("class_group", "narrow_class_group")
+    }
+    return replace(
+        base,
+        class_group=groups["class_group"],
+        narrow_class_group=groups["narrow_class_group"],
+        p_ranks=p_ranks,
+        narrow_p_ranks=narrow_p_ranks,
+        prime_d=conditions["prime_d"],
+        prime_discriminant=conditions["prime_discriminant"],
+        regulator_min=low,
+        regulator_max=high,
+    )
+
+
+def _sort_column(sort: str | None) -> str | None:
+    if sort is None:
+        return None
+    name = sort.strip()
+    if name not in COLUMNS:
+        raise InputError(f"--sort takes a column name ({', '.join(COLUMNS)}), got {sort[:40]!r}")
+    return name
+
+
 @command.command("query", context_settings=ACCEPT_NEGATIVE)
 @_filter_options
+@_query_options
 @_db_option
 @click.option(
     "--limit",
@@ -251,17 +361,21 @@ def query_command(
     limit: int,
     as_csv: bool,
     as_json: bool,
+    sort: str | None,
+    descending: bool,
+    **conditions: Any,
 ) -> None:
-    """Print the surveyed fields that match every condition given, in increasing d.
+    """Print the surveyed fields that match every condition given, in increasing d (or --sort).
 
-    Example: realquad survey query --class-number 1 --unit-norm -1 --d-max 1000
+    Example: realquad survey query --class-group "C2 x C2" --prime-d --sort regulator --desc
     """
     if as_csv and as_json:
         raise InputError("give --csv or --json, not both")
-    where = _row_filter(class_number, narrow, unit_norm, d_min, d_max)
+    where = _query_filter(_row_filter(class_number, narrow, unit_norm, d_min, d_max), conditions)
+    column = _sort_column(sort)
     with SurveyStore.open_for_reading(db) as store:
         matching = store.count(where)
-        rows = list(store.rows(where, limit or None))
+        rows = list(store.rows(where, limit or None, sort=column, descending=descending))
     if as_csv:
         buffer = io.StringIO()
         writer = csv.writer(buffer, lineterminator="\n")
@@ -281,13 +395,13 @@ def query_command(
         "rows": [_json_row(r) for r in rows],
     }
     lines = [
-        f"{'d':>10} {'D':>11} {'h':>5} {'h+':>5} {'Cl+':>10} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
+        f"{'d':>10} {'D':>11} {'h':>5} {'h+':>5} {'Cl':>10} {'Cl+':>10} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
     ]
     for r in rows:
         lines.append(
             f"{r['d']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
-            f"{_structure(r['narrow_class_group']):>10} {r['unit_norm']:>+5d} {r['regulator']:>20} "
-            f"{r['period_length']:>7} {r['unit_digits']:>7}"
+            f"{_structure(r['class_group']):>10} {_structure(r['narrow_class_group']):>10} "
+            f"{r['unit_norm']:>+5d} {r['regulator']:>20} {r['period_length']:>7} {r['unit_digits']:>7}"
         )
     lines.append(
         f"{matching:,} matching fields"
