@@ -174,7 +174,7 @@ def test_sort_by_every_column(capsys, db, every_row, column):
 
 
 def test_python_api(db, every_row):
-    where = RowFilter(class_group="C2 x C2", prime_d=False, regulator_min=Fraction(5).numerator)
+    where = RowFilter(class_group="C2 x C2", prime_d=False, regulator_min=5)
     with SurveyStore.open_for_reading(db) as store:
         rows = list(store.rows(where, limit=5, sort="regulator", descending=True))
         count = store.count(where)
