@@ -44,6 +44,7 @@ from fractions import Fraction
 from typing import Literal, NamedTuple
 
 from realquad.cfrac.expansion import QuadraticIrrational, exact_real, partial_quotients
+from realquad.core.integers import as_integer
 from realquad.errors import InputError
 
 
@@ -155,8 +156,9 @@ def best_approximations(x: object, bound: int, kind: Literal[1, 2] = 1) -> Itera
     >>> [(a.p, a.q, a.is_convergent) for a in best_approximations("sqrt(61)", 16)]
     [(8, 1, True), (23, 3, False), (31, 4, False), (39, 5, True), (86, 11, False), (125, 16, True)]
     """
-    if isinstance(bound, bool) or not isinstance(bound, int) or bound < 1:
-        raise InputError(f"the denominator bound must be a positive integer, got {bound!r}")
+    bound = as_integer(bound, "the denominator bound")
+    if bound < 1:
+        raise InputError(f"the denominator bound must be a positive integer, got {bound}")
     if kind not in (1, 2):
         raise InputError(f"kind must be 1 or 2, got {kind!r}")
     value = exact_real(x)
