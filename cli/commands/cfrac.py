@@ -7,7 +7,7 @@ its best rational approximations with denominator at most ``B``.
 from __future__ import annotations
 
 import itertools
-from collections.abc import Iterable
+from collections.abc import Iterable, Iterator
 from typing import Any
 
 import click
@@ -24,13 +24,16 @@ from realquad_cli.output import (
 
 from realquad.cfrac import Approximation, best_approximations, continued_fraction, convergents
 from realquad.core.integers import as_integer
-from realquad.errors import InputError
+from realquad.errors import InputError, TooLargeError
 from realquad.textio import to_decimal
 
 KIND_NAMES = {
     1: "first kind (closest p/q: convergents and intermediate fractions)",
     2: "second kind (smallest |qx − p|: convergents)",
 }
+#: Most decimal digits of all the fractions of one list together (kept in memory, then printed).
+MAX_LIST_DIGITS = 100_000_000
+MAX_LIST_BITS = int(MAX_LIST_DIGITS * 3.3219280948873626)  # log₂ 10
 DIGITS_ADVICE = "(long integers summarised; --max-digits 0 or --output FILE for all)"
 
 
@@ -55,6 +58,19 @@ def _first(items: Iterable[Any], max_terms: int) -> tuple[list[Any], bool]:
         return list(items), False
     kept = list(itertools.islice(items, max_terms + 1))
     return kept[:max_terms], len(kept) > max_terms
+
+
+def _within_budget(fractions: Iterable[Any], option: str) -> Iterator[Any]:
+    """The fractions ``(p, q, …)``, stopping with TooLargeError past MAX_LIST_DIGITS digits in all."""
+    bits = 0
+    for item in fractions:
+        bits += item[0].bit_length() + item[1].bit_length()
+        if bits > MAX_LIST_BITS:
+            raise TooLargeError(
+                f"the fractions asked for hold more than {MAX_LIST_DIGITS:,} digits in all; "
+                f"give a smaller {option} (or a smaller --max-terms)"
+            )
+        yield item
 
 
 def _positive(text: str, name: str) -> int:
@@ -158,10 +174,9 @@ def command(
         "period " + " ".join(map(str, cf.period)),
     ]
     if count is not None:
-        every = list(convergents(cf.value, count)) if output is not None else None
-        pairs, more = _first(
-            every if every is not None else convergents(cf.value, count), max_terms
-        )
+        wanted = _within_budget(convergents(cf.value, count), "--convergents")
+        every = list(wanted) if output is not None else None
+        pairs, more = _first(every if every is not None else wanted, max_terms)
         payload["convergents"] = [_fraction_entry(p, q, max_digits) for p, q in pairs]
         payload["convergents_truncated"] = more
         lines.append(
@@ -174,6 +189,7 @@ def command(
             file_lines.append("convergents " + " ".join(f"{p}/{q}" for p, q in _decimal(every)))
     if bound is not None:
         found = best_approximations(cf.value, bound, 1 if kind == 1 else 2)
+        found = _within_budget(found, "--best")
         every_best = list(found) if output is not None else None
         approx, more = _first(every_best if every_best is not None else found, max_terms)
         payload["best_approximations"] = [_approximation_entry(a, max_digits) for a in approx]

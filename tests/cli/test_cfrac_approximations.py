@@ -153,3 +153,11 @@ def test_fuzz_new_options(capsys, expr, option, value):
     assert code in (0, 2) and "Traceback" not in err
     if code == 2:
         assert err.startswith("realquad: error:") and err.count("\n") == 1 and out == ""
+
+
+def test_huge_lists_are_refused_before_anything_is_written(capsys, tmp_path: Path):
+    out_file = tmp_path / "all.txt"
+    args = ["cfrac", "2", "--convergents", "1000000", "--output", str(out_file)]
+    code, out, err = run(capsys, *args)
+    assert code == 2 and out == "" and not out_file.exists()
+    assert err.startswith("realquad: error:") and "--convergents" in err and err.count("\n") == 1
