@@ -19,7 +19,7 @@ author = "the realquad developers"
 copyright = "the realquad developers, MIT licence"
 release = version = __version__
 
-extensions = ["sphinx.ext.autodoc", "sphinx.ext.doctest"]
+extensions = ["sphinx.ext.autodoc"]  # the examples are doctested by pytest, not here
 autodoc_member_order = "bysource"
 autodoc_typehints = "signature"
 autodoc_default_options = {"members": True, "show-inheritance": True}
