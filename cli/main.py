@@ -17,6 +17,7 @@ from realquad_cli.commands import COMMANDS
 import realquad
 from realquad._backend import BACKEND, BUILD_NOTE
 from realquad.errors import RealquadError
+from realquad.textio import summarise_numbers
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
@@ -43,8 +44,9 @@ for _command in COMMANDS:
 
 
 def error(message: str) -> int:
+    """One ``realquad: error: …`` line on stderr (long numbers in it summarised); status 2."""
     first = " ".join(str(message).split()) or "unknown error"
-    click.echo(f"realquad: error: {first}", err=True)
+    click.echo(f"realquad: error: {summarise_numbers(first)}", err=True)
     return 2
 
 

@@ -1,4 +1,12 @@
-"""Rendering shared by every command: JSON, bounded integers, atomic output files."""
+"""Rendering shared by every command: JSON, bounded integers, atomic output files.
+
+Every command builds its ``--json`` from the result objects' ``to_dict()``
+(``docs/json.md``) and passes it through :class:`Sizer`: an integer of more
+than ``--max-digits`` decimal digits is replaced, wherever it stands, by a
+summary object ``{"digits": k, "leading": "…", "trailing": "…"}``, and the
+payload says ``"truncated": true``. Text output uses the same sizes
+(:meth:`Sizer.text`) and the house style of :mod:`realquad.textio`.
+"""
 
 from __future__ import annotations
 
@@ -11,7 +19,7 @@ from typing import Any, TypeVar
 import click
 import gmpy2
 
-from realquad.textio import decimal_digits, to_decimal
+from realquad.textio import MINUS, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -19,59 +27,108 @@ F = TypeVar("F", bound=Callable[..., Any])
 #: (and its one-line error) instead of being taken for an unknown option.
 ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
 
+#: Digits kept at each end of a summarised integer.
+EDGE = 20
+
 
 def dumps(obj: Any) -> str:
     """JSON text of ``obj`` with integers of any size written exactly."""
-    if obj is None or isinstance(obj, (bool, str, float)):
-        return json.dumps(obj, ensure_ascii=False)
-    if isinstance(obj, int) or type(obj).__name__ == "mpz":
-        return to_decimal(obj)
-    if isinstance(obj, dict):
-        return "{" + ", ".join(f"{json.dumps(str(k))}: {dumps(v)}" for k, v in obj.items()) + "}"
-    if isinstance(obj, (list, tuple)):
-        return "[" + ", ".join(dumps(v) for v in obj) + "]"
-    return json.dumps(str(obj), ensure_ascii=False)
+    return Sizer(0).json(obj)
 
 
-def bounded_integer(n: int, max_digits: int) -> tuple[int | None, dict[str, Any] | None]:
-    """``(n, None)`` if it has at most ``max_digits`` digits (0 = no limit), else a summary."""
-    if max_digits == 0 or abs(n) < 10**18:
-        return n, None
-    k = decimal_digits(n)
-    if k <= max_digits:
-        return n, None
-    text = to_decimal(abs(gmpy2.mpz(n)))
-    edge = 20
-    return None, {"digits": k, "leading": text[:edge], "trailing": text[-edge:]}
+class Sizer:
+    """``--max-digits`` for many integers at once: each distinct integer is sized once.
 
-
-def integer_text(n: int, max_digits: int, hint: bool = True) -> str:
-    """The integer in full, or its leading and trailing digits and digit count.
-
-    ``hint=False`` leaves out the advice on how to see all digits (for lists,
-    which give it once).
+    The leading and trailing digits of a long integer come from one division
+    and one remainder instead of a full decimal conversion, and an integer
+    shared by many places (the automorph of every family of a norm equation)
+    is sized and converted once.
     """
-    value, summary = bounded_integer(n, max_digits)
-    if summary is None:
-        return to_decimal(n)
-    sign = "-" if n < 0 else ""
-    advice = "; --max-digits 0 or --output FILE for all" if hint else ""
-    return f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']} digits{advice})"
+
+    def __init__(self, max_digits: int) -> None:
+        self.max_digits = max_digits
+        self.cut = False
+        self._summaries: dict[int, tuple[int, dict[str, Any] | None]] = {}
+        self._decimals: dict[int, tuple[int, str]] = {}
+
+    def summary(self, n: int) -> dict[str, Any] | None:
+        """``None`` if ``n`` has at most ``max_digits`` digits (0: no limit), else its summary."""
+        if self.max_digits == 0 or -(10**18) < n < 10**18:
+            return None
+        hit = self._summaries.get(id(n))
+        if hit is not None and hit[0] is n:
+            return hit[1]
+        m = abs(gmpy2.mpz(n))
+        k0 = int(gmpy2.num_digits(m, 10))  # exact or one too many
+        if k0 <= EDGE + 1:
+            k, lead = len(to_decimal(m)), m
+        else:
+            lead = m // gmpy2.mpz(10) ** (k0 - EDGE - 1)
+            k = k0 if lead >= 10**EDGE else k0 - 1
+        out = None
+        if k > self.max_digits:
+            out = {
+                "digits": k,
+                "leading": to_decimal(lead)[:EDGE],
+                "trailing": to_decimal(m % 10**EDGE).zfill(EDGE)[-min(EDGE, k) :],
+            }
+        self._summaries[id(n)] = (n, out)
+        return out
+
+    def bounded(self, obj: Any) -> Any:
+        """``obj`` with every integer beyond ``max_digits`` replaced by its summary (sets :attr:`cut`)."""
+        if isinstance(obj, dict):
+            return {k: self.bounded(v) for k, v in obj.items()}
+        if isinstance(obj, (list, tuple)):
+            return [self.bounded(v) for v in obj]
+        if isinstance(obj, int) and not isinstance(obj, bool) or type(obj).__name__ == "mpz":
+            summary = self.summary(obj)
+            if summary is not None:
+                self.cut = True
+                return summary
+        return obj
+
+    def digits(self, n: int) -> str:
+        """The decimal digits of ``n``, converted once per distinct big integer."""
+        if -(10**1000) < n < 10**1000:
+            return to_decimal(n)
+        hit = self._decimals.get(id(n))
+        if hit is None or hit[0] is not n:
+            hit = (n, to_decimal(n))
+            self._decimals[id(n)] = hit
+        return hit[1]
+
+    def json(self, obj: Any) -> str:
+        """JSON text of ``obj``, each big integer converted exactly and once."""
+        if obj is None or isinstance(obj, (bool, str, float)):
+            return json.dumps(obj, ensure_ascii=False)
+        if isinstance(obj, int) or type(obj).__name__ == "mpz":
+            return self.digits(obj)
+        if isinstance(obj, dict):
+            return (
+                "{"
+                + ", ".join(f"{json.dumps(str(k))}: {self.json(v)}" for k, v in obj.items())
+                + "}"
+            )
+        if isinstance(obj, (list, tuple)):
+            return "[" + ", ".join(self.json(v) for v in obj) + "]"
+        return json.dumps(str(obj), ensure_ascii=False)
+
+    def text(self, n: int) -> str:
+        """The integer in full (minus sign ``−``), or its leading and trailing digits and digit count."""
+        summary = self.summary(n)
+        sign = MINUS if n < 0 else ""
+        if summary is None:
+            return sign + self.digits(abs(n))
+        return (
+            f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']:,} digits; "
+            "--max-digits 0 or --output FILE for all)"
+        )
 
 
-def put_integers(payload: dict[str, Any], values: dict[str, int], max_digits: int) -> bool:
-    """Store integers in ``payload``; too-long ones become ``None`` plus ``<key>_summary``.
-
-    Returns whether anything was cut.
-    """
-    cut = False
-    for key, n in values.items():
-        value, summary = bounded_integer(n, max_digits)
-        payload[key] = value
-        if summary is not None:
-            payload[f"{key}_summary"] = summary
-            cut = True
-    return cut
+def integer_text(n: int, max_digits: int) -> str:
+    """The integer in full, or its leading and trailing digits and digit count (:meth:`Sizer.text`)."""
+    return Sizer(max_digits).text(n)
 
 
 def write_atomically(path: str, text: str) -> None:
@@ -133,6 +190,17 @@ def size_options(f: F) -> F:
     return max_digits_option(f)
 
 
-def emit(payload: dict[str, Any], text: str, as_json: bool) -> None:
-    """Print the JSON object or the text form."""
-    click.echo(dumps(payload) if as_json else text)
+def emit(payload: dict[str, Any], text: str, as_json: bool, max_digits: int | None = None) -> None:
+    """Print the JSON object or the text form.
+
+    A command with ``--max-digits`` passes it: integers beyond it are
+    summarised and the payload gets ``"truncated"`` (whether anything was).
+    """
+    if not as_json:
+        click.echo(text)
+        return
+    sizer = Sizer(max_digits or 0)
+    bounded = sizer.bounded(payload)
+    if max_digits is not None:
+        bounded["truncated"] = sizer.cut
+    click.echo(sizer.json(bounded))

@@ -13,19 +13,18 @@ from typing import Any
 import click
 from realquad_cli.output import (
     ACCEPT_NEGATIVE,
+    Sizer,
     check_output_path,
     emit,
-    integer_text,
     json_option,
     max_digits_option,
-    put_integers,
     write_atomically,
 )
 
 from realquad.cfrac import Approximation, best_approximations, continued_fraction, convergents
 from realquad.core.integers import as_integer
 from realquad.errors import InputError, TooLargeError
-from realquad.textio import to_decimal
+from realquad.textio import MINUS, plural, signed, to_decimal
 
 KIND_NAMES = {
     1: "first kind (closest p/q: convergents and intermediate fractions)",
@@ -37,19 +36,26 @@ MAX_LIST_BITS = int(MAX_LIST_DIGITS * 3.3219280948873626)  # log₂ 10
 DIGITS_ADVICE = "(long integers summarised; --max-digits 0 or --output FILE for all)"
 
 
-def _fraction_entry(p: int, q: int, max_digits: int) -> dict[str, Any]:
-    """``{"p": …, "q": …}``, a too-long integer as ``None`` plus ``p_summary``/``q_summary``."""
-    entry: dict[str, Any] = {}
-    put_integers(entry, {"p": p, "q": q}, max_digits)
-    return entry
+class _FractionWriter:
+    """Fractions as JSON objects and text, integers beyond ``--max-digits`` summarised."""
 
+    def __init__(self, max_digits: int) -> None:
+        self.sizer = Sizer(max_digits)
 
-def _fraction_text(p: int, q: int, max_digits: int) -> str:
-    return f"{integer_text(p, max_digits, hint=False)}/{integer_text(q, max_digits, hint=False)}"
+    def entry(self, p: int, q: int, **extra: Any) -> dict[str, Any]:
+        """``{"p": …, "q": …}``; a too-long integer becomes its summary object in place."""
+        return {**self.sizer.bounded({"p": p, "q": q}), **extra}
 
+    def integer(self, n: int) -> str:
+        summary = self.sizer.summary(n)
+        if summary is None:
+            return signed(n)
+        self.sizer.cut = True
+        sign = MINUS if n < 0 else ""
+        return f"{sign}{summary['leading']}…{summary['trailing']} ({summary['digits']:,} digits)"
 
-def _summarised(entries: list[dict[str, Any]]) -> bool:
-    return any("p_summary" in e or "q_summary" in e for e in entries)
+    def text(self, p: int, q: int) -> str:
+        return f"{self.integer(p)}/{self.integer(q)}"
 
 
 def _first(items: Iterable[Any], max_terms: int) -> tuple[list[Any], bool]:
@@ -76,8 +82,13 @@ def _within_budget(fractions: Iterable[Any], option: str) -> Iterator[Any]:
 def _positive(text: str, name: str) -> int:
     n = as_integer(text, name)
     if n < 1:
-        raise InputError(f"{name} must be a positive integer, got {n}")
+        raise InputError(f"{name} must be a positive integer, got {signed(n)}")
     return n
+
+
+def _file_line(name: str, pairs: Iterable[tuple[int, int]]) -> str:
+    """``name p/q p/q …`` with integers of any size in full (not through ``str``)."""
+    return name + " " + " ".join(f"{to_decimal(p)}/{to_decimal(q)}" for p, q in pairs)
 
 
 @click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
@@ -142,74 +153,60 @@ def command(
     cf = continued_fraction(expr)
     n_terms = len(cf.preperiod) + len(cf.period)
     cut = max_terms != 0 and n_terms > max_terms
-    payload: dict[str, Any] = {"expression": expr, "value": str(cf.value)}
-    if not cf.is_rational:
-        v = cf.value
-        payload["normal_form"] = {"P": v.P, "D": v.D, "Q": v.Q}  # type: ignore[union-attr]
+    payload = {"expression": expr, **cf.to_dict(max_terms), "truncated": cut}
+    value = str(cf.value).replace("-", MINUS)
     if cut:
-        keep_pre = cf.preperiod[:max_terms]
-        keep_per = cf.period[: max(0, max_terms - len(keep_pre))]
-        payload["preperiod"] = keep_pre
-        payload["period"] = keep_per
+        shown = ", ".join(signed(a) for a in (cf.preperiod + cf.period)[:max_terms])
+        text = f"{value} = [{shown}, …]  (first {max_terms:,} of {n_terms:,} terms; --max-terms 0 for all)"
     else:
-        payload["preperiod"] = cf.preperiod
-        payload["period"] = cf.period
-    payload["preperiod_length"] = len(cf.preperiod)
-    payload["period_length"] = len(cf.period)
-    payload["truncated"] = cut
-    payload["method"] = (
-        "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q"
-        if not cf.is_rational
-        else "Euclidean algorithm"
-    )
-    payload["proof"] = "unconditional"
-    if cut:
-        shown = ", ".join(map(str, (cf.preperiod + cf.period)[:max_terms]))
-        text = f"{cf.value} = [{shown}, …]  (first {max_terms} of {n_terms} terms; --max-terms 0 for all)"
-    else:
-        text = f"{cf.value} = {cf}"
-    lines = [text, f"pre-period length {len(cf.preperiod)}, period length {len(cf.period)}"]
+        text = f"{value} = {str(cf).replace('-', MINUS)}"
+    lines = [
+        text,
+        f"a rational number: {plural(len(cf.preperiod), 'partial quotient')}, no period"
+        if cf.is_rational
+        else f"pre-period length {len(cf.preperiod):,}, period length {len(cf.period):,}",
+    ]
     file_lines = [
         "preperiod " + " ".join(map(str, cf.preperiod)),
         "period " + " ".join(map(str, cf.period)),
     ]
+    writer = _FractionWriter(max_digits)
     if count is not None:
         wanted = _within_budget(convergents(cf.value, count), "--convergents")
         every = list(wanted) if output is not None else None
         pairs, more = _first(every if every is not None else wanted, max_terms)
-        payload["convergents"] = [_fraction_entry(p, q, max_digits) for p, q in pairs]
+        payload["convergents"] = [writer.entry(p, q) for p, q in pairs]
         payload["convergents_truncated"] = more
         lines.append(
             f"convergents p_k/q_k, k = 0..{len(pairs) - 1}"
-            + (f" (first {len(pairs)}; --max-terms 0 for all {count})" if more else "")
+            + (f" (first {len(pairs):,}; --max-terms 0 for all {count:,})" if more else "")
             + ":"
         )
-        lines += [f"{k:>6}  {_fraction_text(p, q, max_digits)}" for k, (p, q) in enumerate(pairs)]
+        lines += [f"{k:>6}  {writer.text(p, q)}" for k, (p, q) in enumerate(pairs)]
         if every is not None:
-            file_lines.append("convergents " + " ".join(f"{p}/{q}" for p, q in _decimal(every)))
+            file_lines.append(_file_line("convergents", every))
     if bound is not None:
-        found = best_approximations(cf.value, bound, 1 if kind == 1 else 2)
-        found = _within_budget(found, "--best")
+        found = _within_budget(
+            best_approximations(cf.value, bound, 1 if kind == 1 else 2), "--best"
+        )
         every_best = list(found) if output is not None else None
         approx, more = _first(every_best if every_best is not None else found, max_terms)
-        payload["best_approximations"] = [_approximation_entry(a, max_digits) for a in approx]
+        payload["best_approximations"] = [_approximation_entry(writer, a) for a in approx]
         payload["best_approximations_kind"] = kind
         payload["best_approximations_truncated"] = more
         lines.append(
-            f"best approximations of the {KIND_NAMES[kind]} with q ≤ {integer_text(bound, max_digits)}"
-            + (f" (first {len(approx)}; --max-terms 0 for all)" if more else "")
+            f"best approximations of the {KIND_NAMES[kind]} with q ≤ {writer.integer(bound)}"
+            + (f" (first {len(approx):,}; --max-terms 0 for all)" if more else "")
             + ":"
         )
         lines += [
-            f"  {_fraction_text(a.p, a.q, max_digits)}"
+            f"  {writer.text(a.p, a.q)}"
             + ("" if a.is_convergent else f"  (intermediate, t = {a.t} of a_{a.k} = {a.a})")
             for a in approx
         ]
         if every_best is not None:
-            file_lines.append(
-                "best " + " ".join(f"{p}/{q}" for p, q in _decimal((a.p, a.q) for a in every_best))
-            )
-    if _summarised(payload.get("convergents", []) + payload.get("best_approximations", [])):
+            file_lines.append(_file_line("best", ((a.p, a.q) for a in every_best)))
+    if writer.sizer.cut:
         lines.append(DIGITS_ADVICE)
     if output is not None:
         write_atomically(output, "\n".join(file_lines) + "\n")
@@ -218,12 +215,5 @@ def command(
     emit(payload, "\n".join(lines), as_json)
 
 
-def _approximation_entry(a: Approximation, max_digits: int) -> dict[str, Any]:
-    entry = _fraction_entry(a.p, a.q, max_digits)
-    entry["convergent"] = a.is_convergent
-    return entry
-
-
-def _decimal(pairs: Iterable[tuple[int, int]]) -> Iterable[tuple[str, str]]:
-    """Integers of any size as decimal text (not through ``str``, see ``realquad.textio``)."""
-    return ((to_decimal(p), to_decimal(q)) for p, q in pairs)
+def _approximation_entry(writer: _FractionWriter, a: Approximation) -> dict[str, Any]:
+    return writer.entry(a.p, a.q, convergent=a.is_convergent)

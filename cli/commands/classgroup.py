@@ -10,28 +10,13 @@ from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 from realquad_cli.progress import ProgressLine
 
 from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
-from realquad.classgroup.genus import Genera
 from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.errors import InputError
+from realquad.textio import group_text, plural, signed
 
 #: Most reduced forms that ``--forms`` prints in the text form.
 SHOWN_FORMS = 2000
-
-
-def _form_list(F: Form) -> list[int]:
-    return [F.a, F.b, F.c]
-
-
-def _generators(forms: list[Form], orders: list[int]) -> list[dict[str, Any]]:
-    return [
-        {"order": d, "form": _form_list(F), "ideal": str(Ideal.from_form(F))}
-        for F, d in zip(forms, orders, strict=True)
-    ]
-
-
-def _structure_text(invariants: list[int]) -> str:
-    return " × ".join(f"Z/{d}" for d in invariants) if invariants else "trivial"
 
 
 def _reason(G: ClassGroup) -> str:
@@ -40,66 +25,49 @@ def _reason(G: ClassGroup) -> str:
     return "h⁺ = 2h: the fundamental unit has norm +1, so the principal ideal (√D) is not narrowly principal"
 
 
-def _payload(G: ClassGroup, with_forms: bool) -> dict[str, Any]:
-    order = G.order
-    genus: Genera = G.genus
-    payload: dict[str, Any] = {
-        "radicand": order.radicand,
-        "discriminant": order.discriminant,
-        "conductor": order.conductor,
-        "class_number": G.class_number,
-        "narrow_class_number": G.narrow_class_number,
-        "structure": G.invariants,
-        "narrow_structure": G.narrow_invariants,
-        "generators": _generators(G.generators, G.invariants),
-        "narrow_generators": _generators(G.narrow_generators, G.narrow_invariants),
-        "unit_norm": G.unit_norm,
-        "narrow_versus_wide": _reason(G),
-        "regulator": str(G.regulator),
-        "genus_characters": genus.characters,
-        "number_of_genera": genus.number_of_genera,
-        "two_rank": genus.two_rank,
-        "method": G.method,
-        "proof": G.proof,
-    }
-    if with_forms:
-        payload["classes"] = [[_form_list(F) for F in cyc] for cyc in G.narrow_classes()]
-    return payload
+def _form_text(F: Form) -> str:
+    return f"({signed(F.a)}, {signed(F.b)}, {signed(F.c)})"
 
 
 def _text(G: ClassGroup, payload: dict[str, Any], with_forms: bool) -> str:
     order = G.order
+    genus = payload["genus"]
     lines = [
         f"order of discriminant {order.discriminant} in Q(√{order.radicand}), conductor {order.conductor}",
-        f"class number h = {G.class_number}; Cl ≅ {_structure_text(G.invariants)}",
-        f"narrow class number h⁺ = {G.narrow_class_number}; Cl⁺ ≅ {_structure_text(G.narrow_invariants)}",
-        payload["narrow_versus_wide"],
+        f"class number h = {G.class_number}; Cl ≅ {group_text(G.invariants)}",
+        f"narrow class number h⁺ = {G.narrow_class_number}; Cl⁺ ≅ {group_text(G.narrow_invariants)}",
+        _reason(G),
     ]
-    for title, gens in (
-        ("generators of Cl", payload["generators"]),
-        ("generators of Cl⁺", payload["narrow_generators"]),
+    for title, gens, orders in (
+        ("generators of Cl", G.generators, G.invariants),
+        ("generators of Cl⁺", G.narrow_generators, G.narrow_invariants),
     ):
         if gens:
             lines.append(f"{title}:")
-            for g in gens:
-                a, b, c = g["form"]
-                lines.append(f"  order {g['order']}: form ({a}, {b}, {c}), ideal {g['ideal']}")
+            for F, n in zip(gens, orders, strict=True):
+                lines.append(f"  order {n}: form {_form_text(F)}, ideal {Ideal.from_form(F)}")
+    characters = ", ".join(genus["characters"]) or "none"
     lines.append(
-        f"genera: {payload['number_of_genera']} (characters {', '.join(payload['genus_characters']) or 'none'}); "
-        f"2-rank of Cl⁺ {payload['two_rank']}"
+        f"genera: {genus['number_of_genera']} (characters {characters}); 2-rank of Cl⁺ {genus['two_rank']}"
     )
-    lines.append(f"regulator {payload['regulator']}")
+    lines.append(f"regulator {G.regulator}")
     if with_forms:
         shown = 0
-        for k, cyc in enumerate(payload["classes"]):
+        classes = payload["classes"]
+        for k, cycle in enumerate(classes):
             if shown >= SHOWN_FORMS:
-                rest = len(payload["classes"]) - k
-                lines.append(f"… {rest} more classes not shown (use --json for all)")
+                rest = len(classes) - k
+                lines.append(
+                    f"… {plural(rest, 'more class', 'more classes')} not shown (use --json for all)"
+                )
                 break
-            forms = " ".join(f"({a}, {b}, {c})" for a, b, c in cyc[: SHOWN_FORMS - shown])
-            more = "" if len(cyc) <= SHOWN_FORMS - shown else f" … ({len(cyc)} forms in all)"
+            forms = " ".join(
+                f"({signed(f['a'])}, {signed(f['b'])}, {signed(f['c'])})"
+                for f in cycle[: SHOWN_FORMS - shown]
+            )
+            more = "" if len(cycle) <= SHOWN_FORMS - shown else f" … ({len(cycle):,} forms in all)"
             lines.append(f"class {k}: {forms}{more}")
-            shown += len(cyc)
+            shown += len(cycle)
     lines.append(f"method: {G.method}; proof: {G.proof}")
     return "\n".join(lines)
 
@@ -137,5 +105,5 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
     # small groups take the lean kernel, which reports nothing; beyond 10¹¹ the full table reports
     progress = ProgressLine() if order.discriminant > 10**11 else None
     G = class_group(order, progress=progress, method=method)
-    payload = _payload(G, with_forms)
+    payload = G.to_dict(with_classes=with_forms)
     emit(payload, _text(G, payload, with_forms), as_json)

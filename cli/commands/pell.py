@@ -2,23 +2,20 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 import click
 from realquad_cli.output import (
     ACCEPT_NEGATIVE,
+    Sizer,
     check_output_path,
     emit,
-    integer_text,
     json_option,
-    put_integers,
     size_options,
     write_atomically,
 )
 
 from realquad.core.integers import as_integer
 from realquad.equations.pell import pell
-from realquad.textio import decimal_digits, to_decimal
+from realquad.textio import plural, signed, to_decimal
 
 
 @click.command("pell", context_settings=ACCEPT_NEGATIVE)
@@ -37,34 +34,21 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
     n_value = as_integer(norm, "--norm")
     check_output_path(output)
     sol = pell(d_value, n_value)
-    payload: dict[str, Any] = {
-        "d": sol.d,
-        "norm": sol.norm,
-        "solvable": sol.solvable,
-    }
-    lines = [f"x² − {sol.d}·y² = {sol.norm}"]
+    payload = sol.to_dict()
+    sizer = Sizer(max_digits)
+    lines = [f"x² − {sizer.text(sol.d)}·y² = {signed(sol.norm)}"]
     if sol.solvable and sol.x is not None and sol.y is not None:
-        cut = put_integers(payload, {"x": sol.x, "y": sol.y}, max_digits)
-        payload["x_digits"] = decimal_digits(sol.x)
-        payload["truncated"] = cut
         lines += [
-            f"x = {integer_text(sol.x, max_digits)}",
-            f"y = {integer_text(sol.y, max_digits)}",
+            f"x = {sizer.text(sol.x)}",
+            f"y = {sizer.text(sol.y)}",
+            f"x has {plural(payload['digits'], 'digit')}",
         ]
-        lines.append(f"x has {payload['x_digits']} digits")
     else:
-        payload.update({"x": None, "y": None, "x_digits": None})
         lines.append("no solution")
-    payload["period_length"] = sol.period_length
     if sol.period_length is not None:
-        lines.append(f"period length {sol.period_length}")
+        lines.append(f"period length {sol.period_length:,}")
     if sol.reason:
-        payload["reason"] = sol.reason
         lines.append(f"reason: {sol.reason}")
-    if sol.finite_solutions is not None:
-        payload["finite_solutions"] = [list(t) for t in sol.finite_solutions]
-    payload["method"] = sol.method
-    payload["proof"] = sol.proof
     lines.append(f"method: {sol.method}; proof: {sol.proof}")
     if output is not None:
         body = f"# x^2 - {sol.d} y^2 = {sol.norm}\n"
@@ -75,4 +59,4 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
         write_atomically(output, body)
         payload["output"] = output
         lines.append(f"full values written to {output}")
-    emit(payload, "\n".join(lines), as_json)
+    emit(payload, "\n".join(lines), as_json, max_digits)

@@ -6,64 +6,42 @@ from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
-from realquad_cli.output import ACCEPT_NEGATIVE, emit, integer_text, json_option, put_integers
+from realquad_cli.output import ACCEPT_NEGATIVE, Sizer, emit, json_option
 
 from realquad.classgroup import class_group
 from realquad.core.forms import Form
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
+from realquad.textio import group_text, signed, terms_text
 
 #: Largest bound accepted by --primes-up-to.
 MAX_BOUND = 10**7
 
 
-def _entry(s: PrimeDecomposition, max_digits: int) -> dict[str, Any]:
-    entry: dict[str, Any] = {
-        "p": s.p,
-        "kind": s.kind,
-        "divides_conductor": s.divides_conductor,
-        "field_kind": s.field_kind,
-        "ideals": [str(i) for i in s.ideals],
-        "classes": s.classes,
-        "wide_classes": s.wide_classes,
-        "represented_by_principal": s.represented_by_principal,
-        "form": [s.form.a, s.form.b, s.form.c] if s.form is not None else None,
-    }
-    if s.x is None or s.y is None:
-        entry["x"] = entry["y"] = None
-    else:
-        put_integers(entry, {"x": s.x, "y": s.y}, max_digits)
-    return entry
+def _form_text(F: Form) -> str:
+    return f"({signed(F.a)}, {signed(F.b)}, {signed(F.c)})"
 
 
 def _polynomial(F: Form) -> str:
     """``x² + bxy + cy²`` written out with signs."""
-
-    def term(coefficient: int, monomial: str) -> str:
-        sign = "−" if coefficient < 0 else "+"
-        size = abs(coefficient)
-        return f" {sign} {'' if size == 1 else size}{monomial}" if coefficient else ""
-
-    head = f"{'' if F.a == 1 else '−' if F.a == -1 else F.a}x²"
-    return head + term(F.b, "xy") + term(F.c, "y²")
+    return terms_text([(F.a, "x²"), (F.b, "xy"), (F.c, "y²")])
 
 
-def _line(s: PrimeDecomposition, principal: Form, max_digits: int) -> str:
+def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
     if s.divides_conductor:
         return f"p = {s.p}: divides the conductor (no invertible prime ideal of norm {s.p}; {s.field_kind} in the field)"
     ideals = " · ".join(str(i) for i in s.ideals)
     if s.kind == "inert":
         return f"p = {s.p}: inert, pO = {ideals} (principal)"
     coords = ", ".join(str(c) for c in s.classes)
-    x = integer_text(s.x or 0, max_digits)
-    y = integer_text(s.y or 0, max_digits)
+    x = sizer.text(s.x or 0)
+    y = sizer.text(s.y or 0)
     if s.represented_by_principal:
         how = f"narrowly principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
     else:
         assert s.form is not None
-        F = s.form
-        how = f"not narrowly principal; ({F.a}, {F.b}, {F.c}) represents {s.p} at x = {x}, y = {y}"
+        how = f"not narrowly principal; {_form_text(s.form)} represents {s.p} at x = {x}, y = {y}"
     return f"p = {s.p}: {s.kind}, ideals {ideals}; narrow classes {coords}; {how}"
 
 
@@ -114,26 +92,22 @@ def command(
         results = split_primes(order, B, G)
     principal = Form.identity(order.discriminant)
     payload: dict[str, Any] = {
-        "radicand": order.radicand,
-        "discriminant": order.discriminant,
-        "conductor": order.conductor,
-        "principal_form": [principal.a, principal.b, principal.c],
-        "narrow_structure": G.narrow_invariants,
-        "structure": G.invariants,
-        "narrow_generators": [[F.a, F.b, F.c] for F in G.narrow_generators],
-        "generators": [[F.a, F.b, F.c] for F in G.generators],
-        "primes": [_entry(s, max_digits) for s in results],
+        "order": order.to_dict(),
+        "principal_form": principal.to_dict(),
+        "class_group": G.to_dict(),
+        "primes": [s.to_dict() for s in results],
         "method": G.method,
         "proof": G.proof,
     }
     gens = ", ".join(
-        f"({F.a}, {F.b}, {F.c}) of order {n}"
+        f"{_form_text(F)} of order {n}"
         for F, n in zip(G.narrow_generators, G.narrow_invariants, strict=True)
     )
+    sizer = Sizer(max_digits)
     lines = [
         f"order of discriminant {order.discriminant} in Q(√{order.radicand}), conductor {order.conductor}",
-        f"Cl⁺ generators: {gens or 'none (Cl⁺ is trivial)'}",
+        f"Cl⁺ ≅ {group_text(G.narrow_invariants)}, generators: {gens or 'none (Cl⁺ is trivial)'}",
     ]
-    lines += [_line(s, principal, max_digits) for s in results]
+    lines += [_line(s, principal, sizer) for s in results]
     lines.append(f"method: {G.method}; proof: {G.proof}")
-    emit(payload, "\n".join(lines), as_json)
+    emit(payload, "\n".join(lines), as_json, max_digits)

@@ -13,14 +13,16 @@ from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
+from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
 from realquad.survey.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
-from realquad.survey.stats import SurveyReport, survey_report
+from realquad.survey.stats import survey_report
 from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
+from realquad.textio import MINUS, group_text
 
 DEFAULT_DB = "realquad-survey.sqlite"
 
@@ -222,11 +224,13 @@ def _filter_options(f: Any) -> Any:
     return f
 
 
-def _json_row(row: dict[str, Any]) -> dict[str, Any]:
-    out = dict(row)
-    for key in ("class_group", "narrow_class_group"):
-        out[key] = json.loads(row[key])
-    return out
+#: The keys of a survey row (``docs/json.md``, *SurveyRow*), in the order of the CSV columns.
+ROW_KEYS = list(FieldRecord(0, 0, 0, 0, "[]", "[]", 1, "", 0, 0, "", "unconditional").to_dict())
+#: ``--sort`` names: the keys of a row (as printed by --json and --csv) and the store's columns.
+SORT_COLUMNS = {
+    **dict(zip(ROW_KEYS, COLUMNS, strict=True)),
+    **{column: column for column in COLUMNS},
+}
 
 
 def _query_options(f: Any) -> Any:
@@ -291,7 +295,7 @@ def _query_options(f: Any) -> Any:
                 type=str,
                 default=None,
                 metavar="COLUMN",
-                help=f"Sort by COLUMN ({', '.join(COLUMNS)}) instead of d.",
+                help=f"Sort by COLUMN ({', '.join(ROW_KEYS)}) instead of d.",
             ),
             click.option("--desc", "descending", is_flag=True, help="Sort in decreasing order."),
         ]
@@ -331,9 +335,11 @@ def _sort_column(sort: str | None) -> str | None:
     if sort is None:
         return None
     name = sort.strip()
-    if name not in COLUMNS:
-        raise InputError(f"--sort takes a column name ({', '.join(COLUMNS)}), got {sort[:40]!r}")
-    return name
+    if name not in SORT_COLUMNS:
+        raise InputError(
+            f"--sort takes a key of the rows ({', '.join(ROW_KEYS)}), got {sort[:40]!r}"
+        )
+    return SORT_COLUMNS[name]
 
 
 @command.command("query", context_settings=ACCEPT_NEGATIVE)
@@ -375,12 +381,13 @@ def query_command(
     column = _sort_column(sort)
     with SurveyStore.open_for_reading(db) as store:
         matching = store.count(where)
-        rows = list(store.rows(where, limit or None, sort=column, descending=descending))
+        found = store.rows(where, limit or None, sort=column, descending=descending)
+        rows = [FieldRecord(**row).to_dict() for row in found]
     if as_csv:
         buffer = io.StringIO()
         writer = csv.writer(buffer, lineterminator="\n")
-        writer.writerow(COLUMNS)
-        writer.writerows([row[k] for k in COLUMNS] for row in rows)
+        writer.writerow(ROW_KEYS)
+        writer.writerows([_csv_cell(row[k]) for k in ROW_KEYS] for row in rows)
         click.echo(buffer.getvalue(), nl=False)
         if len(rows) < matching:
             click.echo(
@@ -392,16 +399,17 @@ def query_command(
         "database": db,
         "matching": matching,
         "shown": len(rows),
-        "rows": [_json_row(r) for r in rows],
+        "rows": rows,
     }
     lines = [
-        f"{'d':>10} {'D':>11} {'h':>5} {'h+':>5} {'Cl':>10} {'Cl+':>10} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
+        f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl':>12} {'Cl⁺':>12} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
     ]
     for r in rows:
+        norm = "+1" if r["unit_norm"] > 0 else f"{MINUS}1"
         lines.append(
-            f"{r['d']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
-            f"{_structure(r['class_group']):>10} {_structure(r['narrow_class_group']):>10} "
-            f"{r['unit_norm']:>+5d} {r['regulator']:>20} {r['period_length']:>7} {r['unit_digits']:>7}"
+            f"{r['radicand']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
+            f"{group_text(r['invariants']):>12} {group_text(r['narrow_invariants']):>12} {norm:>5} "
+            f"{r['regulator']:>20} {r['period_length']:>7} {r['digits']:>7}"
         )
     lines.append(
         f"{matching:,} matching fields"
@@ -410,48 +418,13 @@ def query_command(
     emit(payload, "\n".join(lines), as_json)
 
 
-def _structure(invariants: str) -> str:
-    values = json.loads(invariants)
-    if values is None:
-        return "?"
-    return "×".join(f"C{n}" for n in values) if values else "1"
+def _csv_cell(value: Any) -> Any:
+    """A CSV cell: invariant lists as their JSON text (``[2, 2]``), the rest as they are."""
+    return json.dumps(value) if isinstance(value, list) else value
 
 
 def _percent(share: float | None) -> str:
     return "—" if share is None else f"{100 * share:.3f}%"
-
-
-def _decimal(value: float | None) -> str | None:
-    """A share as a decimal string (the JSON convention for real numbers), 8 places."""
-    return None if value is None else f"{value:.8f}"
-
-
-def _report_payload(report: SurveyReport, db: str) -> dict[str, Any]:
-    return {
-        "database": db,
-        "fields": report.fields,
-        "d_min": report.d_min,
-        "d_max": report.d_max,
-        "class_number_one": {
-            "count": report.class_number_one,
-            "share": _decimal(report.class_number_one_share),
-        },
-        "prime_discriminants": {
-            "fields": report.prime_fields,
-            "class_number_one": report.prime_class_number_one,
-            "share": _decimal(report.prime_share),
-            "cohen_lenstra_prediction": _decimal(report.prediction),
-            "prediction_source": report.prediction_source,
-        },
-        "class_number_distribution": {str(k): v for k, v in report.class_number_counts.items()},
-        "odd_part_distribution": {str(k): v for k, v in report.odd_part_counts.items()},
-        "unit_norm_minus_one": {
-            "count": report.unit_norm_minus_one,
-            "share": _decimal(report.unit_norm_minus_one_share),
-        },
-        "largest_regulators": report.largest_regulators,
-        "proof": report.proof,
-    }
 
 
 def _distribution_text(counts: dict[int, int], total: int, shown: int = 12) -> str:
@@ -497,18 +470,18 @@ def report_command(
             raise InputError(f"no surveyed fields in {db!r} match the range")
         if plot is not None:
             plot_report(report, store, plot, where)
-    payload = _report_payload(report, db)
+    payload = {"database": db, **report.to_dict()}
     n = report.fields
     lines = [
         f"{n:,} fields with d in [{report.d_min}, {report.d_max}] ({db}); proof: {report.proof}",
         f"class number 1: {report.class_number_one:,} ({_percent(report.class_number_one_share)})",
         f"prime d ≡ 1 (mod 4): {report.prime_fields:,} fields, h = 1 for {report.prime_class_number_one:,} "
         f"({_percent(report.prime_share)}); Cohen–Lenstra prediction {100 * report.prediction:.3f}%",
-        f"unit norm −1: {report.unit_norm_minus_one:,} ({_percent(report.unit_norm_minus_one_share)})",
+        f"unit norm {MINUS}1: {report.unit_norm_minus_one:,} ({_percent(report.unit_norm_minus_one_share)})",
         "h: " + _distribution_text(report.class_number_counts, n),
         "odd part of h: " + _distribution_text(report.odd_part_counts, n),
         "largest regulators: "
-        + ", ".join(f"d = {r['d']}: {r['regulator']}" for r in report.largest_regulators),
+        + ", ".join(f"d = {r['radicand']}: {r['regulator']}" for r in report.largest_regulators),
     ]
     if plot is not None:
         payload["plot"] = plot

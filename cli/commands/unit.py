@@ -2,18 +2,14 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 import click
-import mpmath
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import (
     ACCEPT_NEGATIVE,
+    Sizer,
     check_output_path,
     emit,
-    integer_text,
     json_option,
-    put_integers,
     size_options,
     write_atomically,
 )
@@ -21,9 +17,8 @@ from realquad_cli.progress import ProgressLine
 
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.textio import decimal_digits, to_decimal
+from realquad.textio import MINUS, plural, terms_text, to_decimal
 from realquad.units import METHODS, fundamental_unit
-from realquad.units.results import Unit
 
 
 @click.command("unit", context_settings=ACCEPT_NEGATIVE)
@@ -76,63 +71,49 @@ def command(
         reg = eps.regulator(digits)
     form = eps.compact()
     expanded = form is None or _fits(form, max_digits, output)
-    payload: dict[str, Any] = {
-        "radicand": order.radicand,
-        "discriminant": order.discriminant,
-        "conductor": order.conductor,
-    }
-    unit_obj: dict[str, Any] = {}
+    payload = eps.to_dict(expand=expanded, with_compact=compact, regulator_digits=digits)
+    sizer = Sizer(max_digits)
     r = order.radicand
-    if expanded:
-        exact = eps.expand()
-        x, y, c = int(exact.x), int(exact.y), int(exact.c)
-        cut = put_integers(unit_obj, {"x": x, "y": y}, max_digits)
-        n_digits = decimal_digits(x)
-    else:
-        x = y = 0
-        c = None
-        n_digits = _digits_from_regulator(eps)
-        unit_obj.update(x=None, y=None, x_summary={"digits": n_digits, "exact": False})
-        cut = True
-    unit_obj["denominator"] = c
-    payload["unit"] = unit_obj
-    payload["norm"] = eps.norm
-    payload["regulator"] = str(reg)
-    payload["digits"] = n_digits
-    payload["period_length"] = eps.period_length
-    payload["truncated"] = cut
-    payload["method"] = eps.method
-    payload["proof"] = eps.proof
+    n_digits = payload["digits"]
+    c = payload["number"]["denominator"] if expanded else None
     shape = f"x + y√{r}" if c == 1 else f"(x + y√{r})/{c or 'c, c ∈ {1, 2}'}"
     lines = [
-        f"order of discriminant {order.discriminant} in Q(√{r}), conductor {order.conductor}",
+        f"order of discriminant {sizer.text(order.discriminant)} in Q(√{sizer.text(r)}), "
+        f"conductor {sizer.text(order.conductor)}",
         f"fundamental unit ε = {shape}",
     ]
     if expanded:
-        lines += [f"  x = {integer_text(x, max_digits)}", f"  y = {integer_text(y, max_digits)}"]
+        exact = eps.expand()
+        lines += [f"  x = {sizer.text(int(exact.x))}", f"  y = {sizer.text(int(exact.y))}"]
     else:
         limit = f"--max-digits {max_digits}" if max_digits else f"{OUTPUT_DIGITS_LIMIT:,}"
         lines.append(
-            f"  not expanded: about {n_digits} digits, more than {limit}"
+            f"  not expanded: about {plural(n_digits, 'digit')}, more than {limit}"
             " (--compact prints the compact form)"
         )
-    period = "" if eps.period_length is None else f"; period length {eps.period_length}"
+    period = "" if eps.period_length is None else f"; period length {eps.period_length:,}"
+    about = "" if payload["digits_exact"] else "about "
     lines += [
-        f"norm {eps.norm:+d}; x has {'about ' if not expanded else ''}{n_digits} digits{period}",
+        f"norm {signed_unit(eps.norm)}; x has {about}{plural(n_digits, 'digit')}{period}",
         f"regulator log ε = {reg}",
         f"method: {eps.method}; proof: {eps.proof}",
     ]
-    if compact:
-        payload["compact"] = _compact_payload(form)
+    if compact and form is not None:
         lines.append(_compact_text(form))
     if output is not None and expanded:
+        exact = eps.expand()
         write_atomically(
             output,
-            f"# fundamental unit of discriminant {order.discriminant}: (x + y sqrt({r}))/{c}\nx = {to_decimal(x)}\ny = {to_decimal(y)}\n",
+            f"# fundamental unit of discriminant {order.discriminant}: (x + y sqrt({r}))/{c}\nx = {to_decimal(exact.x)}\ny = {to_decimal(exact.y)}\n",
         )
         payload["output"] = output
         lines.append(f"full values written to {output}")
-    emit(payload, "\n".join(lines), as_json)
+    emit(payload, "\n".join(lines), as_json, max_digits)
+
+
+def signed_unit(norm: int) -> str:
+    """``+1`` or ``−1``."""
+    return "+1" if norm > 0 else f"{MINUS}1"
 
 
 #: Largest unit expanded for ``--output`` when ``--max-digits`` is smaller.
@@ -151,35 +132,14 @@ def _fits(form: CompactRepresentation, max_digits: int, output: str | None) -> b
     return max_digits == 0 and n <= OUTPUT_DIGITS_LIMIT or n <= max_digits
 
 
-def _digits_from_regulator(eps: Unit) -> int:
-    """Decimal digits of ``ε ≈ x`` from ``log ε`` (``x`` may have one digit fewer when ``c = 1``)."""
-    with mpmath.workdps(40):
-        return int(mpmath.floor(eps.regulator(40).value / mpmath.log(10))) + 1
-
-
-def _compact_payload(form: CompactRepresentation) -> dict[str, Any]:
-    return {
-        "sign": form.sign,
-        "chains": [
-            {
-                "power": chain.power,
-                "factors": [
-                    {"x": int(a.x), "y": int(a.y), "denominator": int(a.c), "exponent": e}
-                    for a, e in chain.factors
-                ],
-            }
-            for chain in form.chains
-        ],
-        "meaning": "ε = sign · ∏ over chains (∏ ((x + y√D)/denominator)^exponent)^power, D the discriminant",
-    }
-
-
 def _compact_text(form: CompactRepresentation) -> str:
     D = form.discriminant
-    sign = "−" if form.sign < 0 else ""
-    lines = [f"compact form: ε = {sign}∏ αᵢ^eᵢ over {form.size} factor(s) αᵢ = (x + y√{D})/z:"]
+    sign = MINUS if form.sign < 0 else ""
+    lines = [
+        f"compact form: ε = {sign}∏ αᵢ^eᵢ over {plural(form.size, 'factor')} αᵢ = (x + y√{D})/z:"
+    ]
     for chain in form.chains:
         for a, e in chain.factors:
-            op = "−" if a.y < 0 else "+"
-            lines.append(f"  ({a.x} {op} {abs(a.y)}√{D})/{a.c} ^ {e}")
+            number = terms_text([(int(a.x), ""), (int(a.y), f"√{D}")])
+            lines.append(f"  ({number})/{a.c} ^ {e}")
     return "\n".join(lines)

@@ -6,13 +6,7 @@ results" is :func:`principal_regulator`, whose rounded product is computed in
 double here and in long double there: both return a rigorous error bound,
 and the two values agree within the sum of their bounds.
 
-Every function here has the same signature and the same results as its
-compiled counterpart (the C file of the same name, registered in
-``_ckernels.c``); the tests compare the two directly. These work for integers
-of any size, the compiled ones only below their stated word-size limits:
-beyond them they raise ``OverflowError`` and :func:`realquad._backend.call_kernel`
-falls back to these. Plain ints in, plain ints out. Reach them only through
-:mod:`realquad._backend`.
+The rules every twin keeps are in :mod:`realquad._kernels`.
 """
 
 from __future__ import annotations

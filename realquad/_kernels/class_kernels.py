@@ -1,12 +1,6 @@
 """Pure-Python twin of ``class_kernels.c``: every narrow class of D by walking the cycles of reduced forms.
 
-Every function here has the same signature and the same results as its
-compiled counterpart (the C file of the same name, registered in
-``_ckernels.c``); the tests compare the two directly. These work for integers
-of any size, the compiled ones only below their stated word-size limits:
-beyond them they raise ``OverflowError`` and :func:`realquad._backend.call_kernel`
-falls back to these. Plain ints in, plain ints out. Reach them only through
-:mod:`realquad._backend`.
+The rules every twin keeps are in :mod:`realquad._kernels`.
 """
 
 from __future__ import annotations

@@ -5,13 +5,7 @@ A form is ``(a, b, c)`` with ``b² − 4ac = D > 0``, ``D`` not a square;
 step; the other functions reduce, walk cycles and compose without matrices
 (the matrix-tracking versions live in :mod:`realquad.core.forms`).
 
-Every function here has the same signature and the same results as its
-compiled counterpart (the C file of the same name, registered in
-``_ckernels.c``); the tests compare the two directly. These work for integers
-of any size, the compiled ones only below their stated word-size limits:
-beyond them they raise ``OverflowError`` and :func:`realquad._backend.call_kernel`
-falls back to these. Plain ints in, plain ints out. Reach them only through
-:mod:`realquad._backend`.
+The rules every twin keeps are in :mod:`realquad._kernels`.
 """
 
 from __future__ import annotations

@@ -36,6 +36,8 @@ from fractions import Fraction
 from realquad.cfrac.parser import parse_real_quadratic
 from realquad.core.integers import is_square, isqrt
 from realquad.core.numbers import QuadraticNumber
+from realquad.core.primes import square_factor
+from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError, TooLargeError
 
 #: Default bound on the number of states a period search may visit.
@@ -155,20 +157,8 @@ def to_reduced(P: int, D: int, Q: int, max_terms: int) -> tuple[list[int], int, 
 
 def _format(P: int, D: int, Q: int) -> str:
     """``(P + √D)/Q`` in lowest terms, with the square part of ``D`` taken out of the root."""
-    k, s = _extract_square(D)
+    k, s = square_factor(D)
     return str(QuadraticNumber(P, k, Q, s))
-
-
-def _extract_square(D: int) -> tuple[int, int]:
-    """``D = k² s`` with ``k`` the largest square factor found by trial division up to 10⁴."""
-    k, s = 1, D
-    p = 2
-    while p * p <= s and p < 10_000:
-        while s % (p * p) == 0:
-            s //= p * p
-            k *= p
-        p += 1 if p == 2 else 2
-    return k, s
 
 
 @dataclass(frozen=True)
@@ -187,6 +177,40 @@ class ContinuedFraction:
     @property
     def is_rational(self) -> bool:
         return isinstance(self.value, Fraction)
+
+    @property
+    def method(self) -> str:
+        if self.is_rational:
+            return "Euclidean algorithm"
+        return "exact recurrence P' = aQ − P, Q' = (D − P'²)/Q"
+
+    proof: Proof = "unconditional"
+
+    def to_dict(self, max_terms: int = 0) -> JSONObject:
+        """The JSON shape of an expansion (``docs/json.md``, *ContinuedFraction*).
+
+        ``max_terms`` (0: all) keeps at most that many partial quotients in
+        ``preperiod`` and ``period`` together; the lengths are always the full ones.
+
+        >>> continued_fraction("(1+sqrt(13))/2").to_dict()["normal_form"]
+        {'P': 1, 'D': 13, 'Q': 2}
+        """
+        pre, per = self.preperiod, self.period
+        if max_terms and len(pre) + len(per) > max_terms:
+            pre, per = pre[:max_terms], per[: max(0, max_terms - len(pre))]
+        value = self.value
+        return {
+            "value": str(value),
+            "normal_form": None
+            if isinstance(value, Fraction)
+            else {"P": value.P, "D": value.D, "Q": value.Q},
+            "preperiod": list(pre),
+            "period": list(per),
+            "preperiod_length": len(self.preperiod),
+            "period_length": len(self.period),
+            "method": self.method,
+            "proof": self.proof,
+        }
 
     def terms(self) -> Iterator[int]:
         """All partial quotients, the period repeated without end."""

@@ -35,7 +35,7 @@ from realquad.classgroup.group import ClassGroup, ClassTable
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import InputError
+from realquad.core.results import check_method
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
 CLASS_GROUP_METHODS = ("auto", "exact", "bsgs")
@@ -59,9 +59,7 @@ def choose_class_group_method(
     >>> choose_class_group_method(Order(4 * 79)), choose_class_group_method(Order(10**16 + 61))
     ('exact', 'bsgs')
     """
-    if method not in CLASS_GROUP_METHODS:
-        raise InputError(f"method must be one of {', '.join(CLASS_GROUP_METHODS)}, got {method!r}")
-    if method != "auto":
+    if check_method(method, CLASS_GROUP_METHODS) != "auto":
         return method
     D = order.discriminant
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms

@@ -30,6 +30,7 @@ from typing import TYPE_CHECKING
 
 from realquad.core.forms import Form
 from realquad.core.primes import factorize, kronecker
+from realquad.core.results import JSONObject
 
 if TYPE_CHECKING:
     from realquad.classgroup.group import ClassGroup
@@ -49,6 +50,14 @@ class Genera:
     @property
     def classes_per_genus(self) -> int:
         return self.narrow_class_number // self.number_of_genera
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of the genera (``docs/json.md``, *Genera*)."""
+        return {
+            "characters": list(self.characters),
+            "number_of_genera": self.number_of_genera,
+            "two_rank": self.two_rank,
+        }
 
 
 def assigned_characters(D: int) -> list[str]:

@@ -25,7 +25,7 @@ from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.core.linalg import SmithForm
 from realquad.core.orders import Order
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError
 from realquad.units import Regulator, Unit
 
@@ -66,6 +66,11 @@ class ClassTable:
             raise DomainError(f"{form} is not a primitive form of discriminant {self.D}")
         G = form.reduced()
         return self.index[(G.a, G.b)]
+
+
+def _generator(form: Form) -> JSONObject:
+    """A generator of a class group: its reduced form and the ideal of that form."""
+    return {"form": form.to_dict(), "ideal": Ideal.from_form(form).to_dict()}
 
 
 def forms_from_vectors(
@@ -172,6 +177,35 @@ class ClassGroup:
         """The generators as ideals ``[a, (−b + √D)/2]`` (``a > 0``) of the order."""
         forms = self.narrow_generators if narrow else self.generators
         return [Ideal.from_form(F) for F in forms]
+
+    def to_dict(self, with_classes: bool = False) -> JSONObject:
+        """The JSON shape of the class groups (``docs/json.md``, *ClassGroup*).
+
+        ``generators[t]`` has order ``invariants[t]`` (likewise narrow);
+        ``with_classes`` adds every narrow class as the list of its reduced forms.
+
+        >>> from realquad.classgroup import class_group
+        >>> d = class_group(4 * 79).to_dict()
+        >>> d["class_number"], d["invariants"], d["generators"][0]["form"], d["genus"]["number_of_genera"]
+        (3, [3], {'a': 3, 'b': 14, 'c': -10}, 2)
+        """
+        out: JSONObject = {
+            "order": self.order.to_dict(),
+            "class_number": self.class_number,
+            "narrow_class_number": self.narrow_class_number,
+            "invariants": list(self.invariants),
+            "narrow_invariants": list(self.narrow_invariants),
+            "generators": [_generator(F) for F in self.generators],
+            "narrow_generators": [_generator(F) for F in self.narrow_generators],
+            "unit_norm": self.unit_norm,
+            "regulator": self.regulator.to_dict(),
+            "genus": self.genus.to_dict(),
+        }
+        if with_classes:
+            out["classes"] = [[F.to_dict() for F in cycle] for cycle in self.narrow_classes()]
+        out["method"] = self.method
+        out["proof"] = self.proof
+        return out
 
     @cached_property
     def genus(self) -> Genera:

@@ -42,6 +42,7 @@ import gmpy2
 from realquad._backend import call_kernel
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import IDENTITY_MATRIX, Matrix, matrix_inverse, matrix_multiply
+from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError, TooLargeError
 
 
@@ -103,6 +104,14 @@ class Form:
 
     def __repr__(self) -> str:
         return f"Form({self.a}, {self.b}, {self.c})"
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of ``ax² + bxy + cy²`` (``docs/json.md``, *Form*).
+
+        >>> Form(3, 7, -2).to_dict()
+        {'a': 3, 'b': 7, 'c': -2}
+        """
+        return {"a": self.a, "b": self.b, "c": self.c}
 
     def __str__(self) -> str:
         return f"({self.a}, {self.b}, {self.c})"

@@ -28,6 +28,7 @@ from dataclasses import dataclass
 from realquad._backend import call_kernel
 from realquad.core.forms import Form
 from realquad.core.integers import as_integer, isqrt
+from realquad.core.results import JSONObject
 from realquad.errors import DomainError
 
 
@@ -83,6 +84,14 @@ class Ideal:
     @property
     def norm(self) -> int:
         return self.scale * self.scale * self.a
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of ``scale·[a, (−b + √D)/2]`` (``docs/json.md``, *Ideal*).
+
+        >>> Ideal(316, 1, 3, 2).to_dict()
+        {'scale': 1, 'a': 3, 'b': 2, 'norm': 3, 'text': '[3, (−2 + √316)/2]'}
+        """
+        return {"scale": self.scale, "a": self.a, "b": self.b, "norm": self.norm, "text": str(self)}
 
     def form(self) -> Form:
         """The form ``(a, b, (b² − D)/4a)`` of the primitive part."""

@@ -10,41 +10,62 @@ and anything else is refused with one clear :class:`~realquad.errors.InputError`
 
 from __future__ import annotations
 
+import re
+
 import gmpy2
 
 from realquad.errors import InputError
 
+#: The most decimal digits an integer argument may have (a larger one could not be worked with,
+#: and could not be printed with Python's own conversions either).
+MAX_INPUT_DIGITS = 4000
 
-def as_integer(value: object, name: str = "value") -> int:
+_INTEGER = re.compile(r"[+\-−]?[0-9]+(_[0-9]+)*")
+
+
+def as_integer(value: object, name: str = "value", max_digits: int = MAX_INPUT_DIGITS) -> int:
     """Convert ``value`` to ``int`` exactly, or raise :class:`InputError`.
 
-    Accepts ints, gmpy2 integers and decimal strings (with an optional sign,
-    underscores and surrounding spaces).
+    Accepts ints, gmpy2 integers and decimal strings: ASCII digits, an optional
+    sign (``+``, ``-`` or the minus sign ``−``), single underscores between
+    digits, surrounding spaces. Integers of more than ``max_digits`` digits
+    are refused (the message says how long they are, not what they are).
 
-    >>> as_integer(" -1_000 ")
-    -1000
+    >>> as_integer(" -1_000 "), as_integer("−7")
+    (-1000, -7)
     >>> as_integer("2.5")
     Traceback (most recent call last):
     ...
     realquad.errors.InputError: value must be an integer, got '2.5'
+    >>> as_integer("1_")
+    Traceback (most recent call last):
+    ...
+    realquad.errors.InputError: value must be an integer, got '1_'
+    >>> as_integer("9" * 5000, "d")
+    Traceback (most recent call last):
+    ...
+    realquad.errors.InputError: d has 5,000 digits; at most 4,000 are accepted
     """
     if isinstance(value, bool):
         raise InputError(f"{name} must be an integer, got {value!r}")
-    if isinstance(value, int):
-        return value
-    if type(value).__name__ == "mpz":
-        return int(value)  # type: ignore[call-overload]
-    if isinstance(value, str):
-        text = value.strip().replace("_", "")
-        body = text[1:] if text[:1] in "+-" else text
-        if body and body.isascii() and body.isdigit():
-            try:
-                return int(gmpy2.mpz(text))
-            except ValueError:
-                pass
-        shown = value if len(value) <= 40 else value[:37] + "..."
-        raise InputError(f"{name} must be an integer, got {shown!r}")
-    raise InputError(f"{name} must be an integer, got {type(value).__name__}")
+    if isinstance(value, int) or type(value).__name__ == "mpz":
+        number = gmpy2.mpz(value)  # type: ignore[call-overload]
+    elif isinstance(value, str):
+        text = value.strip()
+        if not _INTEGER.fullmatch(text):
+            shown = value if len(value) <= 40 else value[:37] + "..."
+            raise InputError(f"{name} must be an integer, got {shown!r}")
+        digits = len(text) - text.count("_") - (text[0] in "+-−")
+        if digits > max_digits:
+            raise InputError(f"{name} has {digits:,} digits; at most {max_digits:,} are accepted")
+        number = gmpy2.mpz(text.replace("_", "").replace("−", "-"))
+    else:
+        raise InputError(f"{name} must be an integer, got {type(value).__name__}")
+    if number and gmpy2.num_digits(number, 10) > max_digits:
+        size = len(gmpy2.mpz(abs(number)).digits(10))
+        if size > max_digits:
+            raise InputError(f"{name} has {size:,} digits; at most {max_digits:,} are accepted")
+    return int(number)
 
 
 def is_square(n: int) -> bool:

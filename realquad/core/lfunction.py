@@ -57,7 +57,8 @@ def estimate_hR(D: int, bound: int | None = None) -> HREstimate:
     for p, chi in zip(primes, symbols, strict=True):
         if chi:
             log_product -= math.log1p(-chi / p)
-    value = math.exp(0.5 * math.log(D) - math.log(2) + log_product)
+    log_value = 0.5 * math.log(D) - math.log(2) + log_product
+    value = math.exp(log_value) if log_value < 700 else math.inf  # beyond any search, say so
     return HREstimate(D, value, bound, len(primes))
 
 

@@ -25,6 +25,7 @@ from typing import Any
 import gmpy2
 import mpmath
 
+from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError
 
 Rational = int | Fraction
@@ -229,6 +230,14 @@ class QuadraticNumber:
             return _log_abs_sum(x, y, self.d, prec) - mpmath.log(mpmath.mpf(self.c))
 
     # -- display -------------------------------------------------------------
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of ``(x + y√radicand)/denominator`` (``docs/json.md``, *Number*).
+
+        >>> QuadraticNumber(1, 1, 2, 5).to_dict()
+        {'x': 1, 'y': 1, 'denominator': 2, 'radicand': 5}
+        """
+        return {"x": int(self.x), "y": int(self.y), "denominator": int(self.c), "radicand": self.d}
+
     def __repr__(self) -> str:
         return f"QuadraticNumber({self.x}, {self.y}, {self.c}, {self.d})"
 

@@ -31,6 +31,7 @@ from functools import cached_property
 
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.primes import squarefree_decomposition
+from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError
 
 
@@ -104,6 +105,19 @@ class Order:
 
     def __repr__(self) -> str:
         return f"Order({self.discriminant})"
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of an order (``docs/json.md``, *Order*).
+
+        >>> Order(52).to_dict()
+        {'discriminant': 52, 'fundamental_discriminant': 13, 'conductor': 2, 'radicand': 13}
+        """
+        return {
+            "discriminant": self.discriminant,
+            "fundamental_discriminant": self.fundamental_discriminant,
+            "conductor": self.conductor,
+            "radicand": self.radicand,
+        }
 
     @cached_property
     def _decomposition(self) -> tuple[int, int]:

@@ -126,6 +126,22 @@ def squarefree_decomposition(n: int) -> tuple[int, int]:
     return s, f
 
 
+def square_factor(n: int, trial_limit: int = 10_000) -> tuple[int, int]:
+    """``n = k²·s`` with ``k²`` the largest square factor found by trial division below ``trial_limit``.
+
+    >>> square_factor(72), square_factor(61), square_factor(8 * 10007**2)
+    ((6, 2), (1, 61), (2, 200280098))
+    """
+    k, s = 1, n
+    for p in primes_below(trial_limit):
+        if p * p > s:
+            break
+        while s % (p * p) == 0:
+            s //= p * p
+            k *= p
+    return k, s
+
+
 def divisors_from_factorization(factors: dict[int, int]) -> list[int]:
     """All positive divisors, sorted, of the number with this factorisation.
 

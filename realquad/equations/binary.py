@@ -67,6 +67,7 @@ from realquad.equations.norm import (
 )
 from realquad.equations.pell import pell
 from realquad.errors import DomainError, TooLargeError
+from realquad.textio import decimal_digits
 
 Matrix = tuple[int, int, int, int]
 
@@ -211,12 +212,49 @@ def _orbit_families(
                     assert xy is not None and w[0] ** 2 - D * w[1] ** 2 == K
                     reps[w] = xy
                 beta = pair_multiply(beta, eps, D)
-    families: list[Family] = [
-        OrbitFamily(xy, T, C, reflection=reflect)
-        for xy in sorted(reps.values(), key=lambda v: (v[1], v[0]))
-    ]
-    note = f"{method}; automorph from {generator}, η = ({eta[0]} + {eta[1]}√{D})/2"
-    return families, note
+    families = distinct_orbits(
+        [
+            OrbitFamily(xy, T, C, reflection=reflect)
+            for xy in sorted(reps.values(), key=lambda v: (v[1], v[0]))
+        ]
+    )
+    note = f"{method}; automorph from {generator}, η the fundamental unit of discriminant {D}"
+    if decimal_digits(eta[0]) <= 60:  # small enough to say in words
+        note += f" = ({eta[0]} + {eta[1]}√{D})/2"
+    return list(families), note
+
+
+#: Steps either way within which two balanced representatives of one orbit must meet.
+ORBIT_REACH = 8
+
+
+def distinct_orbits(families: list[OrbitFamily]) -> list[OrbitFamily]:
+    """The families whose orbits differ: a family whose fundamental solution lies in the orbit
+    of an earlier one (or its mirror image) is the same family and is dropped.
+
+    Fundamental solutions are balanced (least ``|Q|`` in their orbit), so two of one orbit
+    are within a few steps of each other; :data:`ORBIT_REACH` steps either way are checked.
+
+    >>> T = AffineMap((8, 7, 1, 1))        # x² − 7xy − 7y² = −7: (7, 1) is T(0, 1)
+    >>> zero = (Fraction(0), Fraction(0))
+    >>> [f.fundamental for f in distinct_orbits([OrbitFamily((0, 1), T, zero, True), OrbitFamily((7, 1), T, zero, True)])]
+    [(0, 1)]
+    """
+    kept: list[OrbitFamily] = []
+    seen: set[Point] = set()
+    for family in families:
+        if family.fundamental in seen:
+            continue
+        kept.append(family)
+        for step in (family.automorph, family.automorph.inverse()):
+            v: Point = family.fundamental
+            for _ in range(ORBIT_REACH + 1):
+                seen.add(v)
+                if family.reflection:
+                    seen.add(family.mirror(v))
+                w = step(v)
+                v = (int(w[0]), int(w[1]))
+    return kept
 
 
 def integer_line(alpha: int, beta: int, gamma: int) -> LineFamily | None:

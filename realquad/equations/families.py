@@ -27,16 +27,31 @@ how they were found (``method``) and how sure the answer is (``proof``).
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
 from math import floor
 
 from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 from realquad.errors import InputError, TooLargeError
+from realquad.textio import terms_text
 
 Point = tuple[int, int]
+
+#: The monomials of ``a x² + b xy + c y² + d x + e y + f``, in the order of the coefficients.
+MONOMIALS = ("x²", "xy", "y²", "x", "y", "")
+
+
+def equation_text(coefficients: Sequence[int]) -> str:
+    """``x² − 13y² + 4 = 0`` from ``(1, 0, -13, 0, 0, 4)``.
+
+    >>> equation_text((1, 0, -13, 0, 0, 4)), equation_text((0,) * 6)
+    ('x² − 13y² + 4 = 0', '0 = 0')
+    """
+    return terms_text(zip(coefficients, MONOMIALS, strict=True)) + " = 0"
+
 
 #: Most points :meth:`bounded` will list before refusing.
 MAX_LISTED = 1_000_000
@@ -66,6 +81,10 @@ class AffineMap:
         t = self(other.translation)
         return AffineMap(matrix_multiply(self.matrix, other.matrix), (int(t[0]), int(t[1])))
 
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of ``v ↦ M v + t`` (``docs/json.md``, *Automorph*)."""
+        return {"matrix": list(self.matrix), "translation": list(self.translation)}
+
     def power(self, k: int) -> AffineMap:
         base = self if k >= 0 else self.inverse()
         k = abs(k)
@@ -76,6 +95,11 @@ class AffineMap:
             base = base.compose(base)
             k >>= 1
         return out
+
+
+def point_dict(p: tuple[int, int]) -> JSONObject:
+    """The JSON shape of a point or a vector of the plane: ``{"x": …, "y": …}``."""
+    return {"x": int(p[0]), "y": int(p[1])}
 
 
 def _sort_key(p: Point) -> tuple[int, int, int]:
@@ -107,6 +131,19 @@ class OrbitFamily:
     reflection: bool = False
     unit: tuple[int, int, int] | None = None
     kind: str = field(default="orbit", init=False, repr=False)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of an orbit family (``docs/json.md``, *Family*)."""
+        t, u, D = self.unit if self.unit is not None else (0, 0, 0)
+        return {
+            "kind": self.kind,
+            "fundamental": point_dict(self.fundamental),
+            "automorph": self.automorph.to_dict(),
+            "unit": None
+            if self.unit is None
+            else {"x": t, "y": u, "denominator": 1, "radicand": D},
+            "mirrored": self.reflection,
+        }
 
     def mirror(self, v: Point) -> Point:
         """``2C − v``, the point reflection through the centre."""
@@ -178,6 +215,14 @@ class LineFamily:
     def fundamental(self) -> Point:
         return self.point
 
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a line family (``docs/json.md``, *Family*)."""
+        return {
+            "kind": self.kind,
+            "fundamental": point_dict(self.point),
+            "direction": point_dict(self.direction),
+        }
+
     def solution(self, k: int) -> Point:
         return (self.point[0] + k * self.direction[0], self.point[1] + k * self.direction[1])
 
@@ -207,6 +252,15 @@ class ParabolaFamily:
     @property
     def fundamental(self) -> Point:
         return self.solution(0)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a parabola family (``docs/json.md``, *Family*)."""
+        return {
+            "kind": self.kind,
+            "fundamental": point_dict(self.fundamental),
+            "x_polynomial": list(self.x_polynomial),
+            "y_polynomial": list(self.y_polynomial),
+        }
 
     def solution(self, k: int) -> Point:
         x2, x1, x0 = self.x_polynomial
@@ -254,6 +308,33 @@ class QuadraticSolutions:
         for fam in self.families:
             out.update(fam.bounded(B))
         return sort_points(out)
+
+    def to_dict(self, bound: int | None = None) -> JSONObject:
+        """The JSON shape of the solutions (``docs/json.md``, *QuadraticSolutions*).
+
+        ``solutions`` lists every solution with ``|x|, |y| ≤ bound`` when a
+        bound is given, all of them when they are finitely many, else ``None``.
+
+        >>> s = QuadraticSolutions((1, 0, 1, 0, 0, -25), True, [], [(-5, 0), (5, 0)], "demo")
+        >>> s.to_dict()["equation"]
+        {'coefficients': {'a': 1, 'b': 0, 'c': 1, 'd': 0, 'e': 0, 'f': -25}, 'text': 'x² + y² − 25 = 0'}
+        """
+        listed = (
+            self.bounded(bound) if bound is not None else (self.solutions if self.finite else None)
+        )
+        return {
+            "equation": {
+                "coefficients": dict(zip("abcdef", self.coefficients, strict=True)),
+                "text": equation_text(self.coefficients),
+            },
+            "finite": self.finite,
+            "families": [family.to_dict() for family in self.families],
+            "solutions": None if listed is None else [point_dict(p) for p in listed],
+            "bound": bound,
+            "notes": list(self.notes),
+            "method": self.method,
+            "proof": self.proof,
+        }
 
     def satisfies(self, x: int, y: int) -> bool:
         a, b, c, d, e, f = self.coefficients

@@ -28,11 +28,14 @@ from collections.abc import Iterator
 from dataclasses import dataclass, field
 
 from realquad.core.integers import as_integer, is_square, isqrt
+from realquad.core.lfunction import estimated_period
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.primes import divisors_from_factorization, factorize
-from realquad.core.results import Proof
-from realquad.errors import InputError
+from realquad.core.results import JSONObject, Proof
+from realquad.equations.families import point_dict
+from realquad.errors import InputError, TooLargeError
+from realquad.textio import about, decimal_digits, shown, signed
 from realquad.units import DEFAULT_MAX_PERIOD, Unit, fundamental_unit
 
 PELL_NORMS = (1, -1, 4, -4)
@@ -64,19 +67,44 @@ class PellSolution:
         return self._unit.order.discriminant if self._unit else None
 
     def _base(self) -> QuadraticNumber:
-        """The unit ``β`` with ``β^k ↔`` the k-th solution of norm ``+N/|N|·...``."""
+        """The fundamental unit ``ε = (u + v√D)/2`` of the order of discriminant ``D``.
+
+        Written over ``√D`` itself, not over the squarefree radicand: no factoring of ``d``.
+        """
         assert self._unit is not None
-        return self._unit.expand()
+        u, v = self._unit.half_integer_coordinates()
+        return QuadraticNumber(u, v, 2, self._unit.order.discriminant)
 
     def _coords(self, q: QuadraticNumber) -> tuple[int, int]:
-        d = self.d
-        # q = (X + Y√r)/c with r the radicand; rewrite as x + y√d (N = ±1) or (x + y√d)/2.
+        """``(x, y)`` with ``q = x + y√d`` (``N = ±1``) or ``(x + y√d)/2`` (``N = ±4``)."""
+        # q = (X + Y√D)/c with D = k²d, k = 1 or 2
         scale = 1 if abs(self.norm) == 1 else 2
-        k2 = d // q.d  # d = k² r
-        k = isqrt(k2)
-        X, Y, c = int(q.x) * scale, int(q.y) * scale, int(q.c)
-        assert X % c == 0 and Y % (c * k) == 0
-        return X // c, Y // (c * k)
+        k = isqrt(q.d // self.d)
+        X, Y, c = int(q.x) * scale, int(q.y) * scale * k, int(q.c)
+        assert X % c == 0 and Y % c == 0
+        return X // c, Y // c
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of the answer (``docs/json.md``, *PellSolution*): ``x² − d y² = n``.
+
+        >>> pell(61, -1).to_dict()["x"], pell(3, -1).to_dict()["solvable"]
+        (29718, False)
+        """
+        return {
+            "d": self.d,
+            "n": self.norm,
+            "solvable": self.solvable,
+            "x": self.x,
+            "y": self.y,
+            "digits": None if self.x is None else decimal_digits(self.x),
+            "period_length": self.period_length,
+            "reason": self.reason,
+            "finite_solutions": None
+            if self.finite_solutions is None
+            else [point_dict(p) for p in self.finite_solutions],
+            "method": self.method,
+            "proof": self.proof,
+        }
 
     def solution(self, k: int) -> tuple[int, int]:
         """The k-th positive solution (k ≥ 1; k = 0 gives the trivial one for N > 0)."""
@@ -157,10 +185,19 @@ def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSol
     if N not in PELL_NORMS:
         raise InputError(f"norm must be one of 1, -1, 4, -4, got {N}")
     if d <= 0:
-        raise InputError(f"d must be a positive integer, got {d}")
+        raise InputError(f"d must be a positive integer, got {shown(d)}")
     if is_square(d):
         return _square_case(d, N)
-    unit = fundamental_unit(Order(pell_discriminant(d, N)), "cfrac", max_period=max_period)
+    D = pell_discriminant(d, N)
+    try:
+        unit = fundamental_unit(Order(D), "cfrac", max_period=max_period)
+    except TooLargeError:
+        raise TooLargeError(
+            f"x² − {shown(d)}y² = {signed(N)}: the continued fraction would need "
+            f"{about(estimated_period(D, 2_000))} steps (limit {max_period:,}); at this size the "
+            f"fundamental unit comes in compact form from `realquad unit --disc {shown(D)}`, "
+            "which also gives its norm (−1 makes the equations with N < 0 solvable)"
+        ) from None
     solvable = N > 0 or unit.norm == -1
     result = PellSolution(
         d=d,

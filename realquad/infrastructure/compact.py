@@ -36,6 +36,7 @@ import gmpy2
 import mpmath
 
 from realquad.core.numbers import QuadraticNumber
+from realquad.core.results import JSONObject
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.distances import Factors, log_of_product
 
@@ -72,6 +73,27 @@ class CompactRepresentation:
         out = cls(D, chains, raw._raw_sign(), absolute_norm)
         out._check_norm()
         return out
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a compact representation (``docs/json.md``, *CompactRepresentation*).
+
+        The number is ``sign · ∏_chains (∏_factors number^exponent)^power``; each
+        factor's ``number`` is ``(x + y√D)/denominator`` with ``D`` the discriminant.
+        """
+        return {
+            "discriminant": self.discriminant,
+            "sign": self.sign,
+            "norm": self.norm,
+            "chains": [
+                {
+                    "power": chain.power,
+                    "factors": [
+                        {"number": alpha.to_dict(), "exponent": e} for alpha, e in chain.factors
+                    ],
+                }
+                for chain in self.chains
+            ],
+        }
 
     # -- exact invariants ------------------------------------------------------
     def _raw_sign(self) -> int:

@@ -44,6 +44,7 @@ from realquad.core.integers import as_integer
 from realquad.core.linalg import Matrix, matrix_inverse, matrix_multiply
 from realquad.core.orders import Order
 from realquad.core.primes import kronecker, primes_below
+from realquad.core.results import JSONObject
 from realquad.errors import InputError
 
 KINDS = {1: "split", 0: "ramified", -1: "inert"}
@@ -72,6 +73,22 @@ class PrimeDecomposition:
     form: Form | None
     x: int | None
     y: int | None
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a prime's decomposition (``docs/json.md``, *PrimeDecomposition*)."""
+        return {
+            "p": self.p,
+            "kind": self.kind,
+            "divides_conductor": self.divides_conductor,
+            "field_kind": self.field_kind,
+            "ideals": [ideal.to_dict() for ideal in self.ideals],
+            "classes": [list(c) for c in self.classes],
+            "wide_classes": [list(c) for c in self.wide_classes],
+            "represented_by_principal": self.represented_by_principal,
+            "form": None if self.form is None else self.form.to_dict(),
+            "x": self.x,
+            "y": self.y,
+        }
 
 
 class _PrincipalCycle:

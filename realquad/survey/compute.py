@@ -64,7 +64,7 @@ from realquad.classgroup.exact import METHOD as CLASS_GROUP_METHOD
 from realquad.classgroup.structure import forced_structures, four_rank
 from realquad.core.orders import Order, fundamental_discriminant_of
 from realquad.core.primes import factorize, primes_below
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 from realquad.survey.ranges import Chunk
 from realquad.units import fundamental_unit
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, METHOD_ACCUMULATED, principal_regulator_walk
@@ -116,7 +116,31 @@ class FieldRecord:
     proof: Proof
 
     def as_dict(self) -> dict[str, Any]:
+        """The row as stored: one value per column of the survey store."""
         return asdict(self)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a survey row (``docs/json.md``, *SurveyRow*): the store's columns
+        under the names the other objects use (``radicand``, ``invariants``, ``digits``).
+
+        >>> row = survey_field(79).to_dict()
+        >>> row["radicand"], row["invariants"], row["narrow_invariants"], row["digits"]
+        (79, [3], [6], 2)
+        """
+        return {
+            "radicand": self.d,
+            "discriminant": self.discriminant,
+            "class_number": self.class_number,
+            "narrow_class_number": self.narrow_class_number,
+            "invariants": json.loads(self.class_group),
+            "narrow_invariants": json.loads(self.narrow_class_group),
+            "unit_norm": self.unit_norm,
+            "regulator": self.regulator,
+            "period_length": self.period_length,
+            "digits": self.unit_digits,
+            "method": self.method,
+            "proof": self.proof,
+        }
 
 
 def _regulator_text(u: int, v: int, D: int) -> str:

@@ -30,10 +30,16 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from realquad.core.primes import primes_below
+from realquad.core.results import JSONObject
 from realquad.survey.store import RowFilter, SurveyStore
 
 #: Cohen–Lenstra: the predicted share of ``h = 1`` among real quadratic fields of prime discriminant.
 COHEN_LENSTRA_PRIME_SHARE = 0.75445817
+
+
+def _decimal(value: float | None) -> str | None:
+    """A share as a decimal string (the JSON convention for real numbers), 8 places."""
+    return None if value is None else f"{value:.8f}"
 
 
 def odd_part(n: int) -> int:
@@ -63,6 +69,33 @@ class SurveyReport:
         "Cohen and Lenstra, Heuristics on class groups of number fields, LNM 1068 (1984)"
     )
     running_prime_share: list[tuple[int, float]] = field(default_factory=list, repr=False)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a survey report (``docs/json.md``, *SurveyReport*): shares as decimal strings."""
+        return {
+            "fields": self.fields,
+            "d_min": self.d_min,
+            "d_max": self.d_max,
+            "class_number_one": {
+                "count": self.class_number_one,
+                "share": _decimal(self.class_number_one_share),
+            },
+            "prime_discriminants": {
+                "fields": self.prime_fields,
+                "class_number_one": self.prime_class_number_one,
+                "share": _decimal(self.prime_share),
+                "cohen_lenstra_prediction": _decimal(self.prediction),
+                "prediction_source": self.prediction_source,
+            },
+            "class_number_distribution": {str(k): v for k, v in self.class_number_counts.items()},
+            "odd_part_distribution": {str(k): v for k, v in self.odd_part_counts.items()},
+            "unit_norm_minus_one": {
+                "count": self.unit_norm_minus_one,
+                "share": _decimal(self.unit_norm_minus_one_share),
+            },
+            "largest_regulators": list(self.largest_regulators),
+            "proof": self.proof,
+        }
 
     @staticmethod
     def _share(part: int, whole: int) -> float | None:
@@ -109,7 +142,7 @@ def survey_report(
             running.append((d, primes_h1 / primes))
     ranked = sorted(rows, key=lambda r: float(r[4]), reverse=True)[:top]
     largest = [
-        {"d": d, "discriminant": D, "regulator": reg, "class_number": h}
+        {"radicand": d, "discriminant": D, "regulator": reg, "class_number": h}
         for d, D, h, _n, reg, _p in ranked
     ]
     return SurveyReport(

@@ -43,7 +43,7 @@ from realquad._backend import BACKEND, kernels
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import InputError
+from realquad.core.results import check_method
 from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
@@ -76,9 +76,7 @@ def choose_method(order: Order, method: str = "auto", limit: int | None = None) 
     >>> choose_method(Order(4 * 61)), choose_method(Order(4 * (10**16 + 61)))
     ('cfrac', 'bsgs')
     """
-    if method not in METHODS:
-        raise InputError(f"method must be one of {', '.join(METHODS)}, got {method!r}")
-    if method != "auto":
+    if check_method(method, METHODS) != "auto":
         return method
     D = order.discriminant
     if limit is None:

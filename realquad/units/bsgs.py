@@ -27,12 +27,15 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.errors import TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
+from realquad.infrastructure.distances import principal_near
+from realquad.infrastructure.ideals import Cycle
 from realquad.infrastructure.regulator_search import (
     DEFAULT_MAX_TABLE,
     METHOD,
     BSGSResult,
     search_regulator,
 )
+from realquad.textio import about, shown
 from realquad.units.results import Regulator, Unit
 
 #: Largest number of giant steps the infrastructure search is started for (hours of work).
@@ -50,14 +53,14 @@ def check_reach(D: int) -> None:
     ...     check_reach(10**60 + 1)
     ... except TooLargeError as exc:
     ...     print(str(exc)[:60])
-    the regulator of D = 100000000000000000000000000000000000000
+    the regulator of D = 10000000000000000000…000000000000000000
     """
     E = estimate_hR(D, 2_000).value
     steps = E / (2 * 1.19 * DEFAULT_MAX_TABLE)
     if steps > MAX_GIANT_STEPS:
         raise TooLargeError(
-            f"the regulator of D = {D} needs about {steps:.1e} giant steps of baby-step "
-            f"giant-step (R may be near {E:.1e}); this is beyond reach of the methods "
+            f"the regulator of D = {shown(D)} needs {about(steps)} giant steps of baby-step "
+            f"giant-step (R may be {about(E)}); this is beyond reach of the methods "
             "implemented here (subexponential methods are planned)"
         )
 
@@ -88,7 +91,20 @@ def unit_from_search(order: Order, found: BSGSResult) -> Unit:
         _expander=lambda: eps.expand(MAX_EXPANDED_DIGITS),
         _regulator=regulator_to,
         _compact=lambda: eps,
+        _denominator=lambda: _denominator(D, float(found.value), float(found.error_bound)),
     )
+
+
+def _denominator(D: int, R: float, error: float) -> int:
+    """``c`` of ``ε = (x + y√r)/c`` for odd ``D``: 1 exactly when ``ε ∈ Z[√D]``.
+
+    The order ``Z[√D]`` (discriminant ``4D``) has the unit ``ε`` or ``ε³``
+    (``(O/2O)^×`` has order 3 or 1), so ``ε ∈ Z[√D]`` exactly when its
+    infrastructure has a copy of ``O`` at distance ``R`` (and not first at
+    ``3R``): one doubling walk to ``R`` decides.
+    """
+    window = error + 1e-12 * R + 1e-6  # the doubling walk's own float error
+    return 1 if principal_near(Cycle(4 * D), R, min(window, R / 2)) else 2
 
 
 def fundamental_unit_bsgs(order: Order, progress: Progress | None = None) -> Unit:

@@ -39,6 +39,7 @@ from realquad.core.lfunction import estimated_period
 from realquad.core.linalg import matrix_product, matrix_product_column
 from realquad.core.orders import Order
 from realquad.errors import TooLargeError
+from realquad.textio import about, shown
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
 
 #: Default largest period the continued fraction walks before refusing.
@@ -88,9 +89,38 @@ def principal_regulator_walk(D: int, max_period: int = DEFAULT_MAX_PERIOD) -> tu
     return _walk("principal_regulator", D, max_period)
 
 
+#: A period estimated beyond this many times the limit is refused without walking it all: the
+#: estimate assumes h = 1, and a class number of 100 or more would be needed to bring it within
+#: reach. Short periods (a regulator small for its discriminant, as for d = n² + 4) are found
+#: first by a walk of :data:`FIRST_STEPS` steps, whatever the estimate says.
+HOPELESS_FACTOR = 100
+FIRST_STEPS = 100_000
+
+
+def check_period_reach(D: int, max_period: int) -> None:
+    """Refuse at once a walk whose period is estimated far beyond ``max_period``.
+
+    >>> check_period_reach(4 * 61, 100)
+    >>> try:
+    ...     check_period_reach(4 * (10**32 + 49), 10**8)
+    ... except TooLargeError as exc:
+    ...     print(str(exc)[:48])
+    the period of the continued fraction of discrimi
+    """
+    if estimated_period(D, 2_000) > HOPELESS_FACTOR * max_period:
+        raise TooLargeError(_too_long_message(D, max_period))
+
+
 def _walk(kernel: str, D: int, max_period: int) -> tuple:
-    """Run the walk ``kernel`` (compiled if possible, the pure twin beyond its word size)."""
-    found = call_kernel(kernel, D, max_period)
+    """Run the walk ``kernel`` (compiled if possible, the pure twin beyond its word size).
+
+    A first walk of :data:`FIRST_STEPS` steps finds every short period at once; only
+    then is a period estimated hopelessly long refused without walking it.
+    """
+    found = call_kernel(kernel, D, min(max_period, FIRST_STEPS))
+    if found is None and max_period > FIRST_STEPS:
+        check_period_reach(D, max_period)
+        found = call_kernel(kernel, D, max_period)
     if found is None:
         raise TooLargeError(_too_long_message(D, max_period))
     return found
@@ -98,8 +128,8 @@ def _walk(kernel: str, D: int, max_period: int) -> tuple:
 
 def _too_long_message(D: int, max_period: int) -> str:
     return (
-        f"the period of the continued fraction of discriminant {D} exceeds "
-        f"{max_period:,} steps (about {estimated_period(D, 2_000):.3g} expected if the class number is 1); "
+        f"the period of the continued fraction of discriminant {shown(D)} exceeds "
+        f"{max_period:,} steps ({about(estimated_period(D, 2_000))} expected if the class number is 1); "
         "the continued fraction cannot finish in reasonable time. "
         "Baby-step giant-step in the infrastructure is the method for this size."
     )

@@ -16,7 +16,7 @@ import mpmath
 
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
@@ -46,6 +46,16 @@ class Regulator:
     def __float__(self) -> float:
         return float(self.value)
 
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a regulator (``docs/json.md``, *Regulator*): decimals as strings."""
+        return {
+            "value": str(self),
+            "digits": self.digits,
+            "error_bound": mpmath.nstr(self.error_bound, 3),
+            "method": self.method,
+            "proof": self.proof,
+        }
+
 
 @dataclass(eq=False)
 class Unit:
@@ -65,6 +75,7 @@ class Unit:
     _regulator: Callable[[int], Regulator] = field(repr=False)
     _cache: dict[str, object] = field(default_factory=dict, repr=False)
     _compact: Callable[[], Any] | None = field(default=None, repr=False)
+    _denominator: Callable[[], int] | None = field(default=None, repr=False)
 
     def compact(self) -> Any:
         """The compact representation of ``ε`` (units found in the infrastructure), else ``None``."""
@@ -110,6 +121,76 @@ class Unit:
             self._cache[key] = self._regulator(digits)
         return self._cache[key]  # type: ignore[return-value]
 
+    def digits_from_regulator(self) -> tuple[int, bool]:
+        """``(digits of x, exact)`` from ``log ε``, without expanding ``ε``.
+
+        ``ε = (x + y√r)/c`` and ``ε' = N(ε)/ε``, so ``x = c·(ε + N/ε)/2`` and
+        ``log₁₀ x = log₁₀(c/2) + R/ln 10 + log₁₀(1 + N·e^{−2R})``, evaluated
+        with ``R``'s rigorous error bound. ``c = 1`` when ``D ≡ 0 (mod 4)``;
+        for odd ``D``, ``c = 1`` exactly when ``ε ∈ Z[√D]``, which the method
+        decides when it must (``_denominator``). ``exact`` is false only when
+        ``log₁₀ x`` lies within the error bound of an integer.
+
+        >>> from realquad.units import fundamental_unit
+        >>> fundamental_unit(4 * 94).digits_from_regulator()       # 2143295 + 221064√94
+        (7, True)
+        """
+        if "digits" in self._cache:
+            return self._cache["digits"], True  # type: ignore[return-value]
+        D = self.order.discriminant
+        magnitude = max(1, int(float(self.regulator(20).value))).bit_length() // 3 + 1
+        regulator = self.regulator(magnitude + 30)
+        with mpmath.workdps(magnitude + 40):
+            R, error = regulator.value, regulator.error_bound
+            tail = mpmath.log10(1 + self.norm * mpmath.exp(-2 * R))
+            spread = error / mpmath.log(10) + mpmath.mpf(10) ** (-(magnitude + 35))
+
+            def count(c: int) -> int | None:
+                centre = mpmath.log10(mpmath.mpf(c) / 2) + R / mpmath.log(10) + tail
+                low, high = mpmath.floor(centre - spread), mpmath.floor(centre + spread)
+                return int(low) + 1 if low == high else None
+
+            candidates = [1] if D % 4 == 0 else [1, 2]
+            counts = {c: count(c) for c in candidates}
+            if len(set(counts.values())) > 1 and self._denominator is not None:
+                counts = {c: counts[c] for c in (self._denominator(),)}
+            values = set(counts.values())
+            if len(values) == 1 and None not in values:
+                return values.pop(), True  # type: ignore[return-value]
+            estimate = mpmath.floor(R / mpmath.log(10)) + 1
+        return int(estimate), False
+
     def power(self, k: int) -> QuadraticNumber:
         """``ε^k`` exactly (``k`` may be negative)."""
         return self.expand() ** k
+
+    def to_dict(
+        self, expand: bool = True, with_compact: bool = False, regulator_digits: int = 30
+    ) -> JSONObject:
+        """The JSON shape of a fundamental unit (``docs/json.md``, *Unit*).
+
+        ``expand=False`` leaves out the expanded number (``number`` is ``None``,
+        ``digits`` then estimated from the regulator); ``with_compact`` adds the
+        compact representation when the method kept one; the regulator is given
+        to ``regulator_digits`` significant digits.
+
+        >>> from realquad.units import fundamental_unit
+        >>> d = fundamental_unit(5).to_dict()
+        >>> d["number"], d["norm"], d["digits"], d["regulator"]["value"][:8]
+        ({'x': 1, 'y': 1, 'denominator': 2, 'radicand': 5}, -1, 1, '0.481211')
+        """
+        digits, exact = (self.digits, True) if expand else self.digits_from_regulator()
+        out: JSONObject = {
+            "order": self.order.to_dict(),
+            "number": self.expand().to_dict() if expand else None,
+            "norm": self.norm,
+            "digits": digits,
+            "digits_exact": exact,
+            "regulator": self.regulator(regulator_digits).to_dict(),
+            "period_length": self.period_length,
+        }
+        compact = self.compact() if with_compact else None
+        out["compact"] = None if compact is None else compact.to_dict()
+        out["method"] = self.method
+        out["proof"] = self.proof
+        return out

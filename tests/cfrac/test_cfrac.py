@@ -130,10 +130,16 @@ def test_convergents():
         ("sqrt(61)", (0, 1, 61, 1)),
         ("√61", (0, 1, 61, 1)),
         ("(1+sqrt(13))/2", (1, 1, 13, 2)),
-        ("( 1 - 2*sqrt(7) ) / -3", (1, -2, 7, -3)),
+        ("( 1 - 2*sqrt(7) ) / -3", (-1, 2, 7, 3)),  # the same number, denominator made positive
         ("3+sqrt(2)", (3, 1, 2, 1)),
         ("2sqrt(3)", (0, 2, 3, 1)),
         ("sqrt(9)", Fraction(3)),
+        ("((1))", Fraction(1)),
+        ("1+2/3", Fraction(5, 3)),  # a + b/c is a + (b/c), not (a + b)/c
+        ("1+sqrt(13)/2", (2, 1, 13, 2)),  # 1 + √13/2
+        ("sqrt(8) + sqrt(2)", (0, 3, 2, 1)),  # 2√2 + √2
+        ("1/(1 + sqrt(2))", (-1, 1, 2, 1)),  # √2 − 1
+        ("3 − √5", (3, -1, 5, 1)),  # the Unicode minus
     ],
 )
 def test_parser(text, expected):
@@ -141,7 +147,20 @@ def test_parser(text, expected):
 
 
 @pytest.mark.parametrize(
-    "text", ["", "sqrt(", "(1+sqrt(2)", "1//2", "sqrt(-3)", "x", "1/0", "sqrt(2)+sqrt(3)", "((1))"]
+    "text",
+    [
+        "",
+        "sqrt(",
+        "(1+sqrt(2)",
+        "1//2",
+        "sqrt(-3)",
+        "x",
+        "1/0",
+        "sqrt(2)+sqrt(3)",
+        "٣/4",
+        "-5",
+        "1/(sqrt(2)-sqrt(2))",
+    ],
 )
 def test_parser_errors(text):
     with pytest.raises(InputError):
@@ -163,3 +182,57 @@ def test_reducedness():
         QuadraticIrrational(7, 61, 12).is_reduced() is True
     )  # (7 + √61)/12 ≈ 1.23, conjugate ≈ −0.07
     assert QuadraticIrrational(1, 5, 2).is_reduced() is True
+
+
+_terms = st.one_of(
+    # every term in parentheses: one value each (and never a bare integer, which means √d)
+    st.integers(-50, 50).map(lambda n: (f"({n})", Fraction(n), Fraction(0))),
+    st.integers(-9, 9).map(lambda k: (f"({k}*sqrt(7))", Fraction(0), Fraction(k))),
+    st.integers(-9, 9).map(lambda k: (f"({k}√28/2)", Fraction(0), Fraction(k))),  # √28 = 2√7
+)
+
+
+@given(st.lists(st.tuples(_terms, st.sampled_from(["+", "-", "*", "/"])), min_size=1, max_size=5))
+def test_parser_agrees_with_exact_arithmetic(parts):
+    """Expressions in integers and √7 against Fraction arithmetic in Q(√7) (an independent evaluator).
+
+    The reference follows Python's precedence: products and quotients first, left to right.
+    """
+    text = ""
+    pieces = []
+    for i, ((written, a, b), op) in enumerate(parts):
+        text += written
+        pieces.append((a, b))
+        if i < len(parts) - 1:
+            text += f" {op} "
+            pieces.append(op)
+
+    def mul(x, y):
+        return (x[0] * y[0] + 7 * x[1] * y[1], x[0] * y[1] + x[1] * y[0])
+
+    def inv(x):
+        n = x[0] * x[0] - 7 * x[1] * x[1]
+        return (x[0] / n, -x[1] / n)
+
+    # reduce the products first (standard precedence), then the sums
+    sums: list = [pieces[0]]
+    signs = [1]
+    try:
+        for op, value in zip(pieces[1::2], pieces[2::2], strict=True):
+            if op in "*/":
+                sums[-1] = mul(sums[-1], value if op == "*" else inv(value))
+            else:
+                sums.append(value)
+                signs.append(1 if op == "+" else -1)
+    except ZeroDivisionError:
+        with pytest.raises(InputError):
+            parse_real_quadratic(text)
+        return
+    a = sum((s * v[0] for s, v in zip(signs, sums, strict=True)), Fraction(0))
+    b = sum((s * v[1] for s, v in zip(signs, sums, strict=True)), Fraction(0))
+    got = parse_real_quadratic(text)
+    if b == 0:
+        assert got == a
+    else:
+        p, k, D, q = got
+        assert D == 7 and Fraction(p, q) == a and Fraction(k, q) == b

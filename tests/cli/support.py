@@ -12,6 +12,19 @@ from typing import Any
 import gmpy2
 from realquad_cli.main import main
 
+#: Every command, as the JSON page and the reference page name them.
+COMMAND_NAMES = (
+    "cfrac",
+    "pell",
+    "unit",
+    "classgroup",
+    "split",
+    "solve",
+    "survey run",
+    "survey query",
+    "survey report",
+)
+
 
 def run(capsys: Any, *args: str) -> tuple[int, str, str]:
     """Run ``realquad ARGS`` in-process; return (status, stdout, stderr)."""

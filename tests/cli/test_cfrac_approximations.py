@@ -115,12 +115,13 @@ def test_long_integers_are_summarised_and_written_in_full(capsys, tmp_path: Path
         str(out_file),
     )
     last = data["convergents"][-1]
-    assert last["p"] is None and last["p_summary"]["digits"] > 20
+    assert last["p"]["digits"] > 20 and last["q"]["digits"] > 20  # summaries in place
     written = out_file.read_text().splitlines()
     assert written[2].startswith("convergents ")
     p, q = map(int, written[2].split()[-1].split("/"))
     assert p * p - 2 * q * q in (1, -1)  # brute force: convergents of √2 solve p² − 2q² = ±1
-    assert str(p).startswith(last["p_summary"]["leading"])
+    assert str(p).startswith(last["p"]["leading"]) and str(p).endswith(last["p"]["trailing"])
+    assert len(str(p)) == last["p"]["digits"]
     code, text, _ = run(capsys, "cfrac", "2", "--convergents", "120", "--max-digits", "20")
     assert "--max-digits 0 or --output FILE for all" in text and text.count("for all") == 1
 

@@ -21,13 +21,11 @@ def test_classgroup_79(capsys):
     # Q(√79): h = 3, h⁺ = 6 (from memory)
     data = run_json(capsys, "classgroup", "79")
     for key in (
-        "radicand",
-        "discriminant",
-        "conductor",
+        "order",
         "class_number",
         "narrow_class_number",
-        "structure",
-        "narrow_structure",
+        "invariants",
+        "narrow_invariants",
         "generators",
         "unit_norm",
         "regulator",
@@ -35,12 +33,14 @@ def test_classgroup_79(capsys):
         "proof",
     ):
         assert key in data
-    assert (data["radicand"], data["discriminant"], data["conductor"]) == (79, 316, 1)
+    order = data["order"]
+    assert (order["radicand"], order["discriminant"], order["conductor"]) == (79, 316, 1)
     assert (data["class_number"], data["narrow_class_number"]) == (3, 6)
-    assert data["structure"] == [3] and data["narrow_structure"] == [6]
+    assert data["invariants"] == [3] and data["narrow_invariants"] == [6]
     assert data["unit_norm"] == 1 and data["proof"] == "unconditional"
-    assert data["regulator"].startswith("5.0751347")  # log(80 + 9√79), mpmath
-    a, b, c = data["generators"][0]["form"]
+    assert data["regulator"]["value"].startswith("5.0751347")  # log(80 + 9√79), mpmath
+    form = data["generators"][0]["form"]
+    a, b, c = form["a"], form["b"], form["c"]
     assert b * b - 4 * a * c == 316
 
 
@@ -56,7 +56,7 @@ def test_classgroup_text_and_forms(capsys):
 def test_classgroup_q_sqrt3(capsys):
     # Q(√3): h = 1, h⁺ = 2 (from memory)
     data = run_json(capsys, "classgroup", "3")
-    assert (data["class_number"], data["narrow_class_number"], data["structure"]) == (1, 2, [])
+    assert (data["class_number"], data["narrow_class_number"], data["invariants"]) == (1, 2, [])
 
 
 def test_split_79(capsys):
@@ -66,7 +66,8 @@ def test_split_79(capsys):
     for e in primes:
         assert set(e) >= {"p", "kind", "ideals", "classes", "represented_by_principal", "x", "y"}
         if e["kind"] != "inert":
-            a, b, c = e["form"] if not e["represented_by_principal"] else data["principal_form"]
+            form = e["form"] if not e["represented_by_principal"] else data["principal_form"]
+            a, b, c = form["a"], form["b"], form["c"]
             x, y = e["x"], e["y"]
             assert a * x * x + b * x * y + c * y * y == e["p"]
     # (D/p) by hand for D = 316: 2 and 79 ramify; 11 is inert (316 ≡ 8 mod 11, not a square)

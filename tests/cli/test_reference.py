@@ -6,6 +6,8 @@ from pathlib import Path
 
 from realquad_cli.reference import render
 
+from tests.cli.support import COMMAND_NAMES
+
 
 def test_reference_page_is_up_to_date():
     page = Path(__file__).resolve().parents[2] / "docs" / "reference.md"
@@ -16,15 +18,5 @@ def test_reference_page_is_up_to_date():
 
 def test_reference_names_every_command():
     text = render()
-    for name in (
-        "cfrac",
-        "pell",
-        "unit",
-        "classgroup",
-        "split",
-        "solve",
-        "survey run",
-        "survey query",
-        "survey report",
-    ):
+    for name in COMMAND_NAMES:
         assert f"`realquad {name}`" in text

@@ -16,13 +16,16 @@ from tests.cli.support import run, run_json
 
 def test_norm_equation_json(capsys):
     data = run_json(capsys, "solve", "x^2 - 13y^2 = -4", "--bound", "100")
-    assert data["equation"] == {"a": 1, "b": 0, "c": -13, "d": 0, "e": 0, "f": 4}
+    assert data["equation"]["coefficients"] == {"a": 1, "b": 0, "c": -13, "d": 0, "e": 0, "f": 4}
+    assert data["equation"]["text"] == "x² − 13y² + 4 = 0"
     assert data["finite"] is False
     # fundamental solutions (−3, 1), (3, 1), (36, 10): see tests/test_norm_equations.py
-    assert [(f["x"], f["y"]) for f in data["families"]] == [(-3, 1), (3, 1), (36, 10)]
+    fundamentals = [(f["fundamental"]["x"], f["fundamental"]["y"]) for f in data["families"]]
+    assert fundamentals == [(-3, 1), (3, 1), (36, 10)]
     for fam in data["families"]:
         # 649 + 180√13: the fundamental solution of x² − 13y² = 1 (OEIS A002350/A002349 at 13)
-        assert fam["automorph"]["unit"] == {"d": 13, "t": 649, "u": 180}
+        assert fam["unit"] == {"x": 649, "y": 180, "denominator": 1, "radicand": 13}
+        assert fam["automorph"] == {"matrix": [649, 2340, 180, 649], "translation": [0, 0]}
         assert fam["mirrored"] is True
     sols = [(s["x"], s["y"]) for s in data["solutions"]]
     assert all(x * x - 13 * y * y == -4 for x, y in sols) and len(sols) == 8
@@ -71,7 +74,7 @@ def test_max_digits_and_output_file(capsys, tmp_path):
         str(target),
     )
     member = data["families"][0]["member"]
-    assert member["x"] is None and member["x_summary"]["digits"] > 30 and data["truncated"] is True
+    assert member["x"]["digits"] > 30 and data["truncated"] is True
     full = json.loads(target.read_text())
     x, y = full["families"][0]["member"]["x"], full["families"][0]["member"]["y"]
     assert x * x - 61 * y * y == 1
@@ -146,7 +149,7 @@ def test_subprocess_smoke():
         timeout=60,
     )
     assert proc.returncode == 0, proc.stderr
-    assert json.loads(proc.stdout)["families"][0]["x"] == -3
+    assert json.loads(proc.stdout)["families"][0]["fundamental"]["x"] == -3
 
 
 def test_power_bound(capsys):
@@ -156,17 +159,29 @@ def test_power_bound(capsys):
     assert len(data["solutions"]) == 42 and data["bound"] == 10**100
 
 
-def test_sizer_matches_the_shared_summary():
-    # the command's fast --max-digits summaries equal output.bounded_integer's, including at 10^k
+def test_sizer_summaries_are_exact():
+    # the fast --max-digits summaries (one division, one remainder) against the full decimal text,
+    # including at 10^k
     import random
 
-    from realquad_cli.commands.solve import _Sizer
-    from realquad_cli.output import bounded_integer, integer_text
+    import gmpy2
+    from realquad_cli.output import Sizer
 
     rng = random.Random(4)
     values = [10**k + e for k in (18, 19, 20, 59, 60, 61, 62, 200, 3000) for e in (-1, 0, 1)]
     values += [rng.randint(1, 10**k) for k in (25, 80, 1500) for _ in range(5)]
     for n in values + [-v for v in values]:
+        text = gmpy2.mpz(abs(n)).digits(10)  # the full decimal expansion, gmpy2
         for md in (0, 5, 20, 60, 100, 1000):
-            assert _Sizer(md).summary(n) == bounded_integer(n, md)[1]
-            assert _Sizer(md).text(n) == integer_text(n, md)
+            summary = Sizer(md).summary(n)
+            if md == 0 or len(text) <= md or abs(n) < 10**18:
+                assert summary is None
+            else:
+                assert summary == {
+                    "digits": len(text),
+                    "leading": text[:20],
+                    "trailing": text[-20:],
+                }
+            shown = Sizer(md).text(n)
+            assert shown.startswith("−" if n < 0 else text[:1])
+            assert (text in shown) if summary is None else (f"{len(text):,} digits" in shown)

@@ -18,7 +18,9 @@ def test_methods_agree_on_small_fields(capsys) -> None:  # type: ignore[no-untyp
         a = run_json(capsys, "unit", d, "--method", "cfrac", "--max-digits", "0")
         b = run_json(capsys, "unit", d, "--method", "bsgs", "--max-digits", "0")
         assert (
-            a["unit"] == b["unit"] and a["regulator"] == b["regulator"] and a["norm"] == b["norm"]
+            a["number"] == b["number"]
+            and a["regulator"]["value"] == b["regulator"]["value"]
+            and a["norm"] == b["norm"]
         )
         assert (
             a["method"].startswith("continued fraction") and "baby-step giant-step" in b["method"]
@@ -29,7 +31,7 @@ def test_methods_agree_on_small_fields(capsys) -> None:  # type: ignore[no-untyp
 def test_small_fields_keep_the_continued_fraction_output(capsys) -> None:  # type: ignore[no-untyped-def]
     data = run_json(capsys, "unit", "94")
     # Q(√94): ε = 2143295 + 221064√94 (from memory; the realquad package doctest)
-    assert data["unit"] == {"x": 2143295, "y": 221064, "denominator": 1}
+    assert data["number"] == {"x": 2143295, "y": 221064, "denominator": 1, "radicand": 94}
     assert data["period_length"] == 16 and data["truncated"] is False
 
 
@@ -38,8 +40,8 @@ def test_large_discriminant_by_infrastructure(capsys) -> None:  # type: ignore[n
     data = run_json(capsys, "unit", "--disc", str(D))
     assert data["method"] == "continued fraction (half period, product tree)"  # period 532572 < 10⁷
     data = run_json(capsys, "unit", "--disc", str(D), "--method", "bsgs")
-    assert data["regulator"] == str(regulator_cfrac(D, 30))
-    assert data["unit"]["x"] is None and data["truncated"] is True
+    assert data["regulator"]["value"] == str(regulator_cfrac(D, 30))
+    assert data["number"] is None and data["digits_exact"] is True  # counted from R exactly
     assert data["digits"] == 274428 and data["period_length"] is None
 
 

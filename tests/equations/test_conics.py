@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from hypothesis import example, given
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from realquad.core.integers import is_square, isqrt
@@ -11,7 +11,7 @@ from realquad.equations.binary import solve_binary_form
 from realquad.equations.conics import solve_quadratic
 from realquad.equations.families import LineFamily, OrbitFamily
 from realquad.equations.norm import solve_norm_equation
-from realquad.errors import DomainError, InputError
+from realquad.errors import DomainError, InputError, RealquadError
 
 
 def brute_force(a: int, b: int, c: int, d: int, e: int, f: int, B: int) -> set[tuple[int, int]]:
@@ -236,3 +236,38 @@ def test_parabolic_equations_with_planted_solutions() -> None:
             continue
         s = solve_quadratic(a, b, c, d, e, f)
         assert set(s.bounded(60)) == brute_force(a, b, c, d, e, f, 60), (a, b, c, d, e, f)
+
+
+# -- one family per orbit ----------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("equation", "families"),
+    [
+        (
+            (1, -7, -7, 0, 0, 7),
+            [(0, 1)],
+        ),  # x² − 7xy − 7y² = −7: (7, 1) is the next member of (0, 1)
+        ((1, -1, -1, -1, 0, 0), [(0, 0)]),  # x² − xy − y² = x: (1, 0) is the next member of (0, 0)
+    ],
+)
+def test_one_orbit_is_one_family(equation, families) -> None:
+    # regression: both were listed as two families
+    assert [f.fundamental for f in solve_quadratic(*equation).families] == families
+
+
+@settings(max_examples=60)
+@given(st.tuples(*[st.integers(-3, 3)] * 6))
+def test_families_are_distinct_orbits(coefficients) -> None:
+    """No family's fundamental solution is a member of another family (brute force: each family's
+    members in a box that holds both fundamentals, walked from its own orbit)."""
+    try:
+        sol = solve_quadratic(*coefficients)
+    except RealquadError:
+        return
+    families = [f for f in sol.families if f.kind == "orbit"]
+    for i, first in enumerate(families):
+        for second in families[i + 1 :]:
+            box = max(map(abs, (*first.fundamental, *second.fundamental)))
+            assert second.fundamental not in first.bounded(box), (coefficients, first, second)
+            assert first.fundamental not in second.bounded(box), (coefficients, first, second)

@@ -94,9 +94,9 @@ def test_query_json_rows_have_the_promised_keys(
     )
     rows = json.loads(out)["rows"]
     assert status == 0
-    assert [r["d"] for r in rows] == oeis["A003172"]["terms"]  # OEIS A003172
+    assert [r["radicand"] for r in rows] == oeis["A003172"]["terms"]  # OEIS A003172
     for key in (
-        "d",
+        "radicand",
         "discriminant",
         "class_number",
         "narrow_class_number",
@@ -114,11 +114,13 @@ def test_query_filters_and_csv(capsys: pytest.CaptureFixture[str], db: str) -> N
     )
     parsed = list(csv.DictReader(io.StringIO(out)))
     expected = [r for r in rows if r["unit_norm"] == -1 and r["narrow_class_number"] == 2]
-    assert status == 0 and [int(r["d"]) for r in parsed] == [r["d"] for r in expected]
+    assert status == 0 and [int(r["radicand"]) for r in parsed] == [r["radicand"] for r in expected]
     status, out, _ = run_cli(capsys, *query, *"--class-number 3 --d-min 500 --d-max 600".split())
     assert status == 0
     shown = [int(line.split()[0]) for line in out.splitlines()[1:-1]]
-    assert shown == [r["d"] for r in rows if r["class_number"] == 3 and 500 <= r["d"] <= 600]
+    assert shown == [
+        r["radicand"] for r in rows if r["class_number"] == 3 and 500 <= r["radicand"] <= 600
+    ]
 
 
 def test_query_limit_says_what_it_left_out(capsys: pytest.CaptureFixture[str], db: str) -> None:
@@ -139,7 +141,8 @@ def test_report_numbers_recomputed_independently(
     report = json.loads(out)
     assert status == 0 and report["fields"] == len(rows)
     assert report["class_number_one"]["count"] == sum(r["class_number"] == 1 for r in rows)
-    primes = [r for r in rows if r["d"] % 4 == 1 and sympy.isprime(r["d"])]  # primality by sympy
+    # primality by sympy
+    primes = [r for r in rows if r["radicand"] % 4 == 1 and sympy.isprime(r["radicand"])]
     assert report["prime_discriminants"]["fields"] == len(primes)
     assert report["prime_discriminants"]["class_number_one"] == sum(
         r["class_number"] == 1 for r in primes
@@ -153,7 +156,7 @@ def test_report_numbers_recomputed_independently(
     }
     assert report["unit_norm_minus_one"]["count"] == sum(r["unit_norm"] == -1 for r in rows)
     top = sorted(rows, key=lambda r: float(r["regulator"]), reverse=True)[:5]
-    assert [r["d"] for r in report["largest_regulators"]] == [r["d"] for r in top]
+    assert [r["radicand"] for r in report["largest_regulators"]] == [r["radicand"] for r in top]
     assert (
         float(report["prime_discriminants"]["cohen_lenstra_prediction"])
         == COHEN_LENSTRA_PRIME_SHARE
