@@ -12,6 +12,8 @@ from __future__ import annotations
 
 import json
 import os
+import re
+import stat
 import tempfile
 from collections.abc import Callable
 from typing import Any, TypeVar
@@ -19,13 +21,51 @@ from typing import Any, TypeVar
 import click
 import gmpy2
 
+from realquad.errors import InputError
 from realquad.textio import MINUS, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
-#: Context settings of every command: a token like ``-5`` reaches the argument
-#: (and its one-line error) instead of being taken for an unknown option.
-ACCEPT_NEGATIVE = {"ignore_unknown_options": True}
+#: A token that is a negative number (``-5``, ``-1/2``), not an option: no option starts with a digit.
+_NEGATIVE = re.compile(r"-[0-9]")
+
+
+class Command(click.Command):
+    """A command whose arguments may be negative numbers, and whose options are checked strictly.
+
+    A token such as ``-5`` is a value, never an option (its minus becomes the
+    minus sign ``−``, which every parser of the package reads as minus); an
+    unknown option is "no such option" with the nearest name; an option given
+    twice is an error instead of the last one silently winning.
+    """
+
+    def parse_args(self, ctx: click.Context, args: list[str]) -> list[str]:
+        args = [MINUS + a[1:] if _NEGATIVE.match(a) else a for a in args]
+        self._refuse_repeats(args)
+        return super().parse_args(ctx, args)
+
+    def _refuse_repeats(self, args: list[str]) -> None:
+        names: dict[str, str] = {}
+        for param in self.params:
+            if isinstance(param, click.Option) and not param.multiple and not param.count:
+                for name in (*param.opts, *param.secondary_opts):
+                    names[name] = param.opts[0]
+        seen: set[str] = set()
+        for arg in args:
+            if arg == "--":
+                break
+            option = names.get(arg.split("=", 1)[0])
+            if option is not None:
+                if option in seen:
+                    raise click.UsageError(f"option {option} is given more than once")
+                seen.add(option)
+
+
+class Group(click.Group):
+    """A group of :class:`Command` subcommands (``command_class``)."""
+
+    command_class = Command
+
 
 #: Digits kept at each end of a summarised integer.
 EDGE = 20
@@ -131,33 +171,80 @@ def integer_text(n: int, max_digits: int) -> str:
     return Sizer(max_digits).text(n)
 
 
+def _target(path: str) -> str:
+    """The file ``--output`` writes: ``path``, or the file a symbolic link points to."""
+    return os.path.realpath(path) if os.path.islink(path) else path
+
+
 def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file and a rename (never half-written)."""
-    directory = os.path.dirname(os.path.abspath(path)) or "."
-    fd, tmp = tempfile.mkstemp(prefix=".realquad-", dir=directory)
+    """Write ``text`` to ``path`` through a temporary file and a rename (never half-written).
+
+    An existing regular file is replaced and keeps its permission bits; a new
+    one gets the umask's; a symbolic link keeps pointing where it did, and the
+    file it points to is written. Anything that fails is one
+    :class:`~realquad.errors.InputError` line, and no temporary file is left.
+    """
+    check_output_path(path)
+    target = _target(path)
+    directory = os.path.dirname(os.path.abspath(target)) or "."
+    try:
+        mode = stat.S_IMODE(os.stat(target).st_mode) if os.path.exists(target) else _new_file_mode()
+        fd, tmp = tempfile.mkstemp(prefix=".realquad-", dir=directory)
+    except OSError as exc:
+        raise InputError(f"cannot write {path!r}: {exc.strerror or exc}") from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
+        os.chmod(tmp, mode)
+        os.replace(tmp, target)
+    except BaseException as exc:
         try:
             os.unlink(tmp)
         except OSError:
             pass
+        if isinstance(exc, OSError):
+            raise InputError(f"cannot write {path!r}: {exc.strerror or exc}") from None
         raise
 
 
+def _new_file_mode() -> int:
+    """``0o666`` less the process's umask (read without changing it for good)."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
+
+
 def check_output_path(path: str | None) -> None:
-    """Fail early (before computing) if ``path`` cannot be written."""
+    """Fail early (before computing) if ``path`` cannot be written as a regular file.
+
+    Refused: an empty name, a directory, a device node, a FIFO, a socket, a
+    path in a missing or unwritable directory, a name the system refuses.
+    """
     if path is None:
         return
-    directory = os.path.dirname(os.path.abspath(path)) or "."
-    if not os.path.isdir(directory):
-        raise click.UsageError(f"cannot write {path!r}: no such directory")
-    if os.path.isdir(path):
-        raise click.UsageError(f"cannot write {path!r}: it is a directory")
-    if not os.access(directory, os.W_OK):
-        raise click.UsageError(f"cannot write {path!r}: permission denied")
+    if not path.strip():
+        raise InputError("--output needs a file name")
+    target = _target(path)
+    try:
+        if os.path.exists(target):
+            info = os.stat(target)
+            if stat.S_ISDIR(info.st_mode):
+                raise InputError(f"cannot write {path!r}: it is a directory")
+            if not stat.S_ISREG(info.st_mode):
+                raise InputError(
+                    f"cannot write {path!r}: not a regular file (a device, FIFO or socket is "
+                    "never replaced)"
+                )
+        directory = os.path.dirname(os.path.abspath(target)) or "."
+        if not os.path.isdir(directory):
+            raise InputError(f"cannot write {path!r}: no such directory")
+        if not os.access(directory, os.W_OK):
+            raise InputError(f"cannot write {path!r}: permission denied")
+        name_max = os.pathconf(directory, "PC_NAME_MAX")
+    except OSError as exc:
+        raise InputError(f"cannot write {path!r}: {exc.strerror or exc}") from None
+    if len(os.path.basename(target).encode()) > name_max:
+        raise InputError(f"cannot write {path!r}: the file name is longer than {name_max} bytes")
 
 
 def json_option(f: F) -> F:

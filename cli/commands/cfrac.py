@@ -12,7 +12,7 @@ from typing import Any
 
 import click
 from realquad_cli.output import (
-    ACCEPT_NEGATIVE,
+    Command,
     Sizer,
     check_output_path,
     emit,
@@ -91,7 +91,7 @@ def _file_line(name: str, pairs: Iterable[tuple[int, int]]) -> str:
     return name + " " + " ".join(f"{to_decimal(p)}/{to_decimal(q)}" for p, q in pairs)
 
 
-@click.command("cfrac", context_settings=ACCEPT_NEGATIVE)
+@click.command("cfrac", cls=Command)
 @click.argument("expr", type=str)
 @click.option(
     "--max-terms",

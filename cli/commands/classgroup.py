@@ -6,7 +6,7 @@ from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
-from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
+from realquad_cli.output import Command, emit, json_option
 from realquad_cli.progress import ProgressLine
 
 from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
@@ -72,7 +72,7 @@ def _text(G: ClassGroup, payload: dict[str, Any], with_forms: bool) -> str:
     return "\n".join(lines)
 
 
-@click.command("classgroup", context_settings=ACCEPT_NEGATIVE)
+@click.command("classgroup", cls=Command)
 @order_arguments
 @click.option(
     "--forms",

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 from realquad_cli.output import (
-    ACCEPT_NEGATIVE,
+    Command,
     Sizer,
     check_output_path,
     emit,
@@ -18,7 +18,7 @@ from realquad.equations.pell import pell
 from realquad.textio import plural, signed, to_decimal
 
 
-@click.command("pell", context_settings=ACCEPT_NEGATIVE)
+@click.command("pell", cls=Command)
 @click.argument("d", type=str)
 @click.option(
     "--norm", "norm", type=str, default="1", show_default=True, help="N: one of 1, -1, 4, -4."

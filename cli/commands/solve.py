@@ -7,7 +7,7 @@ from typing import Any
 
 import click
 from realquad_cli.output import (
-    ACCEPT_NEGATIVE,
+    Command,
     Sizer,
     check_output_path,
     dumps,
@@ -113,7 +113,7 @@ def build(
     return payload, lines
 
 
-@click.command("solve", context_settings=ACCEPT_NEGATIVE)
+@click.command("solve", cls=Command)
 @click.argument("equation", nargs=-1, required=True)
 @click.option(
     "--bound",

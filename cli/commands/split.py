@@ -6,7 +6,7 @@ from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
-from realquad_cli.output import ACCEPT_NEGATIVE, Sizer, emit, json_option
+from realquad_cli.output import Command, Sizer, emit, json_option
 
 from realquad.classgroup import class_group
 from realquad.core.forms import Form
@@ -45,7 +45,7 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
     return f"p = {s.p}: {s.kind}, ideals {ideals}; narrow classes {coords}; {how}"
 
 
-@click.command("split", context_settings=ACCEPT_NEGATIVE)
+@click.command("split", cls=Command)
 @order_arguments
 @click.option(
     "--primes-up-to",

@@ -6,10 +6,11 @@ import csv
 import io
 import json
 from dataclasses import replace
+from functools import partial
 from typing import Any
 
 import click
-from realquad_cli.output import ACCEPT_NEGATIVE, emit, json_option
+from realquad_cli.output import Command, Group, emit, json_option
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
@@ -53,14 +54,16 @@ def _bound(value: str | None, name: str, default: int | None = None) -> int | No
     return n
 
 
-def _range_options(f: Any) -> Any:
+def _range_options(f: Any, by_discriminant: bool = False) -> Any:
+    """``--d-min`` and ``--d-max`` (with ``by_discriminant``, their meaning under ``--discriminants``)."""
+    also = " (with --discriminants: {} D)" if by_discriminant else ""
     f = click.option(
         "--d-max",
         "d_max",
         type=str,
         default=None,
         metavar="N",
-        help="Largest d (with --discriminants: largest D).",
+        help="Largest d" + also.format("largest") + ".",
     )(f)
     f = click.option(
         "--d-min",
@@ -68,12 +71,12 @@ def _range_options(f: Any) -> Any:
         type=str,
         default=None,
         metavar="N",
-        help="Smallest d (with --discriminants: smallest D).",
+        help="Smallest d" + also.format("smallest") + ".",
     )(f)
     return f
 
 
-@click.group("survey")
+@click.group("survey", cls=Group)
 def command() -> None:
     """Tabulate every real quadratic field Q(√d) in a range into a database; query it; report on it.
 
@@ -81,8 +84,8 @@ def command() -> None:
     """
 
 
-@command.command("run", context_settings=ACCEPT_NEGATIVE)
-@_range_options
+@command.command("run", cls=Command)
+@partial(_range_options, by_discriminant=True)
 @click.option(
     "--discriminants", is_flag=True, help="Bound the fundamental discriminant D instead of d."
 )
@@ -342,7 +345,7 @@ def _sort_column(sort: str | None) -> str | None:
     return SORT_COLUMNS[name]
 
 
-@command.command("query", context_settings=ACCEPT_NEGATIVE)
+@command.command("query", cls=Command)
 @_filter_options
 @_query_options
 @_db_option
@@ -435,7 +438,7 @@ def _distribution_text(counts: dict[int, int], total: int, shown: int = 12) -> s
     return "; ".join(parts)
 
 
-@command.command("report", context_settings=ACCEPT_NEGATIVE)
+@command.command("report", cls=Command)
 @_range_options
 @_db_option
 @click.option(

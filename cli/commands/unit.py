@@ -5,7 +5,7 @@ from __future__ import annotations
 import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import (
-    ACCEPT_NEGATIVE,
+    Command,
     Sizer,
     check_output_path,
     emit,
@@ -21,7 +21,7 @@ from realquad.textio import MINUS, plural, terms_text, to_decimal
 from realquad.units import METHODS, fundamental_unit
 
 
-@click.command("unit", context_settings=ACCEPT_NEGATIVE)
+@click.command("unit", cls=Command)
 @order_arguments
 @click.option(
     "--digits",

@@ -152,13 +152,17 @@ def parse_p_rank(text: str) -> tuple[int, int]:
 def parse_decimal(value: object, name: str) -> Decimal:
     """A finite decimal number from text, ``int``, ``float`` (its exact value) or ``Decimal``.
 
-    >>> parse_decimal("2.5e1", "--regulator-min")
-    Decimal('25')
+    Text may use the minus sign ``−`` (U+2212) as well as ``-``.
+
+    >>> parse_decimal("2.5e1", "--regulator-min"), parse_decimal("−0.5", "--regulator-max")
+    (Decimal('25'), Decimal('-0.5'))
     """
     if isinstance(value, bool):
         raise InputError(f"{name} must be a decimal number, got {value!r}")
+    if isinstance(value, str):
+        value = value.strip().replace("\u2212", "-")
     try:
-        number = Decimal(value.strip() if isinstance(value, str) else value)  # type: ignore[arg-type]
+        number = Decimal(value)  # type: ignore[arg-type]
     except (InvalidOperation, TypeError, ValueError):
         number = None
     if number is None or not number.is_finite() or (isinstance(value, str) and len(value) > 100):

@@ -273,3 +273,10 @@ def test_fuzz_new_options(capsys, db, option, value, flag):
     assert status in (0, 2) and "Traceback" not in err
     if status == 2:
         assert err.startswith("realquad: error:") and err.count("\n") == 1 and out == ""
+
+
+def test_negative_regulator_bounds(capsys, db, every_row):
+    # every regulator is positive (brute force over the rows): −1 keeps all rows, or none
+    assert all(Decimal(x["regulator"]) > 0 for x in every_row)
+    assert len(query(capsys, db, "--regulator-min", "-1")) == len(every_row)
+    assert query(capsys, db, "--regulator-max", "-1") == []
