@@ -253,6 +253,17 @@ def json_option(f: F) -> F:
     )(f)
 
 
+def max_digits_option(f: F) -> F:
+    """``--max-digits K``: the longest integer printed in full (0 = no limit)."""
+    return click.option(
+        "--max-digits",
+        type=click.IntRange(min=0),
+        default=1000,
+        show_default=True,
+        help="Longest integer printed in full; longer ones are summarised (0 = no limit).",
+    )(f)
+
+
 def size_options(f: F) -> F:
     """``--max-digits K`` and ``--output FILE``, shared by commands that print big integers."""
     f = click.option(
@@ -263,14 +274,7 @@ def size_options(f: F) -> F:
         metavar="FILE",
         help="Write the full values to FILE (whatever --max-digits says).",
     )(f)
-    f = click.option(
-        "--max-digits",
-        type=click.IntRange(min=0),
-        default=1000,
-        show_default=True,
-        help="Longest integer printed in full; longer ones are summarised (0 = no limit).",
-    )(f)
-    return f
+    return max_digits_option(f)
 
 
 def emit(payload: dict[str, Any], text: str, as_json: bool, max_digits: int | None = None) -> None:

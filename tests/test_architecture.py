@@ -58,7 +58,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"forms", "lfunction"},
         {"ideals"},
     ],
-    "realquad.cfrac": [{"parser"}, {"expansion"}],
+    "realquad.cfrac": [{"parser"}, {"expansion"}, {"approximations"}],
     "realquad.infrastructure": [
         {"ideals"},
         {"distances"},
@@ -77,7 +77,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"conics"},
     ],
     "realquad.survey": [
-        {"ranges", "progress"},
+        {"ranges", "progress", "conditions"},
         {"compute", "executors"},
         {"store"},
         {"tabulate", "stats"},

@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+from dataclasses import replace
 from functools import partial
 from typing import Any
 
@@ -14,12 +15,13 @@ from realquad_cli.output import Command, Group, emit, json_option
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.survey.compute import FieldRecord
+from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
 from realquad.survey.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
 from realquad.survey.stats import survey_report
-from realquad.survey.store import RowFilter, SurveyStore
+from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
 from realquad.textio import MINUS, group_text
 
@@ -225,8 +227,127 @@ def _filter_options(f: Any) -> Any:
     return f
 
 
+#: The keys of a survey row (``docs/json.md``, *SurveyRow*), in the order of the CSV columns.
+ROW_KEYS = list(FieldRecord(0, 0, 0, 0, "[]", "[]", 1, "", 0, 0, "", "unconditional").to_dict())
+#: ``--sort`` names: the keys of a row (as printed by --json and --csv) and the store's columns.
+SORT_COLUMNS = {
+    **dict(zip(ROW_KEYS, COLUMNS, strict=True)),
+    **{column: column for column in COLUMNS},
+}
+
+
+def _query_options(f: Any) -> Any:
+    """The conditions only ``query`` takes (on structures, primes, regulators) and the sort."""
+    for option in reversed(
+        [
+            click.option(
+                "--class-group",
+                "class_group",
+                type=str,
+                default=None,
+                metavar="GROUP",
+                help='Only fields whose class group Cl is GROUP ("C2 x C2", "2,2", "Z/2 x Z/4", "1").',
+            ),
+            click.option(
+                "--narrow-class-group",
+                "narrow_class_group",
+                type=str,
+                default=None,
+                metavar="GROUP",
+                help="Only fields whose narrow class group Cl⁺ is GROUP.",
+            ),
+            click.option(
+                "--p-rank",
+                "p_ranks",
+                type=str,
+                multiple=True,
+                metavar="P=R",
+                help="Only fields where R invariant factors of Cl are divisible by the prime P "
+                "(2=2: 2-rank 2). Repeatable.",
+            ),
+            click.option(
+                "--narrow-p-rank",
+                "narrow_p_ranks",
+                type=str,
+                multiple=True,
+                metavar="P=R",
+                help="The same for Cl⁺. Repeatable.",
+            ),
+            click.option("--prime-d", is_flag=True, help="Only fields with d prime."),
+            click.option(
+                "--prime-discriminant",
+                is_flag=True,
+                help="Only fields whose discriminant D is prime (D = d ≡ 1 mod 4).",
+            ),
+            click.option(
+                "--regulator-min",
+                type=str,
+                default=None,
+                metavar="X",
+                help="Only fields with regulator ≥ X (exact decimal comparison).",
+            ),
+            click.option(
+                "--regulator-max",
+                type=str,
+                default=None,
+                metavar="X",
+                help="Only fields with regulator ≤ X (exact decimal comparison).",
+            ),
+            click.option(
+                "--sort",
+                type=str,
+                default=None,
+                metavar="COLUMN",
+                help=f"Sort by COLUMN ({', '.join(ROW_KEYS)}) instead of d.",
+            ),
+            click.option("--desc", "descending", is_flag=True, help="Sort in decreasing order."),
+        ]
+    ):
+        f = option(f)
+    return f
+
+
+def _query_filter(base: RowFilter, conditions: dict[str, Any]) -> RowFilter:
+    """``base`` with the conditions of :func:`_query_options`, checked (bad ones raise InputError)."""
+    p_ranks = tuple(parse_p_rank(text) for text in conditions["p_ranks"])
+    narrow_p_ranks = tuple(parse_p_rank(text) for text in conditions["narrow_p_ranks"])
+    lo = conditions["regulator_min"]
+    hi = conditions["regulator_max"]
+    low = None if lo is None else parse_decimal(lo, "--regulator-min")
+    high = None if hi is None else parse_decimal(hi, "--regulator-max")
+    if low is not None and high is not None and low > high:
+        raise InputError(f"empty range: --regulator-min {lo} is larger than --regulator-max {hi}")
+    groups = {
+        key: None if conditions[key] is None else parse_group(conditions[key])
+        for key in ("class_group", "narrow_class_group")
+    }
+    return replace(
+        base,
+        class_group=groups["class_group"],
+        narrow_class_group=groups["narrow_class_group"],
+        p_ranks=p_ranks,
+        narrow_p_ranks=narrow_p_ranks,
+        prime_d=conditions["prime_d"],
+        prime_discriminant=conditions["prime_discriminant"],
+        regulator_min=low,
+        regulator_max=high,
+    )
+
+
+def _sort_column(sort: str | None) -> str | None:
+    if sort is None:
+        return None
+    name = sort.strip()
+    if name not in SORT_COLUMNS:
+        raise InputError(
+            f"--sort takes a key of the rows ({', '.join(ROW_KEYS)}), got {sort[:40]!r}"
+        )
+    return SORT_COLUMNS[name]
+
+
 @command.command("query", cls=Command)
 @_filter_options
+@_query_options
 @_db_option
 @click.option(
     "--limit",
@@ -249,17 +370,22 @@ def query_command(
     limit: int,
     as_csv: bool,
     as_json: bool,
+    sort: str | None,
+    descending: bool,
+    **conditions: Any,
 ) -> None:
-    """Print the surveyed fields that match every condition given, in increasing d.
+    """Print the surveyed fields that match every condition given, in increasing d (or --sort).
 
-    Example: realquad survey query --class-number 1 --unit-norm -1 --d-max 1000
+    Example: realquad survey query --class-group "C2 x C2" --prime-d --sort regulator --desc
     """
     if as_csv and as_json:
         raise InputError("give --csv or --json, not both")
-    where = _row_filter(class_number, narrow, unit_norm, d_min, d_max)
+    where = _query_filter(_row_filter(class_number, narrow, unit_norm, d_min, d_max), conditions)
+    column = _sort_column(sort)
     with SurveyStore.open_for_reading(db) as store:
         matching = store.count(where)
-        rows = [FieldRecord(**row).to_dict() for row in store.rows(where, limit or None)]
+        found = store.rows(where, limit or None, sort=column, descending=descending)
+        rows = [FieldRecord(**row).to_dict() for row in found]
     if as_csv:
         buffer = io.StringIO()
         writer = csv.writer(buffer, lineterminator="\n")
@@ -279,24 +405,20 @@ def query_command(
         "rows": rows,
     }
     lines = [
-        f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl⁺':>12} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
+        f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl':>12} {'Cl⁺':>12} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
     ]
     for r in rows:
         norm = "+1" if r["unit_norm"] > 0 else f"{MINUS}1"
         lines.append(
             f"{r['radicand']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
-            f"{group_text(r['narrow_invariants']):>12} {norm:>5} {r['regulator']:>20} "
-            f"{r['period_length']:>7} {r['digits']:>7}"
+            f"{group_text(r['invariants']):>12} {group_text(r['narrow_invariants']):>12} {norm:>5} "
+            f"{r['regulator']:>20} {r['period_length']:>7} {r['digits']:>7}"
         )
     lines.append(
         f"{matching:,} matching fields"
         + (f", first {len(rows):,} shown (--limit 0 for all)" if len(rows) < matching else "")
     )
     emit(payload, "\n".join(lines), as_json)
-
-
-#: The keys of a survey row (``docs/json.md``, *SurveyRow*), in the order of the CSV columns.
-ROW_KEYS = list(FieldRecord(0, 0, 0, 0, "[]", "[]", 1, "", 0, 0, "", "unconditional").to_dict())
 
 
 def _csv_cell(value: Any) -> Any:

@@ -234,7 +234,14 @@ class ContinuedFraction:
         return f"[{a0}; {head + ', ' if head else ''}({per})]"
 
 
-def _as_value(x: object) -> QuadraticIrrational | Fraction:
+def exact_real(x: object) -> QuadraticIrrational | Fraction:
+    """``x`` as an exact real number: a ``Fraction`` or a :class:`QuadraticIrrational`.
+
+    Accepts what :func:`continued_fraction` accepts.
+
+    >>> exact_real("(2+sqrt(8))/4"), exact_real("6/4")
+    (QuadraticIrrational(P=2, D=8, Q=4), Fraction(3, 2))
+    """
     if isinstance(x, (QuadraticIrrational, Fraction)):
         return x
     if isinstance(x, int):
@@ -270,7 +277,7 @@ def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> Continu
     ``√61``. Raises :class:`TooLargeError` when the period is longer than
     ``max_terms``.
     """
-    value = _as_value(x)
+    value = exact_real(x)
     if isinstance(value, Fraction):
         return ContinuedFraction(value, _rational_expansion(value), [])
     D = value.D
@@ -292,13 +299,36 @@ def continued_fraction(x: object, max_terms: int = DEFAULT_MAX_TERMS) -> Continu
     )
 
 
+def partial_quotients(x: object) -> Iterator[int]:
+    """The partial quotients ``a₀, a₁, …`` of ``x``, lazily (without looking for the period).
+
+    Finite for a rational, endless for a quadratic irrational.
+
+    >>> from itertools import islice
+    >>> list(partial_quotients("355/113")), list(islice(partial_quotients("sqrt(13)"), 7))
+    ([3, 7, 16], [3, 1, 1, 1, 1, 6, 1])
+    """
+    value = exact_real(x)
+    if isinstance(value, Fraction):
+        yield from _rational_expansion(value)
+        return
+    for a, _, _ in complete_quotients(value.P, value.D, value.Q):
+        yield a
+
+
 def convergents(
     x: object, count: int | None = None, bound: int | None = None
 ) -> Iterator[tuple[int, int]]:
-    """Convergents ``(p_k, q_k)`` of ``x``: at most ``count`` of them, or while ``q_k ≤ bound``."""
-    cf = continued_fraction(x)
+    """Convergents ``(p_k, q_k)`` of ``x``: at most ``count`` of them, or while ``q_k ≤ bound``.
+
+    ``p_k/q_k = [a₀; a₁, …, a_k]``, from ``p_k = a_k p_{k−1} + p_{k−2}`` and the
+    same for ``q_k`` (Perron §1). A rational has finitely many, the last one itself.
+
+    >>> list(convergents("sqrt(61)", bound=100))
+    [(7, 1), (8, 1), (39, 5), (125, 16), (164, 21), (453, 58)]
+    """
     p0, p1, q0, q1 = 1, 0, 0, 1
-    for i, a in enumerate(cf.terms()):
+    for i, a in enumerate(partial_quotients(x)):
         if count is not None and i >= count:
             return
         p0, p1 = a * p0 + p1, p0

@@ -154,7 +154,7 @@ def divisors_from_factorization(factors: dict[int, int]) -> list[int]:
     return sorted(divs)
 
 
-#: Most square roots of d modulo |m| the solvers examine.
+#: Most square roots of d modulo ``|m|`` the solvers examine.
 MAX_ROOTS = 1 << 20
 #: Most divisors the factorisation cases enumerate.
 MAX_DIVISORS = 1 << 22

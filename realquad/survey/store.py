@@ -44,18 +44,27 @@ False
 from __future__ import annotations
 
 import fcntl
+import json
 import operator
 import os
 import sqlite3
 import time
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, fields
+from decimal import Decimal
 from typing import Any
 from urllib.parse import quote
 
 from realquad._version import __version__
 from realquad.errors import InputError
 from realquad.survey.compute import FieldRecord
+from realquad.survey.conditions import (
+    invariant_factors,
+    parse_decimal,
+    parse_group,
+    parse_p_rank,
+    register_functions,
+)
 from realquad.survey.ranges import Chunk
 
 SCHEMA_VERSION = 1
@@ -109,18 +118,66 @@ PRAGMA application_id = {APPLICATION_ID};
 
 @dataclass(frozen=True)
 class RowFilter:
-    """Conditions on survey rows; ``None`` means no condition."""
+    """Conditions on survey rows, all combined with "and"; ``None`` (or empty) means no condition.
+
+    * ``class_number``, ``narrow_class_number``, ``unit_norm``: equal to the value;
+      ``d_min``, ``d_max``: bounds on ``d`` (inclusive);
+    * ``class_group``, ``narrow_class_group``: the structure of Cl (or Cl⁺), as
+      invariant factors or as text that :func:`~realquad.survey.conditions.parse_group`
+      reads (``"C2 x C2"``, ``"2,2"``, ``"Z/2 x Z/2"``); normalised to invariant factors;
+    * ``p_ranks``, ``narrow_p_ranks``: pairs ``(p, r)``: the ``p``-rank of Cl (of
+      Cl⁺), the number of its invariant factors divisible by the prime ``p``, is ``r``;
+    * ``prime_d``: ``d`` is prime; ``prime_discriminant``: the discriminant ``D``
+      is prime (so ``D = d ≡ 1 (mod 4)``, the fields of the report's Cohen–Lenstra
+      line; ``D = 8``, a prime discriminant in the wider sense, is not included);
+    * ``regulator_min``, ``regulator_max``: bounds on the regulator (inclusive),
+      compared exactly with the stored 17-digit decimal text (not through
+      floating point); text, ``int``, ``Decimal`` or ``float`` (its exact binary value).
+
+    >>> RowFilter(class_group="C2 x C2", p_ranks=((2, 2),)).class_group
+    (2, 2)
+    >>> RowFilter(regulator_min="2.5", prime_d=True).where()
+    (' WHERE rq_is_prime(d) AND rq_decimal_cmp(regulator, ?) >= 0', ['2.5'])
+    """
 
     class_number: int | None = None
     narrow_class_number: int | None = None
     unit_norm: int | None = None
     d_min: int | None = None
     d_max: int | None = None
+    class_group: tuple[int, ...] | str | None = None
+    narrow_class_group: tuple[int, ...] | str | None = None
+    p_ranks: tuple[tuple[int, int], ...] = ()
+    narrow_p_ranks: tuple[tuple[int, int], ...] = ()
+    prime_d: bool = False
+    prime_discriminant: bool = False
+    regulator_min: Decimal | str | int | float | None = None
+    regulator_max: Decimal | str | int | float | None = None
 
-    def where(self) -> tuple[str, list[int]]:
-        """The SQL ``WHERE`` clause (possibly empty) and its parameters."""
+    def __post_init__(self) -> None:
+        for name in ("class_group", "narrow_class_group"):
+            value = getattr(self, name)
+            if value is not None:
+                group = parse_group(value) if isinstance(value, str) else invariant_factors(value)
+                object.__setattr__(self, name, group)
+        for name in ("p_ranks", "narrow_p_ranks"):
+            pairs = tuple(
+                parse_p_rank(f"{p}={r}") for p, r in getattr(self, name)
+            )  # the same checks as on the command line
+            object.__setattr__(self, name, pairs)
+        for name in ("regulator_min", "regulator_max"):
+            value = getattr(self, name)
+            if value is not None:
+                object.__setattr__(self, name, parse_decimal(value, name))
+
+    def where(self) -> tuple[str, list[Any]]:
+        """The SQL ``WHERE`` clause (possibly empty) and its parameters.
+
+        The clause calls the functions that :func:`~realquad.survey.conditions.register_functions`
+        gives every connection of a :class:`SurveyStore`.
+        """
         terms: list[str] = []
-        params: list[int] = []
+        params: list[Any] = []
         for column in ("class_number", "narrow_class_number", "unit_norm"):
             value = getattr(self, column)
             if value is not None:
@@ -132,7 +189,51 @@ class RowFilter:
         if self.d_max is not None:
             terms.append("d <= ?")
             params.append(self.d_max)
+        for column, group, ranks in (
+            ("class_group", self.class_group, self.p_ranks),
+            ("narrow_class_group", self.narrow_class_group, self.narrow_p_ranks),
+        ):
+            if group is not None:
+                terms.append(f"rq_same_group({column}, ?)")
+                params.append(json.dumps(list(group)))
+            for p, r in ranks:
+                terms.append(f"rq_p_rank({column}, ?) = ?")
+                params += [p, r]
+        if self.prime_d:
+            terms.append("rq_is_prime(d)")
+        if self.prime_discriminant:
+            terms.append("rq_is_prime(discriminant)")
+        for bound, test in ((self.regulator_min, ">= 0"), (self.regulator_max, "<= 0")):
+            if bound is not None:
+                terms.append(f"rq_decimal_cmp(regulator, ?) {test}")
+                params.append(str(bound))
         return (" WHERE " + " AND ".join(terms)) if terms else "", params
+
+
+def order_by(sort: str | None = None, descending: bool = False) -> str:
+    """The SQL ``ORDER BY`` clause of a query sorted by ``sort`` (any of :data:`COLUMNS`).
+
+    Ties, and the default, go by increasing ``d``. The regulator is compared by
+    value (its text through ``REAL``, equal doubles by exact decimal value), the
+    group structures by group order (``h``, ``h⁺``) and then invariant factors
+    lexicographically.
+
+    >>> order_by("regulator", descending=True)
+    ' ORDER BY CAST(regulator AS REAL) DESC, regulator COLLATE rq_decimal DESC, d'
+    """
+    way = " DESC" if descending else ""
+    if sort is None or sort == "d":
+        return f" ORDER BY d{way}"
+    if sort not in COLUMNS:
+        raise InputError(f"cannot sort by {sort!r}; the columns are {', '.join(COLUMNS)}")
+    if sort == "regulator":
+        keys = [f"CAST(regulator AS REAL){way}", f"regulator COLLATE rq_decimal{way}"]
+    elif sort in ("class_group", "narrow_class_group"):
+        order = "class_number" if sort == "class_group" else "narrow_class_number"
+        keys = [f"{order}{way}", f"{sort} COLLATE rq_invariants{way}"]
+    else:
+        keys = [f"{sort}{way}"]
+    return " ORDER BY " + ", ".join([*keys, "d"])
 
 
 def _utc_now() -> str:
@@ -213,6 +314,7 @@ class SurveyStore:
         self.connection = connection
         self.path = path
         self._lock_fd = lock_fd
+        register_functions(connection)
 
     @classmethod
     def open_for_reading(cls, path: str) -> SurveyStore:
@@ -334,11 +436,18 @@ class SurveyStore:
         )
 
     def rows(
-        self, where: RowFilter | None = None, limit: int | None = None
+        self,
+        where: RowFilter | None = None,
+        limit: int | None = None,
+        sort: str | None = None,
+        descending: bool = False,
     ) -> Iterator[dict[str, Any]]:
-        """Rows in increasing ``d`` as dictionaries with the :data:`COLUMNS` keys."""
+        """Matching rows as dictionaries with the :data:`COLUMNS` keys.
+
+        In increasing ``d``, or sorted by the column ``sort`` (see :func:`order_by`).
+        """
         clause, params = (where or RowFilter()).where()
-        sql = f"SELECT {', '.join(COLUMNS)} FROM field_rows{clause} ORDER BY d"
+        sql = f"SELECT {', '.join(COLUMNS)} FROM field_rows{clause}{order_by(sort, descending)}"
         if limit is not None:
             sql += f" LIMIT {int(limit)}"
         for values in self.connection.execute(sql, params):
