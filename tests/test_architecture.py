@@ -48,7 +48,7 @@ LEVELS: dict[str, list[set[str]]] = {
     "realquad._kernels": [
         {"form_kernels", "cfrac_kernels", "character_kernels"},
         {"prime_form_kernels", "infrastructure_kernels"},
-        {"class_kernels"},
+        {"class_kernels", "definite_kernels"},
         {"survey_kernels"},
     ],
     "realquad.core": [

@@ -64,7 +64,9 @@ def brute_force_reduced(D: int) -> set[Form]:
 
 def test_bad_forms():
     with pytest.raises(DomainError):
-        Form(1, 0, 1)  # definite
+        Form(-1, 0, -1)  # negative definite (positive definite forms are accepted)
+    with pytest.raises(DomainError):
+        Form(1, 2, 1)  # discriminant 0
     with pytest.raises(DomainError):
         Form(1, 2, 0)  # square discriminant 4
     with pytest.raises(InputError):
