@@ -188,14 +188,14 @@ def test_prime_forms(D):
     st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30)
 )
 def test_fuzz_constructor(a, b, c):
-    # any integer triple: a valid indefinite form, or one clear realquad error
+    # any integer triple: a valid indefinite or positive definite form, or one clear realquad error
     from realquad.errors import RealquadError
 
     try:
         F = Form(a, b, c)
     except RealquadError:
         return
-    assert F.discriminant > 0
+    assert F.discriminant > 0 or F.a > 0
     if F.is_primitive() and a:
         G, M = F.reduce()
         assert F.act(M) == G and G.is_reduced()
