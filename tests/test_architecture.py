@@ -66,7 +66,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"regulator_search"},
         {"principal"},
     ],
-    "realquad.units": [{"results"}, {"cfrac", "bsgs"}],
+    "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs"}],
     "realquad.classgroup": [{"genus", "structure"}, {"group"}, {"exact", "bsgs"}],
     "realquad.splitting": [{"decomposition"}],
     "realquad.equations": [
