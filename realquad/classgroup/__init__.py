@@ -1,4 +1,9 @@
-"""Class numbers and class groups ``Cl``, ``Cl⁺`` of real quadratic orders: the chooser.
+"""Class numbers and class groups ``Cl``, ``Cl⁺`` of quadratic orders: the chooser.
+
+Imaginary orders (``D < 0``) have one method, ``"exact"``
+(:mod:`realquad.classgroup.imaginary`: one reduced positive definite form per
+class, unconditional, ``|D|`` up to ``10¹⁴``); ``"auto"`` takes it.
+For real orders (``D > 0``):
 
 * ``"exact"`` — cycles of reduced forms (:mod:`realquad.classgroup.exact`):
   every class walked, exact and unconditional, about ``√D`` rho steps; every
@@ -24,6 +29,9 @@ genus theory), :mod:`~realquad.classgroup.genus` (genus characters).
 ([6], 'GRH', 'unconditional')
 >>> class_numbers(12)      # Q(√3): h = 1, h⁺ = 2, N(ε) = +1
 (1, 2, 1)
+>>> I = class_group(-4 * 5)     # Q(√−5): h = 2
+>>> I.class_number, I.invariants, I.generators, I.method.startswith("reduced positive definite")
+(2, [2], [Form(2, 2, 3)], True)
 """
 
 from __future__ import annotations
@@ -32,10 +40,11 @@ from realquad.classgroup import exact
 from realquad.classgroup.bsgs import class_group_bsgs
 from realquad.classgroup.exact import class_group_exact, class_numbers
 from realquad.classgroup.group import ClassGroup, ClassTable
+from realquad.classgroup.imaginary import class_group_imaginary
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import InputError
+from realquad.errors import DomainError, InputError
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
 CLASS_GROUP_METHODS = ("auto", "exact", "bsgs")
@@ -61,9 +70,16 @@ def choose_class_group_method(
     """
     if method not in CLASS_GROUP_METHODS:
         raise InputError(f"method must be one of {', '.join(CLASS_GROUP_METHODS)}, got {method!r}")
+    D = order.discriminant
+    if D < 0:
+        if method == "bsgs":
+            raise DomainError(
+                "the baby-step giant-step method (bsgs) works in the infrastructure of real "
+                f"quadratic fields; for D = {D} < 0 use the exact method (exact or auto)"
+            )
+        return "exact"
     if method != "auto":
         return method
-    D = order.discriminant
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms
     within_reach = D <= 4 * limit * limit
     if within_reach and (D < 10**8 or order.conductor != 1):
@@ -79,16 +95,20 @@ def class_group(
     progress: Progress | None = None,
     method: str = "auto",
 ) -> ClassGroup:
-    """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant).
+    """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant, either sign).
 
     ``method``: ``"exact"`` (cycles of reduced forms, unconditional),
     ``"bsgs"`` (baby-step giant-step in the infrastructure; fields only, proof
     ``"GRH"``) or ``"auto"`` (:func:`choose_class_group_method`).
-    ``max_forms`` bounds the reduced forms the exact method stores;
+    For ``D < 0`` the one method is the exact one by reduced definite forms.
+    ``max_forms`` bounds the reduced forms (for ``D < 0`` the classes) the exact method stores;
     ``progress`` hears how far a long computation has come.
     """
-    order = Order.of(order).require_real("class groups are computed here for real quadratic orders")
-    if choose_class_group_method(order, method, max_forms) == "bsgs":
+    order = Order.of(order)
+    chosen = choose_class_group_method(order, method, max_forms)
+    if order.discriminant < 0:
+        return class_group_imaginary(order, max_forms, progress)
+    if chosen == "bsgs":
         return class_group_bsgs(order, progress)
     return class_group_exact(order, max_forms, progress)
 

@@ -188,7 +188,9 @@ class QuadraticNumber:
 
     def _require_real(self, what: str) -> None:
         if self.d < 0:
-            raise DomainError(f"{what} is defined in real quadratic fields only, not in Q(√{self.d})")
+            raise DomainError(
+                f"{what} is defined in real quadratic fields only, not in Q(√{self.d})"
+            )
 
     def sign(self) -> int:
         self._require_real("the sign")

@@ -138,6 +138,7 @@ def regulator(
 __all__ = [
     "DEFAULT_MAX_PERIOD",
     "METHODS",
+    "NO_UNIT_OF_INFINITE_ORDER",
     "Method",
     "Regulator",
     "Unit",
