@@ -58,13 +58,15 @@ def _line(s: PrimeDecomposition, principal: Form, max_digits: int) -> str:
     coords = ", ".join(str(c) for c in s.classes)
     x = integer_text(s.x or 0, max_digits)
     y = integer_text(s.y or 0, max_digits)
+    narrowly = "" if principal.discriminant < 0 else "narrowly "  # D < 0: narrow = wide
     if s.represented_by_principal:
-        how = f"narrowly principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
+        how = f"{narrowly}principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
     else:
         assert s.form is not None
         F = s.form
-        how = f"not narrowly principal; ({F.a}, {F.b}, {F.c}) represents {s.p} at x = {x}, y = {y}"
-    return f"p = {s.p}: {s.kind}, ideals {ideals}; narrow classes {coords}; {how}"
+        how = f"not {narrowly}principal; ({F.a}, {F.b}, {F.c}) represents {s.p} at x = {x}, y = {y}"
+    kinds = "narrow classes" if narrowly else "classes"
+    return f"p = {s.p}: {s.kind}, ideals {ideals}; {kinds} {coords}; {how}"
 
 
 @click.command("split", context_settings=ACCEPT_NEGATIVE)
@@ -97,7 +99,9 @@ def command(
     """Decomposition of primes in Q(√d) (or the order of discriminant D) and the classes of their prime ideals.
 
     Classes are coordinates on the generators printed by `realquad classgroup`.
-    Example: realquad split 79 --primes-up-to 30; realquad split --disc 316 --prime 5
+    For d < 0 a prime p is x² + b₀xy + c₀y² exactly when its class is principal.
+    Example: realquad split 79 --primes-up-to 30; realquad split --disc 316 --prime 5;
+    realquad split -14 --primes-up-to 30
     """
     order = order_from_options(d, disc)
     if bound is not None and prime is not None:
@@ -130,9 +134,11 @@ def command(
         f"({F.a}, {F.b}, {F.c}) of order {n}"
         for F, n in zip(G.narrow_generators, G.narrow_invariants, strict=True)
     )
+    group_name = "Cl⁺" if order.is_real else "Cl"  # D < 0: Cl⁺ = Cl
     lines = [
-        f"order of discriminant {order.discriminant} in Q(√{order.radicand}), conductor {order.conductor}",
-        f"Cl⁺ generators: {gens or 'none (Cl⁺ is trivial)'}",
+        f"{'' if order.is_real else 'imaginary '}order of discriminant {order.discriminant} "
+        f"in Q(√{order.radicand}), conductor {order.conductor}",
+        f"{group_name} generators: {gens or f'none ({group_name} is trivial)'}",
     ]
     lines += [_line(s, principal, max_digits) for s in results]
     lines.append(f"method: {G.method}; proof: {G.proof}")
