@@ -148,6 +148,11 @@ class ClassGroup:
         return self._table
 
     @property
+    def table_is_built(self) -> bool:
+        """Whether :attr:`table` has been built already (so using it costs nothing more)."""
+        return self._table is not None
+
+    @property
     def lists_classes(self) -> bool:
         """Whether :attr:`table` (every class with its forms) is available for this group."""
         return self._table is not None or self._table_source is not None
