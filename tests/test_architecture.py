@@ -67,7 +67,11 @@ LEVELS: dict[str, list[set[str]]] = {
         {"principal"},
     ],
     "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs"}],
-    "realquad.classgroup": [{"genus", "structure"}, {"group"}, {"exact", "bsgs", "imaginary"}],
+    "realquad.classgroup": [
+        {"genus", "structure"},
+        {"group"},
+        {"exact", "bsgs", "imaginary", "imaginary_bsgs"},
+    ],
     "realquad.splitting": [{"decomposition"}],
     "realquad.equations": [
         {"parser", "families"},

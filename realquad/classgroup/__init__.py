@@ -1,9 +1,15 @@
 """Class numbers and class groups ``Cl``, ``Cl⁺`` of quadratic orders: the chooser.
 
-Imaginary orders (``D < 0``) have one method, ``"exact"``
-(:mod:`realquad.classgroup.imaginary`: one reduced positive definite form per
-class, unconditional, ``|D|`` up to ``10¹⁴``); ``"auto"`` takes it.
-For real orders (``D > 0``):
+Imaginary orders (``D < 0``):
+
+* ``"exact"`` — one reduced positive definite form per class
+  (:mod:`realquad.classgroup.imaginary`), unconditional, ``|D|`` up to ``10¹⁴``;
+* ``"bsgs"`` — baby-step giant-step with the class number formula
+  (:mod:`realquad.classgroup.imaginary_bsgs`), fields only, ``proof: "GRH"``,
+  ``|D|`` up to ``10³²``;
+* ``"auto"`` — the exact method within its reach, baby-step giant-step beyond.
+
+Real orders (``D > 0``):
 
 * ``"exact"`` — cycles of reduced forms (:mod:`realquad.classgroup.exact`):
   every class walked, exact and unconditional, about ``√D`` rho steps; every
@@ -36,15 +42,16 @@ genus theory), :mod:`~realquad.classgroup.genus` (genus characters).
 
 from __future__ import annotations
 
-from realquad.classgroup import exact
+from realquad.classgroup import exact, imaginary
 from realquad.classgroup.bsgs import class_group_bsgs
 from realquad.classgroup.exact import class_group_exact, class_numbers
 from realquad.classgroup.group import ClassGroup, ClassTable
 from realquad.classgroup.imaginary import class_group_imaginary
+from realquad.classgroup.imaginary_bsgs import class_group_imaginary_bsgs
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import DomainError, InputError
+from realquad.errors import InputError
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
 CLASS_GROUP_METHODS = ("auto", "exact", "bsgs")
@@ -71,13 +78,8 @@ def choose_class_group_method(
     if method not in CLASS_GROUP_METHODS:
         raise InputError(f"method must be one of {', '.join(CLASS_GROUP_METHODS)}, got {method!r}")
     D = order.discriminant
-    if D < 0:
-        if method == "bsgs":
-            raise DomainError(
-                "the baby-step giant-step method (bsgs) works in the infrastructure of real "
-                f"quadratic fields; for D = {D} < 0 use the exact method (exact or auto)"
-            )
-        return "exact"
+    if D < 0 and method == "auto":
+        return "exact" if -D <= imaginary.MAX_DISCRIMINANT or order.conductor != 1 else "bsgs"
     if method != "auto":
         return method
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms
@@ -100,12 +102,14 @@ def class_group(
     ``method``: ``"exact"`` (cycles of reduced forms, unconditional),
     ``"bsgs"`` (baby-step giant-step in the infrastructure; fields only, proof
     ``"GRH"``) or ``"auto"`` (:func:`choose_class_group_method`).
-    For ``D < 0`` the one method is the exact one by reduced definite forms.
+    For ``D < 0``: ``"exact"`` (reduced definite forms), ``"bsgs"`` (fields, under GRH), ``"auto"``.
     ``max_forms`` bounds the reduced forms (for ``D < 0`` the classes) the exact method stores;
     ``progress`` hears how far a long computation has come.
     """
     order = Order.of(order)
     chosen = choose_class_group_method(order, method, max_forms)
+    if order.discriminant < 0 and chosen == "bsgs":
+        return class_group_imaginary_bsgs(order)
     if order.discriminant < 0:
         return class_group_imaginary(order, max_forms, progress)
     if chosen == "bsgs":
