@@ -165,7 +165,8 @@ def _form_lines(lines: list[str], payload: dict[str, Any]) -> None:
     default="auto",
     show_default=True,
     help="exact: cycles of reduced forms (unconditional); bsgs: baby-step giant-step in the "
-    "infrastructure (fields, under GRH); auto: by size.",
+    "infrastructure (fields, under GRH); auto: by size. For D < 0, exact lists the reduced "
+    "definite forms and bsgs uses the class number formula (fields, under GRH).",
 )
 @json_option
 def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_json: bool) -> None:

@@ -277,10 +277,15 @@ def test_imaginary_group_conventions():
 
 def test_methods_for_negative_discriminants():
     assert choose_class_group_method(Order(-20)) == "exact"
-    with pytest.raises(DomainError, match="real quadratic fields"):
-        class_group(-20, method="bsgs")
+    assert choose_class_group_method(Order(-(10**20) - 3)) == "bsgs"
+    with pytest.raises(DomainError, match="fields"):
+        class_group(-80, method="bsgs")  # conductor 2
     with pytest.raises(TooLargeError, match="baby-step giant-step"):
-        class_group(-(MAX_DISCRIMINANT + 4))
+        class_group(-(MAX_DISCRIMINANT + 4), method="exact")
+    with pytest.raises(TooLargeError, match="baby-step giant-step"):
+        class_group(
+            -36 * (3 * 10**12 + 1)
+        )  # auto: an order of conductor 3·…, beyond the exact reach
     with pytest.raises(TooLargeError, match="classes"):
         class_group_imaginary(Order(-4 * 10**6 - 4 * 3), max_classes=10)
 
