@@ -1,4 +1,4 @@
-"""Invertible ideals of a real quadratic order and their link with forms.
+"""Invertible ideals of a quadratic order (real, or imaginary with positive definite forms) and their link with forms.
 
 An ideal is stored as ``s·[a, (−b + √D)/2]``: a positive integer scale ``s``
 times the primitive ideal with Z-basis ``a`` and ``(−b + √D)/2``, where
