@@ -44,9 +44,9 @@ from __future__ import annotations
 
 from realquad.classgroup import exact, imaginary
 from realquad.classgroup.bsgs import class_group_bsgs
-from realquad.classgroup.exact import class_group_exact, class_numbers
+from realquad.classgroup.exact import class_group_exact
 from realquad.classgroup.group import ClassGroup, ClassTable
-from realquad.classgroup.imaginary import class_group_imaginary
+from realquad.classgroup.imaginary import class_group_imaginary, class_relations_imaginary
 from realquad.classgroup.imaginary_bsgs import class_group_imaginary_bsgs
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
@@ -115,6 +115,25 @@ def class_group(
     if chosen == "bsgs":
         return class_group_bsgs(order, progress)
     return class_group_exact(order, max_forms, progress)
+
+
+def class_numbers(
+    order: Order | int, max_forms: int | None = None, conductor: int | None = None
+) -> tuple[int, int, int]:
+    """``(h, h⁺, N(ε))``: the lean path for tables (no generators, no unit, no structure).
+
+    For ``D > 0`` the cycle method's :func:`realquad.classgroup.exact.class_numbers`;
+    for ``D < 0`` the reduced definite forms, with ``h⁺ = h`` and norm 1
+    (every unit of an imaginary order has norm 1).
+
+    >>> class_numbers(12), class_numbers(-20), class_numbers(-4)
+    ((1, 2, 1), (2, 2, 1), (1, 1, 1))
+    """
+    order = Order.of(order)
+    if order.discriminant < 0:
+        h, _, _ = class_relations_imaginary(order, max_forms)
+        return h, h, 1
+    return exact.class_numbers(order, max_forms, conductor)
 
 
 __all__ = [
