@@ -104,6 +104,8 @@ def definite_class_table(
 ) -> tuple[dict, list, list, list, list] | None:
     """Every class of ``D < 0`` (one reduced form each), reached from ``1`` by the ``candidates``.
 
+    The ``candidates`` must be reduced forms (as :func:`definite_class_candidates` gives).
+
     Returns ``(index, representatives, vectors, generators, relations)``:
     ``index`` maps the reduced form ``(a, b)`` of class ``i`` to ``i``,
     ``representatives[i]`` is that form, ``vectors[i]`` writes class ``i`` on
