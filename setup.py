@@ -69,6 +69,7 @@ KERNEL_SOURCES = (
     "form_kernels",
     "prime_form_kernels",
     "class_kernels",
+    "definite_kernels",
     "survey_kernels",
     "infrastructure_kernels",
 )

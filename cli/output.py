@@ -21,6 +21,7 @@ from typing import Any, TypeVar
 import click
 import gmpy2
 
+from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.textio import MINUS, to_decimal
 
@@ -59,6 +60,42 @@ class Command(click.Command):
                 if option in seen:
                     raise click.UsageError(f"option {option} is given more than once")
                 seen.add(option)
+
+
+class IntegerRange(click.ParamType):
+    """An integer option read like every integer of the package (:func:`realquad.core.integers.as_integer`:
+    ASCII digits only, ``−`` as minus), within ``[low, high]``."""
+
+    name = "integer"
+
+    def __init__(self, low: int | None = None, high: int | None = None) -> None:
+        self.low, self.high = low, high
+
+    def convert(self, value: Any, param: click.Parameter | None, ctx: click.Context | None) -> int:
+        if isinstance(value, int):
+            number = value
+        else:
+            name = param.opts[0] if isinstance(param, click.Option) else "value"
+            try:
+                number = as_integer(value, name)
+            except InputError as exc:
+                self.fail(str(exc), param, ctx)
+        if (self.low is not None and number < self.low) or (
+            self.high is not None and number > self.high
+        ):
+            self.fail(f"{number} is not in the range {self._range()}", param, ctx)
+        return number
+
+    def _range(self) -> str:
+        low = "" if self.low is None else f"{self.low} ≤ "
+        high = "" if self.high is None else f" ≤ {self.high}"
+        return f"{low}x{high}"
+
+    def __repr__(self) -> str:
+        return f"IntegerRange({self.low}, {self.high})"
+
+    def get_metavar(self, param: click.Parameter, ctx: click.Context | None = None) -> str:  # type: ignore[override]
+        return f"INTEGER RANGE [{self._range()}]"
 
 
 class Group(click.Group):
@@ -257,7 +294,7 @@ def max_digits_option(f: F) -> F:
     """``--max-digits K``: the longest integer printed in full (0 = no limit)."""
     return click.option(
         "--max-digits",
-        type=click.IntRange(min=0),
+        type=IntegerRange(0),
         default=1000,
         show_default=True,
         help="Longest integer printed in full; longer ones are summarised (0 = no limit).",

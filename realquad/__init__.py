@@ -5,7 +5,7 @@ the package's ``__init__`` choosing among the methods beneath it
 (``docs/architecture.md``):
 
 * :mod:`realquad.cfrac` — continued fractions;
-* :mod:`realquad.units` — fundamental units and regulators;
+* :mod:`realquad.units` — fundamental units and regulators, roots of unity;
 * :mod:`realquad.classgroup` — class numbers and class groups;
 * :mod:`realquad.splitting` — decomposition of primes and their classes;
 * :mod:`realquad.equations` — Pell, norm, binary-form and general quadratic equations;
@@ -48,7 +48,7 @@ from realquad.equations import (
 )
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
-from realquad.units import Regulator, Unit, fundamental_unit, regulator
+from realquad.units import Regulator, Unit, UnitGroup, fundamental_unit, regulator, unit_group
 
 __all__ = [
     "__version__",
@@ -69,6 +69,7 @@ __all__ = [
     "Regulator",
     "TooLargeError",
     "Unit",
+    "UnitGroup",
     "class_group",
     "class_numbers",
     "continued_fraction",
@@ -85,4 +86,5 @@ __all__ = [
     "solve_norm_equation",
     "solve_quadratic",
     "split_primes",
+    "unit_group",
 ]

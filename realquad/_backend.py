@@ -38,6 +38,7 @@ TWINS = (
     "form_kernels",
     "prime_form_kernels",
     "class_kernels",
+    "definite_kernels",
     "survey_kernels",
     "infrastructure_kernels",
 )

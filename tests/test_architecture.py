@@ -48,7 +48,7 @@ LEVELS: dict[str, list[set[str]]] = {
     "realquad._kernels": [
         {"form_kernels", "cfrac_kernels", "character_kernels"},
         {"prime_form_kernels", "infrastructure_kernels"},
-        {"class_kernels"},
+        {"class_kernels", "definite_kernels"},
         {"survey_kernels"},
     ],
     "realquad.core": [
@@ -66,8 +66,12 @@ LEVELS: dict[str, list[set[str]]] = {
         {"regulator_search"},
         {"principal"},
     ],
-    "realquad.units": [{"results"}, {"cfrac", "bsgs"}],
-    "realquad.classgroup": [{"genus", "structure"}, {"group"}, {"exact", "bsgs"}],
+    "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs"}],
+    "realquad.classgroup": [
+        {"genus", "structure"},
+        {"group"},
+        {"exact", "bsgs", "imaginary", "imaginary_bsgs"},
+    ],
     "realquad.splitting": [{"decomposition"}],
     "realquad.equations": [
         {"parser", "families"},

@@ -13,6 +13,7 @@ from typing import Any
 import click
 from realquad_cli.output import (
     Command,
+    IntegerRange,
     Sizer,
     check_output_path,
     emit,
@@ -95,7 +96,7 @@ def _file_line(name: str, pairs: Iterable[tuple[int, int]]) -> str:
 @click.argument("expr", type=str)
 @click.option(
     "--max-terms",
-    type=click.IntRange(min=0),
+    type=IntegerRange(0),
     default=1000,
     show_default=True,
     help="Most partial quotients, convergents or approximations printed (0 = no limit).",
@@ -118,7 +119,7 @@ def _file_line(name: str, pairs: Iterable[tuple[int, int]]) -> str:
 )
 @click.option(
     "--kind",
-    type=click.IntRange(1, 2),
+    type=IntegerRange(1, 2),
     default=1,
     show_default=True,
     help="With --best: 1 = closest p/q (convergents and intermediate fractions), "

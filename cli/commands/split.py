@@ -6,7 +6,7 @@ from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
-from realquad_cli.output import Command, Sizer, emit, json_option
+from realquad_cli.output import Command, IntegerRange, Sizer, emit, json_option
 
 from realquad.classgroup import class_group
 from realquad.core.forms import Form
@@ -37,12 +37,14 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
     coords = ", ".join(str(c) for c in s.classes)
     x = sizer.text(s.x or 0)
     y = sizer.text(s.y or 0)
+    narrowly = "" if principal.discriminant < 0 else "narrowly "  # D < 0: narrow = wide
     if s.represented_by_principal:
-        how = f"narrowly principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
+        how = f"{narrowly}principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
     else:
         assert s.form is not None
-        how = f"not narrowly principal; {_form_text(s.form)} represents {s.p} at x = {x}, y = {y}"
-    return f"p = {s.p}: {s.kind}, ideals {ideals}; narrow classes {coords}; {how}"
+        how = f"not {narrowly}principal; {_form_text(s.form)} represents {s.p} at x = {x}, y = {y}"
+    kinds = "narrow classes" if narrowly else "classes"
+    return f"p = {s.p}: {s.kind}, ideals {ideals}; {kinds} {coords}; {how}"
 
 
 @click.command("split", cls=Command)
@@ -58,7 +60,7 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
 @click.option("--prime", "prime", type=str, default=None, metavar="P", help="Only the prime P.")
 @click.option(
     "--max-digits",
-    type=click.IntRange(min=0),
+    type=IntegerRange(0),
     default=1000,
     show_default=True,
     help="Longest x, y printed in full; longer ones are summarised (0 = no limit).",
@@ -75,7 +77,9 @@ def command(
     """Decomposition of primes in Q(√d) (or the order of discriminant D) and the classes of their prime ideals.
 
     Classes are coordinates on the generators printed by `realquad classgroup`.
-    Example: realquad split 79 --primes-up-to 30; realquad split --disc 316 --prime 5
+    For d < 0 a prime p is x² + b₀xy + c₀y² exactly when its class is principal.
+    Example: realquad split 79 --primes-up-to 30; realquad split --disc 316 --prime 5;
+    realquad split -14 --primes-up-to 30
     """
     order = order_from_options(d, disc)
     if bound is not None and prime is not None:
@@ -104,9 +108,12 @@ def command(
         for F, n in zip(G.narrow_generators, G.narrow_invariants, strict=True)
     )
     sizer = Sizer(max_digits)
+    group_name = "Cl⁺" if order.is_real else "Cl"  # D < 0: Cl⁺ = Cl
     lines = [
-        f"order of discriminant {order.discriminant} in Q(√{order.radicand}), conductor {order.conductor}",
-        f"Cl⁺ ≅ {group_text(G.narrow_invariants)}, generators: {gens or 'none (Cl⁺ is trivial)'}",
+        f"{'' if order.is_real else 'imaginary '}order of discriminant "
+        f"{signed(order.discriminant)} in Q(√{signed(order.radicand)}), conductor {order.conductor}",
+        f"{group_name} ≅ {group_text(G.narrow_invariants)}, generators: "
+        f"{gens or f'none ({group_name} is trivial)'}",
     ]
     lines += [_line(s, principal, sizer) for s in results]
     lines.append(f"method: {G.method}; proof: {G.proof}")

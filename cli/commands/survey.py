@@ -10,7 +10,7 @@ from functools import partial
 from typing import Any
 
 import click
-from realquad_cli.output import Command, Group, emit, json_option
+from realquad_cli.output import Command, Group, IntegerRange, emit, json_option
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
@@ -351,7 +351,7 @@ def _sort_column(sort: str | None) -> str | None:
 @_db_option
 @click.option(
     "--limit",
-    type=click.IntRange(min=0),
+    type=IntegerRange(0),
     default=1000,
     show_default=True,
     help="Most rows printed (0 = all).",
@@ -443,7 +443,7 @@ def _distribution_text(counts: dict[int, int], total: int, shown: int = 12) -> s
 @_db_option
 @click.option(
     "--top",
-    type=click.IntRange(1, 1000),
+    type=IntegerRange(1, 1000),
     default=10,
     show_default=True,
     help="How many of the largest regulators to list.",

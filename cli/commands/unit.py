@@ -6,6 +6,7 @@ import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import (
     Command,
+    IntegerRange,
     Sizer,
     check_output_path,
     emit,
@@ -25,7 +26,7 @@ from realquad.units import METHODS, fundamental_unit
 @order_arguments
 @click.option(
     "--digits",
-    type=click.IntRange(1, 100_000),
+    type=IntegerRange(1, 100_000),
     default=30,
     show_default=True,
     help="Significant digits of the regulator.",

@@ -50,6 +50,17 @@ static PyMethodDef methods[] = {
      "reduce([a, b][a2, b2]) on reduced principal ideals, with the distance change."},
     {"form_compose_reduce", (PyCFunction)(void (*)(void))k_form_compose_reduce, METH_FASTCALL,
      "Dirichlet composition of two forms of discriminant D, reduced."},
+    /* positive definite forms and the class groups of D < 0 */
+    {"definite_reduce", (PyCFunction)(void (*)(void))k_definite_reduce, METH_FASTCALL,
+     "The reduced form properly equivalent to a positive definite form."},
+    {"definite_compose_reduce", (PyCFunction)(void (*)(void))k_definite_compose_reduce, METH_FASTCALL,
+     "Dirichlet composition of two positive definite forms of discriminant D, reduced."},
+    {"definite_class_candidates", (PyCFunction)(void (*)(void))k_definite_class_candidates, METH_FASTCALL,
+     "Reduced prime forms (and prime-power forms for p | f) of norm <= sqrt(|D|/3): generators of Cl(D)."},
+    {"definite_class_table", (PyCFunction)(void (*)(void))k_definite_class_table, METH_FASTCALL,
+     "Every class of D < 0 (one reduced form each) reached from 1 by the candidates, or None."},
+    {"definite_class_relations", (PyCFunction)(void (*)(void))k_definite_class_relations, METH_FASTCALL,
+     "(h, generators, relations) of the class table of D < 0, or None."},
     /* infrastructure: the baby-step table and the giant-step search */
     {"infrastructure_table_new", (PyCFunction)(void (*)(void))k_infrastructure_table_new, METH_FASTCALL,
      "An empty baby-step table (open addressing) for D < 2^106."},

@@ -30,7 +30,8 @@
  * (kronecker_symbols); form_kernels.c (form_*, extended_gcd, composition);
  * prime_form_kernels.c (prime forms, square roots mod p, class candidates);
  * class_kernels.c (class numbers, relations and table: cycles of reduced
- * forms in a hash table); survey_kernels.c (survey_numbers: many fields per
+ * forms in a hash table); definite_kernels.c (positive definite forms: reduction,
+ * composition, the class group of D < 0 by one reduced form per class); survey_kernels.c (survey_numbers: many fields per
  * call); infrastructure_kernels.c (baby and giant steps, the baby-step table
  * and the giant-step search); _ckernels.c (the method table and the module).
  */
@@ -394,9 +395,16 @@ KERNEL(k_form_class_relations);
 KERNEL_PRIVATE int prime_array(PyObject *primes, int64_t **out, Py_ssize_t *len);
 KERNEL_PRIVATE int candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, int lift,
                               int64_t **out, int64_t *count);
+KERNEL_PRIVATE int64_t prime_b(int64_t D, int64_t p);
 KERNEL_PRIVATE int class_kernel_args(PyObject *const *args, int64_t *D, int64_t *conductor);
 KERNEL_PRIVATE int class_numbers_core(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t nprimes,
                                       int64_t max_forms, int64_t *h_plus, int *j_principal);
+/* definite_kernels.c */
+KERNEL(k_definite_reduce);
+KERNEL(k_definite_compose_reduce);
+KERNEL(k_definite_class_candidates);
+KERNEL(k_definite_class_table);
+KERNEL(k_definite_class_relations);
 /* survey_kernels.c */
 KERNEL(k_survey_numbers);
 /* infrastructure_kernels.c */

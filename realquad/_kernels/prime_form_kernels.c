@@ -88,13 +88,13 @@ root_mod_prime(int64_t D, int64_t p)
     return sqrt_mod_odd_prime((uint64_t)D, (uint64_t)p);
 }
 
-/* prime_form_b of prime_form_kernels.py for a prime 2 <= p < 2^31 and 0 < D < 2^62 (the b is canonical). */
-static int64_t
+/* prime_form_b of prime_form_kernels.py for a prime 2 <= p < 2^31 and 0 < |D| < 2^62 (the b is canonical). */
+int64_t
 prime_b(int64_t D, int64_t p)
 {
     int64_t b, t, c;
     if (p == 2) {
-        int64_t residue = D % 8;
+        int64_t residue = floormod64(D, 8);
         if (residue == 1)
             b = 1;
         else if (residue == 0)
@@ -104,7 +104,7 @@ prime_b(int64_t D, int64_t p)
         else
             return -1;
     } else {
-        t = root_mod_prime(D, p);
+        t = root_mod_prime(D >= 0 ? D : floormod64(D, p), p);
         if (t < 0)
             return t;
         b = ((t - D) % 2 == 0) ? t : p - t;
@@ -259,8 +259,8 @@ k_prime_form_b(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     int64_t D, p;
     if (check_nargs(nargs, 2, "prime_form_b") < 0 || get_i64(args[0], &D, "D") < 0 || get_i64(args[1], &p, "p") < 0)
         return NULL;
-    if (D <= 0 || D > MAX_WORD || p < 2 || p >= ((int64_t)1 << 31)) {
-        PyErr_SetString(PyExc_OverflowError, "prime_form_b takes 0 < D < 2^62 and a prime p < 2^31");
+    if (D == 0 || D > MAX_WORD || D < -MAX_WORD || p < 2 || p >= ((int64_t)1 << 31)) {
+        PyErr_SetString(PyExc_OverflowError, "prime_form_b takes 0 < |D| < 2^62 and a prime p < 2^31");
         return NULL;
     }
     p = prime_b(D, p);

@@ -1,4 +1,15 @@
-"""Class numbers and class groups ``Cl``, ``Cl⁺`` of real quadratic orders: the chooser.
+"""Class numbers and class groups ``Cl``, ``Cl⁺`` of quadratic orders: the chooser.
+
+Imaginary orders (``D < 0``):
+
+* ``"exact"`` — one reduced positive definite form per class
+  (:mod:`realquad.classgroup.imaginary`), unconditional, ``|D|`` up to ``10¹⁴``;
+* ``"bsgs"`` — baby-step giant-step with the class number formula
+  (:mod:`realquad.classgroup.imaginary_bsgs`), fields only, ``proof: "GRH"``,
+  ``|D|`` up to ``10³²``;
+* ``"auto"`` — the exact method within its reach, baby-step giant-step beyond.
+
+Real orders (``D > 0``):
 
 * ``"exact"`` — cycles of reduced forms (:mod:`realquad.classgroup.exact`):
   every class walked, exact and unconditional, about ``√D`` rho steps; every
@@ -24,14 +35,19 @@ genus theory), :mod:`~realquad.classgroup.genus` (genus characters).
 ([6], 'GRH', 'unconditional')
 >>> class_numbers(12)      # Q(√3): h = 1, h⁺ = 2, N(ε) = +1
 (1, 2, 1)
+>>> I = class_group(-4 * 5)     # Q(√−5): h = 2
+>>> I.class_number, I.invariants, I.generators, I.method.startswith("reduced positive definite")
+(2, [2], [Form(2, 2, 3)], True)
 """
 
 from __future__ import annotations
 
-from realquad.classgroup import exact
+from realquad.classgroup import exact, imaginary
 from realquad.classgroup.bsgs import class_group_bsgs
-from realquad.classgroup.exact import class_group_exact, class_numbers
+from realquad.classgroup.exact import class_group_exact
 from realquad.classgroup.group import ClassGroup, ClassTable
+from realquad.classgroup.imaginary import class_group_imaginary, class_relations_imaginary
+from realquad.classgroup.imaginary_bsgs import class_group_imaginary_bsgs
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
@@ -59,9 +75,12 @@ def choose_class_group_method(
     >>> choose_class_group_method(Order(4 * 79)), choose_class_group_method(Order(10**16 + 61))
     ('exact', 'bsgs')
     """
-    if check_method(method, CLASS_GROUP_METHODS) != "auto":
-        return method
+    check_method(method, CLASS_GROUP_METHODS)
     D = order.discriminant
+    if D < 0 and method == "auto":
+        return "exact" if -D <= imaginary.MAX_DISCRIMINANT or order.conductor != 1 else "bsgs"
+    if method != "auto":
+        return method
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms
     within_reach = D <= 4 * limit * limit
     if within_reach and (D < 10**8 or order.conductor != 1):
@@ -77,18 +96,43 @@ def class_group(
     progress: Progress | None = None,
     method: str = "auto",
 ) -> ClassGroup:
-    """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant).
+    """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant, either sign).
 
     ``method``: ``"exact"`` (cycles of reduced forms, unconditional),
     ``"bsgs"`` (baby-step giant-step in the infrastructure; fields only, proof
     ``"GRH"``) or ``"auto"`` (:func:`choose_class_group_method`).
-    ``max_forms`` bounds the reduced forms the exact method stores;
+    For ``D < 0``: ``"exact"`` (reduced definite forms), ``"bsgs"`` (fields, under GRH), ``"auto"``.
+    ``max_forms`` bounds the reduced forms (for ``D < 0`` the classes) the exact method stores;
     ``progress`` hears how far a long computation has come.
     """
-    order = Order.of(order).require_real("class groups are computed here for real quadratic orders")
-    if choose_class_group_method(order, method, max_forms) == "bsgs":
+    order = Order.of(order)
+    chosen = choose_class_group_method(order, method, max_forms)
+    if order.discriminant < 0 and chosen == "bsgs":
+        return class_group_imaginary_bsgs(order)
+    if order.discriminant < 0:
+        return class_group_imaginary(order, max_forms, progress)
+    if chosen == "bsgs":
         return class_group_bsgs(order, progress)
     return class_group_exact(order, max_forms, progress)
+
+
+def class_numbers(
+    order: Order | int, max_forms: int | None = None, conductor: int | None = None
+) -> tuple[int, int, int]:
+    """``(h, h⁺, N(ε))``: the lean path for tables (no generators, no unit, no structure).
+
+    For ``D > 0`` the cycle method's :func:`realquad.classgroup.exact.class_numbers`;
+    for ``D < 0`` the reduced definite forms, with ``h⁺ = h`` and norm 1
+    (every unit of an imaginary order has norm 1).
+
+    >>> class_numbers(12), class_numbers(-20), class_numbers(-4)
+    ((1, 2, 1), (2, 2, 1), (1, 1, 1))
+    """
+    order = Order.of(order)
+    if order.discriminant < 0:
+        h, _, _ = class_relations_imaginary(order, max_forms)
+        return h, h, 1
+    return exact.class_numbers(order, max_forms, conductor)
 
 
 __all__ = [

@@ -90,7 +90,7 @@ import gmpy2
 from realquad._backend import call_kernel
 from realquad.classgroup.group import ClassGroup, forms_from_vectors
 from realquad.core.forms import prime_form_coefficients
-from realquad.core.lfunction import HRInterval, estimate_hR, hR_interval
+from realquad.core.lfunction import HRInterval, bach_bound, estimate_hR, hR_interval
 from realquad.core.linalg import SmithForm, smith_normal_form
 from realquad.core.orders import Order
 from realquad.core.primes import primes_below
@@ -125,15 +125,6 @@ _EXPECTED_IDENTIFICATIONS = 16
 
 
 Triple = tuple[int, int, int]
-
-
-def bach_bound(D: int) -> int:
-    """``⌊12 log² D⌋``: under GRH the prime ideals of norm up to it generate the class group.
-
-    >>> bach_bound(5), bach_bound(10**20)
-    (31, 25449)
-    """
-    return int(12 * math.log(D) ** 2)
 
 
 @dataclass(eq=False)

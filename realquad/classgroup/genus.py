@@ -16,6 +16,9 @@ divisors of ``D``).
 >>> g.characters, g.number_of_genera, g.two_rank
 (['(·/3)', '(·/5)', 'δ'], 4, 2)
 
+The same characters serve ``D < 0`` (Cox's setting) and ``D > 0``; for
+``D < 0``, ``D/4 = −n`` and the cases above are Cox's read for ``−n``.
+
 References: D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §3.B
 (Theorem 3.15, assigned characters; stated there for D < 0, the same for
 D > 0 and proper equivalence); D. A. Buell, *Binary Quadratic Forms*,
@@ -36,9 +39,13 @@ if TYPE_CHECKING:
     from realquad.classgroup.group import ClassGroup
 
 
+#: Imaginary groups up to this many classes get the characters of every class (from the table).
+LISTED_IMAGINARY_CLASSES = 100_000
+
+
 @dataclass(frozen=True)
 class Genera:
-    """The genus characters of ``D``, the character vector of every narrow class, the genera."""
+    """The genus characters of ``D``, the character vector of every narrow class (or generator), the genera."""
 
     discriminant: int
     characters: list[str]
@@ -110,11 +117,23 @@ def genera(group: ClassGroup) -> Genera:
 
     A group found without listing its classes (baby-step giant-step) gets
     the characters of its narrow generators instead; the genera are then
-    counted as the span of those character vectors.
+    counted as the span of those character vectors. So does an imaginary
+    group of more than :data:`LISTED_IMAGINARY_CLASSES` classes whose table
+    is not built yet (the generators suffice, and the table would cost far
+    more than the group).
+
+    >>> from realquad.classgroup import class_group
+    >>> g = class_group(-4 * 5 * 3 * 7).genus       # D = −420: Cl ≅ (Z/2)³, every class its own genus
+    >>> g.characters, g.number_of_genera, len(set(g.class_characters))
+    (['(·/3)', '(·/5)', '(·/7)', 'δ'], 8, 8)
     """
     D = group.discriminant
     names = assigned_characters(D)
-    listed = group.lists_classes
+    listed = group.lists_classes and not (
+        group.is_imaginary
+        and group.class_number > LISTED_IMAGINARY_CLASSES
+        and not group.table_is_built
+    )
     forms = (
         [Form._raw(*rep) for rep in group.table.representatives]
         if listed

@@ -4,10 +4,20 @@
 whichever method ran (its ``method`` and ``proof`` say which); :class:`ClassTable`
 lists every narrow class with its reduced forms, for the methods that walk them all.
 
+**Imaginary orders** (``D < 0``). Every non-zero element has positive norm,
+so the narrow and wide class groups coincide: a :class:`ClassGroup` of an
+imaginary order has ``narrow_* = `` the wide values, ``unit_norm = 1`` (the
+norm of every unit, a root of unity), ``unit = None`` (no unit of infinite
+order; :attr:`ClassGroup.regulator` refuses), ``roots_of_unity`` ``w = 2, 4, 6``,
+and each class holds exactly one reduced form (its "cycle").
+
 >>> from realquad.classgroup import class_group
 >>> G = class_group(4 * 79)
 >>> G.class_number, G.narrow_invariants, G.generators, G.lists_classes
 (3, [6], [Form(3, 14, -10)], True)
+>>> I = class_group(-56)
+>>> I.class_number, I.invariants, I.generators, I.narrow_invariants, I.unit, I.roots_of_unity
+(4, [4], [Form(3, 2, 5)], [4], None, 2)
 
 References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
 Springer 1993, §5.2 (narrow and wide class groups), §2.4.4 (Smith normal form).
@@ -27,7 +37,7 @@ from realquad.core.linalg import SmithForm
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError
-from realquad.units import Regulator, Unit
+from realquad.units import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
 
 Triple = tuple[int, int, int]
 
@@ -101,7 +111,9 @@ class ClassGroup:
     ``generators[t]`` is a reduced form whose class has order ``invariants[t]``
     in the wide group (likewise ``narrow_generators`` in ``Cl⁺``).
     ``unit_norm`` is the norm of the fundamental unit, which decides
-    ``h⁺ = h`` (norm −1) or ``h⁺ = 2h`` (norm +1).
+    ``h⁺ = h`` (norm −1) or ``h⁺ = 2h`` (norm +1). For an imaginary order
+    (module notes) the narrow values repeat the wide ones, ``unit_norm`` is
+    1, ``unit`` is ``None`` and ``roots_of_unity`` is ``w``.
     """
 
     order: Order
@@ -114,12 +126,13 @@ class ClassGroup:
     unit_norm: int
     method: str
     proof: Proof
-    unit: Unit = dataclass_field(repr=False)
+    unit: Unit | None = dataclass_field(repr=False)
     _raw_generators: list[Triple] = dataclass_field(repr=False)
     _narrow_smith: SmithForm = dataclass_field(repr=False)
     _wide_smith: SmithForm = dataclass_field(repr=False)
     _table_source: Callable[[], ClassTable] | None = dataclass_field(default=None, repr=False)
     _table: ClassTable | None = dataclass_field(default=None, repr=False)
+    roots_of_unity: int = 2
 
     @property
     def table(self) -> ClassTable:
@@ -140,14 +153,29 @@ class ClassGroup:
         return self._table
 
     @property
+    def table_is_built(self) -> bool:
+        """Whether :attr:`table` has been built already (so using it costs nothing more)."""
+        return self._table is not None
+
+    @property
     def lists_classes(self) -> bool:
         """Whether :attr:`table` (every class with its forms) is available for this group."""
         return self._table is not None or self._table_source is not None
 
     @cached_property
     def regulator(self) -> Regulator:
-        """The regulator ``log ε`` (30 significant digits), from the same continued fraction."""
+        """The regulator ``log ε`` (30 significant digits), from the same continued fraction.
+
+        An imaginary order has none (:class:`DomainError`).
+        """
+        if self.unit is None:
+            raise DomainError(NO_UNIT_OF_INFINITE_ORDER)
         return self.unit.regulator(30)
+
+    @property
+    def is_imaginary(self) -> bool:
+        """Whether the order is imaginary (``D < 0``: narrow = wide, no regulator)."""
+        return self.order.discriminant < 0
 
     @property
     def discriminant(self) -> int:
@@ -170,7 +198,7 @@ class ClassGroup:
         return not any(self.class_of(form))
 
     def narrow_classes(self) -> list[list[Form]]:
-        """The reduced forms of every narrow class (its cycle), the principal class first."""
+        """The reduced forms of every narrow class (its cycle; one form for ``D < 0``), principal first."""
         return [Form._raw(*rep).cycle() for rep in self.table.representatives]
 
     def ideal_generators(self, narrow: bool = False) -> list[Ideal]:
@@ -198,7 +226,9 @@ class ClassGroup:
             "generators": [_generator(F) for F in self.generators],
             "narrow_generators": [_generator(F) for F in self.narrow_generators],
             "unit_norm": self.unit_norm,
-            "regulator": self.regulator.to_dict(),
+            "regulator": None if self.is_imaginary else self.regulator.to_dict(),
+            "imaginary": self.is_imaginary,
+            "roots_of_unity": self.roots_of_unity,
             "genus": self.genus.to_dict(),
         }
         if with_classes:

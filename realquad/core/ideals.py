@@ -1,4 +1,4 @@
-"""Invertible ideals of a real quadratic order and their link with forms.
+"""Invertible ideals of a quadratic order (real, or imaginary with positive definite forms) and their link with forms.
 
 An ideal is stored as ``s·[a, (−b + √D)/2]``: a positive integer scale ``s``
 times the primitive ideal with Z-basis ``a`` and ``(−b + √D)/2``, where
@@ -30,6 +30,7 @@ from realquad.core.forms import Form
 from realquad.core.integers import as_integer, isqrt
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError
+from realquad.textio import signed
 
 
 @dataclass(frozen=True)
@@ -73,7 +74,7 @@ class Ideal:
         return f"Ideal({self.discriminant}, {self.scale}, {self.a}, {self.b})"
 
     def __str__(self) -> str:
-        root = f"√{self.discriminant}"
+        root = f"√{signed(self.discriminant)}"
         if self.b == 0:
             body = f"[{self.a}, {root}/2]"
         else:

@@ -1,7 +1,10 @@
-"""Exact elements ``(x + y√d)/c`` of a real quadratic field.
+"""Exact elements ``(x + y√d)/c`` of a quadratic field (real for ``d > 1``, imaginary for ``d < 0``).
 
 Arithmetic is exact (integers only); sign and comparison are decided without
 floating point, using ``x + y√d > 0  ⇔`` a comparison of ``x²`` with ``d y²``.
+Sign, order and ``log_abs`` belong to real fields: for ``d < 0`` they raise
+:class:`~realquad.errors.DomainError`, while arithmetic, norm and trace work
+as for ``d > 1``.
 
 >>> e = QuadraticNumber(1, 1, 1, 2)      # 1 + √2
 >>> e.norm()
@@ -14,6 +17,9 @@ QuadraticNumber(-1, 1, 1, 2)
 '(1 + √5)/2'
 >>> e.log_abs(20)
 '0.88137358701954302523'
+>>> z = QuadraticNumber(1, 1, 2, -3)     # a primitive sixth root of unity in Q(√−3)
+>>> str(z), z**3, z.norm()
+('(1 + √−3)/2', QuadraticNumber(-1, 0, 1, -3), Fraction(1, 1))
 """
 
 from __future__ import annotations
@@ -27,6 +33,7 @@ import mpmath
 
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError
+from realquad.textio import signed, terms_text, to_decimal
 
 Rational = int | Fraction
 
@@ -46,7 +53,7 @@ def _sign_of(x: int, y: int, d: int) -> int:
 
 @total_ordering
 class QuadraticNumber:
-    """The number ``(x + y√d)/c`` with integers ``x, y``, ``c > 0`` and ``d > 1``.
+    """The number ``(x + y√d)/c`` with integers ``x, y``, ``c > 0`` and ``d > 1`` or ``d < 0``.
 
     Stored in lowest terms (``gcd(x, y, c) = 1``). ``d`` need not be
     squarefree, but must not be a perfect square.
@@ -57,7 +64,7 @@ class QuadraticNumber:
     def __init__(self, x: int, y: int, c: int = 1, d: int = 2) -> None:
         if c == 0:
             raise ZeroDivisionError("denominator is zero")
-        if d <= 1 or gmpy2.is_square(d):
+        if d in (0, 1) or (d > 0 and gmpy2.is_square(d)):
             raise DomainError(f"√{d} is not a quadratic irrationality")
         x, y, c = gmpy2.mpz(x), gmpy2.mpz(y), gmpy2.mpz(c)
         if c < 0:
@@ -181,7 +188,14 @@ class QuadraticNumber:
         """Whether the number is an algebraic integer."""
         return self.trace().denominator == 1 and self.norm().denominator == 1
 
+    def _require_real(self, what: str) -> None:
+        if self.d < 0:
+            raise DomainError(
+                f"{what} is defined in real quadratic fields only, not in Q(√{self.d})"
+            )
+
     def sign(self) -> int:
+        self._require_real("the sign")
         return _sign_of(int(self.x), int(self.y), self.d)
 
     def __eq__(self, other: object) -> bool:
@@ -213,9 +227,11 @@ class QuadraticNumber:
         """
         if not self:
             raise DomainError("log of zero")
+        self._require_real("log |x + y√d|")
         return mpmath.nstr(self.log_abs_mpf(digits), digits, strip_zeros=False)
 
     def log_abs_mpf(self, digits: int = 30) -> mpmath.mpf:
+        self._require_real("log |x + y√d|")
         prec = int(digits * 3.33) + 64
         with mpmath.workprec(prec):
             # For cancelling x, y√d (tiny conjugate-type numbers) use the norm.
@@ -242,18 +258,14 @@ class QuadraticNumber:
         return f"QuadraticNumber({self.x}, {self.y}, {self.c}, {self.d})"
 
     def __str__(self) -> str:
-        y = self.y
-        if y == 0:
-            body = f"{self.x}"
-        else:
-            ytxt = "" if abs(y) == 1 else f"{abs(y)}"
-            op = "+" if y > 0 else "−"
-            body = (
-                f"{self.x} {op} {ytxt}√{self.d}"
-                if self.x != 0
-                else f"{'' if y > 0 else '−'}{ytxt}√{self.d}"
-            )
-        return body if self.c == 1 else f"({body})/{self.c}"
+        """``(x + y√d)/c`` in the house style (minus sign ``−``), exact at any size.
+
+        >>> str(QuadraticNumber(-1, 1, 2, 5)), str(QuadraticNumber(1, 1, 2, -3))
+        ('(−1 + √5)/2', '(1 + √−3)/2')
+        """
+        root = f"√{signed(self.d)}"
+        body = terms_text([(int(self.x), ""), (int(self.y), root)])
+        return body if self.c == 1 else f"({body})/{to_decimal(self.c)}"
 
 
 def _log_abs_sum(x: Any, y: Any, d: int, prec: int) -> mpmath.mpf:

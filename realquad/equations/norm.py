@@ -55,6 +55,7 @@ import mpmath
 
 from realquad._backend import kernels
 from realquad.cfrac import complete_quotients, to_reduced
+from realquad.core.forms import definite_reduce_with_matrix
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import matrix_multiply, matrix_product
 from realquad.core.numbers import pair_multiply, pair_power
@@ -393,27 +394,6 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
 # finite cases
 
 
-def _reduce_definite(
-    A: int, B: int, C: int
-) -> tuple[tuple[int, int, int], tuple[int, int, int, int]]:
-    """Gauss reduction of a positive definite ``A X² + B XY + C Y²``; returns the form and ``U``.
-
-    The reduced form is the original composed with ``(X, Y) ↦ U (X, Y)``.
-    """
-    U = (1, 0, 0, 1)
-    while True:
-        if not -A < B <= A:
-            t = (A - B) // (2 * A)  # B + 2At ∈ (−A, A]
-            C = A * t * t + B * t + C
-            B = B + 2 * A * t
-            U = (U[0], U[0] * t + U[1], U[2], U[2] * t + U[3])
-        if A > C or (A == C and B < 0):
-            A, B, C = C, -B, A
-            U = (U[1], -U[0], U[3], -U[2])
-            continue
-        return (A, B, C), U
-
-
 def definite_solutions(d: int, n: int) -> list[Point]:
     """All solutions of ``x² + |d| y² = n`` (``d < 0``)."""
     if n < 0:
@@ -428,7 +408,7 @@ def definite_solutions(d: int, n: int) -> list[Point]:
         mf = {p: e - 2 * valuation(f, p) for p, e in factors.items()}
         for z in square_roots_mod(d, m, {p: e for p, e in mf.items() if e}):
             # elements X m + Y (z + √d) of J_z; norm = m·(m X² + 2z XY + ((z² − d)/m) Y²)
-            (A, B, C), U = _reduce_definite(m, 2 * z, (z * z - d) // m)
+            (A, B, C), U = definite_reduce_with_matrix(m, 2 * z, (z * z - d) // m)
             if A != 1:
                 continue
             for X1 in (-1, 0, 1):

@@ -1,4 +1,4 @@
-"""How a prime decomposes in a real quadratic order, and which class its prime ideals lie in.
+"""How a prime decomposes in a quadratic order, and which class its prime ideals lie in.
 
 For a prime ``p`` not dividing the conductor ``f`` of the order of
 discriminant ``D``, the Kronecker symbol decides:
@@ -25,6 +25,19 @@ the maximal order (``field_kind``).
 >>> t = decompose_prime(316, 2)            # 2 ramifies into a narrowly principal ideal
 >>> t.kind, t.represented_by_principal, (t.x, t.y), Form.identity(316).value(t.x, t.y)
 ('ramified', True, (1, 1), 2)
+
+For an imaginary order (``D < 0``) narrow and wide classes agree; the
+class of a prime form is trivial exactly when it reduces to the principal
+form, and then the reduction matrix ``M`` (``F·M = (1, b₀, c₀)``) gives
+``p = x² + b₀xy + c₀y²`` at ``(x, y) = (M₂₂, −M₂₁)`` — the answer to "which
+primes are ``x² + ny²``" for the order of discriminant ``−4n`` (Cox, §7).
+
+>>> u = decompose_prime(-56, 23)           # Z[√−14]: 23 = 3² + 14·1²
+>>> u.kind, u.represented_by_principal, (abs(u.x), abs(u.y)), u.classes
+('split', True, (3, 1), [[0], [0]])
+>>> v = decompose_prime(-56, 3)            # 3 splits into ideals of order 4
+>>> v.represented_by_principal, v.form, v.form.value(v.x, v.y), v.classes
+(False, Form(3, 2, 5), 3, [[1], [3]])
 
 References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
 Springer 1993, §5.2 (Proposition 5.1.4 for the decomposition of primes);
@@ -158,7 +171,9 @@ def decompose_prime(
     wide = [group.class_of(G) for G in forms]
     G, M = F.reduce()  # F·M = G, so G(M⁻¹ (1, 0)) = F(1, 0) = p
     principal = group.is_narrowly_principal(F)
-    if principal:
+    if principal and D < 0:  # G is the principal form: it represents p at M⁻¹(1, 0)
+        x, y = M[3], -M[2]
+    elif principal:
         cycle = _cycle if _cycle is not None else _PrincipalCycle(D)
         N = matrix_multiply(cycle.matrix(G), matrix_inverse(M))  # (1, b₀, c₀)·N = F
         x, y = N[0], N[2]
@@ -181,5 +196,5 @@ def split_primes(
     if bound < 2:
         raise InputError(f"the bound must be at least 2, got {bound}")
     group = group if group is not None else class_group(order, method="exact")
-    cycle = _PrincipalCycle(order.discriminant)
+    cycle = _PrincipalCycle(order.discriminant) if order.discriminant > 0 else None
     return [decompose_prime(order, p, group, cycle) for p in primes_below(bound + 1)]

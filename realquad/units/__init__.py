@@ -21,6 +21,9 @@ and the expanded unit through its product tree, so it is kept up to
 :data:`UNIT_PERIOD_LIMIT` (about ``D ≈ 10¹³``, as in the design notes); past
 that the unit could not be printed anyway and stays compact.
 
+An imaginary order has no unit of infinite order; its roots of unity are
+:func:`unit_group`'s (:mod:`realquad.units.roots_of_unity`).
+
 Both methods return the same :class:`~realquad.units.results.Unit` and
 :class:`~realquad.units.results.Regulator`, whose ``method`` says which one ran.
 
@@ -47,6 +50,7 @@ from realquad.core.results import check_method
 from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
+from realquad.units.roots_of_unity import UnitGroup, unit_group
 
 Method = Literal["auto", "cfrac", "bsgs"]
 METHODS = ("auto", "cfrac", "bsgs")
@@ -132,10 +136,13 @@ def regulator(
 __all__ = [
     "DEFAULT_MAX_PERIOD",
     "METHODS",
+    "NO_UNIT_OF_INFINITE_ORDER",
     "Method",
     "Regulator",
     "Unit",
+    "UnitGroup",
     "choose_method",
     "fundamental_unit",
     "regulator",
+    "unit_group",
 ]

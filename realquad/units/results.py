@@ -20,7 +20,10 @@ from realquad.core.results import JSONObject, Proof
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
-NO_UNIT_OF_INFINITE_ORDER = "an imaginary quadratic order has no unit of infinite order"
+NO_UNIT_OF_INFINITE_ORDER = (
+    "an imaginary quadratic order has no unit of infinite order "
+    "(its units are its w = 2, 4 or 6 roots of unity: unit_group)"
+)
 
 
 @dataclass(frozen=True)

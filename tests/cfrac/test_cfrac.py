@@ -71,8 +71,9 @@ def test_rationals():
     assert from_periodic([3, 7, 16], []) == Fraction(355, 113)
 
 
-def _float_value(preperiod: list[int], period: list[int], depth: int = 60) -> mpmath.mpf:
-    terms = list(preperiod) + list(period) * depth
+def _float_value(preperiod: list[int], period: list[int]) -> mpmath.mpf:
+    # at least 200 partial quotients: the slowest convergence (all 1s, φ^−2n) gains 10⁻⁴¹ by then
+    terms = list(preperiod) + list(period) * -(-200 // max(1, len(period)))
     with mpmath.workdps(50):
         x = mpmath.mpf(terms[-1])
         for a in reversed(terms[:-1]):

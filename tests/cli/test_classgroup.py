@@ -86,7 +86,7 @@ def test_split_single_prime_and_conductor(capsys):
 @pytest.mark.parametrize(
     ("args", "needle"),
     [
-        (["classgroup", "-5"], "positive"),
+        (["classgroup", "--disc", "-80", "--method", "bsgs"], "fields"),
         (["classgroup", "16"], "square"),
         (["classgroup", "--disc", "7"], "0 or 1 mod 4"),
         (["classgroup", "5", "--disc", "5"], "either"),
@@ -96,7 +96,7 @@ def test_split_single_prime_and_conductor(capsys):
         (["split", "79", "--prime", "-3"], "prime"),
         (["split", "79", "--primes-up-to", "-3"], "between"),
         (["split", "79", "--primes-up-to", "10", "--prime", "3"], "not both"),
-        (["split", "-79"], "positive"),
+        (["split", "-79", "--prime", "9"], "prime"),
     ],
 )
 def test_bad_input(capsys, args, needle):

@@ -139,7 +139,11 @@ OWN_CASES: list[tuple[list[str], int, str]] = [
     (["survey", "query", "--db", "missing.sqlite"], 2, "no survey database"),
     (["survey", "report", "--db", "missing.sqlite"], 2, "no survey database"),
     (["survey", "query", "--unit-norm", "2", "--db", "missing.sqlite"], 2, "unit-norm"),
-    (["survey", "query", "--d-min", "9", "--d-max", "3", "--db", "missing.sqlite"], 2, "empty range"),
+    (
+        ["survey", "query", "--d-min", "9", "--d-max", "3", "--db", "missing.sqlite"],
+        2,
+        "empty range",
+    ),
     (["survey", "query", "--csv", "--json", "--db", "missing.sqlite"], 2, "not both"),
     # numbers: signs, squares, zero, the wrong residue, huge but readable, the Unicode minus
     (["pell", "-5"], 2, "positive"),
@@ -187,7 +191,7 @@ OWN_CASES: list[tuple[list[str], int, str]] = [
     (["cfrac", "(" * 200 + "1" + ")" * 200], 2, "nested"),
     (["cfrac", "x" * 20000], 2, "longer than"),
     (["cfrac", "sqrt(" + "9" * 5000 + ")"], 2, "4000 digits"),
-    (["cfrac", "sqrt(1" + "0" * 40 + "1)"], 0, ""),  # √(n² + 1): period 1
+    (["cfrac", "sqrt(1" + "0" * 39 + "1)"], 0, ""),  # √(10⁴⁰ + 1) = √(n² + 1): period 1
     (["cfrac", "sqrt(1" + "0" * 29 + "57)"], 2, "period"),
     (["cfrac", "(1 + sqrt(1" + "0" * 29 + "57))/2"], 2, "period"),
     # equations

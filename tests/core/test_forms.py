@@ -64,7 +64,9 @@ def brute_force_reduced(D: int) -> set[Form]:
 
 def test_bad_forms():
     with pytest.raises(DomainError):
-        Form(1, 0, 1)  # definite
+        Form(-1, 0, -1)  # negative definite (positive definite forms are accepted)
+    with pytest.raises(DomainError):
+        Form(1, 2, 1)  # discriminant 0
     with pytest.raises(DomainError):
         Form(1, 2, 0)  # square discriminant 4
     with pytest.raises(InputError):
@@ -186,14 +188,14 @@ def test_prime_forms(D):
     st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30), st.integers(-(10**30), 10**30)
 )
 def test_fuzz_constructor(a, b, c):
-    # any integer triple: a valid indefinite form, or one clear realquad error
+    # any integer triple: a valid indefinite or positive definite form, or one clear realquad error
     from realquad.errors import RealquadError
 
     try:
         F = Form(a, b, c)
     except RealquadError:
         return
-    assert F.discriminant > 0
+    assert F.discriminant > 0 or F.a > 0
     if F.is_primitive() and a:
         G, M = F.reduce()
         assert F.act(M) == G and G.is_reduced()

@@ -1,0 +1,179 @@
+"""Pure-Python twin of ``definite_kernels.c``: positive definite forms and the class groups of ``D < 0``.
+
+A positive definite form ``(a, b, c)``, ``a > 0``, ``D = b² − 4ac < 0``, is
+*reduced* when ``|b| ≤ a ≤ c`` and ``b ≥ 0`` if ``|b| = a`` or ``a = c``;
+every class holds exactly one reduced form (Gauss; Cohen, §5.3.1), and its
+``a`` is at most ``√(|D|/3)``. So the class group of the order of
+discriminant ``D`` is walked by storing one reduced form per class, generated
+by the prime forms (and, for primes dividing the conductor, the primitive
+forms of prime-power norm) of norm at most ``√(|D|/3)``.
+
+Every function here has the same signature and the same results as its
+compiled counterpart (the C file of the same name, registered in
+``_ckernels.c``); the tests compare the two directly. These work for integers
+of any size, the compiled ones only below their stated word-size limits:
+beyond them they raise ``OverflowError`` and :func:`realquad._backend.call_kernel`
+falls back to these. Plain ints in, plain ints out. Reach them only through
+:mod:`realquad._backend`.
+
+References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
+Springer 1993, Alg. 5.4.2 (reduction) and Def. 5.4.6 (composition);
+J. Buchmann and U. Vollmer, *Binary Quadratic Forms*, Springer 2007, ch. 5.
+"""
+
+from __future__ import annotations
+
+import math
+
+from realquad._kernels.form_kernels import form_compose
+from realquad._kernels.prime_form_kernels import prime_form_b
+
+
+def definite_reduce(a: int, b: int, c: int) -> tuple[int, int, int]:
+    """The reduced form properly equivalent to the positive definite ``(a, b, c)``.
+
+    Normalise ``b`` into ``(−a, a]``, swap ``(a, b, c) → (c, −b, a)`` while
+    ``a > c``, and make ``b ≥ 0`` when ``a = c``.
+
+    >>> definite_reduce(3, 10, 9), definite_reduce(1, 1, 6)
+    ((1, 0, 2), (1, 1, 6))
+    """
+    D = b * b - 4 * a * c
+    while True:
+        if b <= -a or b > a:
+            r = b % (2 * a)
+            if r > a:
+                r -= 2 * a
+            b = r
+            c = (b * b - D) // (4 * a)
+        if a > c:
+            a, b, c = c, -b, a
+            continue
+        if b < 0 and a == c:
+            b = -b
+        return a, b, c
+
+
+def definite_compose_reduce(a1: int, b1: int, a2: int, b2: int, D: int) -> tuple[int, int, int]:
+    """The reduced form of the Dirichlet composite of ``(a1, b1, ·)`` and ``(a2, b2, ·)``.
+
+    >>> definite_compose_reduce(2, 2, 2, 2, -20)   # (2, 2, 3)² = 1 in Cl(−20) ≅ Z/2
+    (1, 0, 5)
+    """
+    A, B, C = form_compose(a1, b1, a2, b2, D)
+    return definite_reduce(A, B, C)
+
+
+def definite_class_candidates(
+    D: int, conductor: int, primes: list[int]
+) -> list[tuple[int, int, int]]:
+    """Generators of the class group of ``D < 0``, as reduced forms.
+
+    For each prime ``p`` of ``primes`` with ``3p² ≤ |D|`` not dividing
+    ``conductor`` its prime form (:func:`prime_form_b`), and for ``p`` dividing
+    it every primitive ``(q, b, c)``, ``q = p^k``, ``3q² ≤ |D|``, ``−q < b ≤ q``.
+
+    >>> definite_class_candidates(-20, 1, [2, 3, 5])
+    [(2, 2, 3)]
+    """
+    out = []
+    for p in primes:
+        if 3 * p * p > -D:
+            break
+        if conductor % p:
+            b = prime_form_b(D, p)
+            if b >= 0:
+                out.append(definite_reduce(p, b, (b * b - D) // (4 * p)))
+            continue
+        q = p
+        while 3 * q * q <= -D:
+            for b in range(-q + 1, q + 1):
+                if (b - D) % 2 == 0 and (b * b - D) % (4 * q) == 0:
+                    c = (b * b - D) // (4 * q)
+                    if math.gcd(math.gcd(q, b), c) == 1:
+                        out.append(definite_reduce(q, b, c))
+            q *= p
+    return out
+
+
+def definite_class_table(
+    D: int,
+    candidates: list[tuple[int, int, int]],
+    max_forms: int,
+    progress: object = None,
+) -> tuple[dict, list, list, list, list] | None:
+    """Every class of ``D < 0`` (one reduced form each), reached from ``1`` by the ``candidates``.
+
+    The ``candidates`` must be reduced forms (as :func:`definite_class_candidates` gives).
+
+    Returns ``(index, representatives, vectors, generators, relations)``:
+    ``index`` maps the reduced form ``(a, b)`` of class ``i`` to ``i``,
+    ``representatives[i]`` is that form, ``vectors[i]`` writes class ``i`` on
+    ``generators``, and the ``relations`` are triangular with
+    ``∏ diagonal = h``. ``None`` when there are more than ``max_forms``
+    classes. ``progress`` (a callable or ``None``) hears the class count
+    every 1000 classes.
+
+    >>> index, reps, vectors, gens, rels = definite_class_table(-56, [(2, 0, 7), (3, 2, 5)], 100)
+    >>> reps, gens, rels
+    ([(1, 0, 14), (2, 0, 7), (3, 2, 5), (3, -2, 5)], [(2, 0, 7), (3, 2, 5)], [[2], [-1, 2]])
+    """
+    b0 = D % 2
+    start = (1, b0, (b0 - D) // 4)
+    index = {(1, b0): 0}
+    representatives = [start]
+    vectors: list[tuple[int, ...]] = [()]
+    generators: list[tuple[int, int, int]] = []
+    relations: list[list[int]] = []
+    for g in candidates:
+        if (g[0], g[1]) in index:
+            continue
+        gi = len(generators)
+        generators.append(g)
+        n = len(representatives)
+        x = g
+        j = 1
+        while True:
+            hit = index.get((x[0], x[1]))
+            if hit is not None:
+                old = vectors[hit]
+                relations.append([-v for v in old] + [0] * (gi - len(old)) + [j])
+                break
+            if len(representatives) + n > max_forms:
+                return None
+            for h in range(n):
+                if h == 0:
+                    y = x
+                else:
+                    rep = representatives[h]
+                    y = definite_compose_reduce(x[0], x[1], rep[0], rep[1], D)
+                cls = len(representatives)
+                index[(y[0], y[1])] = cls
+                representatives.append(y)
+                old = vectors[h]
+                vectors.append(old + (0,) * (gi - len(old)) + (j,))
+                if progress is not None and cls % 1000 == 0:
+                    progress(cls)  # type: ignore[operator]
+            x = definite_compose_reduce(x[0], x[1], g[0], g[1], D)
+            j += 1
+    return index, representatives, vectors, generators, relations
+
+
+def definite_class_relations(
+    D: int, conductor: int, primes: list[int], max_forms: int
+) -> tuple[int, list[tuple[int, int, int]], list[list[int]]] | None:
+    """``(h, generators, relations)`` of :func:`definite_class_table` without the per-class data.
+
+    The candidates are :func:`definite_class_candidates` of ``primes``;
+    ``None`` beyond ``max_forms`` classes.
+
+    >>> definite_class_relations(-56, 1, [2, 3, 5], 100)
+    (4, [(2, 0, 7), (3, 2, 5)], [[2], [-1, 2]])
+    """
+    table = definite_class_table(
+        D, definite_class_candidates(D, conductor, primes), max_forms, None
+    )
+    if table is None:
+        return None
+    _, representatives, _, generators, relations = table
+    return len(representatives), generators, relations
