@@ -14,7 +14,7 @@ fundamental unit (:func:`realquad.units.fundamental_unit`).
 >>> unit_group(-4).roots_of_unity, str(unit_group(-4).generator)
 (4, '√−1')
 >>> unit_group(-12).roots_of_unity, str(unit_group(-20).generator), unit_group(5).rank
-(2, '-1', 1)
+(2, '−1', 1)
 
 Reference: D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989,
 Exercise 7.9 (units of orders, used in Theorem 7.24); H. Cohen, *A Course in
