@@ -75,6 +75,7 @@ LEVELS: dict[str, list[set[str]]] = {
     "realquad.splitting": [{"decomposition"}],
     "realquad.equations": [
         {"parser", "families"},
+        {"finite"},
         {"pell"},
         {"norm"},
         {"binary"},

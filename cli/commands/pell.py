@@ -36,7 +36,7 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
     sol = pell(d_value, n_value)
     payload = sol.to_dict()
     sizer = Sizer(max_digits)
-    lines = [f"x² − {sizer.text(sol.d)}·y² = {signed(sol.norm)}"]
+    lines = [f"x² {'−' if sol.d > 0 else '+'} {sizer.text(abs(sol.d))}·y² = {signed(sol.norm)}"]
     if sol.solvable and sol.x is not None and sol.y is not None:
         lines += [
             f"x = {sizer.text(sol.x)}",

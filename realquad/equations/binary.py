@@ -58,13 +58,8 @@ from realquad.equations.families import (
     QuadraticSolutions,
     sort_points,
 )
-from realquad.equations.norm import (
-    balanced_representative,
-    definite_solutions,
-    norm_classes,
-    pell_units,
-    square_solutions,
-)
+from realquad.equations.finite import definite_solutions, square_solutions
+from realquad.equations.norm import balanced_representative, norm_classes, pell_units
 from realquad.equations.pell import pell
 from realquad.errors import DomainError, TooLargeError
 from realquad.textio import decimal_digits

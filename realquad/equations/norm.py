@@ -55,12 +55,10 @@ import mpmath
 
 from realquad._backend import kernels
 from realquad.cfrac import complete_quotients, to_reduced
-from realquad.core.forms import definite_reduce_with_matrix
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import matrix_multiply, matrix_product
 from realquad.core.numbers import pair_multiply, pair_power
 from realquad.core.primes import (
-    divisors,
     divisors_from_factorization,
     factorize,
     square_roots_mod,
@@ -72,8 +70,8 @@ from realquad.equations.families import (
     OrbitFamily,
     Point,
     QuadraticSolutions,
-    sort_points,
 )
+from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.equations.pell import pell
 from realquad.errors import TooLargeError
 
@@ -388,46 +386,6 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
             classes.add((f * w[0], f * w[1]))
     method = "; ".join(sorted(methods))
     return sorted(classes, key=lambda v: (v[1], v[0])), method
-
-
-# ---------------------------------------------------------------------------
-# finite cases
-
-
-def definite_solutions(d: int, n: int) -> list[Point]:
-    """All solutions of ``x² + |d| y² = n`` (``d < 0``)."""
-    if n < 0:
-        return []
-    if n == 0:
-        return [(0, 0)]
-    factors = factorize(n)
-    out: set[Point] = set()
-    fs = divisors_from_factorization({p: e // 2 for p, e in factors.items() if e >= 2})
-    for f in fs:
-        m = n // (f * f)
-        mf = {p: e - 2 * valuation(f, p) for p, e in factors.items()}
-        for z in square_roots_mod(d, m, {p: e for p, e in mf.items() if e}):
-            # elements X m + Y (z + √d) of J_z; norm = m·(m X² + 2z XY + ((z² − d)/m) Y²)
-            (A, B, C), U = definite_reduce_with_matrix(m, 2 * z, (z * z - d) // m)
-            if A != 1:
-                continue
-            for X1 in (-1, 0, 1):
-                for Y1 in (-1, 0, 1):
-                    if X1 * X1 + B * X1 * Y1 + C * Y1 * Y1 == 1:
-                        X, Y = U[0] * X1 + U[1] * Y1, U[2] * X1 + U[3] * Y1
-                        out.add((f * (X * m + Y * z), f * Y))
-    return sort_points(out)
-
-
-def square_solutions(s: int, n: int) -> list[Point]:
-    """All solutions of ``(x − sy)(x + sy) = n`` with ``s ≥ 1``, ``n ≠ 0``."""
-    out: set[Point] = set()
-    for e in divisors(n):
-        for u in (e, -e):
-            v = n // u  # u = x − sy, v = x + sy
-            if (u + v) % 2 == 0 and (v - u) % (2 * s) == 0:
-                out.add(((u + v) // 2, (v - u) // (2 * s)))
-    return sort_points(out)
 
 
 def _result(d: int, n: int, **kw: object) -> NormEquationSolution:

@@ -31,9 +31,9 @@ from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.lfunction import estimated_period
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
-from realquad.core.primes import divisors_from_factorization, factorize
 from realquad.core.results import JSONObject, Proof
-from realquad.equations.families import point_dict
+from realquad.equations.families import Point, point_dict
+from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.errors import InputError, TooLargeError
 from realquad.textio import about, decimal_digits, shown, signed
 from realquad.units import DEFAULT_MAX_PERIOD, Unit, fundamental_unit
@@ -143,21 +143,31 @@ class PellSolution:
 
 def _square_case(d: int, N: int) -> PellSolution:
     s = isqrt(d)
-    sols: set[tuple[int, int]] = set()
-    for e in divisors_from_factorization(factorize(N)):
-        for a, b in ((e, N // e), (-e, -(N // e))):
-            # a = x − s y, b = x + s y
-            if (a + b) % 2 == 0 and (b - a) % (2 * s) == 0:
-                x, y = (a + b) // 2, (b - a) // (2 * s)
-                if x >= 0 and y >= 0:
-                    sols.add((x, y))
-    ordered = sorted(sols, key=lambda t: (t[1], t[0]))
+    reason = (
+        f"d = {shown(d)} = {shown(s)}² is a perfect square, so x² − dy² = (x − {shown(s)}y)(x + {shown(s)}y) "
+        f"= {signed(N)} has only finitely many solutions"
+    )
+    return _finite_case(
+        d, N, square_solutions(s, N), "factorisation of the norm (square d)", reason
+    )
+
+
+def _definite_case(d: int, N: int) -> PellSolution:
+    reason = (
+        f"d = {shown(d)} < 0, so x² − dy² = x² + {shown(-d)}y² is positive definite and "
+        f"= {signed(N)} has only finitely many solutions"
+    )
+    method = "square roots of d mod |N| and reduction of positive definite forms"
+    return _finite_case(d, N, definite_solutions(d, N), method, reason)
+
+
+def _finite_case(d: int, N: int, solutions: list[Point], method: str, reason: str) -> PellSolution:
+    """The answer when there are finitely many solutions: those with ``x, y ≥ 0``, least ``y > 0`` first."""
+    ordered = sorted(
+        {(x, y) for x, y in solutions if x >= 0 and y >= 0}, key=lambda t: (t[1], t[0])
+    )
     positive = [t for t in ordered if t[1] > 0]
     best = positive[0] if positive else (ordered[0] if ordered else None)
-    reason = (
-        f"d = {d} = {s}² is a perfect square, so x² − dy² = (x − {s}y)(x + {s}y) = {N} "
-        f"has only finitely many solutions: {len(ordered)} with x, y ≥ 0"
-    )
     return PellSolution(
         d=d,
         norm=N,
@@ -165,8 +175,8 @@ def _square_case(d: int, N: int) -> PellSolution:
         x=best[0] if best else None,
         y=best[1] if best else None,
         period_length=None,
-        method="factorisation of the norm (square d)",
-        reason=reason,
+        method=method,
+        reason=f"{reason}: {len(ordered)} with x, y ≥ 0",
         finite_solutions=ordered,
     )
 
@@ -184,8 +194,10 @@ def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSol
     N = as_integer(norm, "norm")
     if N not in PELL_NORMS:
         raise InputError(f"norm must be one of 1, -1, 4, -4, got {N}")
-    if d <= 0:
-        raise InputError(f"d must be a positive integer, got {shown(d)}")
+    if d == 0:
+        raise InputError("d must not be 0 (x² = N holds for every y)")
+    if d < 0:
+        return _definite_case(d, N)
     if is_square(d):
         return _square_case(d, N)
     D = pell_discriminant(d, N)

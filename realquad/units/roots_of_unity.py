@@ -27,7 +27,7 @@ from dataclasses import dataclass
 
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
-from realquad.core.results import Proof
+from realquad.core.results import JSONObject, Proof
 
 METHOD = "roots of unity of a quadratic order: w = 4 for D = −4, 6 for D = −3, 2 otherwise"
 
@@ -46,6 +46,24 @@ class UnitGroup:
     rank: int
     method: str = METHOD
     proof: Proof = "unconditional"
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of the roots of unity (``docs/json.md``, *UnitGroup*).
+
+        The regulator of an order without units of infinite order is 0 by convention.
+
+        >>> unit_group(-4).to_dict()["generator"]
+        {'x': 0, 'y': 1, 'denominator': 1, 'radicand': -1}
+        """
+        return {
+            "order": self.order.to_dict(),
+            "roots_of_unity": self.roots_of_unity,
+            "generator": self.generator.to_dict(),
+            "rank": self.rank,
+            "regulator": "0" if self.rank == 0 else None,
+            "method": self.method,
+            "proof": self.proof,
+        }
 
 
 def unit_group(order: Order | int) -> UnitGroup:

@@ -92,14 +92,13 @@ def test_max_digits_text(capsys):
 @pytest.mark.parametrize(
     "args,needle",
     [
-        (["pell", "-5"], "positive"),
-        (["pell", "0"], "positive"),
+        (["pell", "0"], "must not be 0"),
         (["pell", "abc"], "integer"),
         (["pell", "2.5"], "integer"),
         (["pell", "7", "--norm", "3"], "norm"),
         (["pell", "7", "--norm", "x"], "integer"),
         (["unit", "9"], "perfect square"),
-        (["unit", "-3"], "positive"),
+        (["unit", "0"], "non-zero"),
         (["unit", "--disc", "7"], "0 or 1 mod 4"),
         (["unit", "--disc", "16"], "perfect square"),
         (["unit"], "either"),
@@ -165,7 +164,7 @@ def test_subprocess_smoke(args):
 
 def test_subprocess_error_exit_status():
     proc = subprocess.run(
-        [sys.executable, "-m", "realquad", "pell", "-5"],
+        [sys.executable, "-m", "realquad", "pell", "0"],
         capture_output=True,
         text=True,
         timeout=120,

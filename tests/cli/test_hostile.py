@@ -146,9 +146,9 @@ OWN_CASES: list[tuple[list[str], int, str]] = [
     ),
     (["survey", "query", "--csv", "--json", "--db", "missing.sqlite"], 2, "not both"),
     # numbers: signs, squares, zero, the wrong residue, huge but readable, the Unicode minus
-    (["pell", "-5"], 2, "positive"),
-    (["pell", "0"], 2, "positive"),
-    (["pell", "−5"], 2, "positive"),
+    (["pell", "-5"], 0, ""),  # x² + 5y² = 1: the finite answer
+    (["pell", "0"], 2, "not be 0"),
+    (["pell", "−5", "--norm", "-1"], 0, ""),
     (["pell", "7", "--norm", "3"], 2, "norm"),
     (["pell", "7", "--norm", "0"], 2, "norm"),
     (["pell", "61", "--norm", "−1"], 0, ""),
@@ -161,11 +161,12 @@ OWN_CASES: list[tuple[list[str], int, str]] = [
     (["unit", "9"], 2, "perfect square"),
     (["unit", "0"], 2, "non-zero"),
     (["unit", "1"], 2, "perfect square"),
-    (["unit", "-3"], 2, "positive discriminant"),
+    (["unit", "-3"], 0, ""),  # the roots of unity of Q(√−3)
     (["unit", "--disc", "7"], 2, "0 or 1 mod 4"),
     (["unit", "--disc", "16"], 2, "square"),
     (["unit", "--disc", "0"], 2, "not be 0"),
-    (["unit", "--disc", "-20"], 2, "positive discriminant"),
+    (["unit", "--disc", "-20"], 0, ""),
+    (["unit", "--disc", "-20", "--method", "bsgs"], 0, ""),
     (["unit", "--disc", LONG], 2, "beyond reach"),
     (["unit", "--disc", "1" + "0" * 99 + "1"], 2, "beyond reach"),
     (["unit", "1000000000000000000000000000001", "--method", "cfrac"], 0, ""),  # n² + 1: period 3

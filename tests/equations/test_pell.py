@@ -165,10 +165,24 @@ def test_square_d_finite():
     assert pell(4, -4).finite_solutions == [(0, 1)]
 
 
-@pytest.mark.parametrize("bad", [0, -5, "x", "2.5", True])
+@pytest.mark.parametrize("bad", [0, "x", "2.5", True])
 def test_bad_d(bad):
     with pytest.raises(InputError):
         pell(bad)
+
+
+@pytest.mark.parametrize("d", [-1, -2, -5, -7, -163])
+@pytest.mark.parametrize("norm", [1, -1, 4, -4])
+def test_negative_d_has_the_finite_answer(d, norm):
+    # x² + |d|y² = N: brute force over the box |x|, |y| ≤ 2 (it holds every solution for N ≤ 4)
+    sol = pell(d, norm)
+    brute = sorted(
+        {(x, y) for x in range(0, 3) for y in range(0, 3) if x * x - d * y * y == norm},
+        key=lambda t: (t[1], t[0]),
+    )
+    assert sol.finite_solutions == brute and sol.solvable == bool(brute)
+    if sol.solvable:
+        assert sol.x * sol.x - d * sol.y * sol.y == norm
 
 
 @pytest.mark.parametrize("norm", [0, 2, -2, 3, 5, 16])
