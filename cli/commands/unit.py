@@ -16,10 +16,10 @@ from realquad_cli.output import (
 )
 from realquad_cli.progress import ProgressLine
 
+from realquad.core.orders import Order
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.textio import MINUS, plural, signed, terms_text, to_decimal
-from realquad.core.orders import Order
 from realquad.units import METHODS, fundamental_unit, unit_group
 
 
