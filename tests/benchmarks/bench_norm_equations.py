@@ -19,7 +19,7 @@ from collections.abc import Callable
 from typing import Any
 
 from realquad.core.primes import kronecker
-from realquad.equations.norm import _cycle_leaves, _principal_cycle, _units, solve_norm_equation
+from realquad.equations.norm import _cycle_leaves, _principal_cycle, pell_units, solve_norm_equation
 
 LARGE = [(10**12 + 1234567, -1), (10**12 + 3 * 10**6, -1), (10**12 + 39, -1), (10**12 + 39, 1)]
 
@@ -50,7 +50,7 @@ def twelve_prime_n(d: int) -> int:
 def _families(d: int, n: int) -> Callable[[], Any]:
     def run() -> int:
         _principal_cycle.cache_clear()
-        _units.cache_clear()
+        pell_units.cache_clear()
         _cycle_leaves.cache_clear()
         return len(solve_norm_equation(d, n).families)
 
