@@ -3,8 +3,9 @@
 Commands hand an instance to the library as its ``progress`` callback
 (:data:`realquad.core.progress.Progress`: ``progress(what, amount)``). Nothing
 is printed for the first :data:`QUIET_SECONDS` seconds, nor more often than
-every :data:`EVERY_SECONDS` seconds, nor when stderr is not a terminal (so
-pipes and files stay clean). :class:`ElapsedTicker` does the same for a
+every :data:`EVERY_SECONDS` seconds on a terminal; when stderr is a pipe or a
+file, plain lines come at most every :data:`PLAIN_EVERY_SECONDS` seconds, so a
+log shows a long run is alive without filling up. :class:`ElapsedTicker` does the same for a
 computation that reports nothing itself: the time elapsed so far.
 """
 
@@ -18,8 +19,10 @@ import click
 
 #: Runs shorter than this print no progress at all.
 QUIET_SECONDS = 2.0
-#: Least time between two progress lines.
+#: Least time between two progress lines on a terminal.
 EVERY_SECONDS = 2.0
+#: Least time before the first and between two progress lines when stderr is not a terminal.
+PLAIN_EVERY_SECONDS = 10.0
 
 
 class ProgressLine:
@@ -28,14 +31,16 @@ class ProgressLine:
     def __init__(self, force: bool = False) -> None:
         self.start = time.monotonic()
         self.last = self.start
-        self.enabled = force or sys.stderr.isatty()
+        terminal = force or sys.stderr.isatty()
+        self.quiet = QUIET_SECONDS if terminal else PLAIN_EVERY_SECONDS
+        self.every = EVERY_SECONDS if terminal else PLAIN_EVERY_SECONDS
 
     def __enter__(self) -> ProgressLine:
         return self
 
     def __call__(self, what: str, amount: float) -> None:
         now = time.monotonic()
-        if not self.enabled or now - self.start < QUIET_SECONDS or now - self.last < EVERY_SECONDS:
+        if now - self.start < self.quiet or now - self.last < self.every:
             return
         self.last = now
         shown = f"{amount:,}" if isinstance(amount, int) else f"{amount:.4g}"
@@ -50,21 +55,19 @@ class ElapsedTicker:
 
     def __init__(self, what: str) -> None:
         self.what, self.stop = what, threading.Event()
-        self.thread = (
-            threading.Thread(target=self._run, daemon=True) if sys.stderr.isatty() else None
-        )
+        self.every = EVERY_SECONDS if sys.stderr.isatty() else PLAIN_EVERY_SECONDS
+        self.thread = threading.Thread(target=self._run, daemon=True)
 
     def _run(self) -> None:
         start = time.monotonic()
-        while not self.stop.wait(EVERY_SECONDS):
+        while not self.stop.wait(self.every):
             click.echo(
                 f"realquad: {self.what}: {time.monotonic() - start:.0f} s so far (Ctrl-C stops)",
                 err=True,
             )
 
     def __enter__(self) -> ElapsedTicker:
-        if self.thread is not None:
-            self.thread.start()
+        self.thread.start()
         return self
 
     def __exit__(self, *exc: object) -> None:
