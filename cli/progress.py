@@ -38,16 +38,32 @@ class ProgressLine:
     def __enter__(self) -> ProgressLine:
         return self
 
-    def __call__(self, what: str, amount: float) -> None:
+    def __call__(self, what: str, amount: float, expected: float | None = None) -> None:
         now = time.monotonic()
         if now - self.start < self.quiet or now - self.last < self.every:
             return
         self.last = now
         shown = f"{amount:,}" if isinstance(amount, int) else f"{amount:.4g}"
-        click.echo(f"realquad: {what}: {shown} so far (Ctrl-C stops)", err=True)
+        click.echo(
+            f"realquad: {what}: {shown}{_remaining(amount, expected, now - self.start)} (Ctrl-C stops)",
+            err=True,
+        )
 
     def __exit__(self, *exc: object) -> None:
         return None
+
+
+def _remaining(amount: float, expected: float | None, elapsed: float) -> str:
+    """`` of about E, about N s left`` from the rate so far (empty without an estimate).
+
+    >>> _remaining(25, 100.0, 10.0), _remaining(5, None, 3.0)
+    (' of about 100 (25 %), about 30 s left', ' so far')
+    """
+    if not expected or amount <= 0:
+        return " so far"
+    share = min(amount / expected, 0.99)
+    left = elapsed * (1 - share) / share
+    return f" of about {expected:.4g} ({100 * share:.0f} %), about {left:,.0f} s left"
 
 
 class ElapsedTicker:

@@ -462,7 +462,7 @@ def search_class_group(
                 _extend(classes, (a, b), generators, relations, estimate / R)
         product_below *= p
         if progress is not None:
-            progress("classes found", len(classes))
+            progress("classes found", len(classes), estimate / R)  # about h
     counts = (bound, identified, smooth)
     return _finish(order, cycle, classes, generators, relations, unit_norm, search, counts)
 

@@ -46,10 +46,11 @@ from typing import Any
 from realquad._backend import call_kernel
 from realquad.classgroup.group import ClassGroup, ClassTable, Triple, forms_from_vectors
 from realquad.core.integers import isqrt
+from realquad.core.lfunction import estimate_hR
 from realquad.core.linalg import SmithForm, smith_normal_form
 from realquad.core.orders import Order
 from realquad.core.primes import primes_below
-from realquad.core.progress import Progress
+from realquad.core.progress import Progress, expecting
 from realquad.errors import TooLargeError
 from realquad.units import fundamental_unit
 
@@ -160,7 +161,8 @@ def class_group_exact(
         raise TooLargeError(_too_large(D, limit))
     table: ClassTable | None = None
     if progress is not None:  # long runs: the full table reports its progress
-        table = class_table(D, order.conductor, max_forms, progress)
+        expected = 2 * estimate_hR(D).value / float(unit.regulator(15).value)  # about h⁺
+        table = class_table(D, order.conductor, max_forms, expecting(progress, expected))
         h_plus, j_principal = table.narrow_class_number, table.j_is_principal
         generators, relations = table.generators, table.relations
     else:

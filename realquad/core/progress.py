@@ -1,8 +1,10 @@
 """The one shape of a progress callback.
 
-Long computations accept ``progress``, a callable taking ``(what, amount)``:
-``what`` names the quantity in words (``"distance searched"``, ``"classes
-found"``) and ``amount`` is how far it has come. The library calls it now and
+Long computations accept ``progress``, a callable taking ``(what, amount)``
+or ``(what, amount, expected)``: ``what`` names the quantity in words
+(``"distance searched"``, ``"classes found"``), ``amount`` is how far it has
+come, and ``expected``, when the computation can estimate it, about where it
+will end (an estimate for the listener, never a bound). The library calls it now and
 then (never more than a few times a second); the command line turns it into a
 line on a terminal's stderr. ``None`` means nobody is listening.
 
@@ -16,5 +18,22 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-#: ``progress(what, amount)``: a long computation reports how far it has come.
-Progress = Callable[[str, float], None]
+#: ``progress(what, amount[, expected])``: a long computation reports how far it has come.
+Progress = Callable[..., None]
+
+
+def expecting(progress: Progress | None, expected: float | None) -> Progress | None:
+    """``progress`` with ``expected`` passed along on every call (``None`` stays ``None``).
+
+    >>> seen = []
+    >>> expecting(lambda *args: seen.append(args), 100.0)("classes found", 3); seen
+    [('classes found', 3, 100.0)]
+    """
+    if progress is None or expected is None:
+        return progress
+    listener = progress
+
+    def report(what: str, amount: float) -> None:
+        listener(what, amount, expected)
+
+    return report

@@ -61,6 +61,7 @@ import mpmath
 
 from realquad.core.lfunction import estimate_hR
 from realquad.core.primes import primes_below
+from realquad.core.progress import expecting
 from realquad.core.results import Proof
 from realquad.infrastructure.distances import (
     Factors,
@@ -157,6 +158,7 @@ def search_regulator(
     table = BabyStepTable(
         cycle, capacity=min(max_table, int(target / 1.1)) + CHECKPOINT, max_ideals=max_table
     )
+    progress = expecting(progress, _planned_distance(cycle, estimate, max_table))
     table.extend(target, progress)
     giant = 0
     if table.period is not None:

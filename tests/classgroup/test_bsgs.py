@@ -218,7 +218,8 @@ def test_relations_hold_in_the_group() -> None:
 def test_progress_reports_the_classes_found() -> None:
     seen: list[int] = []
     G = search_class_group(
-        10**10 + 37, progress=lambda what, n: seen.append(n) if what == "classes found" else None
+        10**10 + 37,
+        progress=lambda what, n, *expected: seen.append(n) if what == "classes found" else None,
     )
     assert seen and seen == sorted(seen) and seen[-1] == G.class_number
 

@@ -123,7 +123,11 @@ def test_progress_callback_sees_the_search(capsys) -> None:  # type: ignore[no-u
     seen: list[float] = []
     # no estimate to go by (10 ≪ R): the giant steps sweep all the way to R, about 10⁴ of them
     search_regulator(
-        10**18 + 9, 20, max_table=20000, estimate=10.0, progress=lambda what, x: seen.append(x)
+        10**18 + 9,
+        20,
+        max_table=20000,
+        estimate=10.0,
+        progress=lambda what, x, *expected: seen.append(x),
     )
     assert seen and seen == sorted(seen)  # giant steps only move forward
 

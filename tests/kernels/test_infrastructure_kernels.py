@@ -257,7 +257,7 @@ def test_progress_callback_can_stop_the_search() -> None:
 
     seen: list[float] = []
 
-    def progress(what: str, g: float) -> None:
+    def progress(what: str, g: float, expected: float | None = None) -> None:
         assert what == "distance searched"
         seen.append(g)
         if len(seen) == 3:
