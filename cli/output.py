@@ -23,7 +23,8 @@ import gmpy2
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
-from realquad.textio import MINUS, to_decimal
+from realquad.infrastructure.compact import CompactRepresentation
+from realquad.textio import MINUS, plural, terms_text, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -328,3 +329,17 @@ def emit(payload: dict[str, Any], text: str, as_json: bool, max_digits: int | No
     if max_digits is not None:
         bounded["truncated"] = sizer.cut
     click.echo(sizer.json(bounded))
+
+
+def compact_text(form: CompactRepresentation, name: str) -> str:
+    """The compact representation as lines: ``name = ±∏ αᵢ^eᵢ`` and one line per factor."""
+    D = form.discriminant
+    sign = MINUS if form.sign < 0 else ""
+    lines = [
+        f"compact form: {name} = {sign}∏ αᵢ^eᵢ over {plural(form.size, 'factor')} αᵢ = (x + y√{D})/z:"
+    ]
+    for chain in form.chains:
+        for a, e in chain.factors:
+            number = terms_text([(int(a.x), ""), (int(a.y), f"√{D}")])
+            lines.append(f"  ({number})/{a.c} ^ {e}")
+    return "\n".join(lines)

@@ -7,6 +7,7 @@ from realquad_cli.output import (
     Command,
     Sizer,
     check_output_path,
+    compact_text,
     emit,
     json_option,
     size_options,
@@ -43,6 +44,14 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
             f"y = {sizer.text(sol.y)}",
             f"x has {plural(payload['digits'], 'digit')}",
         ]
+    elif sol.solvable and sol.compact is not None:
+        shape = "x + y√d" if abs(sol.norm) == 1 else "(x + y√d)/2"
+        about = "" if sol.digits_exact else "about "
+        lines.append(
+            f"x has {about}{plural(sol.digits or 0, 'digit')}: kept in compact form "
+            f"({shape} as a product of small numbers; --json gives it)"
+        )
+        lines.append(compact_text(sol.compact, shape))
     else:
         lines.append("no solution")
     if sol.period_length is not None:

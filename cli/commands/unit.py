@@ -9,6 +9,7 @@ from realquad_cli.output import (
     IntegerRange,
     Sizer,
     check_output_path,
+    compact_text,
     emit,
     json_option,
     size_options,
@@ -19,7 +20,7 @@ from realquad_cli.progress import ProgressLine
 from realquad.core.orders import Order
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.textio import MINUS, plural, signed, terms_text, to_decimal
+from realquad.textio import MINUS, plural, signed, to_decimal
 from realquad.units import METHODS, fundamental_unit, unit_group
 
 
@@ -104,7 +105,7 @@ def command(
         f"method: {eps.method}; proof: {eps.proof}",
     ]
     if compact and form is not None:
-        lines.append(_compact_text(form))
+        lines.append(compact_text(form, "ε"))
     if output is not None and expanded:
         exact = eps.expand()
         write_atomically(
@@ -151,16 +152,3 @@ def _fits(form: CompactRepresentation, max_digits: int, output: str | None) -> b
             )
         return True
     return max_digits == 0 and n <= OUTPUT_DIGITS_LIMIT or n <= max_digits
-
-
-def _compact_text(form: CompactRepresentation) -> str:
-    D = form.discriminant
-    sign = MINUS if form.sign < 0 else ""
-    lines = [
-        f"compact form: ε = {sign}∏ αᵢ^eᵢ over {plural(form.size, 'factor')} αᵢ = (x + y√{D})/z:"
-    ]
-    for chain in form.chains:
-        for a, e in chain.factors:
-            number = terms_text([(int(a.x), ""), (int(a.y), f"√{D}")])
-            lines.append(f"  ({number})/{a.c} ^ {e}")
-    return "\n".join(lines)

@@ -26,6 +26,9 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 from dataclasses import dataclass, field
+from fractions import Fraction
+
+import mpmath
 
 from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.lfunction import estimated_period
@@ -35,8 +38,12 @@ from realquad.core.results import JSONObject, Proof
 from realquad.equations.families import Point, point_dict
 from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.errors import InputError, TooLargeError
+from realquad.infrastructure.compact import CompactRepresentation
+from realquad.infrastructure.table import compiled_table
 from realquad.textio import about, decimal_digits, shown, signed
-from realquad.units import DEFAULT_MAX_PERIOD, Unit, fundamental_unit
+from realquad.units import DEFAULT_MAX_PERIOD, Regulator, Unit, fundamental_unit
+from realquad.units.bsgs import check_reach
+from realquad.units.results import trace_digits
 
 PELL_NORMS = (1, -1, 4, -4)
 
@@ -46,8 +53,13 @@ class PellSolution:
     """The answer to ``x² − d y² = norm``: solvability and the fundamental solution.
 
     ``x`` and ``y`` are the least positive solution (``y > 0``), or ``None``
-    when there is none. For a square ``d`` the equation has finitely many
-    solutions, listed in ``finite_solutions`` (those with ``x, y ≥ 0``).
+    when there is none. For a square ``d`` (or ``d < 0``) the equation has
+    finitely many solutions, listed in ``finite_solutions`` (those with
+    ``x, y ≥ 0``). Beyond the continued fraction's reach the solution is kept
+    in compact form (``compact``: ``x + y√d``, or ``(x + y√d)/2`` for
+    ``N = ±4``, as a product of small numbers) when it has more than
+    :data:`MAX_EXPANDED_DIGITS` digits; ``digits`` is then counted from the
+    regulator (``digits_exact`` says whether that count is certain).
     """
 
     d: int
@@ -60,6 +72,9 @@ class PellSolution:
     proof: Proof = "unconditional"
     reason: str | None = None
     finite_solutions: list[tuple[int, int]] | None = None
+    compact: CompactRepresentation | None = None
+    digits: int | None = None
+    digits_exact: bool = True
     _unit: Unit | None = field(default=None, repr=False)
 
     @property
@@ -96,7 +111,9 @@ class PellSolution:
             "solvable": self.solvable,
             "x": self.x,
             "y": self.y,
-            "digits": None if self.x is None else decimal_digits(self.x),
+            "digits": self.digits if self.x is None else decimal_digits(self.x),
+            "digits_exact": self.digits_exact,
+            "compact": None if self.compact is None else self.compact.to_dict(),
             "period_length": self.period_length,
             "reason": self.reason,
             "finite_solutions": None
@@ -204,12 +221,16 @@ def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSol
     try:
         unit = fundamental_unit(Order(D), "cfrac", max_period=max_period)
     except TooLargeError:
-        raise TooLargeError(
-            f"x² − {shown(d)}y² = {signed(N)}: the continued fraction would need "
-            f"{about(estimated_period(D, 2_000))} steps (limit {max_period:,}); at this size the "
-            f"fundamental unit comes in compact form from `realquad unit --disc {shown(D)}`, "
-            "which also gives its norm (−1 makes the equations with N < 0 solvable)"
-        ) from None
+        check_reach(D)  # beyond the infrastructure too: say so, naming the size
+        if not compiled_table(D):
+            raise TooLargeError(
+                f"x² − {shown(d)}y² = {signed(N)}: the continued fraction would need "
+                f"{about(estimated_period(D, 2_000))} steps (limit {max_period:,}), and the "
+                "infrastructure's giant steps run compiled only for D < 2¹⁰⁶ (here in pure "
+                "Python, minutes to hours); `realquad unit --disc "
+                f"{shown(D)}` runs that search if you can wait"
+            ) from None
+        unit = fundamental_unit(Order(D), "bsgs")  # refuses, naming the size, beyond its reach
     solvable = N > 0 or unit.norm == -1
     result = PellSolution(
         d=d,
@@ -223,10 +244,42 @@ def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSol
         _unit=unit,
     )
     if not solvable:
+        period = "" if unit.period_length is None else f" (even period {unit.period_length:,})"
         result.reason = (
-            f"the fundamental unit of discriminant {unit.order.discriminant} has norm +1 "
-            f"(even period {unit.period_length}), so no unit has norm −1"
+            f"the fundamental unit of discriminant {shown(unit.order.discriminant)} has norm +1"
+            f"{period}, so no unit has norm −1"
         )
         return result
+    if unit.compact() is not None:
+        _count_digits(result, unit)
+        if result.digits is not None and result.digits > MAX_EXPANDED_DIGITS:
+            return result
     result.x, result.y = result.solution(1)
+    result.compact = None
     return result
+
+
+#: Largest solution expanded from a compact representation (decimal digits of x).
+MAX_EXPANDED_DIGITS = 1_000_000
+
+
+def _count_digits(result: PellSolution, unit: Unit) -> None:
+    """The least solution in compact form, and the digits of ``x`` from the regulator.
+
+    The least solution is ``η = ε`` or ``ε²`` (``ε²`` when ``N > 0`` and
+    ``N(ε) = −1``), and ``x = s·(η + N(η)/η)/2`` with ``s = 1`` for ``N = ±1``,
+    ``2`` for ``N = ±4``.
+    """
+    eps = unit.compact()
+    assert eps is not None
+    k = 2 if result.norm > 0 and unit.norm == -1 else 1
+    result.compact = eps if k == 1 else eps.power(2)
+    reg = unit.precise_regulator()
+    regulator = Regulator(reg.value * k, reg.digits, reg.error_bound * k, reg.method, reg.proof)
+    scale = 1 if abs(result.norm) == 1 else 2
+    digits = trace_digits(regulator, unit.norm**k, Fraction(scale, 2))
+    result.digits_exact = digits is not None
+    if digits is None:
+        with mpmath.workdps(40):
+            digits = int(mpmath.floor(regulator.value / mpmath.log(10))) + 1
+    result.digits = digits

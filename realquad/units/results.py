@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from fractions import Fraction
 from typing import Any
 
 import mpmath
@@ -58,6 +59,29 @@ class Regulator:
             "method": self.method,
             "proof": self.proof,
         }
+
+
+def trace_digits(regulator: Regulator, norm: int, factor: Fraction) -> int | None:
+    """Decimal digits of ``x = factor·(η + norm/η)`` for ``η = e^R``, ``R`` given with its error bound.
+
+    ``log₁₀ x = log₁₀ factor + R/ln 10 + log₁₀(1 + norm·e^{−2R})``; ``None``
+    when ``R``'s error bound straddles a power of ten.
+
+    >>> from realquad.units import fundamental_unit
+    >>> trace_digits(fundamental_unit(4 * 94).regulator(40), 1, Fraction(1, 2))  # x = 2143295
+    7
+    """
+    R, error = regulator.value, regulator.error_bound
+    magnitude = max(1, int(float(R))).bit_length() // 3 + 1
+    with mpmath.workdps(max(regulator.digits, magnitude) + 20):
+        centre = (
+            mpmath.log10(mpmath.mpf(factor.numerator) / factor.denominator)
+            + R / mpmath.log(10)
+            + mpmath.log10(1 + norm * mpmath.exp(-2 * R))
+        )
+        spread = error / mpmath.log(10) + mpmath.mpf(10) ** (-(regulator.digits - magnitude + 5))
+        low, high = mpmath.floor(centre - spread), mpmath.floor(centre + spread)
+        return int(low) + 1 if low == high else None
 
 
 @dataclass(eq=False)
@@ -140,28 +164,21 @@ class Unit:
         """
         if "digits" in self._cache:
             return self._cache["digits"], True  # type: ignore[return-value]
-        D = self.order.discriminant
+        regulator = self.precise_regulator()
+        candidates = [1] if self.order.discriminant % 4 == 0 else [1, 2]
+        counts = {c: trace_digits(regulator, self.norm, Fraction(c, 2)) for c in candidates}
+        if len(set(counts.values())) > 1 and self._denominator is not None:
+            counts = {c: counts[c] for c in (self._denominator(),)}
+        values = set(counts.values())
+        if len(values) == 1 and None not in values:
+            return values.pop(), True  # type: ignore[return-value]
+        with mpmath.workdps(40):
+            return int(mpmath.floor(regulator.value / mpmath.log(10))) + 1, False
+
+    def precise_regulator(self, extra: int = 30) -> Regulator:
+        """``log ε`` to ``extra`` digits after the decimal point (as many as its size needs)."""
         magnitude = max(1, int(float(self.regulator(20).value))).bit_length() // 3 + 1
-        regulator = self.regulator(magnitude + 30)
-        with mpmath.workdps(magnitude + 40):
-            R, error = regulator.value, regulator.error_bound
-            tail = mpmath.log10(1 + self.norm * mpmath.exp(-2 * R))
-            spread = error / mpmath.log(10) + mpmath.mpf(10) ** (-(magnitude + 35))
-
-            def count(c: int) -> int | None:
-                centre = mpmath.log10(mpmath.mpf(c) / 2) + R / mpmath.log(10) + tail
-                low, high = mpmath.floor(centre - spread), mpmath.floor(centre + spread)
-                return int(low) + 1 if low == high else None
-
-            candidates = [1] if D % 4 == 0 else [1, 2]
-            counts = {c: count(c) for c in candidates}
-            if len(set(counts.values())) > 1 and self._denominator is not None:
-                counts = {c: counts[c] for c in (self._denominator(),)}
-            values = set(counts.values())
-            if len(values) == 1 and None not in values:
-                return values.pop(), True  # type: ignore[return-value]
-            estimate = mpmath.floor(R / mpmath.log(10)) + 1
-        return int(estimate), False
+        return self.regulator(magnitude + extra)
 
     def power(self, k: int) -> QuadraticNumber:
         """``ε^k`` exactly (``k`` may be negative)."""

@@ -189,3 +189,53 @@ def test_negative_d_has_the_finite_answer(d, norm):
 def test_bad_norm(norm):
     with pytest.raises(InputError):
         pell(7, norm)
+
+
+# -- beyond the continued fraction: the infrastructure decides, the solution stays compact -------
+
+
+@pytest.mark.skipif(
+    __import__("realquad._backend")._backend.BACKEND != "compiled",
+    reason="the giant steps at 10³⁰ run compiled (the pure twin would take minutes)",
+)
+def test_large_d_decided_by_the_infrastructure() -> None:
+    # d ≈ 10³⁰: the continued fraction is hopeless; the norm of ε (compact) decides N = −1
+    d = 10**30 + 57
+    minus = pell(d, -1)
+    plus = pell(d, 1)
+    assert minus.method == plus.method == "infrastructure baby-step giant-step"
+    assert minus.proof == "unconditional"
+    if minus.solvable:  # x + y√d = ε, and x² − dy² = −1 modulo several primes
+        for m in (10**9 + 7, 998244353, 2**61 - 1):
+            X, Y = minus.compact.modulo(m)
+            # compact numbers are (u + v√D)/2 with D = 4d: x = u/2, y = v
+            x, y = X % m, (2 * Y) % m
+            assert (x * x - d * y * y + 1) % m == 0
+        assert (
+            plus.digits is not None and plus.digits > 2 * minus.digits - 2
+        )  # ε² has twice the digits
+    else:
+        assert "norm +1" in minus.reason
+
+
+def test_compact_solutions_agree_with_the_continued_fraction() -> None:
+    # d where both methods run: the digit count of the compact solution (from the regulator)
+    # equals that of the continued fraction's expanded solution (counted by gmpy2)
+    import importlib
+
+    from realquad.core.orders import Order
+    from realquad.textio import decimal_digits
+    from realquad.units import fundamental_unit
+
+    pell_module = importlib.import_module("realquad.equations.pell")
+    for d in (1000000007, 1000000009, 999999937):
+        for n in (1, -1):
+            expanded = pell(d, n)
+            if not expanded.solvable:
+                continue
+            unit = fundamental_unit(Order(4 * d), "bsgs")
+            compact = pell_module.PellSolution(
+                d, n, True, None, None, None, unit.method, _unit=unit
+            )
+            pell_module._count_digits(compact, unit)
+            assert compact.digits == decimal_digits(expanded.x) and compact.digits_exact
