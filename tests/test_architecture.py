@@ -77,7 +77,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"conics"},
     ],
     "realquad.survey": [
-        {"ranges", "progress"},
+        {"ranges", "progress", "dbfile"},
         {"compute", "executors"},
         {"store"},
         {"tabulate", "stats"},
