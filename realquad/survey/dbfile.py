@@ -102,7 +102,7 @@ def inspect(path: str) -> Header | None:
 
     Raises :class:`InputError` for a name SQLite would not take as a file, for
     anything but a regular file (FIFO, device, directory, socket), for a
-    broken symbolic link, and for a new path whose directory does not exist.
+    broken symbolic link.
     """
     check_name(path)
     try:
@@ -110,9 +110,6 @@ def inspect(path: str) -> Header | None:
     except FileNotFoundError:
         if os.path.lexists(path):
             raise InputError(f"{path!r} is a broken symbolic link") from None
-        directory = os.path.dirname(os.path.abspath(path))
-        if not os.path.isdir(directory):
-            raise InputError(f"cannot create {path!r}: no such directory") from None
         return None
     except OSError as exc:
         raise InputError(f"cannot use {path!r}: {exc.strerror}") from None

@@ -271,6 +271,8 @@ class SurveyStore:
         """Raise :class:`InputError` unless ``path`` is a survey store or can become one (nothing is changed)."""
         found = _inspect(path)
         directory = os.path.dirname(os.path.abspath(path))
+        if found == "new" and not os.path.isdir(directory):
+            raise InputError(f"cannot create {path!r}: no such directory")
         if found != "new" and not os.access(path, os.W_OK):
             raise InputError(f"cannot write {path!r}: permission denied")
         if not os.access(directory, os.W_OK):
