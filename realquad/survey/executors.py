@@ -15,6 +15,7 @@ rerunning the survey computes them again.
 from __future__ import annotations
 
 import ctypes
+import gc
 import logging
 import multiprocessing
 import os
@@ -155,22 +156,30 @@ class DaskExecutor(InProcessExecutor):
                 self._check_workers(last_progress)
                 continue
             for future in done:
-                yield self._result(future, chunk_of[future.key])
-            last_progress = time.monotonic()
+                yield self._result(future, chunk_of[future.key], last_progress)
+                last_progress = time.monotonic()
 
-    def _result(self, future: Any, chunk: Chunk) -> Finished:
-        """The finished chunk, or :class:`InputError` when the cluster gave up on it."""
-        try:
-            result: Finished = future.result()
-        except Exception as exc:
-            if type(exc).__name__ != "KilledWorker":
-                raise
-            raise InputError(
-                f"the Dask cluster lost every worker that tried the chunk {chunk.kind} in "
-                f"[{chunk.lo}, {chunk.hi}]; the chunks finished before are saved; "
-                "rerun the same command to resume"
-            ) from None
-        return result
+    def _result(self, future: Any, chunk: Chunk, last_progress: float) -> Finished:
+        """The finished chunk, or :class:`InputError` when the cluster gave up on it.
+
+        A chunk whose result lived on a worker lost since is computed again,
+        so fetching it waits in short steps, watching for a cluster left
+        without workers.
+        """
+        while True:
+            try:
+                result: Finished = future.result(timeout=1.0)
+                return result
+            except TimeoutError:
+                self._check_workers(last_progress)
+            except Exception as exc:
+                if type(exc).__name__ != "KilledWorker":
+                    raise
+                raise InputError(
+                    f"the Dask cluster lost every worker that tried the chunk {chunk.kind} in "
+                    f"[{chunk.lo}, {chunk.hi}]; the chunks finished before are saved; "
+                    "rerun the same command to resume"
+                ) from None
 
     def _check_workers(self, last_progress: float) -> None:
         """Stop the run once no worker is left and nothing has finished for ``stall_timeout`` s."""
@@ -198,19 +207,29 @@ class DaskExecutor(InProcessExecutor):
                 self._client.close(timeout=5)
             except Exception:
                 pass
+            # the client's abandoned fetches (of results lost with a worker) complain when
+            # they are collected: collect them while the logs are still silenced
+            gc.collect()
             self._quiet.restore()
 
 
 class _QuietLogs:
     """Silences the loggers of the cluster library until :meth:`restore`."""
 
-    NAMES = ("distributed", "tornado", "asyncio")
+    NAMES = ("distributed", "tornado", "asyncio", "bokeh")
 
     def __init__(self) -> None:
+        # the library gives some of its loggers levels of their own (distributed.client:
+        # warning, ...), so each one is silenced, not only the top of the family
+        names = [
+            name
+            for name in [*self.NAMES, *logging.root.manager.loggerDict]
+            if name.split(".")[0] in self.NAMES
+        ]
         self._levels: dict[str, int] | None = {
-            name: logging.getLogger(name).level for name in self.NAMES
+            name: logging.getLogger(name).level for name in names
         }
-        for name in self.NAMES:
+        for name in names:
             logging.getLogger(name).setLevel(logging.CRITICAL + 1)
 
     def restore(self) -> None:
