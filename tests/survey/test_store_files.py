@@ -325,6 +325,9 @@ def test_missing_parts_are_reported(capsys: pytest.CaptureFixture[str], tmp_path
         == []
     )
     assert "incomplete" not in out
+    status, out, err = run_cli(capsys, "survey", "query", "--db", str(db), "--csv", "--limit", "0")
+    assert status == 0 and "incomplete" not in out  # the CSV stays data only
+    assert err.startswith("realquad: incomplete: d in [300, 499], [600, 1000] not computed yet")
     assert (
         run_cli(
             capsys,
@@ -383,3 +386,27 @@ def test_uri_escapes_every_special_character(tmp_path: Path) -> None:
     assert listing(tmp_path) == [name.name]
     with SurveyStore.open_for_reading(str(name)) as s:
         assert s.count() == 12  # squarefree 2 ≤ d ≤ 20: 2 3 5 6 7 10 11 13 14 15 17 19
+
+
+def test_a_read_only_copy_taken_mid_run_is_read_with_its_journal(
+    capsys: pytest.CaptureFixture[str], store: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # A copy of a store and its -wal/-shm taken while a run writes (as a kill -9 leaves
+    # them): the last chunk lives only in the -wal, so reading the file alone
+    # (immutable=1) would miss it; without write access SQLite's read-only mode reads it.
+    writer = SurveyStore.open_for_writing(str(store))
+    writer.connection.execute("PRAGMA wal_autocheckpoint = 0")
+    writer.save_chunk(Chunk("d", 601, 700), compute.survey_chunk(Chunk("d", 601, 700)), 0.0)
+    ro = tmp_path / "ro"
+    ro.mkdir()
+    for suffix in ("", "-wal", "-shm"):
+        (ro / ("s.sqlite" + suffix)).write_bytes(Path(str(store) + suffix).read_bytes())
+    writer.close()
+    assert (ro / "s.sqlite-wal").stat().st_size > 0
+    real_access = os.access
+    monkeypatch.setattr(  # as root every file is writable: see the test above
+        os, "access", lambda p, mode, **kw: False if mode & os.W_OK else real_access(p, mode, **kw)
+    )
+    status, out, err = run_cli(capsys, "survey", "query", "--db", str(ro / "s.sqlite"), "--json")
+    assert status == 0, err
+    assert json.loads(out)["matching"] == len(Chunk("d", 2, 700).radicands())
