@@ -126,18 +126,22 @@ class DaskExecutor(InProcessExecutor):
         self.stall_timeout = stall_timeout
         self._futures: list[Any] = []
         self._quiet = _QuietLogs()
-        _check_reachable(address, timeout)
         try:
+            _check_reachable(address, timeout)
             self._client = _connect_within(Client, address, timeout)
-            self._client.wait_for_workers(1, timeout=timeout)
-        except InputError:
+        except BaseException:
             self._quiet.restore()
             raise
+        try:
+            self._client.wait_for_workers(1, timeout=timeout)
         except Exception:
             self.close()
             raise InputError(
                 f"the Dask scheduler at {address!r} has no workers (waited {timeout:g} s)"
             ) from None
+        except BaseException:
+            self.close()
+            raise
 
     def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
         from distributed import wait
@@ -155,6 +159,8 @@ class DaskExecutor(InProcessExecutor):
             except TimeoutError:
                 self._check_workers(last_progress)
                 continue
+            except Exception as exc:
+                raise self._lost(exc) from None
             for future in done:
                 yield self._result(future, chunk_of[future.key], last_progress)
                 last_progress = time.monotonic()
@@ -174,12 +180,21 @@ class DaskExecutor(InProcessExecutor):
                 self._check_workers(last_progress)
             except Exception as exc:
                 if type(exc).__name__ != "KilledWorker":
-                    raise
+                    raise self._lost(exc) from None
                 raise InputError(
                     f"the Dask cluster lost every worker that tried the chunk {chunk.kind} in "
                     f"[{chunk.lo}, {chunk.hi}]; the chunks finished before are saved; "
                     "rerun the same command to resume"
                 ) from None
+
+    def _lost(self, exc: Exception) -> Exception:
+        """One line for a run whose futures the cluster cancelled (the scheduler went away); else ``exc``."""
+        if "Cancelled" not in type(exc).__name__:
+            return exc
+        return InputError(
+            f"lost the connection to the Dask scheduler at {self.address!r}; the chunks "
+            "finished so far are saved; rerun the same command to resume"
+        )
 
     def _check_workers(self, last_progress: float) -> None:
         """Stop the run once no worker is left and nothing has finished for ``stall_timeout`` s."""

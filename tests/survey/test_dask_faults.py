@@ -213,3 +213,23 @@ def test_ctrl_c_on_a_dask_run_is_one_line_and_resumes(
         assert finished.returncode == 0 and finished.stderr == "", finished.stderr
     assert stored_table(target) == reference
     assert sorted(os.listdir(tmp_path)) == ["dask.sqlite"]
+
+
+@pytest.mark.slow
+def test_a_lost_scheduler_stops_the_run_in_one_line_and_resumes(
+    tmp_path: Path, reference: list[tuple[Any, ...]]
+) -> None:
+    target = tmp_path / "dask.sqlite"
+    with _Cluster(2) as cluster:
+        executor = DaskExecutor(cluster.address)
+        with SurveyStore.open_for_writing(str(target)) as store:
+            with pytest.raises(InputError, match="lost the connection to the Dask scheduler"):
+                tabulate(
+                    RANGE, store, _After(executor, 2, cluster.scheduler.close), chunk_size=CHUNK
+                )  # type: ignore[arg-type]
+            saved = store.chunks_written
+            assert saved >= 2 and store.missing()
+    with _Cluster(2) as cluster, SurveyStore.open_for_writing(str(target)) as store:
+        outcome = tabulate(RANGE, store, DaskExecutor(cluster.address), chunk_size=CHUNK)
+        assert outcome.skipped_chunks == saved and store.missing() == []
+    assert stored_table(target) == reference
