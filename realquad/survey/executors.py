@@ -111,7 +111,8 @@ class DaskExecutor(InProcessExecutor):
     stops with one line; the chunks finished so far are saved and the same
     command resumes once workers are back. The cluster library's own log
     messages are silenced while the executor lives (its lines, and the
-    tracebacks it logs when a run is interrupted, are not for the user).
+    tracebacks it logs when a run is interrupted, are not for the user). If
+    the scheduler goes away, the run stops with one line as well.
     """
 
     def __init__(self, address: str, timeout: float = 10.0, stall_timeout: float = 60.0) -> None:
