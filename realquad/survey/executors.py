@@ -207,8 +207,8 @@ class DaskExecutor(InProcessExecutor):
             workers = 0
         if workers == 0:
             raise InputError(
-                f"the Dask cluster at {self.address!r} has had no workers for "
-                f"{self.stall_timeout:g} s; the chunks finished so far are saved; "
+                f"the Dask cluster at {self.address!r} has no workers left and no chunk "
+                f"finished for {self.stall_timeout:g} s; the chunks finished so far are saved; "
                 "start workers and rerun the same command to resume"
             )
 

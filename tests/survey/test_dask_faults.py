@@ -123,7 +123,7 @@ def test_no_worker_left_stops_the_run_in_bounded_time_and_resumes(
 
         start = time.monotonic()
         with SurveyStore.open_for_writing(str(target)) as store:
-            with pytest.raises(InputError, match="has had no workers for 3 s"):
+            with pytest.raises(InputError, match="no workers left and no chunk finished for 3 s"):
                 tabulate(RANGE, store, _After(executor, 2, kill_all), chunk_size=CHUNK)  # type: ignore[arg-type]
             saved = store.chunks_written
             assert saved >= 2 and store.missing()  # what finished is kept; the rest is missing
