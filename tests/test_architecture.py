@@ -82,7 +82,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"conics"},
     ],
     "realquad.survey": [
-        {"ranges", "progress", "conditions"},
+        {"ranges", "progress", "conditions", "dbfile"},
         {"compute", "executors"},
         {"store"},
         {"tabulate", "stats"},

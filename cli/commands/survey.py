@@ -20,7 +20,7 @@ from realquad.survey.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
-from realquad.survey.stats import survey_report
+from realquad.survey.stats import missing_json, missing_text, survey_report
 from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
 from realquad.textio import MINUS, group_text
@@ -386,6 +386,8 @@ def query_command(
         matching = store.count(where)
         found = store.rows(where, limit or None, sort=column, descending=descending)
         rows = [FieldRecord(**row).to_dict() for row in found]
+        missing = store.missing(where.d_min, where.d_max)
+    incomplete = missing_text(missing)
     if as_csv:
         buffer = io.StringIO()
         writer = csv.writer(buffer, lineterminator="\n")
@@ -397,12 +399,15 @@ def query_command(
                 f"realquad: {matching - len(rows):,} more rows not printed (--limit 0 prints all)",
                 err=True,
             )
+        if incomplete:
+            click.echo(f"realquad: {incomplete}", err=True)
         return
     payload = {
         "database": db,
         "matching": matching,
         "shown": len(rows),
         "rows": rows,
+        "missing": missing_json(missing),
     }
     lines = [
         f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl':>12} {'Cl⁺':>12} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
@@ -418,6 +423,8 @@ def query_command(
         f"{matching:,} matching fields"
         + (f", first {len(rows):,} shown (--limit 0 for all)" if len(rows) < matching else "")
     )
+    if incomplete:
+        lines.append(incomplete)
     emit(payload, "\n".join(lines), as_json)
 
 
@@ -486,6 +493,9 @@ def report_command(
         "largest regulators: "
         + ", ".join(f"d = {r['radicand']}: {r['regulator']}" for r in report.largest_regulators),
     ]
+    incomplete = missing_text(report.missing)
+    if incomplete:
+        lines.append(incomplete)
     if plot is not None:
         payload["plot"] = plot
         lines.append(f"plot written to {plot}")

@@ -2,7 +2,8 @@
 
 * :mod:`~realquad.survey.ranges` — squarefree ``d`` / fundamental discriminants, chunks;
 * :mod:`~realquad.survey.compute` — the invariants of one field (one row);
-* :mod:`~realquad.survey.store` — the SQLite store (schema, chunk transactions, writer lock);
+* :mod:`~realquad.survey.dbfile` — which paths may hold a store, its header, the writer's lock;
+* :mod:`~realquad.survey.store` — the SQLite store (schema, chunk transactions, missing parts);
 * :mod:`~realquad.survey.executors` — this process, local processes, Dask;
 * :mod:`~realquad.survey.progress` — progress bar or periodic lines;
 * :mod:`~realquad.survey.tabulate` — the resumable run;

@@ -15,6 +15,8 @@ rerunning the survey computes them again.
 from __future__ import annotations
 
 import ctypes
+import gc
+import logging
 import multiprocessing
 import os
 import signal
@@ -100,9 +102,20 @@ class ProcessPoolExecutor(InProcessExecutor):
 
 
 class DaskExecutor(InProcessExecutor):
-    """Compute the chunks on the Dask distributed cluster whose scheduler is at ``address``."""
+    """Compute the chunks on the Dask distributed cluster whose scheduler is at ``address``.
 
-    def __init__(self, address: str, timeout: float = 10.0) -> None:
+    A worker lost in the middle of a chunk costs only that chunk: the
+    scheduler gives it to another worker (after ``allowed-failures`` losses,
+    3 by default, it gives up and the run stops with one line). When no worker
+    is left and nothing has finished for ``stall_timeout`` seconds, the run
+    stops with one line; the chunks finished so far are saved and the same
+    command resumes once workers are back. The cluster library's own log
+    messages are silenced while the executor lives (its lines, and the
+    tracebacks it logs when a run is interrupted, are not for the user). If
+    the scheduler goes away, the run stops with one line as well.
+    """
+
+    def __init__(self, address: str, timeout: float = 10.0, stall_timeout: float = 60.0) -> None:
         try:
             from distributed import Client
         except ImportError:
@@ -111,33 +124,135 @@ class DaskExecutor(InProcessExecutor):
             ) from None
         self.address = address
         self.description = f"Dask scheduler {address}"
+        self.stall_timeout = stall_timeout
         self._futures: list[Any] = []
-        _check_reachable(address, timeout)
-        self._client = _connect_within(Client, address, timeout)
+        self._quiet = _QuietLogs()
+        try:
+            _check_reachable(address, timeout)
+            self._client = _connect_within(Client, address, timeout)
+        except BaseException:
+            self._quiet.restore()
+            raise
         try:
             self._client.wait_for_workers(1, timeout=timeout)
         except Exception:
-            self._client.close()
+            self.close()
             raise InputError(
                 f"the Dask scheduler at {address!r} has no workers (waited {timeout:g} s)"
             ) from None
+        except BaseException:
+            self.close()
+            raise
 
     def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
-        from distributed import as_completed
+        from distributed import wait
 
         jobs = [(function, c) for c in chunks]
         if not jobs:
             return
         self._futures = self._client.map(_timed, jobs, pure=False)
-        for future in as_completed(self._futures):
-            yield future.result()
+        chunk_of = {f.key: c for f, (_, c) in zip(self._futures, jobs, strict=True)}
+        pending = set(self._futures)
+        last_progress = time.monotonic()
+        while pending:
+            try:
+                done, pending = wait(pending, timeout=1.0, return_when="FIRST_COMPLETED")
+            except TimeoutError:
+                self._check_workers(last_progress)
+                continue
+            except Exception as exc:
+                raise self._lost(exc) from None
+            for future in done:
+                yield self._result(future, chunk_of[future.key], last_progress)
+                last_progress = time.monotonic()
+
+    def _result(self, future: Any, chunk: Chunk, last_progress: float) -> Finished:
+        """The finished chunk, or :class:`InputError` when the cluster gave up on it.
+
+        A chunk whose result lived on a worker lost since is computed again,
+        so fetching it waits in short steps, watching for a cluster left
+        without workers.
+        """
+        while True:
+            try:
+                result: Finished = future.result(timeout=1.0)
+                return result
+            except TimeoutError:
+                self._check_workers(last_progress)
+            except Exception as exc:
+                if type(exc).__name__ != "KilledWorker":
+                    raise self._lost(exc) from None
+                raise InputError(
+                    f"the Dask cluster lost every worker that tried the chunk {chunk.kind} in "
+                    f"[{chunk.lo}, {chunk.hi}]; the chunks finished before are saved; "
+                    "rerun the same command to resume"
+                ) from None
+
+    def _lost(self, exc: Exception) -> Exception:
+        """One line for a run whose futures the cluster cancelled (the scheduler went away); else ``exc``."""
+        if "Cancelled" not in type(exc).__name__:
+            return exc
+        return InputError(
+            f"lost the connection to the Dask scheduler at {self.address!r}; the chunks "
+            "finished so far are saved; rerun the same command to resume"
+        )
+
+    def _check_workers(self, last_progress: float) -> None:
+        """Stop the run once no worker is left and nothing has finished for ``stall_timeout`` s."""
+        if time.monotonic() - last_progress < self.stall_timeout:
+            return
+        try:
+            workers = len(self._client.nthreads())
+        except Exception:  # the scheduler itself is gone
+            workers = 0
+        if workers == 0:
+            raise InputError(
+                f"the Dask cluster at {self.address!r} has no workers left and no chunk "
+                f"finished for {self.stall_timeout:g} s; the chunks finished so far are saved; "
+                "start workers and rerun the same command to resume"
+            )
 
     def close(self) -> None:
         try:
             if self._futures:
                 self._client.cancel(self._futures)
+        except Exception:  # the cluster may already be gone; nothing of ours is lost
+            pass
         finally:
-            self._client.close()
+            try:
+                self._client.close(timeout=5)
+            except Exception:
+                pass
+            # the client's abandoned fetches (of results lost with a worker) complain when
+            # they are collected: collect them while the logs are still silenced
+            gc.collect()
+            self._quiet.restore()
+
+
+class _QuietLogs:
+    """Silences the loggers of the cluster library until :meth:`restore`."""
+
+    NAMES = ("distributed", "tornado", "asyncio", "bokeh")
+
+    def __init__(self) -> None:
+        # the library gives some of its loggers levels of their own (distributed.client:
+        # warning, ...), so each one is silenced, not only the top of the family
+        names = [
+            name
+            for name in [*self.NAMES, *logging.root.manager.loggerDict]
+            if name.split(".")[0] in self.NAMES
+        ]
+        self._levels: dict[str, int] | None = {
+            name: logging.getLogger(name).level for name in names
+        }
+        for name in names:
+            logging.getLogger(name).setLevel(logging.CRITICAL + 1)
+
+    def restore(self) -> None:
+        if self._levels is not None:
+            for name, level in self._levels.items():
+                logging.getLogger(name).setLevel(level)
+            self._levels = None
 
 
 def _connect_within(client_class: Any, address: str, timeout: float) -> Any:

@@ -94,9 +94,7 @@ class SurveyRange:
 
     def count_hint(self) -> bool:
         """Whether the range holds at least one field (checked on a short prefix only if large)."""
-        if self.hi - self.lo < 64:
-            return bool(Chunk(self.kind, self.lo, self.hi).radicands())
-        return True  # any 64 consecutive integers ≥ 2 hold squarefree d of both kinds
+        return has_fields(self.kind, self.lo, self.hi)
 
     def chunks(self, size: int = DEFAULT_CHUNK_SIZE) -> Iterator[Chunk]:
         """The chunks covering the range, aligned to multiples of ``size``."""
@@ -107,3 +105,76 @@ class SurveyRange:
             stop = min((start // size + 1) * size - 1, self.hi)
             yield Chunk(self.kind, start, stop)
             start = stop + 1
+
+
+#: A part of a range: ``(kind, lo, hi)`` with inclusive bounds.
+Interval = tuple[Kind, int, int]
+
+
+def merge_intervals(intervals: list[tuple[int, int]]) -> list[tuple[int, int]]:
+    """The union of inclusive integer intervals, as sorted disjoint intervals (touching ones joined).
+
+    >>> merge_intervals([(10, 19), (2, 9), (30, 40), (35, 50)])
+    [(2, 19), (30, 50)]
+    """
+    merged: list[tuple[int, int]] = []
+    for lo, hi in sorted(intervals):
+        if merged and lo <= merged[-1][1] + 1:
+            merged[-1] = (merged[-1][0], max(merged[-1][1], hi))
+        else:
+            merged.append((lo, hi))
+    return merged
+
+
+def clip_intervals(
+    intervals: list[tuple[int, int]], lo: int | None, hi: int | None
+) -> list[tuple[int, int]]:
+    """The union of ``intervals`` cut to ``[lo, hi]`` (``None``: no bound on that side).
+
+    >>> clip_intervals([(2, 100), (50, 300)], 20, None)
+    [(20, 300)]
+    """
+    low = lo if lo is not None else -1
+    high = hi if hi is not None else 2**63
+    return [
+        (max(a, low), min(b, high)) for a, b in merge_intervals(intervals) if a <= high and b >= low
+    ]
+
+
+def subtract_intervals(
+    wanted: list[tuple[int, int]], done: list[tuple[int, int]]
+) -> list[tuple[int, int]]:
+    """The parts of ``wanted`` that no interval of ``done`` covers, sorted and disjoint.
+
+    >>> subtract_intervals([(2, 100)], [(2, 19), (40, 59), (90, 200)])
+    [(20, 39), (60, 89)]
+    """
+    covered = merge_intervals(done)
+    gaps: list[tuple[int, int]] = []
+    for lo, hi in merge_intervals(wanted):
+        start = lo
+        for a, b in covered:
+            if b < start or a > hi:
+                continue
+            if a > start:
+                gaps.append((start, a - 1))
+            start = b + 1
+            if start > hi:
+                break
+        if start <= hi:
+            gaps.append((start, hi))
+    return gaps
+
+
+def has_fields(kind: Kind, lo: int, hi: int) -> bool:
+    """Whether some field has ``d`` (kind ``"d"``) or ``D`` (kind ``"D"``) in ``[lo, hi]``.
+
+    Decided exactly for short intervals; any 64 consecutive integers hold
+    fields of both kinds.
+
+    >>> has_fields("d", 4, 4), has_fields("D", 9, 11), has_fields("d", 2, 1000)
+    (False, False, True)
+    """
+    if hi - lo >= 64:
+        return True
+    return bool(Chunk(kind, max(lo, 1), hi).radicands()) if hi >= 2 else False

@@ -8,7 +8,9 @@
   prediction :data:`COHEN_LENSTRA_PRIME_SHARE` ≈ 75.446 %;
 * the distribution of ``h`` and of its odd part;
 * the share of fields whose fundamental unit has norm −1;
-* the fields with the largest regulators.
+* the fields with the largest regulators;
+* the parts of the surveyed ranges that are missing (chunks not computed,
+  after an interrupted run), from :meth:`SurveyStore.missing`.
 
 The prediction is the Cohen–Lenstra probability that the odd part of the
 class group of a real quadratic field is trivial,
@@ -31,6 +33,7 @@ from typing import Any
 
 from realquad.core.primes import primes_below
 from realquad.core.results import JSONObject
+from realquad.survey.ranges import Interval
 from realquad.survey.store import RowFilter, SurveyStore
 
 #: Cohen–Lenstra: the predicted share of ``h = 1`` among real quadratic fields of prime discriminant.
@@ -40,6 +43,35 @@ COHEN_LENSTRA_PRIME_SHARE = 0.75445817
 def _decimal(value: float | None) -> str | None:
     """A share as a decimal string (the JSON convention for real numbers), 8 places."""
     return None if value is None else f"{value:.8f}"
+
+
+def missing_json(parts: list[Interval]) -> list[dict[str, Any]]:
+    """The parts of a survey not computed, as SurveyRange objects (``docs/json.md``).
+
+    >>> missing_json([("d", 4001, 10000)])
+    [{'kind': 'd', 'min': 4001, 'max': 10000}]
+    """
+    return [{"kind": kind, "min": lo, "max": hi} for kind, lo, hi in parts]
+
+
+def missing_text(parts: list[Interval]) -> str | None:
+    """One line naming the parts not computed, or ``None`` when nothing is missing.
+
+    >>> missing_text([("d", 4001, 6000), ("d", 8001, 10000)])
+    "incomplete: d in [4001, 6000], [8001, 10000] not computed yet (rerun 'realquad survey run' over that range)"
+    """
+    if not parts:
+        return None
+    pieces = []
+    for kind in ("d", "D"):
+        spans = [f"[{lo}, {hi}]" for k, lo, hi in parts if k == kind]
+        if spans:
+            pieces.append(f"{kind} in " + ", ".join(spans))
+    return (
+        "incomplete: "
+        + "; ".join(pieces)
+        + " not computed yet (rerun 'realquad survey run' over that range)"
+    )
 
 
 def odd_part(n: int) -> int:
@@ -69,6 +101,7 @@ class SurveyReport:
         "Cohen and Lenstra, Heuristics on class groups of number fields, LNM 1068 (1984)"
     )
     running_prime_share: list[tuple[int, float]] = field(default_factory=list, repr=False)
+    missing: list[Interval] = field(default_factory=list)
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of a survey report (``docs/json.md``, *SurveyReport*): shares as decimal strings."""
@@ -95,6 +128,7 @@ class SurveyReport:
             },
             "largest_regulators": list(self.largest_regulators),
             "proof": self.proof,
+            "missing": missing_json(self.missing),
         }
 
     @staticmethod
@@ -117,7 +151,7 @@ class SurveyReport:
 def survey_report(
     store: SurveyStore, where: RowFilter | None = None, top: int = 10
 ) -> SurveyReport:
-    """The statistics of the rows of ``store`` matching ``where``."""
+    """The statistics of the rows of ``store`` matching ``where``, and what of its range is missing."""
     rows = store.column_values(
         ["d", "discriminant", "class_number", "unit_norm", "regulator", "proof"], where
     )
@@ -158,4 +192,5 @@ def survey_report(
         largest_regulators=largest,
         proof="GRH" if "GRH" in proofs else "unconditional",
         running_prime_share=running,
+        missing=store.missing(where.d_min, where.d_max) if where else store.missing(),
     )

@@ -21,29 +21,42 @@ file is marked with ``PRAGMA application_id`` = :data:`APPLICATION_ID`):
     one row per completed chunk: ``id``, ``kind`` (``'d'`` or ``'D'``),
     ``lo``, ``hi`` (inclusive bounds), ``fields``, ``seconds``,
     ``finished`` (UTC time).
+``ranges``
+    the ranges runs were asked to compute (``kind``, ``lo``, ``hi``), each
+    recorded with the run's first saved chunk; :meth:`SurveyStore.missing`
+    compares them with ``chunks``. Stores written before this table existed
+    get it from their next run (the schema version stays 1: older readers
+    ignore it).
 
 A chunk's rows and its ``chunks`` row are written in one transaction, so a
 run killed at any instant leaves each chunk either complete or absent; the
-primary key on ``d`` makes a duplicate row impossible. The journal is in WAL
-mode, so ``query`` and ``report`` can read while a run writes. One writer at
-a time: :meth:`SurveyStore.open_for_writing` takes an exclusive lock on the
-side file ``FILE-lock`` (released by the system when the process dies, even
-by ``kill -9``) and refuses when another run holds it.
+primary key on ``d`` makes a duplicate row impossible. While a run writes,
+the journal is in WAL mode, so ``query`` and ``report`` can read meanwhile;
+the run leaves WAL mode when it ends, so no ``-wal`` or ``-shm`` file stays
+beside the store (after a ``kill -9`` they hold SQLite's recovery data,
+which the next run or reader replays and removes). One writer at a time:
+:meth:`SurveyStore.open_for_writing` takes an exclusive ``flock`` on the
+database file itself (released by the system when the process dies, even by
+``kill -9``) and refuses when another run holds it. A store a run created
+and never saved a chunk to is removed when the run ends.
 
 >>> import os, tempfile
->>> from realquad.survey.ranges import Chunk
+>>> from realquad.survey.compute import survey_chunk
+>>> from realquad.survey.ranges import Chunk, SurveyRange
 >>> path = os.path.join(tempfile.mkdtemp(), "demo.sqlite")
 >>> with SurveyStore.open_for_writing(path) as store:
-...     store.is_done(Chunk("d", 2, 9))
-False
+...     store.begin_run(SurveyRange("d", 2, 30))
+...     store.save_chunk(Chunk("d", 2, 9), survey_chunk(Chunk("d", 2, 9)), 0.0)
+5
 >>> with SurveyStore.open_for_reading(path) as store:
-...     store.count()
-0
+...     (store.count(), store.is_done(Chunk("d", 2, 9)), store.missing())
+(5, True, [('d', 10, 30)])
+>>> sorted(os.listdir(os.path.dirname(path)))  # no side files once the run is over
+['demo.sqlite']
 """
 
 from __future__ import annotations
 
-import fcntl
 import json
 import operator
 import os
@@ -53,10 +66,10 @@ from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, fields
 from decimal import Decimal
 from typing import Any
-from urllib.parse import quote
 
 from realquad._version import __version__
 from realquad.errors import InputError
+from realquad.survey import dbfile
 from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import (
     invariant_factors,
@@ -65,7 +78,14 @@ from realquad.survey.conditions import (
     parse_p_rank,
     register_functions,
 )
-from realquad.survey.ranges import Chunk
+from realquad.survey.ranges import (
+    Chunk,
+    Interval,
+    SurveyRange,
+    clip_intervals,
+    has_fields,
+    subtract_intervals,
+)
 
 SCHEMA_VERSION = 1
 #: ``PRAGMA application_id`` of a survey store ("RQSV").
@@ -78,6 +98,14 @@ _INSERT_FIELDS = (
     f"INSERT OR IGNORE INTO fields ({', '.join(c for c in COLUMNS if c != 'method')}, method_id, chunk) "
     f"VALUES ({', '.join('?' for _ in range(len(COLUMNS) + 1))})"
 )
+
+#: The ranges runs were asked to compute (added to older stores by their next run).
+_RANGES_TABLE = """CREATE TABLE IF NOT EXISTS ranges (
+    kind TEXT NOT NULL CHECK (kind IN ('d', 'D')),
+    lo INTEGER NOT NULL,
+    hi INTEGER NOT NULL,
+    PRIMARY KEY (kind, lo, hi)
+)"""
 
 _SCHEMA = f"""
 CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -107,6 +135,7 @@ CREATE TABLE fields (
     proof TEXT NOT NULL CHECK (proof IN ('unconditional', 'GRH')),
     chunk INTEGER NOT NULL REFERENCES chunks (id)
 );
+{_RANGES_TABLE};
 CREATE INDEX fields_class_number ON fields (class_number);
 CREATE VIEW field_rows AS
     SELECT {", ".join("methods.method" if c == "method" else "fields." + c for c in COLUMNS)}
@@ -250,19 +279,14 @@ def _is_empty(connection: sqlite3.Connection) -> bool:
     return header == (0, 0) and objects == 0
 
 
-def _check_schema(connection: sqlite3.Connection, path: str, allow_empty: bool = False) -> None:
+def _check_schema(connection: sqlite3.Connection, path: str) -> None:
     """Raise :class:`InputError` unless ``connection`` is a survey store of our schema version.
 
-    With ``allow_empty`` an empty database (which a run killed while creating
-    the store leaves behind) passes too: the writer creates the schema in it.
+    :func:`~realquad.survey.dbfile.classify` has read the file's header
+    already; this asks SQLite, which also sees what a journal holds.
     """
-    try:
-        app = connection.execute("PRAGMA application_id").fetchone()[0]
-        version = connection.execute("PRAGMA user_version").fetchone()[0]
-        if allow_empty and _is_empty(connection):
-            return
-    except sqlite3.DatabaseError as exc:
-        raise InputError(f"{path!r} is not a survey database ({exc})") from None
+    app = connection.execute("PRAGMA application_id").fetchone()[0]
+    version = connection.execute("PRAGMA user_version").fetchone()[0]
     if app != APPLICATION_ID:
         raise InputError(f"{path!r} is not a survey database (it has another schema)")
     if version != SCHEMA_VERSION:
@@ -272,107 +296,164 @@ def _check_schema(connection: sqlite3.Connection, path: str, allow_empty: bool =
         )
 
 
-def _looks_like_sqlite(path: str) -> bool:
-    """An empty file, or one that starts with the SQLite header (SQLite treats short junk as empty)."""
-    try:
-        with open(path, "rb") as fh:
-            head = fh.read(16)
-    except OSError as exc:
-        raise InputError(f"cannot read {path!r}: {exc.strerror}") from None
-    return head in (b"", b"SQLite format 3\x00")
+def _inspect(path: str) -> str:
+    """Check ``path`` with :mod:`~realquad.survey.dbfile` and say what is there (``new``, ``blank``, ``store``)."""
+    return dbfile.classify(dbfile.inspect(path), path, APPLICATION_ID, SCHEMA_VERSION)
 
 
-def _connect_read_only(path: str, allow_empty: bool = False) -> sqlite3.Connection:
-    if not os.path.exists(path):
-        raise InputError(f"no survey database {path!r} (run 'realquad survey run' first)")
-    if os.path.isdir(path):
-        raise InputError(f"{path!r} is a directory, not a survey database")
-    if not _looks_like_sqlite(path):
-        raise InputError(f"{path!r} is not a survey database (not an SQLite file)")
-    try:
-        connection = sqlite3.connect(f"file:{_uri_path(path)}?mode=ro", uri=True, timeout=30)
-    except sqlite3.Error as exc:
-        raise InputError(f"cannot open {path!r}: {exc}") from None
-    try:
-        _check_schema(connection, path, allow_empty)
-    except BaseException:
-        connection.close()
-        raise
+def _connect_for_reading(path: str) -> sqlite3.Connection:
+    """A connection that only reads ``path``, which :func:`_inspect` found to be a store.
+
+    When this process may write the file and its directory, the connection
+    is an ordinary one with ``PRAGMA query_only``: it can recover what a
+    killed run left in the journal and, if it is the last to close, remove
+    the ``-wal`` and ``-shm`` files. Otherwise it opens the file with
+    ``immutable=1``, which takes no locks and creates no side files — safe
+    here because no journal beside the file holds data (every committed
+    chunk is in the file itself) and no run of this user can be writing a
+    file this user cannot write. Only when a journal does hold data (a run
+    killed on a read-only copy) is SQLite's read-only mode used, which reads
+    the journal if SQLite can.
+    """
+    if dbfile.writable(path):
+        connection = sqlite3.connect(dbfile.uri(path, mode="rw"), uri=True, timeout=30)
+        connection.execute("PRAGMA query_only = ON")
+    elif not dbfile.holds_data(path):
+        connection = sqlite3.connect(dbfile.uri(path, mode="ro", immutable="1"), uri=True)
+    else:
+        connection = sqlite3.connect(dbfile.uri(path, mode="ro"), uri=True, timeout=30)
     return connection
 
 
-def _uri_path(path: str) -> str:
-    return quote(os.path.abspath(path))
-
-
 class SurveyStore:
-    """An open survey database; use :meth:`open_for_reading` or :meth:`open_for_writing`."""
+    """An open survey database; use :meth:`open_for_reading` or :meth:`open_for_writing`.
+
+    Inside ``with store:`` every SQLite error (a damaged file, a full disk)
+    becomes one :class:`InputError` naming the file.
+    """
 
     def __init__(
-        self, connection: sqlite3.Connection, path: str, lock_fd: int | None = None
+        self,
+        connection: sqlite3.Connection,
+        path: str,
+        lock: dbfile.WriterLock | None = None,
     ) -> None:
         self.connection = connection
         self.path = path
-        self._lock_fd = lock_fd
+        self._lock = lock
+        #: chunks this connection has written (a store created for a run that wrote none is removed)
+        self.chunks_written = 0
+        self._run_range: SurveyRange | None = None
         register_functions(connection)
 
     @classmethod
     def open_for_reading(cls, path: str) -> SurveyStore:
         """Open an existing store read-only (fails with :class:`InputError` if it is not one)."""
-        return cls(_connect_read_only(path), path)
+        found = _inspect(path)
+        if found == "new":
+            raise InputError(f"no survey database {path!r} (run 'realquad survey run' first)")
+        if found == "blank" and not dbfile.holds_data(path):
+            raise InputError(f"{path!r} is not a survey database (it is empty)")
+        connection: sqlite3.Connection | None = None
+        try:
+            connection = _connect_for_reading(path)
+            _check_schema(connection, path)
+        except sqlite3.Error as exc:
+            if connection is not None:
+                connection.close()
+            raise _store_error(path, "read", exc) from None
+        except BaseException:
+            if connection is not None:
+                connection.close()
+            raise
+        return cls(connection, path)
 
     @staticmethod
     def check_writable(path: str) -> None:
-        """Raise :class:`InputError` unless ``path`` is a survey store or can become one (read-only check)."""
-        if os.path.exists(path):
-            _connect_read_only(path, allow_empty=True).close()
-            if not os.access(path, os.W_OK):
-                raise InputError(f"cannot write {path!r}: permission denied")
-            return
+        """Raise :class:`InputError` unless ``path`` is a survey store or can become one (nothing is changed)."""
+        found = _inspect(path)
         directory = os.path.dirname(os.path.abspath(path))
-        if not os.path.isdir(directory):
+        if found == "new" and not os.path.isdir(directory):
             raise InputError(f"cannot create {path!r}: no such directory")
+        if found != "new" and not os.access(path, os.W_OK):
+            raise InputError(f"cannot write {path!r}: permission denied")
         if not os.access(directory, os.W_OK):
-            raise InputError(f"cannot create {path!r}: permission denied")
+            verb = "create" if found == "new" else "write"
+            raise InputError(
+                f"cannot {verb} {path!r}: its directory is not writable "
+                "(SQLite keeps its journal beside the file)"
+            )
 
     @classmethod
     def open_for_writing(cls, path: str) -> SurveyStore:
         """Open or create a store for one writer; refuse if another run is writing it.
 
-        An existing file is checked read-only first, so a file of another kind
-        is never modified.
+        An existing file is classified from its header before SQLite opens it,
+        so a file of another kind is never modified. The store is created in
+        rollback mode (so its header is on disk from the first commit) and
+        written in WAL mode, so readers can read while the run writes.
         """
         cls.check_writable(path)
-        lock_fd = _lock(path)
+        lock = dbfile.WriterLock.acquire(path)
+        connection: sqlite3.Connection | None = None
         try:
-            connection = sqlite3.connect(path, timeout=30, isolation_level=None)
+            dbfile.classify(dbfile.read_header(lock.fd, path), path, APPLICATION_ID, SCHEMA_VERSION)
+            connection = sqlite3.connect(
+                dbfile.uri(path, mode="rw"), uri=True, timeout=30, isolation_level=None
+            )
+            if _is_empty(connection):
+                _create(connection)
+            _check_schema(connection, path)
             connection.execute("PRAGMA journal_mode = WAL")
             connection.execute("PRAGMA synchronous = NORMAL")
             # up to 256 MB of pages in memory: the indexes of a survey of millions of
             # fields stay cached instead of being read back for every chunk
             connection.execute("PRAGMA cache_size = -262144")
-            if _is_empty(connection):
-                _create(connection)
-            _check_schema(connection, path)
-        except sqlite3.Error as exc:
-            os.close(lock_fd)
-            raise InputError(f"cannot open {path!r} for writing: {exc}") from None
-        except BaseException:
-            os.close(lock_fd)
+        except BaseException as exc:
+            if connection is not None:
+                connection.close()
+            lock.release(remove=lock.created)
+            if isinstance(exc, sqlite3.Error):
+                raise _store_error(path, "write", exc) from None
             raise
-        return cls(connection, path, lock_fd)
+        return cls(connection, path, lock)
 
     def __enter__(self) -> SurveyStore:
         return self
 
-    def __exit__(self, *exc_info: object) -> None:
-        self.close()
+    def __exit__(
+        self, kind: type[BaseException] | None, error: BaseException | None, _tb: object
+    ) -> None:
+        verb = "read" if self._lock is None else "write"
+        try:
+            self.close()
+        except sqlite3.Error as exc:
+            if error is None:
+                raise _store_error(self.path, verb, exc) from None
+        if isinstance(error, sqlite3.Error):
+            raise _store_error(self.path, verb, error) from None
 
     def close(self) -> None:
-        self.connection.close()
-        if self._lock_fd is not None:
-            os.close(self._lock_fd)
-            self._lock_fd = None
+        """Close the store; a writer leaves the file in rollback mode, without side files.
+
+        Leaving WAL mode needs the file to itself: while a reader still has it
+        open the file stays in WAL mode, and that reader, closing last, removes
+        the ``-wal`` and ``-shm`` files. A store this run created and never
+        wrote a chunk to is removed.
+        """
+        lock, self._lock = self._lock, None
+        remove = lock is not None and lock.created and self.chunks_written == 0
+        try:
+            if lock is not None and not remove:
+                try:
+                    self.connection.execute("PRAGMA busy_timeout = 500")
+                    self.connection.execute("PRAGMA journal_mode = DELETE")
+                except sqlite3.OperationalError:  # a reader has it open: it cleans up
+                    pass
+        finally:
+            self.connection.close()
+            if lock is not None:
+                lock.release(remove=remove)
 
     # -- chunks -----------------------------------------------------------------
 
@@ -405,15 +486,67 @@ class SurveyStore:
                 (chunk.kind, chunk.lo, chunk.hi, len(rows), seconds, _utc_now()),
             )
             chunk_id = cursor.lastrowid
+            if self._run_range is not None:
+                self._record_range(self._run_range)
             method_ids = self._method_ids({r.method for r in rows})
             c.executemany(
                 _INSERT_FIELDS, [(*_VALUES(r), method_ids[r.method], chunk_id) for r in rows]
             )
             c.execute("COMMIT")
         except BaseException:
-            c.execute("ROLLBACK")
+            if c.in_transaction:
+                c.execute("ROLLBACK")
             raise
+        self.chunks_written += 1
+        self._run_range = None  # recorded with this first chunk
         return len(rows)
+
+    def begin_run(self, survey_range: SurveyRange) -> None:
+        """Remember the range of this run; it is recorded in table ``ranges`` with the first chunk saved."""
+        self._run_range = survey_range
+
+    def _record_range(self, survey_range: SurveyRange) -> None:
+        """Add ``survey_range`` to table ``ranges`` (inside the caller's transaction)."""
+        self.connection.execute(_RANGES_TABLE)
+        self.connection.execute(
+            "INSERT OR IGNORE INTO ranges (kind, lo, hi) VALUES (?, ?, ?)",
+            (survey_range.kind, survey_range.lo, survey_range.hi),
+        )
+
+    def missing(self, d_min: int | None = None, d_max: int | None = None) -> list[Interval]:
+        """The parts of the requested ranges that no completed chunk covers, as ``(kind, lo, hi)``.
+
+        The requested ranges are those of the runs recorded in table
+        ``ranges`` (for a store written before that table existed: from the
+        first to the last completed chunk of each kind), cut to ``d_min ≤ d ≤
+        d_max``; for ranges of discriminants that means ``d_min ≤ D ≤ 4·d_max``,
+        where the discriminants of those fields lie. Gaps holding no field at
+        all are left out.
+        """
+        c = self.connection
+        has_ranges = c.execute(
+            "SELECT COUNT(*) FROM sqlite_master WHERE type = 'table' AND name = 'ranges'"
+        ).fetchone()[0]
+        source = (
+            "ranges"
+            if has_ranges
+            else "(SELECT kind, MIN(lo) AS lo, MAX(hi) AS hi FROM chunks GROUP BY kind)"
+        )
+        requested = c.execute(f"SELECT kind, lo, hi FROM {source}").fetchall()
+        completed = c.execute("SELECT kind, lo, hi FROM chunks").fetchall()
+        found: list[Interval] = []
+        for kind in ("d", "D"):
+            hi_cap = None if d_max is None else (d_max if kind == "d" else 4 * d_max)
+            wanted = clip_intervals(
+                [(lo, hi) for k, lo, hi in requested if k == kind], d_min, hi_cap
+            )
+            done = [(lo, hi) for k, lo, hi in completed if k == kind]
+            found.extend(
+                (kind, lo, hi)
+                for lo, hi in subtract_intervals(wanted, done)
+                if has_fields(kind, lo, hi)
+            )
+        return found
 
     def _method_ids(self, methods: set[str]) -> dict[str, int]:
         """The ids of ``methods`` in table ``methods``, adding new ones (inside the caller's transaction)."""
@@ -465,6 +598,14 @@ class SurveyStore:
         return list(self.connection.execute(sql, params))
 
 
+def _store_error(path: str, verb: str, exc: sqlite3.Error) -> InputError:
+    """One line for an SQLite error on the store at ``path`` (``verb``: read or write)."""
+    detail = " ".join(str(exc).split()) or type(exc).__name__
+    if "malformed" in detail or "not a database" in detail:
+        return InputError(f"{path!r} is a damaged survey database ({detail})")
+    return InputError(f"cannot {verb} the survey database {path!r}: {detail}")
+
+
 def _create(connection: sqlite3.Connection) -> None:
     connection.execute("BEGIN IMMEDIATE")
     try:
@@ -484,20 +625,3 @@ def _create(connection: sqlite3.Connection) -> None:
         if connection.in_transaction:
             connection.execute("ROLLBACK")
         raise
-
-
-def _lock(path: str) -> int:
-    """Take the exclusive writer lock of ``path`` or raise :class:`InputError`."""
-    lock_path = path + "-lock"
-    try:
-        fd = os.open(lock_path, os.O_RDWR | os.O_CREAT, 0o644)
-    except OSError as exc:
-        raise InputError(f"cannot lock {path!r}: {exc.strerror}") from None
-    try:
-        fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
-    except OSError:
-        os.close(fd)
-        raise InputError(
-            f"{path!r} is being written by another survey run; wait for it to finish or use another --db"
-        ) from None
-    return fd

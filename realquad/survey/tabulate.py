@@ -67,8 +67,9 @@ def tabulate(
 ) -> SurveyOutcome:
     """Compute the missing chunks of ``survey_range`` into ``store``.
 
-    ``store`` must be open for writing (it holds the writer lock); the
-    executor is closed at the end. On ``KeyboardInterrupt`` the executor's
+    ``store`` must be open for writing (it holds the writer lock); the range
+    is recorded in it with the first chunk saved (so ``survey report`` can say
+    what is missing), and the executor is closed at the end. On ``KeyboardInterrupt`` the executor's
     workers are ended and the interrupt is raised again: every chunk saved
     so far stays saved.
     """
@@ -77,6 +78,7 @@ def tabulate(
         chunks = list(survey_range.chunks(chunk_size))
         counts = {c: len(c.radicands()) for c in chunks}
         todo = [c for c in chunks if not store.is_done(c)]
+        store.begin_run(survey_range)
         outcome = SurveyOutcome(store.path, sum(counts.values()), executor=executor.description)
         outcome.skipped_chunks = len(chunks) - len(todo)
         outcome.skipped_fields = outcome.total_fields - sum(counts[c] for c in todo)

@@ -116,6 +116,8 @@ def test_kill_nine_at_random_moments_then_resume(tmp_path: Path) -> None:
         timeout=300,
     )
     assert finished.returncode == 0, finished.stderr
+    # the -wal and -shm files a kill leaves are recovered and removed by the next run
+    assert sorted(os.listdir(tmp_path)) == ["killed.sqlite", "reference.sqlite"]
     _check_consistent(target)
     assert _table(target) == _table(reference)
 
@@ -138,6 +140,7 @@ def test_interrupt_stops_cleanly(tmp_path: Path) -> None:
     lines = [line for line in err.splitlines() if line.strip()]
     assert "Traceback" not in err and lines[-1] == "realquad: interrupted"
     assert "rerun the same command to resume" in lines[-2]
+    assert os.listdir(tmp_path) == ["interrupted.sqlite"]  # no -wal, -shm or lock file
     _check_consistent(target)
     time.sleep(0.3)
     assert _orphans(str(target)) == []

@@ -31,7 +31,9 @@ def test_schema_is_documented_and_versioned(small_db: Path) -> None:
     c = sqlite3.connect(small_db)
     assert c.execute("PRAGMA user_version").fetchone()[0] == SCHEMA_VERSION
     assert c.execute("PRAGMA application_id").fetchone()[0] == APPLICATION_ID
-    assert c.execute("PRAGMA journal_mode").fetchone()[0] == "wal"
+    # the run has ended: the file is back in rollback mode, with nothing beside it
+    assert c.execute("PRAGMA journal_mode").fetchone()[0] == "delete"
+    assert sorted(p.name for p in small_db.parent.iterdir()) == [small_db.name]
     meta = dict(c.execute("SELECT key, value FROM meta"))
     assert meta["schema_version"] == str(SCHEMA_VERSION)
     columns = [r[1] for r in c.execute("PRAGMA table_info(fields)")]
