@@ -123,7 +123,7 @@ def coefficient_bound_bits(D: int, forms: list[Form]) -> int:
     """``⌈log₂ ∏(1 + e^{π√|D|/a} + 2079)⌉`` over the forms: the bits of the largest coefficient.
 
     >>> coefficient_bound_bits(-23, [Form(1, 1, 6), Form(2, 1, 3), Form(2, -1, 3)])
-    45
+    47
     """
     total = 0.0
     root = math.sqrt(-D)
@@ -192,7 +192,9 @@ def _unpack(value: gmpy2.mpz, slot: int, count: int) -> list[gmpy2.mpz]:
     """The ``count`` non-negative coefficients of ``value`` in base ``2^slot`` (``slot`` bytes-aligned)."""
     width = slot // 8
     raw = int(value).to_bytes(width * count, "little")
-    return [gmpy2.mpz(int.from_bytes(raw[k * width : (k + 1) * width], "little")) for k in range(count)]
+    return [
+        gmpy2.mpz(int.from_bytes(raw[k * width : (k + 1) * width], "little")) for k in range(count)
+    ]
 
 
 def _multiply(f: list[gmpy2.mpz], g: list[gmpy2.mpz], shift: int) -> list[gmpy2.mpz]:
