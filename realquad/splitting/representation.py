@@ -66,6 +66,7 @@ from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError
 from realquad.splitting.class_polynomial import ClassPolynomial, ring_class_polynomial
 from realquad.splitting.decomposition import decompose_prime
+from realquad.textio import signed
 
 #: Why a prime is or is not represented.
 REASONS = ("represented", "inert", "divides_conductor", "other_class")
@@ -147,10 +148,9 @@ def represents_prime(
     if s.divides_conductor or s.kind == "inert":
         reason = "divides_conductor" if s.divides_conductor else "inert"
         return PrimeRepresentation(p, s.kind, False, False, reason, None, None, None, None, None)
-    if s.represented_by_principal:
-        G, gx, gy = Form.identity(D), s.x, s.y
-    else:
-        G, gx, gy = s.form, s.x, s.y
+    G = Form.identity(D) if s.represented_by_principal else s.form
+    gx, gy = s.x, s.y
+    assert G is not None  # eligible: decompose_prime gives a form of the class
     mine = group.narrow_class_of(F)
     if mine not in s.classes:
         return PrimeRepresentation(p, s.kind, True, False, "other_class", None, None, G, gx, gy)
@@ -323,8 +323,8 @@ def representation_criterion(
     genus_method = "assigned genus characters (one class and its inverse per genus)"
     if not others:
         scope = (
-            f"every prime: p ∤ {D} is represented exactly when p mod {modulus} is one of the "
-            f"residues (the genus characters of the form); the primes dividing {D} are listed"
+            f"every prime: p ∤ {signed(D)} is represented exactly when p mod {modulus} is one of the "
+            f"residues (the genus characters of the form); the primes dividing {signed(D)} are listed"
         )
         return RepresentationCriterion(
             D, "congruences", True, characters, modulus, residues, None, None, [], dividing,
@@ -332,7 +332,7 @@ def representation_criterion(
         )  # fmt: skip
     if D > 0:
         scope = (
-            f"necessary only: p ∤ {D} represented ⇒ p mod {modulus} is one of the residues; the "
+            f"necessary only: p ∤ {signed(D)} represented ⇒ p mod {modulus} is one of the residues; the "
             "genus holds other classes, which no congruence separates"
         )
         forms = [] if -1 in others else [Form(*table.representatives[i]).reduced() for i in others]
@@ -350,15 +350,15 @@ def representation_criterion(
     split = "has a root" if k == 1 else f"splits into irreducible factors of degree {k}"
     if same:
         scope = (
-            f"necessary only, for p ∤ {D}·disc(H): represented ⇒ (D/p) = 1, p mod {modulus} is "
+            f"necessary only, for p ∤ {signed(D)}·disc(H): represented ⇒ (D/p) = 1, p mod {modulus} is "
             f"one of the residues and H mod p {split}; other classes of the genus share the order "
-            f"{k} (undistinguished); the primes dividing {D} are listed"
+            f"{k} (undistinguished); the primes dividing {signed(D)} are listed"
         )
     else:
         scope = (
-            f"every prime p ∤ {D}·disc(H) (H mod p squarefree): represented exactly when "
+            f"every prime p ∤ {signed(D)}·disc(H) (H mod p squarefree): represented exactly when "
             f"(D/p) = 1, p mod {modulus} is one of the residues and H mod p {split}; the primes "
-            f"dividing {D} are listed"
+            f"dividing {signed(D)} are listed"
         )
     return RepresentationCriterion(
         D, "class_polynomial", not same, characters, modulus, residues, polynomial, k, same,
