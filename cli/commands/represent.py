@@ -10,7 +10,7 @@ from realquad_cli.output import Command, Sizer, emit, json_option, max_digits_op
 from realquad.core.forms import Form
 from realquad.core.integers import as_integer
 from realquad.equations.parser import parse_equation
-from realquad.errors import InputError
+from realquad.errors import InputError, TooLargeError
 from realquad.splitting import FormPrimes, PrimeRepresentation, form_primes
 from realquad.splitting.representation import RepresentationCriterion
 from realquad.textio import plural, signed, terms_text
@@ -164,13 +164,17 @@ def command(
     F = read_form(form_text)
     if bound is not None and prime is not None:
         raise InputError("give either --primes-up-to B or --prime P, not both")
+    B, P = 50, None
     if prime is not None:
-        result = form_primes(F, prime=as_integer(prime, "--prime"), criterion=not skip_criterion)
-    else:
-        B = as_integer(bound, "--primes-up-to") if bound is not None else 50
+        P = as_integer(prime, "--prime")
+    elif bound is not None:
+        B = as_integer(bound, "--primes-up-to")
         if B < 2 or B > MAX_BOUND:
             raise InputError(f"--primes-up-to must be between 2 and {MAX_BOUND:,}, got {B}")
-        result = form_primes(F, B, criterion=not skip_criterion)
+    try:
+        result = form_primes(F, B, prime=P, criterion=not skip_criterion)
+    except TooLargeError as exc:
+        raise TooLargeError(f"{exc}; --no-criterion answers the primes alone") from None
     payload: dict[str, Any] = result.to_dict()
     emit(payload, _text(result, Sizer(max_digits)), as_json, max_digits)
 

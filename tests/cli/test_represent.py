@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import contextlib
+import io
 import json
 
 import gmpy2
@@ -9,6 +11,7 @@ import jsonschema
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
+from realquad_cli.main import main
 
 from tests.cli.support import run, run_json
 from tests.cli.test_json_schema import COMMANDS, SCHEMA
@@ -91,11 +94,6 @@ ALPHABET = "xy0123456789+-*/^()= ²·−"
 @given(st.text(alphabet=ALPHABET, max_size=24))
 def test_fuzz_never_a_traceback(text: str) -> None:
     # random strings: an answer (exit 0) or one error line (exit 2), never a traceback
-    from realquad_cli.main import main
-
-    import contextlib
-    import io
-
     out, err = io.StringIO(), io.StringIO()
     with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
         code = main(["represent", text, "--primes-up-to", "20", "--json"])
