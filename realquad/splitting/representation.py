@@ -53,6 +53,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from math import gcd, lcm
 
+import gmpy2
 from sympy.polys.domains import ZZ
 from sympy.polys.galoistools import gf_diff, gf_gcd, gf_pow_mod, gf_rem, gf_sub
 
@@ -215,6 +216,8 @@ class RepresentationCriterion:
         [23, 127, 137, 151]
         """
         p = as_integer(p, "p")
+        if p < 2 or not gmpy2.is_prime(p):
+            raise InputError(f"the criterion is a statement about primes, got {p}")
         if self.discriminant % p == 0:
             return p in self.dividing_represented
         if not self.satisfies_characters(p):
