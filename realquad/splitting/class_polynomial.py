@@ -44,7 +44,8 @@ symmetry) had imaginary part within the same margin. Conjugate forms
 >>> ring_class_polynomial(-4).coefficients, ring_class_polynomial(-3).coefficients
 ([-1728, 1], [0, 1])
 
-References: D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §9, §11–13;
+References (theorem numbers from memory; the statements are tested by brute
+force in tests/splitting): D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §9, §11–13;
 H. Cohen, *A Course in Computational Algebraic Number Theory*, Springer 1993,
 §7.6.2 (computing Hilbert class polynomials); A. Enge, "The complexity of
 class polynomial computation via floating point approximations", Math. Comp.

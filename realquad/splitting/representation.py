@@ -43,7 +43,8 @@ answered one by one.
 >>> c.kind, c.exact, str(c.polynomial), c.factor_degree
 ('class_polynomial', True, 'X³ − 151013228706000X² + 224179462188000000X − 1879994705688000000000', 1)
 
-References: D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §2–3
+References (theorem numbers from memory; the statements are tested by brute
+force in tests/splitting): D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §2–3
 (genus theory), §7 (forms and ideals), §9 (Theorem 9.2), §13; C. F. Gauss,
 *Disquisitiones Arithmeticae*, art. 229–233.
 """
@@ -323,11 +324,16 @@ def representation_criterion(
     dividing = sorted(factorize(abs(D)))
     represented = [q for q in dividing if represents_prime(F, q, group).represented]
     characters = list(zip(names, mine, strict=True))
+    condition = (
+        f"p mod {modulus} is one of the residues"
+        if residues is not None
+        else "p has the genus character values of the form"
+    )
     genus_method = "assigned genus characters (one class and its inverse per genus)"
     if not others:
         scope = (
-            f"every prime: p ∤ {signed(D)} is represented exactly when p mod {modulus} is one of the "
-            f"residues (the genus characters of the form); the primes dividing {signed(D)} are listed"
+            f"every prime: p ∤ {signed(D)} is represented exactly when {condition} (the genus "
+            f"characters of the form); the primes dividing {signed(D)} are listed"
         )
         return RepresentationCriterion(
             D, "congruences", True, characters, modulus, residues, None, None, [], dividing,
@@ -335,8 +341,8 @@ def representation_criterion(
         )  # fmt: skip
     if D > 0:
         scope = (
-            f"necessary only: p ∤ {signed(D)} represented ⇒ p mod {modulus} is one of the residues; the "
-            "genus holds other classes, which no congruence separates"
+            f"necessary only: p ∤ {signed(D)} represented ⇒ {condition}; the genus holds other "
+            "classes, which no congruence separates"
         )
         forms = [] if -1 in others else [Form(*table.representatives[i]).reduced() for i in others]
         return RepresentationCriterion(
@@ -353,15 +359,15 @@ def representation_criterion(
     split = "has a root" if k == 1 else f"splits into irreducible factors of degree {k}"
     if same:
         scope = (
-            f"necessary only, for p ∤ {signed(D)}·disc(H): represented ⇒ (D/p) = 1, p mod {modulus} is "
-            f"one of the residues and H mod p {split}; other classes of the genus share the order "
+            f"necessary only, for p ∤ {signed(D)}·disc(H): represented ⇒ (D/p) = 1, {condition} and H "
+            f"mod p {split}; other classes of the genus share the order "
             f"{k} (undistinguished); the primes dividing {signed(D)} are listed"
         )
     else:
         scope = (
             f"every prime p ∤ {signed(D)}·disc(H) (H mod p squarefree): represented exactly when "
-            f"(D/p) = 1, p mod {modulus} is one of the residues and H mod p {split}; the primes "
-            f"dividing {signed(D)} are listed"
+            f"(D/p) = 1, {condition} and H mod p {split}; the primes dividing {signed(D)} are "
+            "listed"
         )
     return RepresentationCriterion(
         D, "class_polynomial", not same, characters, modulus, residues, polynomial, k, same,

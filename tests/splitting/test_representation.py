@@ -184,3 +184,16 @@ def test_non_primitive_forms_are_refused() -> None:
     with pytest.raises(DomainError, match="not primitive"):
         represents_prime(Form(2, 0, 4), 3)
     assert gcd(2, 4) == 2
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("F", [Form(1, 0, 14), Form(3, 2, 5), Form(1, 0, -79)], ids=str)
+def test_every_prime_below_one_hundred_thousand(F: Form) -> None:
+    # the same brute force as above, ten times further
+    D = F.discriminant
+    v = least_unit_v(D) if D > 0 else 0
+    for r in form_primes(F, 100_000, criterion=False).primes:
+        brute = brute_definite(F, r.p) if D < 0 else brute_indefinite(F, r.p, v)
+        assert r.represented == brute, (F, r.p)
+        if r.represented:
+            assert F.value(r.x, r.y) == r.p
