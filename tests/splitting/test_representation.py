@@ -61,6 +61,7 @@ DEFINITE = [
     Form(2, 1, 3),
     Form(1, 0, 64),
     Form(4, 4, 17),
+    Form(2, 1, 25),  # Cl(−199) ≅ C9: the criterion is only necessary (four classes share it)
 ]
 INDEFINITE = [Form(1, 0, -79), Form(3, 2, -26), Form(1, 1, -5), Form(2, 0, -7), Form(5, 14, -6)]
 
@@ -171,6 +172,16 @@ def test_idoneal_numbers_give_congruences() -> None:
         if n in IDONEAL:
             for p in primes_below(1500):
                 assert c.holds(p) == brute_definite(Form(1, 0, n), p), (n, p)
+
+
+def test_a_criterion_that_is_only_necessary() -> None:
+    # Cl(−199) is cyclic of order 9, one genus: the six classes of order 9 are three pairs g^{±k},
+    # which the degree of the factors of H mod p cannot tell apart
+    c = representation_criterion(Form(2, 1, 25))
+    assert c.kind == "class_polynomial" and not c.exact and c.factor_degree == 9
+    assert len(c.undistinguished) == 4
+    for p in primes_below(2000):
+        assert c.holds(p) is not True
 
 
 def test_ramified_and_conductor_primes() -> None:
