@@ -7,7 +7,8 @@ the package's ``__init__`` choosing among the methods beneath it
 * :mod:`realquad.cfrac` — continued fractions;
 * :mod:`realquad.units` — fundamental units and regulators, roots of unity;
 * :mod:`realquad.classgroup` — class numbers and class groups;
-* :mod:`realquad.splitting` — decomposition of primes and their classes;
+* :mod:`realquad.splitting` — decomposition of primes and their classes; which primes a
+  form represents; ring class polynomials;
 * :mod:`realquad.equations` — Pell, norm, binary-form and general quadratic equations;
 * :mod:`realquad.survey` — tabulation over ranges of fields;
 
@@ -47,25 +48,41 @@ from realquad.equations import (
     solve_quadratic,
 )
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
-from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
+from realquad.splitting import (
+    ClassPolynomial,
+    FormPrimes,
+    PrimeDecomposition,
+    PrimeRepresentation,
+    RepresentationCriterion,
+    decompose_prime,
+    form_primes,
+    representation_criterion,
+    represents_prime,
+    ring_class_polynomial,
+    split_primes,
+)
 from realquad.units import Regulator, Unit, UnitGroup, fundamental_unit, regulator, unit_group
 
 __all__ = [
     "__version__",
     "BACKEND",
     "ClassGroup",
+    "ClassPolynomial",
     "ContinuedFraction",
     "DomainError",
     "Form",
+    "FormPrimes",
     "Ideal",
     "InputError",
     "NormEquationSolution",
     "Order",
     "PellSolution",
     "PrimeDecomposition",
+    "PrimeRepresentation",
     "QuadraticIrrational",
     "QuadraticNumber",
     "RealquadError",
+    "RepresentationCriterion",
     "Regulator",
     "TooLargeError",
     "Unit",
@@ -76,12 +93,16 @@ __all__ = [
     "convergents",
     "decompose_prime",
     "field",
+    "form_primes",
     "from_periodic",
     "fundamental_unit",
     "kronecker",
     "parse_equation",
     "pell",
     "regulator",
+    "representation_criterion",
+    "represents_prime",
+    "ring_class_polynomial",
     "solve_binary_form",
     "solve_norm_equation",
     "solve_quadratic",

@@ -72,7 +72,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"group"},
         {"exact", "bsgs", "imaginary", "imaginary_bsgs"},
     ],
-    "realquad.splitting": [{"decomposition"}],
+    "realquad.splitting": [{"decomposition", "class_polynomial"}, {"representation"}],
     "realquad.equations": [
         {"parser", "families"},
         {"finite"},

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import click
-from realquad_cli.commands import cfrac, classgroup, pell, solve, split, survey, unit
+from realquad_cli.commands import cfrac, classgroup, pell, represent, solve, split, survey, unit
 
 COMMANDS: list[click.Command] = [
     cfrac.command,
@@ -12,5 +12,6 @@ COMMANDS: list[click.Command] = [
     survey.command,
     classgroup.command,
     split.command,
+    represent.command,
     solve.command,
 ]

@@ -19,6 +19,7 @@ COMMAND_NAMES = (
     "unit",
     "classgroup",
     "split",
+    "represent",
     "solve",
     "survey run",
     "survey query",
