@@ -7,18 +7,17 @@ import io
 import json
 
 import gmpy2
-import jsonschema
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 from realquad_cli.main import main
 
 from tests.cli.support import run, run_json
-from tests.cli.test_json_schema import COMMANDS, SCHEMA
+from tests.cli.test_json_schema import _validate as _validate_command
 
 
 def _validate(data: dict) -> None:
-    jsonschema.validate(data, {**SCHEMA, "$ref": f"#/$defs/{COMMANDS['represent']}"})
+    _validate_command("represent", data)
 
 
 @pytest.mark.parametrize(
