@@ -5,6 +5,7 @@ from __future__ import annotations
 import click
 from realquad_cli.output import (
     Command,
+    IntegerRange,
     Sizer,
     check_output_path,
     compact_text,
@@ -15,8 +16,8 @@ from realquad_cli.output import (
 )
 
 from realquad.core.integers import as_integer
-from realquad.equations.pell import pell
-from realquad.textio import plural, signed, to_decimal
+from realquad.equations.pell import PellSolution, pell
+from realquad.textio import plural, shown, signed, to_decimal
 
 
 @click.command("pell", cls=Command)
@@ -24,9 +25,33 @@ from realquad.textio import plural, signed, to_decimal
 @click.option(
     "--norm", "norm", type=str, default="1", show_default=True, help="N: one of 1, -1, 4, -4."
 )
+@click.option(
+    "--mod",
+    "modulus",
+    type=IntegerRange(2),
+    default=None,
+    help="Also give x and y modulo M (a compact solution needs M prime to its denominators).",
+    metavar="M",
+)
+@click.option(
+    "--leading",
+    "leading",
+    type=IntegerRange(1, 10_000),
+    default=None,
+    help="Also give the first K decimal digits of x and y.",
+    metavar="K",
+)
 @json_option
 @size_options
-def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | None) -> None:
+def command(
+    d: str,
+    norm: str,
+    modulus: int | None,
+    leading: int | None,
+    as_json: bool,
+    max_digits: int,
+    output: str | None,
+) -> None:
     """Least positive solution of x² − d·y² = N (N = 1, -1, 4 or -4).
 
     Example: realquad pell 61 --norm -1
@@ -36,6 +61,7 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
     check_output_path(output)
     sol = pell(d_value, n_value)
     payload = sol.to_dict()
+    extra_lines = _extras(sol, modulus, leading, payload)
     sizer = Sizer(max_digits)
     lines = [f"x² {'−' if sol.d > 0 else '+'} {sizer.text(abs(sol.d))}·y² = {signed(sol.norm)}"]
     if sol.solvable and sol.x is not None and sol.y is not None:
@@ -54,6 +80,7 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
         lines.append(compact_text(sol.compact, shape))
     else:
         lines.append("no solution")
+    lines += extra_lines
     if sol.period_length is not None:
         lines.append(f"period length {sol.period_length:,}")
     if sol.reason:
@@ -69,3 +96,29 @@ def command(d: str, norm: str, as_json: bool, max_digits: int, output: str | Non
         payload["output"] = output
         lines.append(f"full values written to {output}")
     emit(payload, "\n".join(lines), as_json, max_digits)
+
+
+def _extras(
+    sol: PellSolution, modulus: int | None, leading: int | None, payload: dict
+) -> list[str]:
+    """Lines (and JSON keys) for ``--mod`` and ``--leading``; nothing when there is no solution."""
+    if not sol.solvable or (modulus is None and leading is None):
+        return []
+    lines = []
+    if modulus is not None:
+        x_mod, y_mod = sol.residues(modulus)
+        payload["residues"] = {"modulus": modulus, "x": x_mod, "y": y_mod}
+        m = shown(modulus)
+        lines.append(f"x ≡ {x_mod} (mod {m}), y ≡ {y_mod} (mod {m})")
+    if leading is not None:
+        digits = sol.leading_digits(leading)
+        if digits is None:
+            payload["leading"] = None
+            lines.append(
+                f"the first {plural(leading, 'digit')} of x and y are not certain at the "
+                "regulator's precision (a digit sits at a boundary)"
+            )
+        else:
+            payload["leading"] = {"x": digits[0], "y": digits[1]}
+            lines.append(f"x begins {digits[0]}…, y begins {digits[1]}…")
+    return lines

@@ -40,7 +40,7 @@ from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.table import compiled_table
-from realquad.textio import about, decimal_digits, shown, signed
+from realquad.textio import about, decimal_digits, shown, signed, to_decimal
 from realquad.units import DEFAULT_MAX_PERIOD, Regulator, Unit, fundamental_unit
 from realquad.units.bsgs import check_reach
 from realquad.units.results import trace_digits
@@ -144,6 +144,68 @@ class PellSolution:
         if k == 0:
             raise InputError("k must be at least 1 for a negative norm")
         return self._coords(eps ** (2 * k - 1))
+
+    def residues(self, m: int) -> tuple[int, int]:
+        """``(x mod m, y mod m)`` for the least solution, without expanding a compact one.
+
+        A compact solution is reduced factor by factor modulo ``m``
+        (:meth:`CompactRepresentation.modulo`), which needs ``m`` prime to 2
+        and to the factors' denominators; another ``m`` is refused with a
+        :class:`DomainError` naming the common factor.
+
+        >>> pell(61).residues(1000)
+        (49, 980)
+        """
+        m = as_integer(m, "m")
+        if m < 2:
+            raise InputError(f"the modulus must be at least 2, got {m}")
+        if not self.solvable:
+            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        if self.x is not None and self.y is not None:
+            return self.x % m, self.y % m
+        assert self.compact is not None and self._unit is not None
+        a, b = self.compact.modulo(m)
+        scale = 1 if abs(self.norm) == 1 else 2
+        k = isqrt(self.compact.discriminant // self.d)
+        return scale * a % m, scale * k * b % m
+
+    def leading_digits(self, count: int) -> tuple[str, str] | None:
+        """The first ``count`` decimal digits of ``x`` and of ``y``, from the regulator.
+
+        ``x = s(η + N/η)/2`` and ``y = s(η − N/η)/(2√d)`` with ``η = e^R``
+        (``s = 2`` for ``N = ±4``, else 1), evaluated with ``R``'s rigorous
+        error bound; ``None`` when that bound leaves a digit undecided even
+        with extra precision.
+
+        >>> pell(61).leading_digits(4)
+        ('1766', '2261')
+        """
+        count = as_integer(count, "count")
+        if count < 1:
+            raise InputError(f"the number of leading digits must be at least 1, got {count}")
+        if not self.solvable:
+            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        if self.x is not None and self.y is not None:
+            return to_decimal(self.x)[:count], to_decimal(self.y)[:count]
+        assert self._unit is not None
+        k = 2 if self.norm > 0 and self._unit.norm == -1 else 1
+        eta_norm = self._unit.norm**k
+        for extra in (count + 20, 2 * count + 60):
+            reg = self._unit.precise_regulator(extra)
+            magnitude = max(1, int(float(reg.value) * k)).bit_length() // 3 + 1
+            with mpmath.workdps(magnitude + extra + 20):
+                R, error = reg.value * k, reg.error_bound * k  # exact: k is 1 or 2
+                half = mpmath.log10(mpmath.mpf(1 if abs(self.norm) == 1 else 2) / 2)
+                base = half + R / mpmath.log(10)
+                tail = mpmath.exp(-2 * R)
+                x_log = base + mpmath.log10(1 + eta_norm * tail)
+                y_log = base + mpmath.log10(1 - eta_norm * tail) - mpmath.log10(self.d) / 2
+                spread = error / mpmath.log(10) + mpmath.mpf(10) ** (-(extra + 5))
+                x_digits = _leading(x_log, spread, count, extra - 10)
+                y_digits = _leading(y_log, spread, count, extra - 10)
+            if x_digits is not None and y_digits is not None:
+                return x_digits, y_digits
+        return None
 
     def solutions(self) -> Iterator[tuple[int, int]]:
         """Iterate over the positive solutions in increasing order."""
@@ -259,6 +321,28 @@ def pell(d: int, norm: int = 1, max_period: int = DEFAULT_MAX_PERIOD) -> PellSol
     return result
 
 
+def _leading(
+    log10_value: mpmath.mpf, spread: mpmath.mpf, count: int, exact_below: int = 0
+) -> str | None:
+    """The first ``count`` digits of the integer ``10^v``, the same for every ``v`` within ``spread`` of ``log10_value``.
+
+    An integer of at most ``max(count, exact_below)`` digits is the nearest
+    integer to ``10^v`` (``exact_below`` below the working precision: no
+    boundary case); a longer one starts with ``⌊10^{v − e + count − 1}⌋`` (``e = ⌊v⌋``).
+    ``None`` when the two ends of the interval disagree.
+    """
+    ends = []
+    for v in (log10_value - spread, log10_value + spread):
+        exponent = int(mpmath.floor(v))
+        if exponent < max(count, exact_below):
+            ends.append((exponent, int(mpmath.nint(mpmath.power(10, v)))))
+        else:
+            ends.append((exponent, int(mpmath.floor(mpmath.power(10, v - exponent + count - 1)))))
+    if ends[0] != ends[1]:
+        return None
+    return str(ends[0][1])[:count]
+
+
 #: Largest solution expanded from a compact representation (decimal digits of x).
 MAX_EXPANDED_DIGITS = 1_000_000
 
@@ -275,7 +359,9 @@ def _count_digits(result: PellSolution, unit: Unit) -> None:
     k = 2 if result.norm > 0 and unit.norm == -1 else 1
     result.compact = eps if k == 1 else eps.power(2)
     reg = unit.precise_regulator()
-    regulator = Regulator(reg.value * k, reg.digits, reg.error_bound * k, reg.method, reg.proof)
+    with mpmath.workdps(reg.digits + 30):  # doubling R must not round it to 53 bits
+        value, error = reg.value * k, reg.error_bound * k
+    regulator = Regulator(value, reg.digits, error, reg.method, reg.proof)
     scale = 1 if abs(result.norm) == 1 else 2
     digits = trace_digits(regulator, unit.norm**k, Fraction(scale, 2))
     result.digits_exact = digits is not None

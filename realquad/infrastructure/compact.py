@@ -176,7 +176,8 @@ class CompactRepresentation:
                 z = int(alpha.c)
                 if math.gcd(z, m) != 1:
                     raise DomainError(
-                        f"modulus {m} shares a factor with a denominator ({z}) of the compact representation"
+                        f"modulus {m} shares a factor ({math.gcd(z, m)}) with a denominator ({z}) "
+                        "of the compact representation; reduce modulo a number prime to it"
                     )
                 inv = pow(z, -1, m)
                 ax, ay = int(alpha.x) * inv % m, int(alpha.y) * inv % m

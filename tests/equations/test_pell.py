@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import random
 
 import pytest
 from hypothesis import example, given
@@ -10,6 +11,7 @@ from hypothesis import strategies as st
 
 from realquad import InputError, pell
 from realquad.core.integers import is_square
+from realquad.errors import DomainError
 
 
 def test_oeis_a002350_a002349(oeis):
@@ -239,3 +241,51 @@ def test_compact_solutions_agree_with_the_continued_fraction() -> None:
             )
             pell_module._count_digits(compact, unit)
             assert compact.digits == decimal_digits(expanded.x) and compact.digits_exact
+
+
+def _forced_compact(d: int, n: int, monkeypatch: pytest.MonkeyPatch):
+    """The solution as the infrastructure leaves it for huge d: compact, never expanded."""
+    import importlib
+
+    pell_module = importlib.import_module("realquad.equations.pell")
+    monkeypatch.setattr(pell_module, "MAX_EXPANDED_DIGITS", 0)
+    return pell_module.pell(d, n, max_period=10)
+
+
+def test_residues_and_leading_digits_of_compact_solutions(monkeypatch: pytest.MonkeyPatch) -> None:
+    # independent check: the continued fraction's expanded solution, reduced and cut by Python itself
+    rng = random.Random(20261202)
+    checked = 0
+    for d in rng.sample(range(2, 10**7), 25):
+        for n in (1, -1, 4, -4):
+            full = pell(d, n)
+            if not full.solvable or full.x is None:
+                continue
+            compact = _forced_compact(d, n, monkeypatch)
+            assert compact.x is None and compact.compact is not None
+            for m in (10**9 + 7, 999983, 2**61 - 1):
+                assert compact.residues(m) == (full.x % m, full.y % m)
+            assert compact.leading_digits(8) == (str(full.x)[:8], str(full.y)[:8])
+            checked += 1
+    assert checked >= 20
+
+
+def test_residues_refuse_a_modulus_sharing_a_denominator(monkeypatch: pytest.MonkeyPatch) -> None:
+    compact = _forced_compact(1000003, 1, monkeypatch)
+    with pytest.raises(DomainError, match="shares a factor"):
+        compact.residues(2**20)
+    assert pell(1000003).residues(2**20) == (pell(1000003).x % 2**20, pell(1000003).y % 2**20)
+
+
+def test_leading_digits_at_10_to_the_30() -> None:
+    # x = y·√d·(1 + O(ε⁻²)) exactly, and √d = 10¹⁵·(1 + 28.5·10⁻³⁰ + …): the two prefixes
+    # computed from x and y separately, must satisfy x₄₀² · 10³⁰ ≈ y₄₀² · d to truncation error
+    # (relative 10⁻³⁹; equal prefixes would miss by a relative 5.7·10⁻²⁹)
+    d = 10**30 + 57
+    s = pell(d, -1)
+    lead = s.leading_digits(40)
+    assert lead is not None and len(lead[0]) == len(lead[1]) == 40
+    x40, y40 = int(lead[0]), int(lead[1])
+    assert abs(x40**2 * 10**30 - y40**2 * d) <= 10**72
+    with pytest.raises(InputError):
+        s.leading_digits(0)

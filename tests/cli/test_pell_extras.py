@@ -1,0 +1,73 @@
+"""``realquad pell --mod M --leading K``: x and y reduced and cut, checked against Python's own arithmetic."""
+
+from __future__ import annotations
+
+import pytest
+
+from realquad import pell
+from tests.cli.support import run, run_json
+
+
+def test_mod_and_leading_of_an_expanded_solution(capsys: pytest.CaptureFixture[str]) -> None:
+    # x² − 61y² = 1: x = 1766319049, y = 226153980 (Euler's example; checked by the library's own x² − 61y²)
+    data = run_json(capsys, "pell", "61", "--mod", "1000", "--leading", "4")
+    assert data["residues"] == {"modulus": 1000, "x": 49, "y": 980}
+    assert data["leading"] == {"x": "1766", "y": "2261"}
+    code, out, _ = run(capsys, "pell", "61", "--mod", "1000", "--leading", "4")
+    assert code == 0
+    assert (
+        "x ≡ 49 (mod 1000), y ≡ 980 (mod 1000)" in out and "x begins 1766…, y begins 2261…" in out
+    )
+
+
+def test_mod_and_leading_of_a_compact_solution(capsys: pytest.CaptureFixture[str]) -> None:
+    # d ≈ 10³⁰: x has hundreds of trillions of digits; x² − dy² = −1 must hold modulo the primes asked for
+    d = 10**30 + 57
+    for m in (10**9 + 7, 998244353):
+        data = run_json(capsys, "pell", str(d), "--norm", "-1", "--mod", str(m), "--leading", "25")
+        x, y = data["residues"]["x"], data["residues"]["y"]
+        assert (x * x - d * y * y + 1) % m == 0
+        assert data["x"] is None and data["compact"] is not None
+        assert len(data["leading"]["x"]) == len(data["leading"]["y"]) == 25
+
+
+def test_unsolvable_equation_has_nothing_to_reduce(capsys: pytest.CaptureFixture[str]) -> None:
+    data = run_json(capsys, "pell", "3", "--norm", "-1", "--mod", "7", "--leading", "2")
+    assert data["solvable"] is False and "residues" not in data and "leading" not in data
+
+
+@pytest.mark.parametrize(
+    "args, message",
+    [
+        (["--mod", "1"], "'--mod': 1 is not in the range 2 ≤ x"),
+        (["--mod", "abc"], "--mod must be an integer"),
+        (["--leading", "0"], "'--leading': 0 is not in the range 1 ≤ x ≤ 10000"),
+        (["--leading", "10001"], "not in the range"),
+    ],
+)
+def test_bad_values_are_one_line(
+    capsys: pytest.CaptureFixture[str], args: list[str], message: str
+) -> None:
+    code, out, err = run(capsys, "pell", "61", *args)
+    assert code == 2 and out == "" and err.count("\n") == 1 and message in err
+
+
+def test_modulus_sharing_a_denominator_is_refused_in_one_line(
+    capsys: pytest.CaptureFixture[str],
+) -> None:
+    d = 10**30 + 57
+    m = next(
+        m for m in (2**10, 3**10, 5**10, 7**10, 11**10) if _refused(pell(d, -1), m)
+    )  # some small prime divides a denominator of the compact form
+    code, out, err = run(capsys, "pell", str(d), "--norm", "-1", "--mod", str(m))
+    assert code == 2 and out == "" and "shares a factor" in err and err.count("\n") == 1
+
+
+def _refused(solution: object, m: int) -> bool:
+    from realquad.errors import DomainError
+
+    try:
+        solution.residues(m)  # type: ignore[attr-defined]
+    except DomainError:
+        return True
+    return False
