@@ -24,7 +24,7 @@ import gmpy2
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.textio import MINUS, plural, terms_text, to_decimal
+from realquad.textio import MINUS, plural, signed, terms_text, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -339,6 +339,11 @@ def compact_text(form: CompactRepresentation, name: str) -> str:
         f"compact form: {name} = {sign}∏ αᵢ^eᵢ over {plural(form.size, 'factor')} αᵢ = (x + y√{D})/z:"
     ]
     for chain in form.chains:
+        if chain.power != 1:
+            count = plural(len(chain.factors), "factor")
+            lines.append(
+                f"  the product of the next {count}, raised to the power {signed(chain.power)}:"
+            )
         for a, e in chain.factors:
             number = terms_text([(int(a.x), ""), (int(a.y), f"√{D}")])
             lines.append(f"  ({number})/{a.c} ^ {e}")

@@ -90,11 +90,14 @@ def command(
         body = f"# x^2 - {sol.d} y^2 = {sol.norm}\n"
         if sol.x is not None and sol.y is not None:
             body += f"x = {to_decimal(sol.x)}\ny = {to_decimal(sol.y)}\n"
+        elif sol.compact is not None:
+            body = sol.compact_file()
         else:
             body += "no solution\n"
         write_atomically(output, body)
         payload["output"] = output
-        lines.append(f"full values written to {output}")
+        what = "the compact form" if sol.x is None and sol.compact is not None else "full values"
+        lines.append(f"{what} written to {output}")
     emit(payload, "\n".join(lines), as_json, max_digits)
 
 

@@ -207,6 +207,30 @@ class PellSolution:
                 return x_digits, y_digits
         return None
 
+    def compact_file(self) -> str:
+        """The least solution in compact form as plain text (format in ``docs/pell.md``).
+
+        ``x + y√d = scale · sign · ∏_chains (∏_factors ((a + b√d)/c)^e)^power``,
+        one ``chain POWER`` line per chain followed by its ``factor A B C E``
+        lines, with ``scale`` 2 for ``N = ±4`` (else 1); ``#`` starts a comment.
+        """
+        if self.compact is None:
+            raise InputError("the solution is not in compact form (it is written out in full)")
+        k = isqrt(self.compact.discriminant // self.d)
+        lines = [
+            "# least solution of x^2 - d*y^2 = N, written by realquad in compact form",
+            "# x + y*sqrt(d) = scale * sign * prod over chains of "
+            "(prod over the chain's factors of ((a + b*sqrt(d))/c)^e)^power",
+            f"d {self.d}",
+            f"n {self.norm}",
+            f"scale {1 if abs(self.norm) == 1 else 2}",
+            f"sign {self.compact.sign}",
+        ]
+        for chain in self.compact.chains:
+            lines.append(f"chain {chain.power}")
+            lines += [f"factor {int(a.x)} {int(a.y) * k} {int(a.c)} {e}" for a, e in chain.factors]
+        return "\n".join(lines) + "\n"
+
     def solutions(self) -> Iterator[tuple[int, int]]:
         """Iterate over the positive solutions in increasing order."""
         if self._unit is None:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 
 from realquad import pell
@@ -71,3 +73,23 @@ def _refused(solution: object, m: int) -> bool:
     except DomainError:
         return True
     return False
+
+
+def test_output_writes_the_compact_form_a_reader_can_evaluate(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    from tests.equations.test_pell import _evaluator_from_the_docs
+
+    d, target = 10**30 + 57, tmp_path / "solution.txt"
+    code, out, _ = run(capsys, "pell", str(d), "--norm", "-1", "--output", str(target))
+    assert code == 0 and f"the compact form written to {target}" in out
+    text = target.read_text(encoding="ascii")
+    assert f"\nd {d}\nn -1\nscale 1\n" in text
+    x, y = _evaluator_from_the_docs()(text, 998244353)
+    assert (x * x - d * y * y + 1) % 998244353 == 0
+
+
+def test_the_square_of_a_chain_is_printed(capsys: pytest.CaptureFixture[str]) -> None:
+    # N = +1 with a unit of norm −1: the least solution is ε², a chain raised to the power 2
+    code, out, _ = run(capsys, "pell", str(10**30 + 57))
+    assert code == 0 and "raised to the power 2:" in out
