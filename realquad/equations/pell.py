@@ -145,6 +145,15 @@ class PellSolution:
             raise InputError("k must be at least 1 for a negative norm")
         return self._coords(eps ** (2 * k - 1))
 
+    def _argument(self, value: int, name: str, low: int, what: str) -> int:
+        """``value`` as an integer ``≥ low`` for a question about the solution, which must exist."""
+        value = as_integer(value, name)
+        if value < low:
+            raise InputError(f"{what} must be at least {low}, got {value}")
+        if not self.solvable:
+            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        return value
+
     def residues(self, m: int) -> tuple[int, int]:
         """``(x mod m, y mod m)`` for the least solution, without expanding a compact one.
 
@@ -156,11 +165,7 @@ class PellSolution:
         >>> pell(61).residues(1000)
         (49, 980)
         """
-        m = as_integer(m, "m")
-        if m < 2:
-            raise InputError(f"the modulus must be at least 2, got {m}")
-        if not self.solvable:
-            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        m = self._argument(m, "m", 2, "the modulus")
         if self.x is not None and self.y is not None:
             return self.x % m, self.y % m
         assert self.compact is not None and self._unit is not None
@@ -180,11 +185,7 @@ class PellSolution:
         >>> pell(61).leading_digits(4)
         ('1766', '2261')
         """
-        count = as_integer(count, "count")
-        if count < 1:
-            raise InputError(f"the number of leading digits must be at least 1, got {count}")
-        if not self.solvable:
-            raise InputError(f"x² − {self.d}y² = {self.norm} has no solution")
+        count = self._argument(count, "count", 1, "the number of leading digits")
         if self.x is not None and self.y is not None:
             return to_decimal(self.x)[:count], to_decimal(self.y)[:count]
         assert self._unit is not None
