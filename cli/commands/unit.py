@@ -18,7 +18,7 @@ from realquad_cli.output import (
 from realquad_cli.progress import ProgressLine
 
 from realquad.core.orders import Order
-from realquad.errors import InputError, TooLargeError
+from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.textio import MINUS, plural, signed, to_decimal
 from realquad.units import METHODS, fundamental_unit, unit_group
@@ -114,6 +114,11 @@ def command(
         )
         payload["output"] = output
         lines.append(f"full values written to {output}")
+    elif output is not None and form is not None:
+        D = order.discriminant
+        write_atomically(output, form.to_text(D, 2, f"fundamental unit (x + y*sqrt(d))/2, d = {D}"))
+        payload["output"] = output
+        lines.append(f"the compact form of 2ε = x + y√{sizer.text(D)} written to {output}")
     emit(payload, "\n".join(lines), as_json, max_digits)
 
 
@@ -145,10 +150,5 @@ OUTPUT_DIGITS_LIMIT = 20_000_000
 def _fits(form: CompactRepresentation, max_digits: int, output: str | None) -> bool:
     n = form.digits_estimate()
     if output is not None:
-        if n > OUTPUT_DIGITS_LIMIT:
-            raise TooLargeError(
-                f"the unit has about {n} digits, too many to write out "
-                f"(limit {OUTPUT_DIGITS_LIMIT:,}); --compact prints it in compact form"
-            )
-        return True
+        return n <= OUTPUT_DIGITS_LIMIT  # beyond: the compact file is written instead
     return max_digits == 0 and n <= OUTPUT_DIGITS_LIMIT or n <= max_digits

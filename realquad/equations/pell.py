@@ -217,20 +217,8 @@ class PellSolution:
         """
         if self.compact is None:
             raise InputError("the solution is not in compact form (it is written out in full)")
-        k = isqrt(self.compact.discriminant // self.d)
-        lines = [
-            "# least solution of x^2 - d*y^2 = N, written by realquad in compact form",
-            "# x + y*sqrt(d) = scale * sign * prod over chains of "
-            "(prod over the chain's factors of ((a + b*sqrt(d))/c)^e)^power",
-            f"d {self.d}",
-            f"n {self.norm}",
-            f"scale {1 if abs(self.norm) == 1 else 2}",
-            f"sign {self.compact.sign}",
-        ]
-        for chain in self.compact.chains:
-            lines.append(f"chain {chain.power}")
-            lines += [f"factor {int(a.x)} {int(a.y) * k} {int(a.c)} {e}" for a, e in chain.factors]
-        return "\n".join(lines) + "\n"
+        scale = 1 if abs(self.norm) == 1 else 2
+        return self.compact.to_text(self.d, scale, "least solution of x^2 - d*y^2 = n")
 
     def solutions(self) -> Iterator[tuple[int, int]]:
         """Iterate over the positive solutions in increasing order."""

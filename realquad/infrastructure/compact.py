@@ -95,6 +95,37 @@ class CompactRepresentation:
             ],
         }
 
+    def to_text(self, d: int, scale: int, title: str) -> str:
+        """``scale`` times this number as ``x + y√d`` in the plain-text compact format.
+
+        The format (``docs/pell.md``, *Compact files*) reads
+        ``x + y√d = scale · sign · ∏_chains (∏_factors ((a + b√d)/c)^e)^power``:
+        lines ``d``, ``n`` (the norm of ``x + y√d``), ``scale``, ``sign``, then
+        per chain a ``chain POWER`` line and its ``factor A B C E`` lines;
+        ``#`` starts a comment. ``d`` is the discriminant over a square.
+
+        >>> from realquad.infrastructure.regulator_search import search_regulator
+        >>> eps = CompactRepresentation.from_factors(244, search_regulator(244, 20).factors)
+        >>> print(eps.to_text(61, 1, "x^2 - 61y^2 = -1").splitlines()[2:6])
+        ['d 61', 'n -1', 'scale 1', 'sign 1']
+        """
+        k = math.isqrt(self.discriminant // d)
+        if d * k * k != self.discriminant:
+            raise DomainError(f"{self.discriminant} is not {d} times a square")
+        lines = [
+            f"# {title}, written by realquad in compact form",
+            "# x + y*sqrt(d) = scale * sign * prod over chains of "
+            "(prod over the chain's factors of ((a + b*sqrt(d))/c)^e)^power",
+            f"d {d}",
+            f"n {self.norm * scale * scale}",
+            f"scale {scale}",
+            f"sign {self.sign}",
+        ]
+        for chain in self.chains:
+            lines.append(f"chain {chain.power}")
+            lines += [f"factor {int(a.x)} {int(a.y) * k} {int(a.c)} {e}" for a, e in chain.factors]
+        return "\n".join(lines) + "\n"
+
     # -- exact invariants ------------------------------------------------------
     def _raw_sign(self) -> int:
         sign = 1

@@ -8,6 +8,7 @@ import pytest
 
 from realquad import pell
 from tests.cli.support import run, run_json
+from tests.equations.test_pell import giant_steps_compiled
 
 
 def test_mod_and_leading_of_an_expanded_solution(capsys: pytest.CaptureFixture[str]) -> None:
@@ -22,6 +23,7 @@ def test_mod_and_leading_of_an_expanded_solution(capsys: pytest.CaptureFixture[s
     )
 
 
+@giant_steps_compiled
 def test_mod_and_leading_of_a_compact_solution(capsys: pytest.CaptureFixture[str]) -> None:
     # d ≈ 10³⁰: x has hundreds of trillions of digits; x² − dy² = −1 must hold modulo the primes asked for
     d = 10**30 + 57
@@ -54,6 +56,7 @@ def test_bad_values_are_one_line(
     assert code == 2 and out == "" and err.count("\n") == 1 and message in err
 
 
+@giant_steps_compiled
 def test_modulus_sharing_a_denominator_is_refused_in_one_line(
     capsys: pytest.CaptureFixture[str],
 ) -> None:
@@ -75,6 +78,7 @@ def _refused(solution: object, m: int) -> bool:
     return False
 
 
+@giant_steps_compiled
 def test_output_writes_the_compact_form_a_reader_can_evaluate(
     capsys: pytest.CaptureFixture[str], tmp_path: Path
 ) -> None:
@@ -89,7 +93,27 @@ def test_output_writes_the_compact_form_a_reader_can_evaluate(
     assert (x * x - d * y * y + 1) % 998244353 == 0
 
 
+@giant_steps_compiled
 def test_the_square_of_a_chain_is_printed(capsys: pytest.CaptureFixture[str]) -> None:
     # N = +1 with a unit of norm −1: the least solution is ε², a chain raised to the power 2
     code, out, _ = run(capsys, "pell", str(10**30 + 57))
     assert code == 0 and "raised to the power 2:" in out
+
+
+@giant_steps_compiled
+def test_unit_output_beyond_the_expansion_limit_is_the_compact_file(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    # ε of discriminant 4(10³⁰ + 57) has about 5.6·10¹⁴ digits: the file holds 2ε = x + y√D,
+    # whose norm is 4·N(ε); checked modulo a prime with the evaluator from docs/pell.md
+    from tests.equations.test_pell import _evaluator_from_the_docs
+
+    D, target = 4 * (10**30 + 57), tmp_path / "unit.txt"
+    code, out, _ = run(capsys, "unit", "--disc", str(D), "--output", str(target))
+    assert code == 0 and "written to" in out
+    text = target.read_text(encoding="ascii")
+    assert f"\nd {D}\n" in text and "\nscale 2\n" in text
+    norm = int(text.split("\nn ")[1].split()[0])
+    m = 2**61 - 1
+    x, y = _evaluator_from_the_docs()(text, m)
+    assert (x * x - D * y * y - norm) % m == 0 and abs(norm) == 4

@@ -197,10 +197,14 @@ def test_bad_norm(norm):
 # -- beyond the continued fraction: the infrastructure decides, the solution stays compact -------
 
 
-@pytest.mark.skipif(
+#: ``pell`` takes the infrastructure path only where its giant steps run compiled
+giant_steps_compiled = pytest.mark.skipif(
     __import__("realquad._backend")._backend.BACKEND != "compiled",
-    reason="the giant steps at 10³⁰ run compiled (the pure twin would take minutes)",
+    reason="pell uses the infrastructure where its giant steps run compiled (the pure twin would take minutes)",
 )
+
+
+@giant_steps_compiled
 def test_large_d_decided_by_the_infrastructure() -> None:
     # d ≈ 10³⁰: the continued fraction is hopeless; the norm of ε (compact) decides N = −1
     d = 10**30 + 57
@@ -253,6 +257,7 @@ def _forced_compact(d: int, n: int, monkeypatch: pytest.MonkeyPatch):
     return pell_module.pell(d, n, max_period=10)
 
 
+@giant_steps_compiled
 def test_residues_and_leading_digits_of_compact_solutions(monkeypatch: pytest.MonkeyPatch) -> None:
     # independent check: the continued fraction's expanded solution, reduced and cut by Python itself
     rng = random.Random(20261202)
@@ -271,6 +276,7 @@ def test_residues_and_leading_digits_of_compact_solutions(monkeypatch: pytest.Mo
     assert checked >= 20
 
 
+@giant_steps_compiled
 def test_residues_refuse_a_modulus_sharing_a_denominator(monkeypatch: pytest.MonkeyPatch) -> None:
     compact = _forced_compact(1000003, 1, monkeypatch)
     with pytest.raises(DomainError, match="shares a factor"):
@@ -278,6 +284,7 @@ def test_residues_refuse_a_modulus_sharing_a_denominator(monkeypatch: pytest.Mon
     assert pell(1000003).residues(2**20) == (pell(1000003).x % 2**20, pell(1000003).y % 2**20)
 
 
+@giant_steps_compiled
 def test_leading_digits_at_10_to_the_30() -> None:
     # x = y·√d·(1 + O(ε⁻²)) exactly, and √d = 10¹⁵·(1 + 28.5·10⁻³⁰ + …): the two prefixes
     # computed from x and y separately, must satisfy x₄₀² · 10³⁰ ≈ y₄₀² · d to truncation error
@@ -305,6 +312,7 @@ def _evaluator_from_the_docs():
     return namespace["evaluate"]
 
 
+@giant_steps_compiled
 def test_compact_files_evaluate_to_the_solution(monkeypatch: pytest.MonkeyPatch) -> None:
     # independent check: the continued fraction's expanded solution
     evaluate = _evaluator_from_the_docs()
@@ -328,6 +336,7 @@ def test_compact_files_evaluate_to_the_solution(monkeypatch: pytest.MonkeyPatch)
         pell(61).compact_file()
 
 
+@giant_steps_compiled
 def test_compact_file_at_10_to_the_30_checks_modulo_primes() -> None:
     evaluate = _evaluator_from_the_docs()
     d = 10**30 + 57
