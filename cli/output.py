@@ -315,6 +315,33 @@ def size_options(f: F) -> F:
     return max_digits_option(f)
 
 
+def prime_options(f: F) -> F:
+    """``--primes-up-to B`` or ``--prime P``: the primes a command answers for (read by :func:`read_primes`)."""
+    f = click.option(
+        "--prime", "prime", type=str, default=None, metavar="P", help="Only the prime P."
+    )(f)
+    return click.option(
+        "--primes-up-to",
+        "bound",
+        type=str,
+        default=None,
+        metavar="B",
+        help="Every prime p ≤ B (default 50).",
+    )(f)
+
+
+def read_primes(bound: str | None, prime: str | None, max_bound: int) -> tuple[int, int | None]:
+    """``(B, P)`` from :func:`prime_options`: ``P`` alone when given, else every prime ``≤ B`` (default 50)."""
+    if bound is not None and prime is not None:
+        raise InputError("give either --primes-up-to B or --prime P, not both")
+    if prime is not None:
+        return 50, as_integer(prime, "--prime")
+    B = 50 if bound is None else as_integer(bound, "--primes-up-to")
+    if B < 2 or B > max_bound:
+        raise InputError(f"--primes-up-to must be between 2 and {max_bound:,}, got {B}")
+    return B, None
+
+
 def emit(payload: dict[str, Any], text: str, as_json: bool, max_digits: int | None = None) -> None:
     """Print the JSON object or the text form.
 

@@ -5,10 +5,17 @@ from __future__ import annotations
 from typing import Any
 
 import click
-from realquad_cli.output import Command, Sizer, emit, json_option, max_digits_option
+from realquad_cli.output import (
+    Command,
+    Sizer,
+    emit,
+    json_option,
+    max_digits_option,
+    prime_options,
+    read_primes,
+)
 
 from realquad.core.forms import Form
-from realquad.core.integers import as_integer
 from realquad.equations.parser import parse_equation
 from realquad.errors import InputError, TooLargeError
 from realquad.splitting import FormPrimes, PrimeRepresentation, form_primes
@@ -128,15 +135,7 @@ def _poly_text(coefficients: list[int], sizer: Sizer) -> str:
 
 @click.command("represent", cls=Command)
 @click.argument("form_text", metavar="FORM")
-@click.option(
-    "--primes-up-to",
-    "bound",
-    type=str,
-    default=None,
-    metavar="B",
-    help="Every prime p ≤ B (default 50).",
-)
-@click.option("--prime", "prime", type=str, default=None, metavar="P", help="Only the prime P.")
+@prime_options
 @click.option(
     "--no-criterion",
     "skip_criterion",
@@ -162,15 +161,7 @@ def command(
     polynomial. Example: realquad represent "x^2 + 27y^2" --primes-up-to 100
     """
     F = read_form(form_text)
-    if bound is not None and prime is not None:
-        raise InputError("give either --primes-up-to B or --prime P, not both")
-    B, P = 50, None
-    if prime is not None:
-        P = as_integer(prime, "--prime")
-    elif bound is not None:
-        B = as_integer(bound, "--primes-up-to")
-        if B < 2 or B > MAX_BOUND:
-            raise InputError(f"--primes-up-to must be between 2 and {MAX_BOUND:,}, got {B}")
+    B, P = read_primes(bound, prime, MAX_BOUND)
     try:
         result = form_primes(F, B, prime=P, criterion=not skip_criterion)
     except TooLargeError as exc:

@@ -6,12 +6,18 @@ from typing import Any
 
 import click
 from realquad_cli.orders import order_arguments, order_from_options
-from realquad_cli.output import Command, IntegerRange, Sizer, emit, json_option
+from realquad_cli.output import (
+    Command,
+    IntegerRange,
+    Sizer,
+    emit,
+    json_option,
+    prime_options,
+    read_primes,
+)
 
 from realquad.classgroup import class_group
 from realquad.core.forms import Form
-from realquad.core.integers import as_integer
-from realquad.errors import InputError
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
 from realquad.textio import group_text, signed, terms_text
 
@@ -49,15 +55,7 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
 
 @click.command("split", cls=Command)
 @order_arguments
-@click.option(
-    "--primes-up-to",
-    "bound",
-    type=str,
-    default=None,
-    metavar="B",
-    help="Every prime p ≤ B (default 50).",
-)
-@click.option("--prime", "prime", type=str, default=None, metavar="P", help="Only the prime P.")
+@prime_options
 @click.option(
     "--max-digits",
     type=IntegerRange(0),
@@ -82,18 +80,9 @@ def command(
     realquad split -14 --primes-up-to 30
     """
     order = order_from_options(d, disc)
-    if bound is not None and prime is not None:
-        raise InputError("give either --primes-up-to B or --prime P, not both")
-    if prime is not None:
-        p = as_integer(prime, "--prime")
-        G = class_group(order, method="exact")
-        results = [decompose_prime(order, p, G)]
-    else:
-        B = as_integer(bound, "--primes-up-to") if bound is not None else 50
-        if B < 2 or B > MAX_BOUND:
-            raise InputError(f"--primes-up-to must be between 2 and {MAX_BOUND:,}, got {B}")
-        G = class_group(order, method="exact")
-        results = split_primes(order, B, G)
+    B, p = read_primes(bound, prime, MAX_BOUND)
+    G = class_group(order, method="exact")
+    results = [decompose_prime(order, p, G)] if p is not None else split_primes(order, B, G)
     principal = Form.identity(order.discriminant)
     payload: dict[str, Any] = {
         "order": order.to_dict(),
