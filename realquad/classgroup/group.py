@@ -134,6 +134,42 @@ class ClassGroup:
     _table: ClassTable | None = dataclass_field(default=None, repr=False)
     roots_of_unity: int = 2
 
+    @classmethod
+    def definite(
+        cls,
+        order: Order,
+        h: int,
+        invariants: list[int],
+        generators: list[Form],
+        smith: SmithForm,
+        raw_generators: list[Triple],
+        method: str,
+        proof: Proof,
+        roots_of_unity: int,
+        table_source: Callable[[], ClassTable] | None = None,
+        table: ClassTable | None = None,
+    ) -> ClassGroup:
+        """The group of an imaginary order: narrow and wide are one group (no unit of norm −1)."""
+        return cls(
+            order=order,
+            class_number=h,
+            narrow_class_number=h,
+            invariants=list(invariants),
+            narrow_invariants=list(invariants),
+            generators=generators,
+            narrow_generators=list(generators),
+            unit_norm=1,
+            method=method,
+            proof=proof,
+            unit=None,
+            _raw_generators=raw_generators,
+            _narrow_smith=smith,
+            _wide_smith=smith,
+            _table_source=table_source,
+            _table=table,
+            roots_of_unity=roots_of_unity,
+        )
+
     @property
     def table(self) -> ClassTable:
         """Every narrow class with its reduced forms (built on first use: lookups, genera, --forms).

@@ -143,22 +143,16 @@ def class_group_imaginary(
             f"internal check failed: invariants {smith.invariants} of {D} do not multiply to {h}"
         )
     forms = forms_from_vectors(D, generators, smith.generators, h)
-    return ClassGroup(
-        order=order,
-        class_number=h,
-        narrow_class_number=h,
-        invariants=list(smith.invariants),
-        narrow_invariants=list(smith.invariants),
-        generators=forms,
-        narrow_generators=list(forms),
-        unit_norm=1,
-        method=METHOD,
-        proof="unconditional",
-        unit=None,
-        _raw_generators=generators,
-        _narrow_smith=smith,
-        _wide_smith=smith,
-        _table_source=partial(class_table_imaginary, D, order.conductor, max_classes),
-        _table=table,
-        roots_of_unity=unit_group(order).roots_of_unity,
+    return ClassGroup.definite(
+        order,
+        h,
+        smith.invariants,
+        forms,
+        smith,
+        generators,
+        METHOD,
+        "unconditional",
+        unit_group(order).roots_of_unity,
+        table_source=partial(class_table_imaginary, D, order.conductor, max_classes),
+        table=table,
     )

@@ -263,20 +263,4 @@ def class_group_imaginary_bsgs(order: Order) -> ClassGroup:
         else SmithForm([], [], [], [])
     )
     forms = [Form._raw(*x) for x in raw]
-    return ClassGroup(
-        order=order,
-        class_number=h,
-        narrow_class_number=h,
-        invariants=invariants,
-        narrow_invariants=list(invariants),
-        generators=forms,
-        narrow_generators=list(forms),
-        unit_norm=1,
-        method=METHOD,
-        proof="GRH",
-        unit=None,
-        _raw_generators=raw,
-        _narrow_smith=smith,
-        _wide_smith=smith,
-        roots_of_unity=w,
-    )
+    return ClassGroup.definite(order, h, invariants, forms, smith, raw, METHOD, "GRH", w)
