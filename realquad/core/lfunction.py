@@ -107,15 +107,20 @@ class HRInterval:
     proof: str = "GRH"
 
     @property
+    def _scale(self) -> float:
+        """The factor in front of ``L(1, χ_D)``: ``√D/2``."""
+        return math.sqrt(self.discriminant) / 2
+
+    @property
     def lower(self) -> float:
-        return math.sqrt(self.discriminant) / 2 * math.exp(self.log_L - self.error)
+        return self._scale * math.exp(self.log_L - self.error)
 
     @property
     def upper(self) -> float:
-        return math.sqrt(self.discriminant) / 2 * math.exp(self.log_L + self.error)
+        return self._scale * math.exp(self.log_L + self.error)
 
-    def contains(self, hR: float) -> bool:
-        return self.lower <= hR <= self.upper
+    def contains(self, value: float) -> bool:
+        return self.lower <= value <= self.upper
 
 
 def _weighted_sums(D: int, X: int) -> float:
@@ -205,30 +210,14 @@ def _log_L_interval(D: int, X: int) -> tuple[float, float]:
 
 
 @dataclass(frozen=True)
-class ClassNumberInterval:
+class ClassNumberInterval(HRInterval):
     """``|log L(1, χ_D) − log_L| ≤ error`` under GRH: an interval for ``h = w√|D|·L(1, χ_D)/(2π)``, ``D < 0``."""
 
-    discriminant: int
-    roots_of_unity: int
-    X: int
-    log_L: float
-    error: float
-    proof: str = "GRH"
+    roots_of_unity: int = 2
 
     @property
     def _scale(self) -> float:
         return self.roots_of_unity * math.sqrt(-self.discriminant) / (2 * math.pi)
-
-    @property
-    def lower(self) -> float:
-        return self._scale * math.exp(self.log_L - self.error)
-
-    @property
-    def upper(self) -> float:
-        return self._scale * math.exp(self.log_L + self.error)
-
-    def contains(self, h: float) -> bool:
-        return self.lower <= h <= self.upper
 
 
 def class_number_interval(D: int, w: int, X: int = 1_000_000) -> ClassNumberInterval:
@@ -244,7 +233,7 @@ def class_number_interval(D: int, w: int, X: int = 1_000_000) -> ClassNumberInte
     (True, True, 'GRH')
     """
     log_L, error = _log_L_interval(D, X)
-    return ClassNumberInterval(D, w, X, log_L, error)
+    return ClassNumberInterval(D, X, log_L, error, roots_of_unity=w)
 
 
 #: Average growth of ``log ε`` per continued-fraction step (Lévy's constant π²/(12 log 2)).
