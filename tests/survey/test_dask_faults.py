@@ -22,7 +22,7 @@ from realquad.survey.executors import ChunkFunction, DaskExecutor, Finished
 from realquad.survey.ranges import Chunk, SurveyRange
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
-from tests.survey.test_helpers import stored_table
+from tests.survey.test_helpers import completed_chunks, stored_table
 
 distributed = pytest.importorskip("distributed")
 
@@ -154,21 +154,6 @@ def test_interrupt_then_resume_on_dask(tmp_path: Path, reference: list[tuple[Any
     assert stored_table(target) == reference
 
 
-def _saved_chunks(path: Path) -> int:
-    import sqlite3
-
-    if not path.exists():
-        return 0
-    try:
-        c = sqlite3.connect(f"file:{path}?mode=ro", uri=True, timeout=5)
-        try:
-            return int(c.execute("SELECT COUNT(*) FROM chunks").fetchone()[0])
-        finally:
-            c.close()
-    except sqlite3.Error:
-        return 0
-
-
 @pytest.mark.slow
 def test_ctrl_c_on_a_dask_run_is_one_line_and_resumes(
     tmp_path: Path, reference: list[tuple[Any, ...]]
@@ -188,7 +173,7 @@ def test_ctrl_c_on_a_dask_run_is_one_line_and_resumes(
         def wait_for(chunks: int) -> None:
             while (
                 proc.poll() is None
-                and _saved_chunks(target) < chunks
+                and completed_chunks(target) < chunks
                 and time.monotonic() < deadline
             ):
                 time.sleep(0.02)

@@ -99,6 +99,20 @@ def stored_table(path: Path) -> list[tuple]:  # type: ignore[type-arg]
     return rows
 
 
+def completed_chunks(path: Path) -> int:
+    """Completed chunks so far, read while a run writes (0 before the store or its schema exists)."""
+    if not path.exists():
+        return 0
+    try:
+        c = sqlite3.connect(f"file:{path}?mode=ro", uri=True, timeout=5)
+        try:
+            return int(c.execute("SELECT COUNT(*) FROM chunks").fetchone()[0])
+        finally:
+            c.close()
+    except sqlite3.Error:
+        return 0
+
+
 def test_brute_counter_matches_oeis_class_number_one(oeis) -> None:  # type: ignore[no-untyped-def]
     terms = oeis["A003172"]["terms"]  # OEIS A003172: squarefree n with h(Q(√n)) = 1
     squarefree = [

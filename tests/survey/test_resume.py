@@ -14,6 +14,7 @@ from pathlib import Path
 from realquad.survey.ranges import SurveyRange
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import tabulate
+from tests.survey.test_helpers import completed_chunks
 from tests.survey.test_helpers import stored_table as _table
 
 D_MAX = 4000
@@ -52,20 +53,6 @@ def _check_consistent(path: Path) -> None:
     c.close()
 
 
-def _completed_chunks(path: Path) -> int:
-    """Completed chunks so far, read while the run writes (0 before the store exists)."""
-    if not path.exists():
-        return 0
-    try:
-        c = sqlite3.connect(f"file:{path}?mode=ro", uri=True, timeout=5)
-        try:
-            return int(c.execute("SELECT COUNT(*) FROM chunks").fetchone()[0])
-        finally:
-            c.close()
-    except sqlite3.Error:  # the schema is not there yet
-        return 0
-
-
 def _orphans(marker: str) -> list[int]:
     found = []
     for entry in os.listdir("/proc"):
@@ -96,7 +83,7 @@ def test_kill_nine_at_random_moments_then_resume(tmp_path: Path) -> None:
             stdout=subprocess.DEVNULL,
             stderr=subprocess.PIPE,
         )
-        while proc.poll() is None and _completed_chunks(target) < threshold:
+        while proc.poll() is None and completed_chunks(target) < threshold:
             time.sleep(0.005)
         time.sleep(rng.uniform(0, 0.05))
         if proc.poll() is None:
@@ -132,7 +119,7 @@ def test_interrupt_stops_cleanly(tmp_path: Path) -> None:
         stderr=subprocess.PIPE,
         text=True,
     )
-    while proc.poll() is None and _completed_chunks(target) < 2:
+    while proc.poll() is None and completed_chunks(target) < 2:
         time.sleep(0.01)
     proc.send_signal(signal.SIGINT)  # what Ctrl-C sends
     _, err = proc.communicate(timeout=60)
