@@ -52,7 +52,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"survey_kernels"},
     ],
     "realquad.core": [
-        {"results", "progress", "integers", "linalg"},
+        {"results", "progress", "integers", "linalg", "tokens"},
         {"primes"},
         {"orders", "numbers"},
         {"forms", "lfunction"},

@@ -35,6 +35,7 @@ from math import lcm
 
 from realquad.core.integers import is_square, isqrt
 from realquad.core.primes import square_factor
+from realquad.core.tokens import TokenCursor
 from realquad.errors import InputError
 
 _TOKEN = re.compile(r"\s*(?:([0-9]+)|(sqrt|√)|(.))")
@@ -93,10 +94,9 @@ def _root(n: int) -> _Surd:
     return _Surd(Fraction(0), Fraction(k), s)
 
 
-class _Reader:
+class _Reader(TokenCursor):
     def __init__(self, text: str) -> None:
-        self.text = text
-        self.tokens: list[tuple[str, str, int]] = []
+        super().__init__(text)
         for m in _TOKEN.finditer(text):
             if m.group(1):
                 self.tokens.append(("int", m.group(1), m.start(1)))
@@ -105,22 +105,6 @@ class _Reader:
             elif m.group(3):
                 op = "-" if m.group(3) == "−" else m.group(3)
                 self.tokens.append(("op", op, m.start(3)))
-        self.i = 0
-        self.depth = 0
-
-    def peek(self) -> tuple[str, str, int]:
-        if self.i < len(self.tokens):
-            return self.tokens[self.i]
-        return ("end", "", len(self.text))
-
-    def take(self) -> tuple[str, str, int]:
-        tok = self.peek()
-        self.i += 1
-        return tok
-
-    def is_op(self, *values: str) -> bool:
-        kind, tok, _ = self.peek()
-        return kind == "op" and tok in values
 
     def fail(self, what: str) -> InputError:
         pos = self.peek()[2] + 1

@@ -29,6 +29,7 @@ from __future__ import annotations
 from fractions import Fraction
 from math import lcm
 
+from realquad.core.tokens import TokenCursor
 from realquad.errors import InputError
 
 #: Longest equation text accepted.
@@ -46,13 +47,10 @@ _ALIASES = {"−": "-", "–": "-", "·": "*", "×": "*", "⋅": "*", "X": "x", 
 Poly = dict[tuple[int, int], Fraction]
 
 
-class _Parser:
+class _Parser(TokenCursor):
     def __init__(self, text: str) -> None:
-        self.text = text
-        self.tokens: list[tuple[str, str, int]] = []
+        super().__init__(text)
         self._tokenize()
-        self.i = 0
-        self.depth = 0
 
     # -- tokens ---------------------------------------------------------------
     def _tokenize(self) -> None:
@@ -92,22 +90,8 @@ class _Parser:
         shown = f" ({rest!r})" if rest else " (the end)"
         return InputError(f"cannot read the equation at position {pos + 1}{shown}: expected {what}")
 
-    def peek(self) -> tuple[str, str, int]:
-        if self.i < len(self.tokens):
-            return self.tokens[self.i]
-        return ("end", "", len(self.text))
-
     def fail(self, what: str) -> InputError:
         return self._error(self.peek()[2], what)
-
-    def is_op(self, value: str) -> bool:
-        kind, tok, _ = self.peek()
-        return kind == "op" and tok == value
-
-    def take(self) -> tuple[str, str, int]:
-        tok = self.peek()
-        self.i += 1
-        return tok
 
     # -- grammar --------------------------------------------------------------
     def equation(self) -> Poly:
