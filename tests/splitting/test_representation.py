@@ -17,15 +17,18 @@ PRIMES = primes_below(10_000)
 
 def brute_definite(F: Form, p: int) -> bool:
     """Brute force: F(x, y) = p for some integers (D < 0): 4a·p = (2ax + by)² + |D|y² bounds |y|."""
+    Y = isqrt(4 * F.a * p // -F.discriminant)
+    return any(_integer_x(F, y, p) for y in range(-Y - 1, Y + 2))
+
+
+def _integer_x(F: Form, y: int, p: int) -> bool:
+    """Whether ax² + bxy + cy² = p has an integer root x for this y (a ≠ 0)."""
     a, b, c = F.a, F.b, F.c
-    D = F.discriminant
-    for y in range(-isqrt(4 * a * p // -D) - 1, isqrt(4 * a * p // -D) + 2):
-        disc = (b * y) ** 2 - 4 * a * (c * y * y - p)
-        if disc >= 0 and isqrt(disc) ** 2 == disc:
-            r = isqrt(disc)
-            if (-b * y + r) % (2 * a) == 0 or (-b * y - r) % (2 * a) == 0:
-                return True
-    return False
+    disc = (b * y) ** 2 - 4 * a * (c * y * y - p)
+    if disc < 0 or isqrt(disc) ** 2 != disc:
+        return False
+    r = isqrt(disc)
+    return (-b * y + r) % (2 * a) == 0 or (-b * y - r) % (2 * a) == 0
 
 
 def least_unit_v(D: int) -> int:
@@ -39,15 +42,8 @@ def least_unit_v(D: int) -> int:
 def brute_indefinite(F: Form, p: int, v: int) -> bool:
     """Brute force for D > 0, a > 0: every orbit of solutions of (2ax + by)² − Dy² = 4ap under the
     automorphs holds one with |y| ≤ v·√(ap) (the unit (t + v√D)/2 moves u + y√D into [√N, √N·ε))."""
-    a, b, c = F.a, F.b, F.c
-    Y = v * isqrt(a * p) + v + 1
-    for y in range(-Y, Y + 1):
-        disc = (b * y) ** 2 - 4 * a * (c * y * y - p)
-        if disc >= 0 and isqrt(disc) ** 2 == disc:
-            r = isqrt(disc)
-            if (-b * y + r) % (2 * a) == 0 or (-b * y - r) % (2 * a) == 0:
-                return True
-    return False
+    Y = v * isqrt(F.a * p) + v + 1
+    return any(_integer_x(F, y, p) for y in range(-Y, Y + 1))
 
 
 DEFINITE = [
