@@ -19,12 +19,11 @@ from collections.abc import Callable
 from typing import Any, TypeVar
 
 import click
-import gmpy2
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.textio import MINUS, plural, signed, terms_text, to_decimal
+from realquad.textio import MINUS, integer_summary, plural, signed, terms_text, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
 
@@ -105,10 +104,6 @@ class Group(click.Group):
     command_class = Command
 
 
-#: Digits kept at each end of a summarised integer.
-EDGE = 20
-
-
 def dumps(obj: Any) -> str:
     """JSON text of ``obj`` with integers of any size written exactly."""
     return Sizer(0).json(obj)
@@ -136,20 +131,11 @@ class Sizer:
         hit = self._summaries.get(id(n))
         if hit is not None and hit[0] is n:
             return hit[1]
-        m = abs(gmpy2.mpz(n))
-        k0 = int(gmpy2.num_digits(m, 10))  # exact or one too many
-        if k0 <= EDGE + 1:
-            k, lead = len(to_decimal(m)), m
-        else:
-            lead = m // gmpy2.mpz(10) ** (k0 - EDGE - 1)
-            k = k0 if lead >= 10**EDGE else k0 - 1
+        found = integer_summary(n, self.max_digits)
         out = None
-        if k > self.max_digits:
-            out = {
-                "digits": k,
-                "leading": to_decimal(lead)[:EDGE],
-                "trailing": to_decimal(m % 10**EDGE).zfill(EDGE)[-min(EDGE, k) :],
-            }
+        if found is not None:
+            k, leading, trailing = found
+            out = {"digits": k, "leading": leading, "trailing": trailing}
         self._summaries[id(n)] = (n, out)
         return out
 

@@ -16,7 +16,7 @@ counts with the right plural (:func:`plural`).
 from __future__ import annotations
 
 import re
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 
 import gmpy2
 
@@ -37,6 +37,34 @@ def decimal_digits(n: object) -> int:
     return k
 
 
+#: Digits kept at each end of a summarised integer.
+EDGE = 20
+
+
+def integer_summary(n: object, max_digits: int) -> tuple[int, str, str] | None:
+    """``None`` if ``|n|`` has at most ``max_digits`` digits (0: no limit), else ``(digits, leading, trailing)``.
+
+    The leading and trailing :data:`EDGE` digits come from one division and
+    one remainder instead of a full decimal conversion.
+
+    >>> integer_summary(12345, 10) is None, integer_summary(-(10**50 + 7), 30)
+    (True, (51, '10000000000000000000', '00000000000000000007'))
+    """
+    m = abs(gmpy2.mpz(n))  # type: ignore[call-overload]
+    if max_digits == 0 or m.bit_length() * 0.30103 + 1 < max_digits:  # log₁₀ 2 < 0.30103
+        return None
+    k0 = int(gmpy2.num_digits(m, 10))  # exact or one too many
+    if k0 <= EDGE + 1:
+        k, lead = len(to_decimal(m)), m
+    else:
+        lead = m // gmpy2.mpz(10) ** (k0 - EDGE - 1)
+        k = k0 if lead >= 10**EDGE else k0 - 1
+    if k <= max_digits:
+        return None
+    trailing = to_decimal(m % 10**EDGE).zfill(EDGE)[-min(EDGE, k) :]
+    return k, to_decimal(lead)[:EDGE], trailing
+
+
 #: The minus sign of every text (not JSON) output: U+2212, as in printed mathematics.
 MINUS = "−"
 
@@ -51,10 +79,16 @@ def signed(n: object) -> str:
     return MINUS + text[1:] if text.startswith("-") else text
 
 
-def terms_text(terms: Iterable[tuple[int, str]]) -> str:
+def terms_text(
+    terms: Iterable[tuple[int, str]],
+    number: Callable[[int], str] = to_decimal,
+    minus: str = MINUS,
+) -> str:
     """``a·m₁ + b·m₂ + …`` written as people write it: ``x² − 13y² + 4``; ``0`` when empty.
 
-    Coefficients ±1 are left out before a monomial; signs are :data:`MINUS` and ``+``.
+    Coefficients ±1 are left out before a monomial; signs are ``minus`` and
+    ``+``; ``number`` writes each coefficient's absolute value (the LaTeX of
+    :mod:`realquad.latex` passes its own).
 
     >>> terms_text([(1, "x²"), (0, "xy"), (-13, "y²"), (4, "")])
     'x² − 13y² + 4'
@@ -66,13 +100,13 @@ def terms_text(terms: Iterable[tuple[int, str]]) -> str:
         if coefficient == 0:
             continue
         size = abs(coefficient)
-        body = monomial if size == 1 and monomial else f"{to_decimal(size)}{monomial}"
+        body = monomial if size == 1 and monomial else f"{number(size)}{monomial}"
         parts.append((coefficient < 0, body))
     if not parts:
         return "0"
     negative, body = parts[0]
-    text = (MINUS if negative else "") + body
-    return text + "".join(f" {MINUS if neg else '+'} {b}" for neg, b in parts[1:])
+    text = (minus if negative else "") + body
+    return text + "".join(f" {minus if neg else '+'} {b}" for neg, b in parts[1:])
 
 
 def group_text(invariants: Sequence[int]) -> str:

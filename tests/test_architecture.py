@@ -28,6 +28,7 @@ ROOT = Path(__file__).resolve().parents[1]
 #: (and, within its own package, the lower levels of :data:`LEVELS`).
 RANKS: list[tuple[str, ...]] = [
     ("realquad.errors", "realquad.textio", "realquad._version", "realquad._kernels"),
+    ("realquad.latex",),
     ("realquad._backend",),
     ("realquad.core",),
     ("realquad.cfrac",),

@@ -40,6 +40,17 @@ from realquad.core.numbers import QuadraticNumber
 from realquad.core.primes import square_factor
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError, TooLargeError
+from realquad.latex import (
+    MAX_DIGITS,
+    MAX_TERMS,
+    Display,
+    brief_repr,
+    fraction,
+    integer,
+    sqrt,
+    terms,
+)
+from realquad.latex import continued_fraction as continued_fraction_latex
 
 #: Default bound on the number of states a period search may visit.
 DEFAULT_MAX_TERMS = 20_000_000
@@ -167,7 +178,7 @@ def _format(P: int, D: int, Q: int) -> str:
 
 
 @dataclass(frozen=True)
-class ContinuedFraction:
+class ContinuedFraction(Display):
     """The expansion ``[a₀; a₁, …]``: ``preperiod`` then ``period`` repeated forever.
 
     For a rational number ``period`` is empty and ``preperiod`` holds all
@@ -216,6 +227,30 @@ class ContinuedFraction:
             "method": self.method,
             "proof": self.proof,
         }
+
+    def to_latex(self, max_digits: int = MAX_DIGITS, max_terms: int = MAX_TERMS) -> str:
+        r"""``value = [a_0; a_1, …, \overline{…}]``, at most ``max_terms`` partial quotients (0: all).
+
+        >>> print(continued_fraction("(1+sqrt(13))/2").to_latex())
+        \frac{1 + \sqrt{13}}{2} = [2; \overline{3}]
+        >>> print(continued_fraction("-7/3").to_latex())
+        -\frac{7}{3} = [-3; 1, 2]
+        """
+        value = self.value
+        if isinstance(value, Fraction):
+            sign = "-" if value < 0 else ""
+            shown = sign + fraction(integer(abs(value.numerator), max_digits), value.denominator)
+        else:
+            s = 1 if value.Q > 0 else -1
+            pairs = [(s * value.P, ""), (s, sqrt(value.D, max_digits))]
+            shown = fraction(terms(pairs, max_digits), abs(value.Q), max_digits)
+        expansion = continued_fraction_latex(self.preperiod, self.period, max_terms, max_digits)
+        return f"{shown} = {expansion}"
+
+    def __repr__(self) -> str:
+        return brief_repr(
+            "ContinuedFraction", value=str(self.value), preperiod=self.preperiod, period=self.period
+        )
 
     def terms(self) -> Iterator[int]:
         """All partial quotients, the period repeated without end."""

@@ -61,10 +61,12 @@ from realquad.core.integers import as_integer, is_square, isqrt
 from realquad.core.linalg import IDENTITY_MATRIX, Matrix, matrix_inverse, matrix_multiply
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError, TooLargeError
+from realquad.latex import MAX_DIGITS, Display, brief
+from realquad.latex import form as form_latex
 
 
 @dataclass(frozen=True, slots=True)
-class Form:
+class Form(Display):
     """The form ``ax² + bxy + cy²``: ``b² − 4ac > 0`` not a square, or ``b² − 4ac < 0`` and ``a > 0``."""
 
     a: int
@@ -129,7 +131,15 @@ class Form:
         return cls._raw(1, b, (b * b - D) // 4)
 
     def __repr__(self) -> str:
-        return f"Form({self.a}, {self.b}, {self.c})"
+        return "Form(" + ", ".join(map(brief, (self.a, self.b, self.c))) + ")"
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """``ax² + bxy + cy²`` in LaTeX.
+
+        >>> Form(3, 7, -2).to_latex()
+        '3x^{2} + 7xy - 2y^{2}'
+        """
+        return form_latex(self.a, self.b, self.c, max_digits)
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of ``ax² + bxy + cy²`` (``docs/json.md``, *Form*).

@@ -30,11 +30,12 @@ from realquad.core.forms import Form
 from realquad.core.integers import as_integer, isqrt
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError
+from realquad.latex import MAX_DIGITS, Display, brief, integer, surd
 from realquad.textio import signed
 
 
 @dataclass(frozen=True)
-class Ideal:
+class Ideal(Display):
     """``scale·[a, (−b + √D)/2]`` in the order of discriminant ``D`` (``a > 0``, ``b`` mod ``2a``)."""
 
     discriminant: int
@@ -71,7 +72,19 @@ class Ideal:
         return cls.from_form(Form.identity(D))
 
     def __repr__(self) -> str:
-        return f"Ideal({self.discriminant}, {self.scale}, {self.a}, {self.b})"
+        return (
+            "Ideal(" + ", ".join(map(brief, (self.discriminant, self.scale, self.a, self.b))) + ")"
+        )
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """``scale·[a, (−b + √D)/2]`` in LaTeX.
+
+        >>> Ideal(316, 1, 3, 2).to_latex()
+        '\\\\left[3, \\\\frac{-2 + \\\\sqrt{316}}{2}\\\\right]'
+        """
+        second = surd(-self.b, 1, 2, self.discriminant, max_digits)
+        body = rf"\left[{integer(self.a, max_digits)}, {second}\right]"
+        return body if self.scale == 1 else integer(self.scale, max_digits) + body
 
     def __str__(self) -> str:
         root = f"√{signed(self.discriminant)}"

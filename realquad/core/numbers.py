@@ -33,6 +33,7 @@ import mpmath
 
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, InputError
+from realquad.latex import MAX_DIGITS, Display, brief, surd
 from realquad.textio import signed, terms_text, to_decimal
 
 Rational = int | Fraction
@@ -52,7 +53,7 @@ def _sign_of(x: int, y: int, d: int) -> int:
 
 
 @total_ordering
-class QuadraticNumber:
+class QuadraticNumber(Display):
     """The number ``(x + y√d)/c`` with integers ``x, y``, ``c > 0`` and ``d > 1`` or ``d < 0``.
 
     Stored in lowest terms (``gcd(x, y, c) = 1``). ``d`` need not be
@@ -255,7 +256,16 @@ class QuadraticNumber:
         return {"x": int(self.x), "y": int(self.y), "denominator": int(self.c), "radicand": self.d}
 
     def __repr__(self) -> str:
-        return f"QuadraticNumber({self.x}, {self.y}, {self.c}, {self.d})"
+        """``QuadraticNumber(x, y, c, d)``; integers of more than 60 digits by their ends and length."""
+        return "QuadraticNumber(" + ", ".join(map(brief, (self.x, self.y, self.c, self.d))) + ")"
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """``(x + y√d)/c`` in LaTeX, integers beyond ``max_digits`` digits summarised.
+
+        >>> QuadraticNumber(1, 1, 2, 5).to_latex(), QuadraticNumber(0, 1, 1, -1).to_latex()
+        ('\\\\frac{1 + \\\\sqrt{5}}{2}', '\\\\sqrt{-1}')
+        """
+        return surd(int(self.x), int(self.y), int(self.c), self.d, max_digits)
 
     def __str__(self) -> str:
         """``(x + y√d)/c`` in the house style (minus sign ``−``), exact at any size.

@@ -36,6 +36,20 @@ from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import InputError, TooLargeError
+from realquad.latex import (
+    MAX_DIGITS,
+    MAX_TERMS,
+    Display,
+    brief_repr,
+    lines,
+    matrix,
+    parenthesised,
+    points,
+    sqrt,
+    surd,
+    terms,
+    text,
+)
 from realquad.textio import terms_text
 
 Point = tuple[int, int]
@@ -52,6 +66,9 @@ def equation_text(coefficients: Sequence[int]) -> str:
     """
     return terms_text(zip(coefficients, MONOMIALS, strict=True)) + " = 0"
 
+
+#: The monomials in LaTeX, in the order of the coefficients.
+MONOMIALS_LATEX = ("x^{2}", "xy", "y^{2}", "x", "y", "")
 
 #: Most points :meth:`bounded` will list before refusing.
 MAX_LISTED = 1_000_000
@@ -145,6 +162,36 @@ class OrbitFamily:
             "mirrored": self.reflection,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""Every member: ``x + y√D = ±(x₀ + y₀√D)(t + u√D)^k`` for a norm equation, else
+        ``(x, y)ᵀ = T^k (x₀, y₀)ᵀ`` (or its mirror image ``2C − T^k(…)``) with the automorph ``T``.
+
+        >>> T = AffineMap((3, 4, 2, 3))
+        >>> print(OrbitFamily((1, 0), T, (Fraction(0), Fraction(0)), True, (3, 2, 2)).to_latex())
+        x + y\sqrt{2} = \pm\left(3 + 2\sqrt{2}\right)^{k},\quad k \in \mathbb{Z}
+        """
+        zero = self.center == (0, 0)
+        if self.unit is not None and (zero or not self.reflection):
+            t, u, D = self.unit
+            x0, y0 = self.fundamental
+            first = surd(x0, y0, 1, D, max_digits)
+            first = "" if first == "1" else parenthesised(first)
+            sign = r"\pm" if self.reflection else ""
+            unit = parenthesised(surd(t, u, 1, D, max_digits))
+            return (
+                rf"x + y{sqrt(D, max_digits)} = {sign}{first}{unit}^{{k}},\quad k \in \mathbb{{Z}}"
+            )
+        start = matrix(self.fundamental, max_digits)
+        orbit = rf"T^{{k}}{start}"
+        if self.reflection:
+            twice = (int(2 * self.center[0]), int(2 * self.center[1]))
+            orbit += rf"\ {text('or')}\ {matrix(twice, max_digits)} - T^{{k}}{start}"
+        M, shift = self.automorph.matrix, self.automorph.translation
+        T = rf"T(v) = {matrix(M, max_digits)}v"
+        if shift != (0, 0):
+            T += f" + {matrix(shift, max_digits)}"
+        return rf"\begin{{pmatrix}} x \\ y \end{{pmatrix}} = {orbit},\quad k \in \mathbb{{Z}},\quad {T}"
+
     def mirror(self, v: Point) -> Point:
         """``2C − v``, the point reflection through the centre."""
         return (int(2 * self.center[0] - v[0]), int(2 * self.center[1] - v[1]))
@@ -223,6 +270,16 @@ class LineFamily:
             "direction": point_dict(self.direction),
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``(x, y) = (x₀ + t·dx, y₀ + t·dy)``, ``t ∈ Z``.
+
+        >>> print(LineFamily((-1, 0), (0, 1)).to_latex())
+        (x, y) = (-1, t),\quad t \in \mathbb{Z}
+        """
+        x = terms([(self.direction[0], "t"), (self.point[0], "")], max_digits)
+        y = terms([(self.direction[1], "t"), (self.point[1], "")], max_digits)
+        return rf"(x, y) = ({x}, {y}),\quad t \in \mathbb{{Z}}"
+
     def solution(self, k: int) -> Point:
         return (self.point[0] + k * self.direction[0], self.point[1] + k * self.direction[1])
 
@@ -262,6 +319,18 @@ class ParabolaFamily:
             "y_polynomial": list(self.y_polynomial),
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``(x, y) = (x(t), y(t))``, ``t ∈ Z``.
+
+        >>> print(ParabolaFamily((1, 0, 0), (0, 2, 1)).to_latex())
+        (x, y) = (t^{2}, 2t + 1),\quad t \in \mathbb{Z}
+        """
+        x, y = (
+            terms(zip(p, ("t^{2}", "t", ""), strict=True), max_digits)
+            for p in (self.x_polynomial, self.y_polynomial)
+        )
+        return rf"(x, y) = ({x}, {y}),\quad t \in \mathbb{{Z}}"
+
     def solution(self, k: int) -> Point:
         x2, x1, x0 = self.x_polynomial
         y2, y1, y0 = self.y_polynomial
@@ -285,8 +354,8 @@ class ParabolaFamily:
 Family = OrbitFamily | LineFamily | ParabolaFamily
 
 
-@dataclass
-class QuadraticSolutions:
+@dataclass(repr=False)
+class QuadraticSolutions(Display):
     """All integer solutions of ``a x² + b xy + c y² + d x + e y + f = 0``.
 
     ``coefficients`` is ``(a, b, c, d, e, f)``; ``solutions`` lists the
@@ -335,6 +404,41 @@ class QuadraticSolutions:
             "method": self.method,
             "proof": self.proof,
         }
+
+    def __repr__(self) -> str:
+        return brief_repr(
+            type(self).__name__,
+            equation=equation_text(self.coefficients),
+            finite=self.finite,
+            families=len(self.families),
+            solutions=self.solutions,
+            method=self.method,
+            proof=self.proof,
+        )
+
+    def equation_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """The equation in LaTeX: ``ax² + bxy + cy² + dx + ey + f = 0``."""
+        return terms(zip(self.coefficients, MONOMIALS_LATEX, strict=True), max_digits) + " = 0"
+
+    def to_latex(self, max_digits: int = MAX_DIGITS, max_terms: int = MAX_TERMS) -> str:
+        r"""The equation and its solutions: each family on a line, then the other solutions.
+
+        At most ``max_terms`` single solutions are written (0: all).
+
+        >>> s = QuadraticSolutions((1, 0, 1, 0, 0, -25), True, [], [(-5, 0), (5, 0)], "demo")
+        >>> print(s.to_latex())
+        x^{2} + y^{2} - 25 = 0:\quad (x, y) \in \{(-5, 0), (5, 0)\}
+        """
+        first = self.equation_latex(max_digits)
+        if self.finite and not self.solutions:
+            return rf"{first}\quad {text('has no integer solution')}"
+        if self.finite:
+            return rf"{first}:\quad (x, y) \in {points(self.solutions, max_terms, max_digits)}"
+        rows = [first + ":"] + [family.to_latex(max_digits) for family in self.families]
+        if self.solutions:
+            others = points(self.solutions, max_terms, max_digits)
+            rows.append(rf"{text('and')}\ (x, y) \in {others}")
+        return lines(rows)
 
     def satisfies(self, x: int, y: int) -> bool:
         a, b, c, d, e, f = self.coefficients

@@ -74,6 +74,7 @@ from realquad.equations.families import (
 from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.equations.pell import pell
 from realquad.errors import TooLargeError
+from realquad.latex import MAX_DIGITS, integer, terms
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
 MAX_CYCLE = 2_000_000
@@ -84,13 +85,21 @@ METHOD_DEFINITE = "square roots of d mod |m| and reduction of positive definite 
 METHOD_SQUARE = "factorisation (x − sy)(x + sy) = n with d = s²"
 
 
-@dataclass
+@dataclass(repr=False)
 class NormEquationSolution(QuadraticSolutions):
     """The answer to ``x² − d y² = n``: one :class:`OrbitFamily` per class, or a finite list."""
 
     d: int = 0
     n: int = 0
     classes: list[Point] = field(default_factory=list)
+
+    def equation_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """``x² − dy² = n`` in LaTeX.
+
+        >>> solve_norm_equation(13, -4).equation_latex()
+        'x^{2} - 13y^{2} = -4'
+        """
+        return terms([(1, "x^{2}"), (-self.d, "y^{2}")], max_digits) + f" = {integer(self.n)}"
 
 
 # ---------------------------------------------------------------------------

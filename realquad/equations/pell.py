@@ -40,6 +40,22 @@ from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.table import compiled_table
+from realquad.latex import (
+    MAX_DIGITS,
+    MAX_TERMS,
+    Display,
+    brief_repr,
+    fraction,
+    integer,
+    lines,
+    parenthesised,
+    point,
+    points,
+    sqrt,
+    surd,
+    terms,
+    text,
+)
 from realquad.textio import about, decimal_digits, shown, signed, to_decimal
 from realquad.units import DEFAULT_MAX_PERIOD, Regulator, Unit, fundamental_unit
 from realquad.units.bsgs import check_reach
@@ -49,7 +65,7 @@ PELL_NORMS = (1, -1, 4, -4)
 
 
 @dataclass
-class PellSolution:
+class PellSolution(Display):
     """The answer to ``x² − d y² = norm``: solvability and the fundamental solution.
 
     ``x`` and ``y`` are the least positive solution (``y > 0``), or ``None``
@@ -122,6 +138,53 @@ class PellSolution:
             "method": self.method,
             "proof": self.proof,
         }
+
+    def __repr__(self) -> str:
+        return brief_repr(
+            "PellSolution",
+            d=self.d,
+            norm=self.norm,
+            solvable=self.solvable,
+            x=self.x,
+            y=self.y,
+            digits=self.digits if self.x is None else decimal_digits(self.x),
+            method=self.method,
+            proof=self.proof,
+        )
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""The equation, its least solution and every solution from it (the family of powers).
+
+        >>> print(pell(2, -1).to_latex())
+        \begin{gathered}x^{2} - 2y^{2} = -1:\quad (x_{1}, y_{1}) = (1, 1)\\
+        x + y\sqrt{2} = \pm\left(1 + \sqrt{2}\right)^{2k + 1},\quad k \in \mathbb{Z}\end{gathered}
+        >>> print(pell(3, -1).to_latex())
+        x^{2} - 3y^{2} = -1\quad \text{has no integer solution}
+        """
+        equation = terms([(1, "x^{2}"), (-self.d, "y^{2}")], max_digits)
+        equation += f" = {integer(self.norm)}"
+        if self.finite_solutions is not None:
+            found = points(self.finite_solutions, MAX_TERMS, max_digits)
+            return rf"{equation},\quad x, y \ge 0:\quad (x, y) \in {found}"
+        if not self.solvable:
+            return rf"{equation}\quad {text('has no integer solution')}"
+        r = sqrt(self.d, max_digits)
+        half = abs(self.norm) == 4
+        exponent = "2k + 1" if self.norm < 0 else "k"
+        if self.x is not None and self.y is not None:
+            first = rf"{equation}:\quad (x_{{1}}, y_{{1}}) = {point((self.x, self.y), max_digits)}"
+            base = surd(self.x, self.y, 2 if half else 1, self.d, max_digits)
+        else:
+            assert self.compact is not None
+            about = "" if self.digits_exact else r"\approx "
+            size = rf"{text('with')}\ {about}{integer(self.digits or 0, 0)}\ {text('digits')}"
+            eta = fraction(f"x_{{1}} + y_{{1}}{r}", 2 if half else 1)
+            first = rf"{equation}:\quad {eta} = {self.compact.to_latex(max_digits)}"
+            first += rf"\\x_{{1}}\ {size}"
+            base = eta
+        family = fraction(f"x + y{r}", 2 if half else 1)
+        every = rf"{family} = \pm{parenthesised(base)}^{{{exponent}}},\quad k \in \mathbb{{Z}}"
+        return lines([first, every])
 
     def solution(self, k: int) -> tuple[int, int]:
         """The k-th positive solution (k ≥ 1; k = 0 gives the trivial one for N > 0)."""

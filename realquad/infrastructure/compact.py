@@ -39,6 +39,7 @@ from realquad.core.numbers import QuadraticNumber
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.distances import Factors, log_of_product
+from realquad.latex import MAX_DIGITS, power, product
 
 
 @dataclass(frozen=True)
@@ -94,6 +95,23 @@ class CompactRepresentation:
                 for chain in self.chains
             ],
         }
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""The number as ``±∏ ((x + y√D)/z)^e`` in LaTeX, each chain's power outside its product.
+
+        >>> from realquad.infrastructure.regulator_search import search_regulator
+        >>> eps = CompactRepresentation.from_factors(244, search_regulator(244, 20).factors)
+        >>> eps.to_latex().count(r"\sqrt{244}") == eps.size
+        True
+        """
+        flat: list[str] = []
+        for chain in self.chains:
+            factors = [power(a.to_latex(max_digits), e, max_digits) for a, e in chain.factors]
+            if chain.power == 1:
+                flat += factors
+            else:
+                flat.append(power(product(factors), chain.power, max_digits))
+        return ("-" if self.sign < 0 else "") + product(flat)
 
     def to_text(self, d: int, scale: int, title: str) -> str:
         """``scale`` times this number as ``x + y√d`` in the plain-text compact format.

@@ -65,6 +65,7 @@ from realquad.core.forms import Form
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, TooLargeError
+from realquad.latex import MAX_DIGITS, Display, integer, terms
 from realquad.textio import terms_text
 
 #: Largest class number whose ring class polynomial is computed.
@@ -86,7 +87,7 @@ _SUPERSCRIPT = str.maketrans("0123456789", "⁰¹²³⁴⁵⁶⁷⁸⁹")
 
 
 @dataclass(frozen=True)
-class ClassPolynomial:
+class ClassPolynomial(Display):
     """``H_D(X)``: ``coefficients[k]`` is the coefficient of ``X^k`` (``k = 0 … h``, the last is 1)."""
 
     discriminant: int
@@ -106,6 +107,17 @@ class ClassPolynomial:
             monomial = "" if k == 0 else ("X" if k == 1 else "X" + str(k).translate(_SUPERSCRIPT))
             terms.append((self.coefficients[k], monomial))
         return terms_text(terms)
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``H_{D}(X) = X^h + …`` in LaTeX.
+
+        >>> print(ring_class_polynomial(-23).to_latex())
+        H_{-23}(X) = X^{3} + 3491750X^{2} - 5151296875X + 12771880859375
+        """
+        monomials = ["", "X"] + [f"X^{{{k}}}" for k in range(2, self.degree + 1)]
+        pairs = [(self.coefficients[k], monomials[k]) for k in range(self.degree, -1, -1)]
+        D = integer(self.discriminant, max_digits)
+        return f"H_{{{D}}}(X) = {terms(pairs, max_digits)}"
 
     def to_dict(self) -> JSONObject:
         """The JSON shape (``docs/json.md``, *ClassPolynomial*)."""

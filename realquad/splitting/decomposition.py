@@ -59,12 +59,13 @@ from realquad.core.orders import Order
 from realquad.core.primes import kronecker, primes_below
 from realquad.core.results import JSONObject
 from realquad.errors import InputError
+from realquad.latex import MAX_DIGITS, Display, integer, point, text
 
 KINDS = {1: "split", 0: "ramified", -1: "inert"}
 
 
 @dataclass(frozen=True)
-class PrimeDecomposition:
+class PrimeDecomposition(Display):
     """The prime ideals above ``p`` and their classes.
 
     ``classes[i]`` is the narrow class of ``ideals[i]`` as coordinates on
@@ -86,6 +87,32 @@ class PrimeDecomposition:
     form: Form | None
     x: int | None
     y: int | None
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``pO = 𝔭𝔭̄`` (or ``𝔭²``, or prime), the ideal ``𝔭``, its class as exponents on the
+        generators of the (narrow) class group, and ``p`` as the value of a form of that class.
+
+        >>> from realquad.core.orders import Order
+        >>> print(decompose_prime(Order(-56), 3).to_latex())
+        3\mathcal{O} = \mathfrak{p}\bar{\mathfrak{p}},\quad \mathfrak{p} = \left[3, \frac{-2 + \sqrt{-56}}{2}\right],\quad [\mathfrak{p}] = (1),\quad 3 = 3x^{2} + 2xy + 5y^{2}\ \text{at}\ (x, y) = (1, 0)
+        """
+        p = integer(self.p, max_digits)
+        if self.divides_conductor:
+            return rf"p = {p}\quad {text('divides the conductor')}"
+        if self.kind == "inert":
+            return rf"{p}\mathcal{{O}}\ {text('is prime (inert)')}"
+        shape = (
+            r"\mathfrak{p}^{2}" if self.kind == "ramified" else r"\mathfrak{p}\bar{\mathfrak{p}}"
+        )
+        ideal = self.ideals[0]
+        coordinates = point(self.classes[0], max_digits)
+        F = self.form if not self.represented_by_principal else Form.identity(ideal.discriminant)
+        assert F is not None and self.x is not None and self.y is not None
+        value = rf"{p} = {F.to_latex(max_digits)}\ {text('at')}\ (x, y) = {point((self.x, self.y), max_digits)}"
+        return (
+            rf"{p}\mathcal{{O}} = {shape},\quad \mathfrak{{p}} = {ideal.to_latex(max_digits)},"
+            rf"\quad [\mathfrak{{p}}] = {coordinates},\quad {value}"
+        )
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of a prime's decomposition (``docs/json.md``, *PrimeDecomposition*)."""

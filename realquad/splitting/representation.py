@@ -66,6 +66,17 @@ from realquad.core.orders import Order
 from realquad.core.primes import factorize, kronecker, primes_below
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError, InputError
+from realquad.latex import (
+    MAX_DIGITS,
+    MAX_TERMS,
+    Display,
+    brief_repr,
+    integer,
+    lines,
+    point,
+    sequence,
+    text,
+)
 from realquad.splitting.class_polynomial import ClassPolynomial, ring_class_polynomial
 from realquad.splitting.decomposition import decompose_prime
 from realquad.textio import signed
@@ -169,7 +180,7 @@ def represents_prime(
 
 
 @dataclass(frozen=True)
-class RepresentationCriterion:
+class RepresentationCriterion(Display):
     """Which primes ``F`` represents, for all primes at once (module notes).
 
     ``characters``: the assigned genus characters with the values of ``F``'s
@@ -231,6 +242,40 @@ class RepresentationCriterion:
         if degrees is None or not degrees:
             return degrees
         return True if self.exact else None
+
+    def to_latex(self, max_digits: int = MAX_DIGITS, max_terms: int = MAX_TERMS) -> str:
+        r"""The criterion for ``p ∤ D`` (``\iff``, or ``\implies`` when only necessary), the class
+        polynomial on its own line, and the primes dividing ``D`` that are represented.
+
+        >>> print(representation_criterion(Form(1, 0, 5)).to_latex())
+        \begin{gathered}p \nmid -20:\quad p = F(x, y) \iff p \equiv 1, 9 \pmod{20}\\
+        p \mid -20:\quad p = F(x, y) \iff p \in \{5\}\end{gathered}
+        """
+        D = integer(self.discriminant, max_digits)
+        if self.residues is not None:
+            shown = sequence(self.residues, max_terms)
+            condition = rf"p \equiv {shown} \pmod{{{integer(self.modulus, max_digits)}}}"
+        else:
+            condition = ",\\ ".join(f"{_character_latex(n)} = {v}" for n, v in self.characters)
+        arrow = r"\iff" if self.exact else r"\implies"
+        where = rf"p \nmid {D}"
+        rows = []
+        if self.kind == "class_polynomial" and self.polynomial is not None:
+            where = rf"p \nmid {D}\operatorname{{disc}}(H)"
+            split = (
+                text("has a root")
+                if self.factor_degree == 1
+                else text(f"splits into factors of degree {self.factor_degree}")
+            )
+            legendre = rf"\left(\frac{{{D}}}{{p}}\right) = 1"
+            condition = rf"{legendre},\ {condition},\ H(X) \bmod p\ {split}"
+            rows.append(rf"H(X) = {self.polynomial.to_latex(max_digits).split(' = ', 1)[1]}")
+        rows.insert(0, rf"{where}:\quad p = F(x, y) {arrow} {condition}")
+        dividing = r"\{" + sequence(self.dividing_represented, 0) + r"\}"
+        if not self.dividing_represented:
+            dividing = r"\emptyset"
+        rows.append(rf"p \mid {D}:\quad p = F(x, y) \iff p \in {dividing}")
+        return lines(rows)
 
     def to_dict(self) -> JSONObject:
         """The JSON shape (``docs/json.md``, *RepresentationCriterion*)."""
@@ -396,7 +441,7 @@ def _residues(D: int, names: list[str], values: tuple[int, ...], modulus: int) -
 
 
 @dataclass(frozen=True)
-class FormPrimes:
+class FormPrimes(Display):
     """Which primes a form represents: per prime, and the criterion for all primes."""
 
     form: Form
@@ -408,6 +453,51 @@ class FormPrimes:
     criterion: RepresentationCriterion | None
     method: str
     proof: Proof
+
+    def __repr__(self) -> str:
+        return brief_repr(
+            "FormPrimes",
+            form=self.form,
+            discriminant=self.discriminant,
+            represented=[r.p for r in self.primes if r.represented],
+            criterion=None if self.criterion is None else self.criterion.kind,
+            method=self.method,
+            proof=self.proof,
+        )
+
+    def to_latex(self, max_digits: int = MAX_DIGITS, max_terms: int = MAX_TERMS) -> str:
+        r"""The form, the primes asked for that it represents with ``(x, y)``, those it does not,
+        and the criterion (:meth:`RepresentationCriterion.to_latex`).
+
+        >>> print(form_primes(Form(1, 0, 5), 10, criterion=False).to_latex())
+        \begin{gathered}F(x, y) = x^{2} + 5y^{2},\quad D = -20,\quad h = 2\\
+        5 = F(0, -1)\\
+        p = 2, 3, 7:\ \text{not represented}\end{gathered}
+        """
+        h = "h" if self.discriminant < 0 else "h^{+}"
+        head = rf"F(x, y) = {self.form.to_latex(max_digits)},\quad D = {integer(self.discriminant)}"
+        rows = [rf"{head},\quad {h} = {integer(self.class_number, 0)}"]
+        yes = [r for r in self.primes if r.represented]
+        no = [r.p for r in self.primes if not r.represented]
+        if yes:
+            shown = yes if max_terms == 0 else yes[:max_terms]
+            found = ",\\ ".join(
+                f"{integer(r.p)} = F{point((r.x or 0, r.y or 0), max_digits)}" for r in shown
+            )
+            rows.append(found + (r",\ \ldots" if len(shown) < len(yes) else ""))
+        if no:
+            rows.append(rf"p = {sequence(no, max_terms)}:\ {text('not represented')}")
+        if self.criterion is not None:
+            rows.append(self.criterion.to_latex(max_digits, max_terms))
+        return lines(rows)
+
+    def latex_note(self) -> str | None:
+        """The method and proof, and those of the criterion with its scope."""
+        note = super().latex_note() or ""
+        c = self.criterion
+        if c is not None:
+            note += f"\ncriterion: {c.scope}\ncriterion method: {c.method}; proof: {c.proof}"
+        return note
 
     def to_dict(self) -> JSONObject:
         """The JSON shape (``docs/json.md``, *FormPrimes*)."""
@@ -460,3 +550,18 @@ def form_primes(
         f"{METHOD}; {group.method}",
         group.proof,
     )
+
+
+def _character_latex(name: str) -> str:
+    r"""A genus character as LaTeX: ``(·/q)`` is the Legendre symbol ``(p/q)``, ``δ`` and ``ε`` the
+    characters modulo 4 and 8 (:mod:`realquad.classgroup.genus`).
+
+    >>> _character_latex("(·/7)"), _character_latex("δε")
+    ('\\left(\\frac{p}{7}\\right)', '\\delta\\varepsilon(p)')
+    """
+    if name.startswith("(·/") and name.endswith(")"):
+        return rf"\left(\frac{{p}}{{{name[3:-1]}}}\right)"
+    letters = {"δ": r"\delta", "ε": r"\varepsilon"}
+    if name and all(c in letters for c in name):
+        return "".join(letters[c] for c in name) + "(p)"
+    raise DomainError(f"no LaTeX for the genus character {name!r}")

@@ -18,6 +18,7 @@ import mpmath
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
+from realquad.latex import MAX_DIGITS, Display, brief_repr, integer, sqrt, text
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
@@ -84,8 +85,12 @@ def trace_digits(regulator: Regulator, norm: int, factor: Fraction) -> int | Non
         return int(low) + 1 if low == high else None
 
 
+#: The most digits :meth:`Unit.to_latex` expands a unit to when every digit is asked for.
+EXPAND_LIMIT = 20_000_000
+
+
 @dataclass(eq=False)
-class Unit:
+class Unit(Display):
     """The fundamental unit ``ε > 1`` of an order, expanded only on request.
 
     ``ε = (u + v√D)/2`` where ``D`` is the order's discriminant; the same
@@ -183,6 +188,44 @@ class Unit:
     def power(self, k: int) -> QuadraticNumber:
         """``ε^k`` exactly (``k`` may be negative)."""
         return self.expand() ** k
+
+    def __repr__(self) -> str:
+        return brief_repr(
+            "Unit",
+            discriminant=self.order.discriminant,
+            norm=self.norm,
+            period_length=self.period_length,
+            method=self.method,
+            proof=self.proof,
+        )
+
+    def expands_within(self, max_digits: int) -> bool:
+        """Whether ``ε`` has at most ``max_digits`` digits (0: at most :data:`EXPAND_LIMIT`).
+
+        Free for a unit that is expanded already or has no compact form (the
+        continued fraction builds it); else counted from the regulator.
+        """
+        if "digits" in self._cache or self._compact is None:
+            return True
+        return self.digits_from_regulator()[0] <= (max_digits or EXPAND_LIMIT)
+
+    def to_latex(self, max_digits: int = MAX_DIGITS, regulator_digits: int = 30) -> str:
+        r"""``ε = (x + y√d)/c``, its norm and ``log ε``; a unit of more than ``max_digits``
+        digits is not expanded (its digit count and regulator are given instead).
+
+        >>> from realquad.units import fundamental_unit
+        >>> print(fundamental_unit(5).to_latex(regulator_digits=10))
+        \varepsilon = \frac{1 + \sqrt{5}}{2},\quad N(\varepsilon) = -1,\quad \log\varepsilon = 0.4812118251
+        """
+        reg = f"\\log\\varepsilon = {self.regulator(regulator_digits)}"
+        norm = f"N(\\varepsilon) = {integer(self.norm)}"
+        if self.expands_within(max_digits):
+            return f"\\varepsilon = {self.expand().to_latex(max_digits)},\\quad {norm},\\quad {reg}"
+        digits, exact = self.digits_from_regulator()
+        about = "" if exact else r"\approx "
+        r = sqrt(self.order.radicand, max_digits)
+        size = f"x {text(' has ')} {about}{integer(digits, 0)} {text(' digits')}"
+        return rf"\varepsilon = \frac{{x + y{r}}}{{c}},\quad {size},\quad {norm},\quad {reg}"
 
     def to_dict(
         self, expand: bool = True, with_compact: bool = False, regulator_digits: int = 30

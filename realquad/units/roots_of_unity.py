@@ -28,12 +28,13 @@ from dataclasses import dataclass
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
+from realquad.latex import MAX_DIGITS, Display, group, integer
 
 METHOD = "roots of unity of a quadratic order: w = 4 for D = −4, 6 for D = −3, 2 otherwise"
 
 
 @dataclass(frozen=True)
-class UnitGroup:
+class UnitGroup(Display):
     """The roots of unity of an order (``roots_of_unity`` of them, ``generator`` of order exactly that).
 
     ``rank`` is the rank of the free part: 0 for an imaginary order, 1 for a
@@ -46,6 +47,22 @@ class UnitGroup:
     rank: int
     method: str = METHOD
     proof: Proof = "unconditional"
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``O^× = ⟨ζ⟩ ≅ C_w`` (times ``ε^Z`` for a real order) with the generator ``ζ``.
+
+        >>> print(unit_group(-3).to_latex())
+        \mathcal{O}_{-3}^{\times} = \langle\zeta\rangle \cong C_{6},\quad \zeta = \frac{1 + \sqrt{-3}}{2}
+        """
+        D = integer(self.order.discriminant, max_digits)
+        free = r" \times \varepsilon^{\mathbb{Z}}" if self.rank else ""
+        torsion = group([self.roots_of_unity])
+        zeta = self.generator.to_latex(max_digits)
+        return (
+            rf"\mathcal{{O}}_{{{D}}}^{{\times}} = \langle\zeta\rangle{free} \cong {torsion}"
+            + (r" \times \mathbb{Z}" if self.rank else "")
+            + rf",\quad \zeta = {zeta}"
+        )
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of the roots of unity (``docs/json.md``, *UnitGroup*).

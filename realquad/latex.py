@@ -1,0 +1,349 @@
+"""LaTeX of the package's results, and their display in a notebook.
+
+Every result type writes itself as LaTeX math (``to_latex()``) that can be
+pasted into a paper between ``\\[`` and ``\\]``; what the formula cannot
+say (the method and the proof) is :meth:`Display.latex_note`. The pieces are
+here: integers, with those longer than ``max_digits`` summarised by their
+ends and their length as on the terminal (:func:`integer`); surds
+(:func:`surd`); forms (:func:`form`); finite abelian groups as products of
+cyclic groups (:func:`group`); continued fractions with the period under a bar
+(:func:`continued_fraction`); 2×2 matrices (:func:`matrix`). The LaTeX uses
+plain LaTeX and ``amsmath`` only, and is ASCII (Unicode stays in the notes).
+
+>>> surd(1, 1, 2, 5)
+'\\\\frac{1 + \\\\sqrt{5}}{2}'
+>>> print(group([2, 6]), continued_fraction([4], [1, 3, 1, 8]))
+C_{2} \\times C_{6} [4; \\overline{1, 3, 1, 8}]
+>>> print(integer(2**200, max_digits=30))
+\\underbrace{16069380442589902755\\ldots 02993782792835301376}_{61\\text{ digits}}
+
+:class:`Display` gives a result type ``_repr_latex_`` and ``_repr_html_``
+(what a notebook shows) from its ``to_latex()`` and its note.
+"""
+
+from __future__ import annotations
+
+import html
+from collections.abc import Iterable, Sequence
+from typing import Any
+
+from realquad.textio import integer_summary, summarise_numbers, terms_text, to_decimal
+
+#: The longest integer written in full by default (the command line's ``--max-digits``).
+MAX_DIGITS = 1000
+#: The most terms (partial quotients, solutions) written in full by default.
+MAX_TERMS = 1000
+
+
+def integer(n: int, max_digits: int = MAX_DIGITS) -> str:
+    """``n`` in full, or beyond ``max_digits`` digits (0: no limit) its ends and its length.
+
+    >>> integer(-1234), integer(10**40 + 1, 25)[-30:]
+    ('-1234', '0000000001}_{41\\\\text{ digits}}')
+    """
+    found = integer_summary(n, max_digits)
+    if found is None:
+        return to_decimal(n)
+    k, leading, trailing = found
+    sign = "-" if n < 0 else ""
+    return rf"{sign}\underbrace{{{leading}\ldots {trailing}}}_{{{k}\text{{ digits}}}}"
+
+
+def terms(pairs: Iterable[tuple[int, str]], max_digits: int = MAX_DIGITS) -> str:
+    """``a m₁ + b m₂ + …`` in LaTeX (monomials given as LaTeX; coefficients ±1 left out).
+
+    >>> terms([(1, "x^{2}"), (0, "xy"), (-13, "y^{2}"), (4, "")])
+    'x^{2} - 13y^{2} + 4'
+    """
+    return terms_text(pairs, lambda n: integer(n, max_digits), "-")
+
+
+def sqrt(d: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``\sqrt{d}`` (``d`` may be negative).
+
+    >>> sqrt(-3)
+    '\\sqrt{-3}'
+    """
+    return rf"\sqrt{{{integer(d, max_digits)}}}"
+
+
+def fraction(numerator: str, denominator: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``\frac{numerator}{denominator}``, or the numerator alone over 1.
+
+    >>> fraction("x", 1), fraction("x + 1", 3)
+    ('x', '\\frac{x + 1}{3}')
+    """
+    if denominator == 1:
+        return numerator
+    return rf"\frac{{{numerator}}}{{{integer(denominator, max_digits)}}}"
+
+
+def surd(x: int, y: int, c: int, d: int, max_digits: int = MAX_DIGITS) -> str:
+    """``(x + y√d)/c`` in LaTeX.
+
+    >>> surd(-1, 1, 2, 5), surd(3, -2, 1, 2), surd(7, 0, 2, 2)
+    ('\\\\frac{-1 + \\\\sqrt{5}}{2}', '3 - 2\\\\sqrt{2}', '\\\\frac{7}{2}')
+    """
+    return fraction(terms([(x, ""), (y, sqrt(d, max_digits))], max_digits), c, max_digits)
+
+
+def parenthesised(body: str) -> str:
+    r"""``\left(body\right)``, or ``body`` itself when it is one integer or one letter.
+
+    >>> parenthesised("3"), parenthesised("1 + \\sqrt{2}")
+    ('3', '\\left(1 + \\sqrt{2}\\right)')
+    """
+    if body.isdigit() or (len(body) == 1 and body.isalpha()):
+        return body
+    return rf"\left({body}\right)"
+
+
+def form(a: int, b: int, c: int, max_digits: int = MAX_DIGITS) -> str:
+    """The form ``ax² + bxy + cy²`` as a polynomial.
+
+    >>> form(3, 7, -2), form(1, 0, 5)
+    ('3x^{2} + 7xy - 2y^{2}', 'x^{2} + 5y^{2}')
+    """
+    return terms([(a, "x^{2}"), (b, "xy"), (c, "y^{2}")], max_digits)
+
+
+def group(invariants: Sequence[int]) -> str:
+    """A finite abelian group from its invariants ``d₁ | d₂ | …``; ``1`` when trivial.
+
+    >>> group([2, 6]), group([])
+    ('C_{2} \\\\times C_{6}', '1')
+    """
+    return r" \times ".join(f"C_{{{integer(d, 0)}}}" for d in invariants) if invariants else "1"
+
+
+def sequence(items: Sequence[int], max_terms: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``a, b, c`` — the first ``max_terms`` items (0: all), then ``\ldots``.
+
+    >>> sequence([1, 2, 3, 4], 2)
+    '1, 2, \\ldots'
+    """
+    shown = list(items if max_terms == 0 else items[:max_terms])
+    text = ", ".join(integer(a, max_digits) for a in shown)
+    return text + (r", \ldots" if len(shown) < len(items) else "")
+
+
+def continued_fraction(
+    preperiod: Sequence[int],
+    period: Sequence[int],
+    max_terms: int = MAX_TERMS,
+    max_digits: int = MAX_DIGITS,
+) -> str:
+    r"""``[a_0; a_1, …, \overline{a_k, …}]``: the period under a bar, at most ``max_terms`` terms.
+
+    A cut list ends in ``\ldots`` and says its length.
+
+    >>> continued_fraction([3], [1, 2, 1, 6])
+    '[3; \\overline{1, 2, 1, 6}]'
+    >>> continued_fraction([], [1]), continued_fraction([2, 3], [])
+    ('[\\overline{1}]', '[2; 3]')
+    >>> continued_fraction([1], list(range(1, 9)), max_terms=4)
+    '[1; \\overline{1, 2, 3, \\ldots}]\\quad(\\text{period length } 8)'
+    """
+    everything = list(preperiod) + list(period)
+    budget = len(everything) if max_terms == 0 else min(max_terms, len(everything))
+    pre = list(preperiod)[:budget]
+    per = list(period)[: budget - len(pre)]
+    cut = budget < len(everything)
+    if per:
+        head = pre[1:] if pre else []
+        tail = sequence(per, 0, max_digits) + (r", \ldots" if cut else "")
+        inner = ", ".join([*(integer(a, max_digits) for a in head), rf"\overline{{{tail}}}"])
+        body = f"[{integer(pre[0], max_digits)}; {inner}]" if pre else f"[{inner}]"
+    else:
+        rest = sequence(pre[1:], 0, max_digits) + (r", \ldots" if cut else "")
+        body = (
+            f"[{integer(pre[0], max_digits)}; {rest}]"
+            if len(pre) > 1 or cut
+            else f"[{integer(pre[0], max_digits)}]"
+        )
+    if cut:
+        what = "period length" if period else "length"
+        body += rf"\quad(\text{{{what} }} {len(period) if period else len(preperiod)})"
+    return body
+
+
+def matrix(entries: Sequence[int], max_digits: int = MAX_DIGITS) -> str:
+    r"""The 2×2 matrix ``(a b; c d)`` from ``(a, b, c, d)``, or a column from ``(x, y)``.
+
+    >>> matrix((3, 4, 2, 3))
+    '\\begin{pmatrix} 3 & 4 \\\\ 2 & 3 \\end{pmatrix}'
+    >>> matrix((1, -2))
+    '\\begin{pmatrix} 1 \\\\ -2 \\end{pmatrix}'
+    """
+    cells = [integer(v, max_digits) for v in entries]
+    rows = [cells[0:2], cells[2:4]] if len(cells) == 4 else [[v] for v in cells]
+    return r"\begin{pmatrix} " + r" \\ ".join(" & ".join(r) for r in rows) + r" \end{pmatrix}"
+
+
+def point(p: Sequence[int], max_digits: int = MAX_DIGITS) -> str:
+    """``(x, y)``.
+
+    >>> point((3, -2))
+    '(3, -2)'
+    """
+    return "(" + ", ".join(integer(v, max_digits) for v in p) + ")"
+
+
+def points(items: Sequence[Sequence[int]], max_terms: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``\{(x_1, y_1), …\}``, at most ``max_terms`` of them (0: all); ``\emptyset`` when none.
+
+    >>> points([(1, 0), (-1, 0)], 0), points([], 0)
+    ('\\{(1, 0), (-1, 0)\\}', '\\emptyset')
+    """
+    if not items:
+        return r"\emptyset"
+    shown = list(items if max_terms == 0 else items[:max_terms])
+    text = ", ".join(point(p, max_digits) for p in shown)
+    if len(shown) < len(items):
+        text += rf", \ldots\ (\text{{{len(items)} in all}})"
+    return rf"\{{{text}\}}"
+
+
+def product(factors: Sequence[str], per_row: int = 3) -> str:
+    r"""``f_1 \cdot f_2 \cdot …``, ``per_row`` factors to a row of an ``aligned`` block beyond one row.
+
+    >>> product(["a", "b"])
+    'a \\cdot b'
+    >>> print(product(["a", "b", "c"], 2))
+    \begin{aligned}&a \cdot b\\
+    &\quad\cdot c\end{aligned}
+    """
+    rows = [" \\cdot ".join(factors[i : i + per_row]) for i in range(0, len(factors), per_row)]
+    if len(rows) <= 1:
+        return rows[0] if rows else "1"
+    return r"\begin{aligned}&" + "\\\\\n&\\quad\\cdot ".join(rows) + r"\end{aligned}"
+
+
+def power(base: str, exponent: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``base^{e}`` with the base in parentheses when it needs them; the base alone for ``e = 1``.
+
+    >>> power(r"1 + \sqrt{2}", 2), power("x", 1)
+    ('\\left(1 + \\sqrt{2}\\right)^{2}', 'x')
+    """
+    if exponent == 1:
+        return base
+    return f"{parenthesised(base)}^{{{integer(exponent, max_digits)}}}"
+
+
+def text(words: str) -> str:
+    r"""``\text{words}`` with LaTeX's special characters escaped.
+
+    The command line's LaTeX keeps to ASCII here; a notebook's MathJax also
+    reads Unicode (the notes of :class:`Display`).
+
+    >>> text("50% of {p}")
+    '\\text{50\\% of \\{p\\}}'
+    """
+    special = {c: "\\" + c for c in "#$%&_{}"}
+    special.update({"\\": r"\textbackslash{}", "~": r"\textasciitilde{}", "^": r"\^{}"})
+    return r"\text{" + "".join(special.get(c, c) for c in words) + "}"
+
+
+def lines(rows: Sequence[str]) -> str:
+    r"""One formula per row, centred (``gathered``); a single row as it is.
+
+    >>> lines(["a = 1"]), lines(["a", "b"])
+    ('a = 1', '\\begin{gathered}a\\\\\nb\\end{gathered}')
+    >>> lines(["a", lines(["b", "c"])]) == lines(["a", "b", "c"])   # one block, not nested
+    True
+    """
+    if len(rows) == 1:
+        return rows[0]
+    begin, end = r"\begin{gathered}", r"\end{gathered}"
+    flat = [
+        row[len(begin) : -len(end)]
+        if row.startswith(begin) and row.endswith(end) and row.count(begin) == 1
+        else row
+        for row in rows
+    ]
+    return begin + "\\\\\n".join(flat) + end
+
+
+def display(body: str, note: str | None) -> str:
+    r"""``body`` as displayed maths ``\[ … \]``, the note after it as a LaTeX comment line.
+
+    >>> print(display("x = 1", "method: demo; proof: unconditional"))
+    \[
+    x = 1
+    \]
+    % method: demo; proof: unconditional
+    """
+    out = "\\[\n" + body + "\n\\]"
+    if note:
+        out += "\n" + "\n".join("% " + line for line in note.splitlines())
+    return out
+
+
+def brief(value: Any, width: int = 60) -> str:
+    """``repr`` of a field for :func:`brief_repr`: long integers by their ends, long lists cut.
+
+    >>> brief(10**70), brief(list(range(20)), 20)
+    ('10000000000000000000…00000000000000000000 (71 digits)', '[0, 1, 2, 3, 4, 5, …20 items]')
+    """
+    if isinstance(value, bool) or value is None:
+        return repr(value)
+    if isinstance(value, int) or type(value).__name__ == "mpz":
+        return summarise_numbers(to_decimal(value))
+    if isinstance(value, (list, tuple)):
+        parts: list[str] = []
+        for item in value:
+            parts.append(brief(item, width))
+            if sum(len(p) + 2 for p in parts) > width:
+                parts[-1] = f"…{len(value)} items"
+                break
+        body = ", ".join(parts)
+        return f"[{body}]" if isinstance(value, list) else f"({body})"
+    return summarise_numbers(repr(value) if isinstance(value, str) else str(value))
+
+
+def brief_repr(name: str, **fields: Any) -> str:
+    """``Name(field=value, …)`` that stays short whatever the size of the values.
+
+    >>> brief_repr("PellSolution", d=61, x=10**80, method="continued fraction")
+    "PellSolution(d=61, x=10000000000000000000…00000000000000000000 (81 digits), method='continued fraction')"
+    """
+    return f"{name}(" + ", ".join(f"{k}={brief(v)}" for k, v in fields.items()) + ")"
+
+
+class Display:
+    """``_repr_latex_`` and ``_repr_html_`` for a result type with ``to_latex()``.
+
+    A result type defines ``to_latex(max_digits)``; its note says its
+    ``method`` and ``proof`` when it has them (values such as forms have none).
+    """
+
+    __slots__ = ()
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """The LaTeX math of the result (each type gives its own)."""
+        raise NotImplementedError(f"{type(self).__name__} does not define to_latex")
+
+    def latex_note(self) -> str | None:
+        """``method: …; proof: …`` (``None`` for a value without either)."""
+        method, proof = getattr(self, "method", None), getattr(self, "proof", None)
+        if method is None or proof is None:
+            return None
+        return f"method: {method}; proof: {proof}"
+
+    def to_latex_display(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""The result as ``\[ … \]`` and its note as a comment line (what ``--latex`` prints)."""
+        return display(self.to_latex(max_digits), self.latex_note())
+
+    def _repr_latex_(self) -> str:
+        body = self.to_latex()
+        note = self.latex_note()
+        if note:
+            body = lines([body, text(note)])
+        return f"$${body}$$"
+
+    def _repr_html_(self) -> str:
+        note = self.latex_note()
+        out = f'<div class="realquad">$${html.escape(self.to_latex())}$$'
+        if note:
+            out += f'<div style="font-size: smaller">{html.escape(note)}</div>'
+        return out + "</div>"
