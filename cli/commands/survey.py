@@ -14,6 +14,7 @@ from realquad_cli.output import Command, Group, IntegerRange, emit, json_option
 
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
+from realquad.latex import escape, group, table
 from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
 from realquad.survey.executors import make_executor
@@ -51,6 +52,16 @@ def _bound(value: str | None, name: str, default: int | None = None) -> int | No
         raise InputError(f"{name} must be a positive integer, got {n}")
     if n > MAX_BOUND:
         raise InputError(f"{name} must be at most {MAX_BOUND:,}, got {n}")
+    return n
+
+
+def _signed_bound(value: str | None, name: str) -> int | None:
+    """A bound on ``d`` or ``D``: either sign (negative for imaginary fields)."""
+    if value is None:
+        return None
+    n = as_integer(value, name)
+    if abs(n) > MAX_BOUND:
+        raise InputError(f"{name} must be between -{MAX_BOUND:,} and {MAX_BOUND:,}, got {n}")
     return n
 
 
@@ -127,10 +138,14 @@ def run_command(
     Rerun the same command to resume after an interruption: finished chunks are skipped.
     Example: realquad survey run --d-min 2 --d-max 100000 --workers 2
     """
-    lo = _bound(d_min, "--d-min", 2)
-    hi = _bound(d_max, "--d-max")
+    lo = _signed_bound(d_min, "--d-min")
+    hi = _signed_bound(d_max, "--d-max")
     if hi is None:
         raise InputError("give --d-max N (the largest d of the survey)")
+    if lo is None:
+        if hi < 0:
+            raise InputError("give --d-min N (the most negative d of a survey of imaginary fields)")
+        lo = 2
     size = _bound(chunk_size, "--chunk-size", DEFAULT_CHUNK_SIZE)
     count = _bound(workers, "--workers") if workers is not None else None
     assert lo is not None and size is not None
@@ -177,7 +192,7 @@ def run_command(
         f"{outcome.computed_fields:,} computed in {outcome.seconds:.1f} s "
         f"({outcome.rate:,.0f} fields/s, {outcome.executor}), {outcome.skipped_fields:,} already there"
     )
-    emit(payload, text, as_json)
+    emit(payload, text, as_json, latex=lambda md: _run_latex(payload))
 
 
 def _row_filter(
@@ -192,7 +207,7 @@ def _row_filter(
         norm = as_integer(unit_norm, "--unit-norm")
         if norm not in (1, -1):
             raise InputError(f"--unit-norm must be +1 or -1, got {norm}")
-    lo, hi = _bound(d_min, "--d-min"), _bound(d_max, "--d-max")
+    lo, hi = _signed_bound(d_min, "--d-min"), _signed_bound(d_max, "--d-max")
     if lo is not None and hi is not None and lo > hi:
         raise InputError(f"empty range: --d-min {lo} is larger than --d-max {hi}")
     return RowFilter(
@@ -228,7 +243,7 @@ def _filter_options(f: Any) -> Any:
 
 
 #: The keys of a survey row (``docs/json.md``, *SurveyRow*), in the order of the CSV columns.
-ROW_KEYS = list(FieldRecord(0, 0, 0, 0, "[]", "[]", 1, "", 0, 0, "", "unconditional").to_dict())
+ROW_KEYS = list(FieldRecord(0, 0, 0, 0, "[]", "[]", 2, 1, "", 0, 0, "", "unconditional").to_dict())
 #: ``--sort`` names: the keys of a row (as printed by --json and --csv) and the store's columns.
 SORT_COLUMNS = {
     **dict(zip(ROW_KEYS, COLUMNS, strict=True)),
@@ -410,14 +425,19 @@ def query_command(
         "missing": missing_json(missing),
     }
     lines = [
-        f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl':>12} {'Cl⁺':>12} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
+        f"{'d':>10} {'D':>11} {'h':>5} {'h⁺':>5} {'Cl':>12} {'Cl⁺':>12} {'w':>2} {'N(ε)':>5} {'regulator':>20} {'period':>7} {'digits':>7}"
     ]
     for r in rows:
-        norm = "+1" if r["unit_norm"] > 0 else f"{MINUS}1"
+        norm, regulator, period, digits = (
+            _dash(v) for v in (r["unit_norm"], r["regulator"], r["period_length"], r["digits"])
+        )
+        if r["unit_norm"] is not None:
+            norm = "+1" if r["unit_norm"] > 0 else f"{MINUS}1"
         lines.append(
-            f"{r['radicand']:>10} {r['discriminant']:>11} {r['class_number']:>5} {r['narrow_class_number']:>5} "
-            f"{group_text(r['invariants']):>12} {group_text(r['narrow_invariants']):>12} {norm:>5} "
-            f"{r['regulator']:>20} {r['period_length']:>7} {r['digits']:>7}"
+            f"{_minus(r['radicand']):>10} {_minus(r['discriminant']):>11} {r['class_number']:>5} "
+            f"{r['narrow_class_number']:>5} {group_text(r['invariants']):>12} "
+            f"{group_text(r['narrow_invariants']):>12} {r['roots_of_unity']:>2} {norm:>5} "
+            f"{regulator:>20} {period:>7} {digits:>7}"
         )
     lines.append(
         f"{matching:,} matching fields"
@@ -425,7 +445,18 @@ def query_command(
     )
     if incomplete:
         lines.append(incomplete)
-    emit(payload, "\n".join(lines), as_json)
+    comments = [lines[-2] if incomplete else lines[-1]] + ([incomplete] if incomplete else [])
+    emit(payload, "\n".join(lines), as_json, latex=lambda md: _rows_latex(rows, comments))
+
+
+def _dash(value: Any) -> str:
+    """A table cell: ``—`` for a value an imaginary field does not have."""
+    return "—" if value is None else str(value)
+
+
+def _minus(n: int) -> str:
+    """An integer with the typographic minus sign."""
+    return str(n).replace("-", MINUS)
 
 
 def _csv_cell(value: Any) -> Any:
@@ -499,4 +530,87 @@ def report_command(
     if plot is not None:
         payload["plot"] = plot
         lines.append(f"plot written to {plot}")
-    emit(payload, "\n".join(lines), as_json)
+    emit(payload, "\n".join(lines), as_json, latex=lambda md: _report_latex(report, lines[0]))
+
+
+# --latex: the tables of a paper
+
+
+def _comments(lines: list[str]) -> str:
+    """``% line`` for each line (what a table cannot say: counts, proof, missing chunks)."""
+    return "\n".join(f"% {line}" for line in lines)
+
+
+def _cell(value: Any) -> str:
+    """A table cell: ``--`` for a missing value, else the value escaped."""
+    return "--" if value is None else escape(str(value))
+
+
+def _run_latex(payload: dict[str, Any]) -> str:
+    """A survey run as a two-column table of its counts and timing."""
+    span = payload["range"]
+    rows = [
+        [f"${span['kind']}$", f"${span['min']} \\le {span['kind']} \\le {span['max']}$"],
+        ["fields", _cell(payload["fields"])],
+        ["computed", _cell(payload["computed"])],
+        ["already there", _cell(payload["skipped"])],
+        ["seconds", _cell(payload["seconds"])],
+        ["fields per second", _cell(payload["fields_per_second"])],
+        ["executor", _cell(payload["executor"])],
+    ]
+    return (
+        table("lr", ["survey", "value"], rows)
+        + "\n"
+        + _comments([f"database: {payload['database']}"])
+    )
+
+
+def _rows_latex(rows: list[dict[str, Any]], notes: list[str]) -> str:
+    """The queried fields as a table: d, D, h, h⁺, Cl, Cl⁺, N(ε), regulator, period, digits."""
+    header = [
+        "$d$", "$D$", "$h$", "$h^{+}$", "$\\mathrm{Cl}$", "$\\mathrm{Cl}^{+}$",
+        "$N(\\varepsilon)$", "$R$", "period", "digits",
+    ]  # fmt: skip
+    body = [
+        [
+            *(_cell(r[k]) for k in ("radicand", "discriminant", "class_number")),
+            _cell(r["narrow_class_number"]),
+            f"${group(r['invariants'])}$",
+            f"${group(r['narrow_invariants'])}$",
+            f"${r['unit_norm']:+d}$",
+            *(_cell(r[k]) for k in ("regulator", "period_length", "digits")),
+        ]
+        for r in rows
+    ]
+    return table("rrrrllrlrr", header, body) + "\n" + _comments(notes)
+
+
+def _report_latex(report: Any, first_line: str) -> str:
+    """The statistics as a table (count and share of each), then the largest regulators."""
+
+    def share(value: float | None) -> str:
+        return "--" if value is None else f"{100 * value:.3f}\\%"
+
+    rows = [
+        ["$h = 1$", _cell(report.class_number_one), share(report.class_number_one_share)],
+        [
+            "$h = 1$, $d \\equiv 1 \\pmod 4$ prime",
+            _cell(report.prime_class_number_one),
+            share(report.prime_share),
+        ],
+        ["Cohen--Lenstra prediction", "", share(report.prediction)],
+        [
+            "$N(\\varepsilon) = -1$",
+            _cell(report.unit_norm_minus_one),
+            share(report.unit_norm_minus_one_share),
+        ],
+    ]
+    stats = table("lrr", ["", "fields", "share"], rows)
+    largest = table(
+        "rl",
+        ["$d$", "$R$"],
+        ([_cell(r["radicand"]), _cell(r["regulator"])] for r in report.largest_regulators),
+    )
+    incomplete = missing_text(report.missing)
+    notes = [first_line] + ([incomplete] if incomplete else [])
+    return stats + "\n\n" + largest + "\n" + _comments(notes)

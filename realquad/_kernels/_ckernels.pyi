@@ -53,7 +53,7 @@ def definite_class_table(
     D: int, candidates: list[tuple[int, int, int]], max_forms: int, progress: object = None
 ) -> tuple[dict, list, list, list, list] | None: ...
 def definite_class_relations(
-    D: int, conductor: int, primes: list[int], max_forms: int
+    D: int, conductor: int, primes: list[int], max_forms: int, target: int = 0, power: int = 1
 ) -> tuple[int, list[tuple[int, int, int]], list[list[int]]] | None: ...
 
 # infrastructure: the baby-step table (a capsule) and the giant-step search

@@ -282,13 +282,15 @@ add_class(walk_t *w, dtable_t *t, int64_t a, int64_t b, int64_t c, int64_t from,
 
 static int
 definite_walk(int64_t D, const int64_t *cand, int64_t ncand, int64_t max_forms, PyObject *progress, walk_t *w,
-              dtable_t *t, PyObject *rels)
+              dtable_t *t, PyObject *rels, int64_t target)
 {
     int64_t i, gi, n, j, h, hit, a, b, c, xa, xb, xc, b0 = floormod64(D, 2);
-    if (dtable_init(t, 1 << 12) < 0 || add_class(w, t, 1, b0, (b0 - D) / 4, -1, -1, 0) < 0)
+    if (w->reps.n == 0 && (dtable_init(t, 1 << 12) < 0 || add_class(w, t, 1, b0, (b0 - D) / 4, -1, -1, 0) < 0))
         return -1;
     for (i = 0; i < ncand; i++) {
         int64_t ga = cand[3 * i], gb = cand[3 * i + 1], gc = cand[3 * i + 2];
+        if (target > 0 && w->reps.n / 3 >= target)
+            break;
         if (dtable_get(t, ga, gb) >= 0)
             continue;
         gi = w->gens.n / 3;
@@ -448,7 +450,7 @@ k_definite_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     rels = PyList_New(0);
     if (rels == NULL)
         goto fail;
-    rc = definite_walk(D, cand.v, cand.n / 3, max_forms, progress, &w, &t, rels);
+    rc = definite_walk(D, cand.v, cand.n / 3, max_forms, progress, &w, &t, rels, 0);
     if (rc < 0)
         goto fail;
     if (rc == 0) {
@@ -493,33 +495,78 @@ fail:
     return NULL;
 }
 
+/* (a, b, c)^n reduced, n >= 1, by squaring and multiplying; -1 on error. */
+static int
+definite_power(int64_t *a, int64_t *b, int64_t *c, int64_t n, int64_t D)
+{
+    int64_t b0 = floormod64(D, 2), ra = 1, rb = b0, rc = (b0 - D) / 4, xa = *a, xb = *b, xc = *c;
+    while (n > 0) {
+        if ((n & 1) && compose_reduce(ra, rb, xa, xb, D, &ra, &rb, &rc) < 0)
+            return -1;
+        n >>= 1;
+        if (n > 0 && compose_reduce(xa, xb, xa, xb, D, &xa, &xb, &xc) < 0)
+            return -1;
+    }
+    *a = ra, *b = rb, *c = rc;
+    return 0;
+}
+
 PyObject *
 k_definite_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
-    int64_t D, conductor, max_forms, *primes;
-    Py_ssize_t len;
+    /* With a fifth argument target > 0 (the class number, known by other means), the
+     * candidates are made a block of primes at a time and the walk stops once it has
+     * target classes; the output is the same as the full walk cut at that point.
+     * With a sixth argument power > 1 every candidate is first raised to that power:
+     * the walk then runs in the subgroup of power-th powers (with power = h/p^e and
+     * target = p^e, the p-Sylow subgroup). */
+    int64_t D, conductor, max_forms, target = 0, power = 1, *primes;
+    Py_ssize_t len, start = 0, block = 8;
     vec_t cand = {0};
     walk_t w = {{0}};
     dtable_t t = {0};
     PyObject *rels = NULL, *gens;
-    int rc;
-    if (check_nargs(nargs, 4, "definite_class_relations") < 0 || definite_args(args[0], &D) < 0 ||
-        get_i64(args[1], &conductor, "conductor") < 0 || get_limit(args[3], &max_forms) < 0)
+    int rc = 1;
+    if (nargs != 4 && nargs != 5 && check_nargs(nargs, 6, "definite_class_relations") < 0)
         return NULL;
-    if (conductor <= 0) {
-        PyErr_SetString(PyExc_ValueError, "the conductor must be positive");
+    if (definite_args(args[0], &D) < 0 || get_i64(args[1], &conductor, "conductor") < 0 ||
+        get_limit(args[3], &max_forms) < 0 || (nargs >= 5 && get_i64(args[4], &target, "target") < 0) ||
+        (nargs == 6 && get_i64(args[5], &power, "power") < 0))
+        return NULL;
+    if (conductor <= 0 || power <= 0) {
+        PyErr_SetString(PyExc_ValueError, "the conductor and the power must be positive");
         return NULL;
     }
     if (prime_array(args[2], &primes, &len) < 0)
         return NULL;
-    rc = definite_candidates(D, conductor, primes, len, &cand);
-    PyMem_Free(primes);
-    if (rc < 0)
-        goto fail;
     rels = PyList_New(0);
-    if (rels == NULL)
-        goto fail;
-    rc = definite_walk(D, cand.v, cand.n / 3, max_forms, Py_None, &w, &t, rels);
+    if (rels == NULL) {
+        PyMem_Free(primes);
+        return NULL;
+    }
+    if (target <= 0)
+        block = len;
+    while (start < len || (start == 0 && len == 0)) {
+        Py_ssize_t stop = start + block < len ? start + block : len;
+        cand.n = 0;
+        if (definite_candidates(D, conductor, primes + start, stop - start, &cand) < 0) {
+            PyMem_Free(primes);
+            goto fail;
+        }
+        if (power > 1) {
+            int64_t k;
+            for (k = 0; k < cand.n; k += 3)
+                if (definite_power(&cand.v[k], &cand.v[k + 1], &cand.v[k + 2], power, D) < 0) {
+                    PyMem_Free(primes);
+                    goto fail;
+                }
+        }
+        rc = definite_walk(D, cand.v, cand.n / 3, max_forms, Py_None, &w, &t, rels, target);
+        if (rc <= 0 || (target > 0 && w.reps.n / 3 >= target) || stop >= len)
+            break;
+        start = stop, block *= 2;
+    }
+    PyMem_Free(primes);
     if (rc < 0)
         goto fail;
     if (rc == 0) {

@@ -118,6 +118,17 @@ def definite_class_table(
     >>> reps, gens, rels
     ([(1, 0, 14), (2, 0, 7), (3, 2, 5), (3, -2, 5)], [(2, 0, 7), (3, 2, 5)], [[2], [-1, 2]])
     """
+    return _walk(D, candidates, max_forms, progress, 0)
+
+
+def _walk(
+    D: int,
+    candidates: list[tuple[int, int, int]],
+    max_forms: int,
+    progress: object,
+    target: int,
+) -> tuple[dict, list, list, list, list] | None:
+    """:func:`definite_class_table`, stopping once ``target > 0`` classes are found."""
     b0 = D % 2
     start = (1, b0, (b0 - D) // 4)
     index = {(1, b0): 0}
@@ -126,6 +137,8 @@ def definite_class_table(
     generators: list[tuple[int, int, int]] = []
     relations: list[list[int]] = []
     for g in candidates:
+        if target > 0 and len(representatives) >= target:
+            break
         if (g[0], g[1]) in index:
             continue
         gi = len(generators)
@@ -159,20 +172,50 @@ def definite_class_table(
     return index, representatives, vectors, generators, relations
 
 
+def definite_power(a: int, b: int, c: int, n: int, D: int) -> tuple[int, int, int]:
+    """``(a, b, c)^n`` reduced (``n ≥ 1``), by squaring and multiplying (as the compiled kernel).
+
+    >>> definite_power(3, 2, 5, 2, -56), definite_power(3, 2, 5, 4, -56)
+    ((2, 0, 7), (1, 0, 14))
+    """
+    b0 = D % 2
+    result, x = (1, b0, (b0 - D) // 4), (a, b, c)
+    while n > 0:
+        if n & 1:
+            result = definite_compose_reduce(result[0], result[1], x[0], x[1], D)
+        n >>= 1
+        if n > 0:
+            x = definite_compose_reduce(x[0], x[1], x[0], x[1], D)
+    return result
+
+
 def definite_class_relations(
-    D: int, conductor: int, primes: list[int], max_forms: int
+    D: int, conductor: int, primes: list[int], max_forms: int, target: int = 0, power: int = 1
 ) -> tuple[int, list[tuple[int, int, int]], list[list[int]]] | None:
     """``(h, generators, relations)`` of :func:`definite_class_table` without the per-class data.
 
     The candidates are :func:`definite_class_candidates` of ``primes``;
-    ``None`` beyond ``max_forms`` classes.
+    ``None`` beyond ``max_forms`` classes. With ``target > 0`` (the class
+    number, known by other means) the walk stops once it has ``target``
+    classes (the compiled kernel then makes the candidates a block of primes
+    at a time, so the primes beyond are never touched). With ``power > 1``
+    every candidate is first raised to that power: the walk is then in the
+    subgroup of ``power``-th powers (for ``power = h/p^e`` and
+    ``target = p^e``, the ``p``-Sylow subgroup).
 
     >>> definite_class_relations(-56, 1, [2, 3, 5], 100)
     (4, [(2, 0, 7), (3, 2, 5)], [[2], [-1, 2]])
+    >>> definite_class_relations(-56, 1, [2, 3, 5], 100, 2)
+    (2, [(2, 0, 7)], [[2]])
+    >>> definite_class_relations(-56, 1, [2, 3, 5], 100, 2, 2)   # the squares: Cl² ≅ Z/2
+    (2, [(2, 0, 7)], [[2]])
     """
-    table = definite_class_table(
-        D, definite_class_candidates(D, conductor, primes), max_forms, None
-    )
+    if conductor <= 0 or power <= 0:
+        raise ValueError("the conductor and the power must be positive")
+    candidates = definite_class_candidates(D, conductor, primes)
+    if power > 1:
+        candidates = [definite_power(a, b, c, power, D) for a, b, c in candidates]
+    table = _walk(D, candidates, max_forms, None, target)
     if table is None:
         return None
     _, representatives, _, generators, relations = table

@@ -132,6 +132,25 @@ class SmithForm:
         return out
 
 
+def invariants_from_primary(powers: dict[int, list[int]]) -> list[int]:
+    """The invariant factors ``d₁ | d₂ | …`` (increasing) of ``⊕ Z/q`` over the prime powers ``q``.
+
+    ``powers`` maps each prime ``p`` to the orders ``p^e`` of the cyclic
+    ``p``-groups (the primary decomposition); orders 1 are ignored.
+
+    >>> invariants_from_primary({2: [2, 4], 3: [9]})
+    [2, 36]
+    >>> invariants_from_primary({})
+    []
+    """
+    columns = [sorted((q for q in qs if q > 1), reverse=True) for qs in powers.values()]
+    factors = [1] * max((len(c) for c in columns), default=0)  # factors[0] the largest
+    for qs in columns:
+        for i, q in enumerate(qs):
+            factors[i] *= q
+    return list(reversed(factors))
+
+
 def smith_normal_form(relations: list[list[int]], n: int) -> SmithForm:
     """The Smith normal form of the relations (rows of length ``≤ n``, padded with zeros).
 

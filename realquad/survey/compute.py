@@ -99,7 +99,11 @@ class FieldRecord:
     """One survey row: the invariants of ``Q(√d)``.
 
     ``class_group`` and ``narrow_class_group`` are the invariant factors
-    ``d1 | d2 | …`` as a JSON list (``[]`` for the trivial group).
+    ``d1 | d2 | …`` as a JSON list (``[]`` for the trivial group);
+    ``roots_of_unity`` is ``w`` (2, or 4 and 6 for ``Q(i)`` and ``Q(√−3)``).
+    An imaginary field (``d < 0``) has no fundamental unit of infinite order:
+    its ``unit_norm``, ``regulator``, ``period_length`` and ``unit_digits`` are
+    ``None`` (``NULL`` in the store), and ``Cl⁺ = Cl``.
     """
 
     d: int
@@ -108,10 +112,11 @@ class FieldRecord:
     narrow_class_number: int
     class_group: str
     narrow_class_group: str
-    unit_norm: int
-    regulator: str
-    period_length: int
-    unit_digits: int
+    roots_of_unity: int
+    unit_norm: int | None
+    regulator: str | None
+    period_length: int | None
+    unit_digits: int | None
     method: str
     proof: Proof
 
@@ -134,6 +139,7 @@ class FieldRecord:
             "narrow_class_number": self.narrow_class_number,
             "invariants": json.loads(self.class_group),
             "narrow_invariants": json.loads(self.narrow_class_group),
+            "roots_of_unity": self.roots_of_unity,
             "unit_norm": self.unit_norm,
             "regulator": self.regulator,
             "period_length": self.period_length,
@@ -306,6 +312,7 @@ def _record(d: int, numbers: Numbers | None) -> FieldRecord:
         narrow_class_number=h_plus,
         class_group=cl,
         narrow_class_group=cl_plus,
+        roots_of_unity=2,
         unit_norm=norm,
         regulator=regulator_text,
         period_length=period,

@@ -44,6 +44,7 @@ from functools import cmp_to_key
 
 import gmpy2
 
+from realquad.core.linalg import invariants_from_primary
 from realquad.core.primes import factorize
 from realquad.errors import InputError
 
@@ -115,12 +116,7 @@ def invariant_factors(orders: list[int] | tuple[int, ...]) -> tuple[int, ...]:
     for n in orders:
         for p, e in factorize(n).items():
             powers.setdefault(p, []).append(p**e)
-    k = max((len(v) for v in powers.values()), default=0)
-    factors = [1] * k  # factors[0] the largest
-    for qs in powers.values():
-        for i, q in enumerate(sorted(qs, reverse=True)):
-            factors[i] *= q
-    return tuple(reversed(factors))
+    return tuple(invariants_from_primary(powers))
 
 
 def p_rank(invariants: tuple[int, ...] | list[int], p: int) -> int:

@@ -153,9 +153,10 @@ def read_header(fd: int, path: str) -> Header:
 
 
 def classify(
-    header: Header | None, path: str, application_id: int, version: int
+    header: Header | None, path: str, application_id: int, versions: tuple[int, ...]
 ) -> Literal["new", "blank", "store"]:
-    """``new`` (no file), ``blank`` (may become a store) or ``store``; anything else is refused."""
+    """``new`` (no file), ``blank`` (may become a store) or ``store`` (of one of ``versions``);
+    anything else is refused."""
     if header is None:
         return "new"
     if header.blank:
@@ -164,10 +165,10 @@ def classify(
         raise InputError(f"{path!r} is not a survey database (not an SQLite file)")
     if header.application_id != application_id:
         raise InputError(f"{path!r} is not a survey database (it has another schema)")
-    if header.user_version != version:
+    if header.user_version not in versions:
         raise InputError(
             f"{path!r} is a survey database of schema version {header.user_version}; "
-            f"this realquad reads version {version} only"
+            f"this realquad reads versions {versions[0]} to {versions[-1]} only"
         )
     return "store"
 

@@ -1,8 +1,10 @@
-"""Ranges of real quadratic fields and their division into chunks.
+"""Ranges of quadratic fields and their division into chunks.
 
 A survey runs over the squarefree radicands ``d`` in an interval, or over the
 fundamental discriminants ``D`` in an interval; both name the same fields
-(``D = d`` when ``d ≡ 1 (mod 4)``, ``D = 4d`` otherwise). The interval is cut
+(``D = d`` when ``d ≡ 1 (mod 4)``, ``D = 4d`` otherwise). A range lies on one
+side of 0: the real fields (``d ≥ 2``) or the imaginary ones (``d ≤ −1``,
+``D ≤ −3``). The interval is cut
 into chunks aligned to multiples of the chunk size, so the same command always
 produces the same chunks, and two overlapping ranges share their inner chunks.
 
@@ -12,6 +14,10 @@ produces the same chunks, and two overlapping ranges share their inner chunks.
 [5, 8, 12, 13, 17, 21, 24, 28, 29]
 >>> [(c.lo, c.hi) for c in SurveyRange("d", 2, 25).chunks(10)]
 [(2, 9), (10, 19), (20, 25)]
+>>> negative_radicands_in(-11, -1)
+[-11, -10, -7, -6, -5, -3, -2, -1]
+>>> Chunk("D", -24, -3).radicands()   # D = −24, −23, −20, −19, −15, −11, −8, −7, −4, −3
+[-6, -23, -5, -19, -15, -11, -2, -7, -1, -3]
 
 Reference: the squarefree numbers are OEIS A005117 and the positive
 fundamental discriminants OEIS A003658.
@@ -20,7 +26,7 @@ fundamental discriminants OEIS A003658.
 from __future__ import annotations
 
 from collections.abc import Iterator
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Literal
 
 from realquad.core.integers import isqrt
@@ -47,6 +53,17 @@ def squarefree_in(lo: int, hi: int) -> list[int]:
     return [lo + i for i, keep in enumerate(marks) if keep]
 
 
+def negative_radicands_in(lo: int, hi: int) -> list[int]:
+    """The squarefree ``d < 0`` with ``lo ≤ d ≤ min(hi, −1)``, in increasing order."""
+    hi = min(hi, -1)
+    if hi < lo:
+        return []
+    magnitudes = squarefree_in(-hi, -lo)
+    if hi == -1:
+        magnitudes.insert(0, 1)
+    return [-m for m in reversed(magnitudes)]
+
+
 def fundamental_discriminants_in(lo: int, hi: int) -> list[int]:
     """The fundamental discriminants ``D > 1`` with ``lo ≤ D ≤ hi``, in increasing order."""
     odd = [d for d in squarefree_in(lo, hi) if d % 4 == 1]
@@ -56,17 +73,34 @@ def fundamental_discriminants_in(lo: int, hi: int) -> list[int]:
 
 @dataclass(frozen=True)
 class Chunk:
-    """One unit of work: the interval ``[lo, hi]`` of ``d`` (kind ``"d"``) or of ``D`` (kind ``"D"``)."""
+    """One unit of work: the interval ``[lo, hi]`` of ``d`` (kind ``"d"``) or of ``D`` (kind ``"D"``).
+
+    ``class_numbers`` (not part of the chunk's identity) may carry, for an
+    imaginary chunk, the class numbers of its fields in the order of
+    :meth:`radicands` as the run's batch method proved them, ``0`` where it
+    gives none (see :mod:`realquad.survey.imaginary`).
+    """
 
     kind: Kind
     lo: int
     hi: int
+    class_numbers: tuple[int, ...] = field(default=(), compare=False, repr=False)
 
     def radicands(self) -> list[int]:
         """The squarefree ``d`` of the fields in this chunk, in the chunk's order."""
+        if self.hi < 0:
+            return self._negative_radicands()
         if self.kind == "d":
             return squarefree_in(self.lo, self.hi)
         return [D if D % 4 == 1 else D // 4 for D in fundamental_discriminants_in(self.lo, self.hi)]
+
+    def _negative_radicands(self) -> list[int]:
+        if self.kind == "d":
+            return negative_radicands_in(self.lo, self.hi)
+        lo, hi = self.lo, min(self.hi, -3)
+        odd = [d for d in negative_radicands_in(lo, hi) if d % 4 == 1]
+        even = [d for d in negative_radicands_in(-(-lo // 4), hi // 4) if d % 4 in (2, 3)]
+        return [d for _, d in sorted([(d, d) for d in odd] + [(4 * d, d) for d in even])]
 
 
 @dataclass(frozen=True)
@@ -85,12 +119,33 @@ class SurveyRange:
             raise InputError(
                 f"empty range: {name}-min {self.lo} is larger than {name}-max {self.hi}"
             )
+        if self.lo < 0 and self.hi >= 2:
+            raise InputError(
+                f"the range [{self.lo}, {self.hi}] holds {name} of both signs: survey the "
+                "imaginary fields (negative) and the real fields (positive) as two runs"
+            )
+        if self.lo < 0:  # no field has d or D in [0, 1]
+            object.__setattr__(self, "hi", min(self.hi, -1))
+            if not self.count_hint():
+                raise InputError(
+                    f"empty range: no imaginary quadratic field has {name} in [{self.lo}, {self.hi}]"
+                )
+            return
         if self.lo < 2 and self.hi < 2:
             raise InputError(f"empty range: no real quadratic field has {name} ≤ {self.hi}")
         if not self.count_hint():
             raise InputError(
                 f"empty range: no real quadratic field has {name} in [{self.lo}, {self.hi}]"
             )
+
+    @property
+    def imaginary(self) -> bool:
+        """Whether the range holds imaginary fields (``d < 0``).
+
+        >>> SurveyRange("d", -5, 1).imaginary, SurveyRange("d", -5, 1).hi
+        (True, -1)
+        """
+        return self.hi < 0
 
     def count_hint(self) -> bool:
         """Whether the range holds at least one field (checked on a short prefix only if large)."""
@@ -100,7 +155,7 @@ class SurveyRange:
         """The chunks covering the range, aligned to multiples of ``size``."""
         if size < 1:
             raise InputError(f"chunk size must be at least 1, got {size}")
-        start = max(self.lo, 1)
+        start = self.lo if self.hi < 0 else max(self.lo, 1)
         while start <= self.hi:
             stop = min((start // size + 1) * size - 1, self.hi)
             yield Chunk(self.kind, start, stop)
@@ -134,7 +189,7 @@ def clip_intervals(
     >>> clip_intervals([(2, 100), (50, 300)], 20, None)
     [(20, 300)]
     """
-    low = lo if lo is not None else -1
+    low = lo if lo is not None else -(2**63)
     high = hi if hi is not None else 2**63
     return [
         (max(a, low), min(b, high)) for a, b in merge_intervals(intervals) if a <= high and b >= low
@@ -177,4 +232,6 @@ def has_fields(kind: Kind, lo: int, hi: int) -> bool:
     """
     if hi - lo >= 64:
         return True
+    if hi < 0:
+        return bool(Chunk(kind, lo, hi).radicands())
     return bool(Chunk(kind, max(lo, 1), hi).radicands()) if hi >= 2 else False

@@ -6,12 +6,14 @@ file is marked with ``PRAGMA application_id`` = :data:`APPLICATION_ID`):
 ``meta(key TEXT PRIMARY KEY, value TEXT)``
     ``schema_version``, ``created`` (UTC time), ``realquad_version``.
 ``fields``
-    one row per field, keyed by the squarefree radicand ``d``: ``d``,
-    ``discriminant`` (unique), ``class_number``, ``narrow_class_number``,
-    ``class_group`` and ``narrow_class_group`` (invariant factors as a JSON
-    list), ``unit_norm`` (±1), ``regulator`` (decimal text, 17 significant
-    digits), ``period_length``, ``unit_digits``, ``method_id`` (see
-    ``methods``), ``proof``, ``chunk`` (the chunk that wrote it).
+    one row per field, keyed by the squarefree radicand ``d`` (``d < 0`` for
+    imaginary fields): ``d``, ``discriminant`` (unique), ``class_number``,
+    ``narrow_class_number``, ``class_group`` and ``narrow_class_group``
+    (invariant factors as a JSON list), ``roots_of_unity`` (``w``: 2, 4 or 6),
+    ``unit_norm`` (±1), ``regulator`` (decimal text, 17 significant digits),
+    ``period_length``, ``unit_digits`` (the four unit columns ``NULL``
+    exactly for imaginary fields), ``method_id`` (see ``methods``),
+    ``proof``, ``chunk`` (the chunk that wrote it).
 ``methods(id INTEGER PRIMARY KEY, method TEXT UNIQUE)``
     the method descriptions, stored once each.
 ``field_rows`` (a view)
@@ -25,8 +27,12 @@ file is marked with ``PRAGMA application_id`` = :data:`APPLICATION_ID`):
     the ranges runs were asked to compute (``kind``, ``lo``, ``hi``), each
     recorded with the run's first saved chunk; :meth:`SurveyStore.missing`
     compares them with ``chunks``. Stores written before this table existed
-    get it from their next run (the schema version stays 1: older readers
-    ignore it).
+    get it from their next run.
+
+Version 2 added ``roots_of_unity`` and let the unit columns be empty (for
+imaginary fields). A store of version 1 is read as it is (its fields are all
+real, ``w = 2``) and upgraded to version 2 by the next run that writes to
+it, in one transaction (the rows are copied into the new table).
 
 A chunk's rows and its ``chunks`` row are written in one transaction, so a
 run killed at any instant leaves each chunk either complete or absent; the
@@ -87,7 +93,9 @@ from realquad.survey.ranges import (
     subtract_intervals,
 )
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
+#: Versions this realquad reads (older ones are upgraded by the next run).
+READABLE_VERSIONS = (1, 2)
 #: ``PRAGMA application_id`` of a survey store ("RQSV").
 APPLICATION_ID = 0x52515356
 
@@ -107,6 +115,41 @@ _RANGES_TABLE = """CREATE TABLE IF NOT EXISTS ranges (
     PRIMARY KEY (kind, lo, hi)
 )"""
 
+#: The table of rows (``{name}``: ``fields``, or a new table while a store is upgraded).
+_FIELDS_TABLE = """CREATE TABLE {name} (
+    d INTEGER PRIMARY KEY,
+    discriminant INTEGER NOT NULL UNIQUE,
+    class_number INTEGER NOT NULL,
+    narrow_class_number INTEGER NOT NULL,
+    class_group TEXT NOT NULL,
+    narrow_class_group TEXT NOT NULL,
+    roots_of_unity INTEGER NOT NULL DEFAULT 2 CHECK (roots_of_unity IN (2, 4, 6)),
+    unit_norm INTEGER CHECK (unit_norm IN (-1, 1)),
+    regulator TEXT,
+    period_length INTEGER,
+    unit_digits INTEGER,
+    method_id INTEGER NOT NULL REFERENCES methods (id),
+    proof TEXT NOT NULL CHECK (proof IN ('unconditional', 'GRH')),
+    chunk INTEGER NOT NULL REFERENCES chunks (id),
+    CHECK ((d > 0) = (unit_norm IS NOT NULL AND regulator IS NOT NULL
+                      AND period_length IS NOT NULL AND unit_digits IS NOT NULL))
+)"""
+
+#: The index and the view over ``fields``.
+_FIELDS_EXTRAS = f"""CREATE INDEX fields_class_number ON fields (class_number);
+CREATE VIEW field_rows AS
+    SELECT {", ".join("methods.method" if c == "method" else "fields." + c for c in COLUMNS)}
+    FROM fields JOIN methods ON methods.id = fields.method_id"""
+
+_VERSION_1_COLUMNS = [
+    {"method": "methods.method", "roots_of_unity": "2 AS roots_of_unity"}.get(c, "fields." + c)
+    for c in COLUMNS
+]
+#: Version 1 had no ``roots_of_unity`` (every field real, ``w = 2``): the view a reader uses.
+_VERSION_1_VIEW = f"""CREATE TEMP VIEW field_rows AS
+    SELECT {", ".join(_VERSION_1_COLUMNS)}
+    FROM main.fields JOIN main.methods ON methods.id = fields.method_id"""
+
 _SCHEMA = f"""
 CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
 CREATE TABLE chunks (
@@ -120,26 +163,9 @@ CREATE TABLE chunks (
     UNIQUE (kind, lo, hi)
 );
 CREATE TABLE methods (id INTEGER PRIMARY KEY, method TEXT NOT NULL UNIQUE);
-CREATE TABLE fields (
-    d INTEGER PRIMARY KEY,
-    discriminant INTEGER NOT NULL UNIQUE,
-    class_number INTEGER NOT NULL,
-    narrow_class_number INTEGER NOT NULL,
-    class_group TEXT NOT NULL,
-    narrow_class_group TEXT NOT NULL,
-    unit_norm INTEGER NOT NULL CHECK (unit_norm IN (-1, 1)),
-    regulator TEXT NOT NULL,
-    period_length INTEGER NOT NULL,
-    unit_digits INTEGER NOT NULL,
-    method_id INTEGER NOT NULL REFERENCES methods (id),
-    proof TEXT NOT NULL CHECK (proof IN ('unconditional', 'GRH')),
-    chunk INTEGER NOT NULL REFERENCES chunks (id)
-);
+{_FIELDS_TABLE.format(name="fields")};
 {_RANGES_TABLE};
-CREATE INDEX fields_class_number ON fields (class_number);
-CREATE VIEW field_rows AS
-    SELECT {", ".join("methods.method" if c == "method" else "fields." + c for c in COLUMNS)}
-    FROM fields JOIN methods ON methods.id = fields.method_id;
+{_FIELDS_EXTRAS};
 PRAGMA user_version = {SCHEMA_VERSION};
 PRAGMA application_id = {APPLICATION_ID};
 """
@@ -279,8 +305,8 @@ def _is_empty(connection: sqlite3.Connection) -> bool:
     return header == (0, 0) and objects == 0
 
 
-def _check_schema(connection: sqlite3.Connection, path: str) -> None:
-    """Raise :class:`InputError` unless ``connection`` is a survey store of our schema version.
+def _check_schema(connection: sqlite3.Connection, path: str) -> int:
+    """The schema version of the survey store ``connection``; :class:`InputError` if not readable.
 
     :func:`~realquad.survey.dbfile.classify` has read the file's header
     already; this asks SQLite, which also sees what a journal holds.
@@ -289,16 +315,43 @@ def _check_schema(connection: sqlite3.Connection, path: str) -> None:
     version = connection.execute("PRAGMA user_version").fetchone()[0]
     if app != APPLICATION_ID:
         raise InputError(f"{path!r} is not a survey database (it has another schema)")
-    if version != SCHEMA_VERSION:
+    if version not in READABLE_VERSIONS:
         raise InputError(
             f"{path!r} is a survey database of schema version {version}; "
-            f"this realquad reads version {SCHEMA_VERSION} only"
+            f"this realquad reads versions {READABLE_VERSIONS[0]} to {READABLE_VERSIONS[-1]} only"
         )
+    return int(version)
+
+
+def _upgrade(connection: sqlite3.Connection) -> None:
+    """Bring a version-1 store to version 2, in one transaction (nothing changes if it fails)."""
+    columns = ", ".join(c for c in COLUMNS if c not in ("method", "roots_of_unity"))
+    connection.execute("BEGIN IMMEDIATE")
+    try:
+        connection.execute(_FIELDS_TABLE.format(name="fields_upgraded"))
+        connection.execute(
+            f"INSERT INTO fields_upgraded ({columns}, roots_of_unity, method_id, chunk) "
+            f"SELECT {columns}, 2, method_id, chunk FROM fields"
+        )
+        connection.execute("DROP VIEW field_rows")
+        connection.execute("DROP TABLE fields")
+        connection.execute("ALTER TABLE fields_upgraded RENAME TO fields")
+        for statement in _FIELDS_EXTRAS.split(";"):
+            connection.execute(statement)
+        connection.execute(
+            "UPDATE meta SET value = ? WHERE key = 'schema_version'", (str(SCHEMA_VERSION),)
+        )
+        connection.execute(f"PRAGMA user_version = {SCHEMA_VERSION}")
+        connection.execute("COMMIT")
+    except BaseException:
+        if connection.in_transaction:
+            connection.execute("ROLLBACK")
+        raise
 
 
 def _inspect(path: str) -> str:
     """Check ``path`` with :mod:`~realquad.survey.dbfile` and say what is there (``new``, ``blank``, ``store``)."""
-    return dbfile.classify(dbfile.inspect(path), path, APPLICATION_ID, SCHEMA_VERSION)
+    return dbfile.classify(dbfile.inspect(path), path, APPLICATION_ID, READABLE_VERSIONS)
 
 
 def _connect_for_reading(path: str) -> sqlite3.Connection:
@@ -357,7 +410,8 @@ class SurveyStore:
         connection: sqlite3.Connection | None = None
         try:
             connection = _connect_for_reading(path)
-            _check_schema(connection, path)
+            if _check_schema(connection, path) == 1:
+                connection.execute(_VERSION_1_VIEW)
         except sqlite3.Error as exc:
             if connection is not None:
                 connection.close()
@@ -397,13 +451,16 @@ class SurveyStore:
         lock = dbfile.WriterLock.acquire(path)
         connection: sqlite3.Connection | None = None
         try:
-            dbfile.classify(dbfile.read_header(lock.fd, path), path, APPLICATION_ID, SCHEMA_VERSION)
+            dbfile.classify(
+                dbfile.read_header(lock.fd, path), path, APPLICATION_ID, READABLE_VERSIONS
+            )
             connection = sqlite3.connect(
                 dbfile.uri(path, mode="rw"), uri=True, timeout=30, isolation_level=None
             )
             if _is_empty(connection):
                 _create(connection)
-            _check_schema(connection, path)
+            if _check_schema(connection, path) == 1:
+                _upgrade(connection)
             connection.execute("PRAGMA journal_mode = WAL")
             connection.execute("PRAGMA synchronous = NORMAL")
             # up to 256 MB of pages in memory: the indexes of a survey of millions of
@@ -536,9 +593,12 @@ class SurveyStore:
         completed = c.execute("SELECT kind, lo, hi FROM chunks").fetchall()
         found: list[Interval] = []
         for kind in ("d", "D"):
-            hi_cap = None if d_max is None else (d_max if kind == "d" else 4 * d_max)
+            lo_cap, hi_cap = d_min, d_max
+            if kind == "D":  # D lies between d and 4d
+                lo_cap = None if d_min is None else min(d_min, 4 * d_min)
+                hi_cap = None if d_max is None else max(d_max, 4 * d_max)
             wanted = clip_intervals(
-                [(lo, hi) for k, lo, hi in requested if k == kind], d_min, hi_cap
+                [(lo, hi) for k, lo, hi in requested if k == kind], lo_cap, hi_cap
             )
             done = [(lo, hi) for k, lo, hi in completed if k == kind]
             found.extend(

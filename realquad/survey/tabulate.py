@@ -26,6 +26,7 @@ from typing import Any
 
 from realquad.survey.compute import survey_chunk
 from realquad.survey.executors import InProcessExecutor
+from realquad.survey.imaginary import imaginary_chunk, with_class_numbers
 from realquad.survey.progress import Mode, SurveyProgress
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, Chunk, SurveyRange
 from realquad.survey.store import SurveyStore
@@ -63,7 +64,7 @@ def tabulate(
     executor: InProcessExecutor | None = None,
     chunk_size: int = DEFAULT_CHUNK_SIZE,
     progress: Mode = "quiet",
-    chunk_function: Callable[[Chunk], list[Any]] = survey_chunk,
+    chunk_function: Callable[[Chunk], list[Any]] | None = None,
 ) -> SurveyOutcome:
     """Compute the missing chunks of ``survey_range`` into ``store``.
 
@@ -71,13 +72,21 @@ def tabulate(
     is recorded in it with the first chunk saved (so ``survey report`` can say
     what is missing), and the executor is closed at the end. On ``KeyboardInterrupt`` the executor's
     workers are ended and the interrupt is raised again: every chunk saved
-    so far stays saved.
+    so far stays saved. The chunks are computed by ``chunk_function``, by
+    default :func:`~realquad.survey.compute.survey_chunk` for real fields and
+    :func:`~realquad.survey.imaginary.imaginary_chunk` for imaginary ones,
+    whose chunks first get the class numbers of the batch method
+    (:func:`~realquad.survey.imaginary.with_class_numbers`, in this process).
     """
     executor = executor or InProcessExecutor()
+    if chunk_function is None:
+        chunk_function = imaginary_chunk if survey_range.imaginary else survey_chunk
     try:
         chunks = list(survey_range.chunks(chunk_size))
         counts = {c: len(c.radicands()) for c in chunks}
         todo = [c for c in chunks if not store.is_done(c)]
+        if survey_range.imaginary and chunk_function is imaginary_chunk:
+            todo = with_class_numbers(todo)
         store.begin_run(survey_range)
         outcome = SurveyOutcome(store.path, sum(counts.values()), executor=executor.description)
         outcome.skipped_chunks = len(chunks) - len(todo)

@@ -89,6 +89,11 @@ def test_class_walk_compiled_equals_twin(n):
     _same("definite_class_table", D, candidates, 10**6, None)
     _same("definite_class_relations", D, f, primes, 10**6)
     _same("definite_class_relations", D, f, primes, 3)  # None beyond max_forms, both
+    h = pure.definite_class_relations(D, f, primes, 10**6)[0]
+    for target in {1, 2, h // 2, h}:  # stopped early (the class number known): same cut, both
+        _same("definite_class_relations", D, f, primes, 10**6, target)
+    for power in {2, 3, h // 2 or 1, h}:  # walks among the powers, both
+        _same("definite_class_relations", D, f, primes, 10**6, 0, power)
 
 
 @needs_compiled

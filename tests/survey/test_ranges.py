@@ -72,7 +72,7 @@ def test_discriminant_chunks_give_the_fields_of_their_discriminants() -> None:
     )
 
 
-@pytest.mark.parametrize(("lo", "hi"), [(10, 5), (1, 1), (4, 4), (-5, 1), (25, 25)])
+@pytest.mark.parametrize(("lo", "hi"), [(10, 5), (1, 1), (4, 4), (0, 1), (25, 25), (-9, -9)])
 def test_empty_ranges_are_refused(lo: int, hi: int) -> None:
     with pytest.raises(InputError, match="empty range"):
         SurveyRange("d", lo, hi)

@@ -1,0 +1,142 @@
+"""Survey rows of imaginary quadratic fields ``Q(√d)``, ``d < 0``, and the batch class numbers.
+
+An imaginary field has no unit of infinite order: its row holds ``D``, ``h``
+(``= h⁺``), the structure of ``Cl`` (``= Cl⁺``) and ``w``, the number of
+roots of unity (6 for ``D = −3``, 4 for ``D = −4``, else 2); the unit
+columns are empty.
+
+**Two routes, both exact and unconditional.**
+
+* *Batch* (a run computes it once for all its chunks, :func:`with_class_numbers`):
+  for ``D ≢ 1 (mod 8)`` the class numbers of every field up to ``|D|`` come
+  at once from the sums of three squares (:mod:`realquad.classgroup.theta`);
+  with ``h`` known, the structure needs only the Sylow subgroups of order
+  ``p^e``, ``e ≥ 2``, walked alone
+  (:func:`~realquad.classgroup.imaginary.class_invariants_from_class_number`).
+* *Field by field*: for ``D ≡ 1 (mod 8)`` (where the series says nothing),
+  and for every field when the batch is not used, the whole class group by
+  its reduced forms (:mod:`realquad.classgroup.imaginary`).
+
+>>> rows = imaginary_fields([-1, -3, -5, -14, -23])
+>>> [(r.discriminant, r.class_number, r.class_group, r.roots_of_unity) for r in rows]
+[(-4, 1, '[]', 4), (-3, 1, '[]', 6), (-20, 2, '[2]', 2), (-56, 4, '[4]', 2), (-23, 3, '[3]', 2)]
+>>> rows[2].unit_norm, rows[2].regulator, rows[2].proof
+(None, None, 'unconditional')
+>>> chunk = with_class_numbers([Chunk("d", -30, -21)])[0]
+>>> chunk.radicands(), chunk.class_numbers    # −23 ≡ 1 (mod 8): 0, field by field
+([-30, -29, -26, -23, -22, -21], (4, 6, 6, 0, 2, 4))
+
+References: A. S. Mosunov and M. J. Jacobson Jr., "Unconditional class group
+tabulation of imaginary quadratic fields to |Δ| < 2⁴⁰", *Math. Comp.* 85
+(2016), 1983–2009 (class numbers from theta series, then the structure from
+the factorisation of ``h``).
+"""
+
+from __future__ import annotations
+
+import json
+from collections.abc import Sequence
+from dataclasses import replace
+
+from realquad.classgroup.imaginary import (
+    METHOD as FORMS_METHOD,
+)
+from realquad.classgroup.imaginary import (
+    class_invariants_from_class_number,
+    class_relations_imaginary,
+)
+from realquad.classgroup.theta import MAX_TERMS, class_number_from_counts, three_square_counts
+from realquad.classgroup.theta import METHOD as THETA_METHOD
+from realquad.core.integers import isqrt
+from realquad.core.linalg import smith_normal_form
+from realquad.core.orders import Order
+from realquad.core.primes import primes_below
+from realquad.survey.compute import FieldRecord
+from realquad.survey.ranges import Chunk
+
+#: The method of a row whose class number came from the batch.
+METHOD_BATCH = (
+    f"class number: {THETA_METHOD}; structure: the Sylow subgroups of the reduced forms, h known"
+)
+#: The method of a row computed alone.
+METHOD_ALONE = f"class number and structure: {FORMS_METHOD}"
+
+
+def _discriminant(d: int) -> int:
+    return d if d % 4 == 1 else 4 * d
+
+
+def _roots_of_unity(D: int) -> int:
+    return 6 if D == -3 else 4 if D == -4 else 2
+
+
+def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[FieldRecord]:
+    """The survey rows of ``Q(√d)`` for the squarefree ``d < 0`` in ``ds``, in order.
+
+    ``class_numbers`` (as in :attr:`Chunk.class_numbers`): ``h`` of each field
+    where the batch proved it, ``0`` where it did not; empty: none known.
+    """
+    if not ds:
+        return []
+    primes = primes_below(isqrt(-4 * min(ds) // 3) + 2)
+    known = list(class_numbers) or [0] * len(ds)
+    rows = []
+    for d, h in zip(ds, known, strict=True):
+        D = _discriminant(d)
+        order = Order(D)
+        if h:
+            invariants = class_invariants_from_class_number(order, h, primes)
+            method = METHOD_BATCH
+        else:
+            h, generators, relations = class_relations_imaginary(order, primes=primes)
+            invariants = smith_normal_form(relations, len(generators)).invariants
+            method = METHOD_ALONE
+        text = json.dumps(invariants)
+        rows.append(
+            FieldRecord(
+                d=d,
+                discriminant=D,
+                class_number=h,
+                narrow_class_number=h,
+                class_group=text,
+                narrow_class_group=text,
+                roots_of_unity=_roots_of_unity(D),
+                unit_norm=None,
+                regulator=None,
+                period_length=None,
+                unit_digits=None,
+                method=method,
+                proof="unconditional",
+            )
+        )
+    return rows
+
+
+def imaginary_chunk(chunk: Chunk) -> list[FieldRecord]:
+    """The rows of every field of an imaginary chunk (with its batch class numbers, if any)."""
+    return imaginary_fields(chunk.radicands(), chunk.class_numbers)
+
+
+def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
+    """The imaginary ``chunks`` with the class numbers the batch proves attached.
+
+    One series of ``r₃`` up to the largest ``|D|`` of the chunks serves them
+    all; beyond :data:`~realquad.classgroup.theta.MAX_TERMS` terms the
+    chunks go field by field.
+    """
+    if not chunks:
+        return chunks
+    radicands = [chunk.radicands() for chunk in chunks]
+    largest = max((-_discriminant(d) for ds in radicands for d in ds), default=0)
+    if largest == 0 or largest > MAX_TERMS:
+        return chunks
+    counts = three_square_counts(largest)
+    return [
+        replace(
+            chunk,
+            class_numbers=tuple(
+                class_number_from_counts(_discriminant(d), counts) or 0 for d in ds
+            ),
+        )
+        for chunk, ds in zip(chunks, radicands, strict=True)
+    ]
