@@ -1,11 +1,13 @@
-"""Rendering shared by every command: JSON, bounded integers, atomic output files.
+"""Rendering shared by every command: JSON, LaTeX, bounded integers, atomic output files.
 
 Every command builds its ``--json`` from the result objects' ``to_dict()``
 (``docs/json.md``) and passes it through :class:`Sizer`: an integer of more
 than ``--max-digits`` decimal digits is replaced, wherever it stands, by a
 summary object ``{"digits": k, "leading": "…", "trailing": "…"}``, and the
 payload says ``"truncated": true``. Text output uses the same sizes
-(:meth:`Sizer.text`) and the house style of :mod:`realquad.textio`.
+(:meth:`Sizer.text`) and the house style of :mod:`realquad.textio`. With
+``--latex`` a command prints its result as LaTeX instead (:mod:`realquad.latex`,
+integers beyond ``--max-digits`` summarised the same way).
 """
 
 from __future__ import annotations
@@ -23,6 +25,7 @@ import click
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
+from realquad.latex import MAX_DIGITS
 from realquad.textio import MINUS, integer_summary, plural, signed, terms_text, to_decimal
 
 F = TypeVar("F", bound=Callable[..., Any])
@@ -39,6 +42,13 @@ class Command(click.Command):
     unknown option is "no such option" with the nearest name; an option given
     twice is an error instead of the last one silently winning.
     """
+
+    def invoke(self, ctx: click.Context) -> Any:
+        """Run the command, once ``--latex`` is known not to clash with ``--json`` or ``--csv``."""
+        if ctx.meta.get(LATEX) and (ctx.params.get("as_json") or ctx.params.get("as_csv")):
+            other = "--json" if ctx.params.get("as_json") else "--csv"
+            raise InputError(f"give --latex or {other}, not both")
+        return super().invoke(ctx)
 
     def parse_args(self, ctx: click.Context, args: list[str]) -> list[str]:
         args = [MINUS + a[1:] if _NEGATIVE.match(a) else a for a in args]
@@ -271,10 +281,36 @@ def check_output_path(path: str | None) -> None:
         raise InputError(f"cannot write {path!r}: the file name is longer than {name_max} bytes")
 
 
+#: The key of ``click.Context.meta`` that holds the ``--latex`` flag (read by :func:`emit`).
+LATEX = "realquad.latex"
+
+
+def _remember_latex(ctx: click.Context, param: click.Parameter, value: bool) -> None:
+    ctx.meta[LATEX] = value
+
+
 def json_option(f: F) -> F:
+    """``--json`` and ``--latex``: the two other forms of every command's output.
+
+    ``--json`` reaches the command as ``as_json``; ``--latex`` is kept in the
+    context for :func:`emit`, so that a command only passes its LaTeX there.
+    """
+    f = click.option(
+        "--latex",
+        is_flag=True,
+        expose_value=False,
+        callback=_remember_latex,
+        help="Print the result as LaTeX (amsmath, amssymb) to paste into a paper.",
+    )(f)
     return click.option(
         "--json", "as_json", is_flag=True, help="Print one JSON object instead of text."
     )(f)
+
+
+def latex_wanted() -> bool:
+    """Whether the running command was given ``--latex``."""
+    ctx = click.get_current_context(silent=True)
+    return bool(ctx is not None and ctx.meta.get(LATEX))
 
 
 def max_digits_option(f: F) -> F:
@@ -328,12 +364,25 @@ def read_primes(bound: str | None, prime: str | None, max_bound: int) -> tuple[i
     return B, None
 
 
-def emit(payload: dict[str, Any], text: str, as_json: bool, max_digits: int | None = None) -> None:
-    """Print the JSON object or the text form.
+def emit(
+    payload: dict[str, Any],
+    text: str,
+    as_json: bool,
+    max_digits: int | None = None,
+    latex: Callable[[int], str] | None = None,
+) -> None:
+    """Print the JSON object, the LaTeX (``--latex``) or the text form.
 
     A command with ``--max-digits`` passes it: integers beyond it are
     summarised and the payload gets ``"truncated"`` (whether anything was).
+    ``latex(max_digits)`` writes the result as LaTeX (a command without
+    ``--max-digits`` gets :data:`realquad.latex.MAX_DIGITS`).
     """
+    if latex_wanted():
+        if latex is None:  # pragma: no cover - every command passes its LaTeX
+            raise InputError("this command has no LaTeX form")
+        click.echo(latex(MAX_DIGITS if max_digits is None else max_digits))
+        return
     if not as_json:
         click.echo(text)
         return

@@ -230,8 +230,46 @@ def power(base: str, exponent: int, max_digits: int = MAX_DIGITS) -> str:
     return f"{parenthesised(base)}^{{{integer(exponent, max_digits)}}}"
 
 
+def rational(p: int, q: int, max_digits: int = MAX_DIGITS) -> str:
+    r"""``p/q`` as ``\frac{p}{q}`` (the sign in front), an integer when ``q = 1``.
+
+    >>> rational(-7, 3), rational(5, 1)
+    ('-\\frac{7}{3}', '5')
+    """
+    sign = "-" if (p < 0) != (q < 0) and p != 0 else ""
+    return sign + fraction(integer(abs(p), max_digits), abs(q), max_digits)
+
+
+def table(align: str, header: Sequence[str], rows: Iterable[Sequence[str]]) -> str:
+    r"""A ``tabular`` with ruled header; cells are LaTeX in text mode (``$…$`` for maths).
+
+    >>> print(table("rr", ["$d$", "$h$"], [["5", "1"]]))
+    \begin{tabular}{rr}
+    \hline
+    $d$ & $h$ \\
+    \hline
+    5 & 1 \\
+    \hline
+    \end{tabular}
+    """
+    body = [" & ".join(row) + r" \\" for row in rows]
+    out = [rf"\begin{{tabular}}{{{align}}}", r"\hline", " & ".join(header) + r" \\", r"\hline"]
+    return "\n".join([*out, *body, r"\hline", r"\end{tabular}"])
+
+
+def escape(words: str) -> str:
+    r"""``words`` with LaTeX's special characters escaped, for text mode.
+
+    >>> escape("50% of {p}")
+    '50\\% of \\{p\\}'
+    """
+    special = {c: "\\" + c for c in "#$%&_{}"}
+    special.update({"\\": r"\textbackslash{}", "~": r"\textasciitilde{}", "^": r"\^{}"})
+    return "".join(special.get(c, c) for c in words)
+
+
 def text(words: str) -> str:
-    r"""``\text{words}`` with LaTeX's special characters escaped.
+    r"""``\text{words}`` with LaTeX's special characters escaped (:func:`escape`).
 
     The command line's LaTeX keeps to ASCII here; a notebook's MathJax also
     reads Unicode (the notes of :class:`Display`).
@@ -239,9 +277,7 @@ def text(words: str) -> str:
     >>> text("50% of {p}")
     '\\text{50\\% of \\{p\\}}'
     """
-    special = {c: "\\" + c for c in "#$%&_{}"}
-    special.update({"\\": r"\textbackslash{}", "~": r"\textasciitilde{}", "^": r"\^{}"})
-    return r"\text{" + "".join(special.get(c, c) for c in words) + "}"
+    return r"\text{" + escape(words) + "}"
 
 
 def lines(rows: Sequence[str]) -> str:

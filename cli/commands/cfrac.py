@@ -25,6 +25,8 @@ from realquad_cli.output import (
 from realquad.cfrac import Approximation, best_approximations, continued_fraction, convergents
 from realquad.core.integers import as_integer
 from realquad.errors import InputError, TooLargeError
+from realquad.latex import display, integer, rational
+from realquad.latex import lines as lines_latex
 from realquad.textio import MINUS, plural, signed, to_decimal
 
 KIND_NAMES = {
@@ -172,6 +174,7 @@ def command(
         "period " + " ".join(map(str, cf.period)),
     ]
     writer = _FractionWriter(max_digits)
+    latex_rows = [lambda md: cf.to_latex(md, max_terms)]
     if count is not None:
         wanted = _within_budget(convergents(cf.value, count), "--convergents")
         every = list(wanted) if output is not None else None
@@ -184,6 +187,7 @@ def command(
             + ":"
         )
         lines += [f"{k:>6}  {writer.text(p, q)}" for k, (p, q) in enumerate(pairs)]
+        latex_rows.append(lambda md: _fractions_latex(r"\frac{p_{k}}{q_{k}}", pairs, more, md))
         if every is not None:
             file_lines.append(_file_line("convergents", every))
     if bound is not None:
@@ -205,6 +209,10 @@ def command(
             + ("" if a.is_convergent else f"  (intermediate, t = {a.t} of a_{a.k} = {a.a})")
             for a in approx
         ]
+        chosen = [(a.p, a.q) for a in approx]
+        latex_rows.append(
+            lambda md: _fractions_latex(rf"q \le {integer(bound, md)}", chosen, more, md)
+        )
         if every_best is not None:
             file_lines.append(_file_line("best", ((a.p, a.q) for a in every_best)))
     if writer.sizer.cut:
@@ -213,7 +221,18 @@ def command(
         write_atomically(output, "\n".join(file_lines) + "\n")
         payload["output"] = output
         lines.append(f"all terms written to {output}")
-    emit(payload, "\n".join(lines), as_json)
+    emit(
+        payload,
+        "\n".join(lines),
+        as_json,
+        latex=lambda md: display(lines_latex([row(md) for row in latex_rows]), cf.latex_note()),
+    )
+
+
+def _fractions_latex(label: str, pairs: list[tuple[int, int]], more: bool, max_digits: int) -> str:
+    r"""``label:\ \frac{p}{q}, …`` (``\ldots`` when the list was cut)."""
+    shown = ",\\ ".join(rational(p, q, max_digits) for p, q in pairs)
+    return rf"{label}:\quad {shown}" + (r",\ \ldots" if more else "")
 
 
 def _approximation_entry(writer: _FractionWriter, a: Approximation) -> dict[str, Any]:

@@ -141,4 +141,4 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
     progress = ProgressLine() if order.discriminant > 10**11 else None
     G = class_group(order, progress=progress, method=method)
     payload = G.to_dict(with_classes=with_forms)
-    emit(payload, _text(G, payload, with_forms), as_json)
+    emit(payload, _text(G, payload, with_forms), as_json, latex=G.to_latex_display)

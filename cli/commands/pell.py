@@ -98,7 +98,7 @@ def command(
         payload["output"] = output
         what = "the compact form" if sol.x is None and sol.compact is not None else "full values"
         lines.append(f"{what} written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits)
+    emit(payload, "\n".join(lines), as_json, max_digits, latex=sol.to_latex_display)
 
 
 def _extras(

@@ -167,7 +167,7 @@ def command(
     except TooLargeError as exc:
         raise TooLargeError(f"{exc}; --no-criterion answers the primes alone") from None
     payload: dict[str, Any] = result.to_dict()
-    emit(payload, _text(result, Sizer(max_digits)), as_json, max_digits)
+    emit(payload, _text(result, Sizer(max_digits)), as_json, max_digits, result.to_latex_display)
 
 
 def _text(result: FormPrimes, sizer: Sizer) -> str:

@@ -29,6 +29,8 @@ from realquad.equations.families import (
 )
 from realquad.equations.parser import parse_equation
 from realquad.errors import InputError
+from realquad.latex import MAX_TERMS, display, integer, points
+from realquad.latex import lines as lines_latex
 from realquad.textio import plural, terms_text
 
 
@@ -159,4 +161,15 @@ def command(
         write_atomically(output, dumps(payload) + "\n")
         payload["output"] = output
         lines.append(f"full values written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits)
+    emit(payload, "\n".join(lines), as_json, max_digits, lambda md: solution_latex(sol, b, md))
+
+
+def solution_latex(sol: QuadraticSolutions, bound: int | None, max_digits: int) -> str:
+    """The solutions as LaTeX (``--latex``): the families, and those in the box of ``--bound``."""
+    body = sol.to_latex(max_digits)
+    if bound is not None:
+        box = points(sol.bounded(bound), MAX_TERMS, max_digits)
+        body = lines_latex(
+            [body, rf"|x|, |y| \le {integer(bound, max_digits)}:\quad (x, y) \in {box}"]
+        )
+    return display(body, sol.latex_note())

@@ -16,8 +16,10 @@ from realquad_cli.output import (
     read_primes,
 )
 
-from realquad.classgroup import class_group
+from realquad.classgroup import ClassGroup, class_group
 from realquad.core.forms import Form
+from realquad.latex import display
+from realquad.latex import lines as lines_latex
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
 from realquad.textio import group_text, signed, terms_text
 
@@ -106,4 +108,10 @@ def command(
     ]
     lines += [_line(s, principal, sizer) for s in results]
     lines.append(f"method: {G.method}; proof: {G.proof}")
-    emit(payload, "\n".join(lines), as_json, max_digits)
+    emit(payload, "\n".join(lines), as_json, max_digits, lambda md: _latex(G, results, md))
+
+
+def _latex(G: ClassGroup, results: list[PrimeDecomposition], max_digits: int) -> str:
+    """The class group, then one line per prime (``--latex``)."""
+    rows = [G.to_latex(max_digits)] + [s.to_latex(max_digits) for s in results]
+    return display(lines_latex(rows), G.latex_note())

@@ -20,8 +20,9 @@ from realquad_cli.progress import ProgressLine
 from realquad.core.orders import Order
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
+from realquad.latex import display, lines
 from realquad.textio import MINUS, plural, signed, to_decimal
-from realquad.units import METHODS, fundamental_unit, unit_group
+from realquad.units import METHODS, Unit, fundamental_unit, unit_group
 
 
 @click.command("unit", cls=Command)
@@ -119,7 +120,7 @@ def command(
         write_atomically(output, form.to_text(D, 2, f"fundamental unit (x + y*sqrt(d))/2, d = {D}"))
         payload["output"] = output
         lines.append(f"the compact form of 2ε = x + y√{sizer.text(D)} written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits)
+    emit(payload, "\n".join(lines), as_json, max_digits, latex=lambda md: _latex(eps, digits, md))
 
 
 def _roots_of_unity(order: Order, as_json: bool) -> None:
@@ -135,7 +136,16 @@ def _roots_of_unity(order: Order, as_json: bool) -> None:
             f"method: {group.method}; proof: {group.proof}",
         ]
     )
-    emit(group.to_dict(), text, as_json)
+    emit(group.to_dict(), text, as_json, latex=group.to_latex_display)
+
+
+def _latex(eps: Unit, digits: int, max_digits: int) -> str:
+    """The unit, its norm and regulator; the compact form too when it is not expanded."""
+    body = eps.to_latex(max_digits, digits)
+    form = eps.compact()
+    if form is not None and not eps.expands_within(max_digits):
+        body = lines([body, rf"\varepsilon = {form.to_latex(max_digits)}"])
+    return display(body, eps.latex_note())
 
 
 def signed_unit(norm: int) -> str:

@@ -416,6 +416,10 @@ class QuadraticSolutions(Display):
             proof=self.proof,
         )
 
+    def latex_note(self) -> str | None:
+        """The method and proof, then the notes, one a line."""
+        return "\n".join([super().latex_note() or "", *(f"note: {n}" for n in self.notes)])
+
     def equation_latex(self, max_digits: int = MAX_DIGITS) -> str:
         """The equation in LaTeX: ``ax² + bxy + cy² + dx + ey + f = 0``."""
         return terms(zip(self.coefficients, MONOMIALS_LATEX, strict=True), max_digits) + " = 0"
