@@ -21,7 +21,7 @@ from realquad.survey.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
-from realquad.survey.stats import missing_json, missing_text, survey_report
+from realquad.survey.stats import ImaginaryReport, missing_json, missing_text, survey_report
 from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
 from realquad.textio import MINUS, group_text
@@ -507,23 +507,29 @@ def report_command(
         check_plot_path(plot)
     with SurveyStore.open_for_reading(db) as store:
         report = survey_report(store, where, top)
-        if report.fields == 0:
+        if report.fields == 0 and report.imaginary is None:
             raise InputError(f"no surveyed fields in {db!r} match the range")
         if plot is not None:
             plot_report(report, store, plot, where)
     payload = {"database": db, **report.to_dict()}
     n = report.fields
-    lines = [
-        f"{n:,} fields with d in [{report.d_min}, {report.d_max}] ({db}); proof: {report.proof}",
-        f"class number 1: {report.class_number_one:,} ({_percent(report.class_number_one_share)})",
-        f"prime d ≡ 1 (mod 4): {report.prime_fields:,} fields, h = 1 for {report.prime_class_number_one:,} "
-        f"({_percent(report.prime_share)}); Cohen–Lenstra prediction {100 * report.prediction:.3f}%",
-        f"unit norm {MINUS}1: {report.unit_norm_minus_one:,} ({_percent(report.unit_norm_minus_one_share)})",
-        "h: " + _distribution_text(report.class_number_counts, n),
-        "odd part of h: " + _distribution_text(report.odd_part_counts, n),
-        "largest regulators: "
-        + ", ".join(f"d = {r['radicand']}: {r['regulator']}" for r in report.largest_regulators),
-    ]
+    lines = []
+    if n:
+        lines += [
+            f"{n:,} fields with d in [{report.d_min}, {report.d_max}] ({db}); proof: {report.proof}",
+            f"class number 1: {report.class_number_one:,} ({_percent(report.class_number_one_share)})",
+            f"prime d ≡ 1 (mod 4): {report.prime_fields:,} fields, h = 1 for {report.prime_class_number_one:,} "
+            f"({_percent(report.prime_share)}); Cohen–Lenstra prediction {100 * report.prediction:.3f}%",
+            f"unit norm {MINUS}1: {report.unit_norm_minus_one:,} ({_percent(report.unit_norm_minus_one_share)})",
+            "h: " + _distribution_text(report.class_number_counts, n),
+            "odd part of h: " + _distribution_text(report.odd_part_counts, n),
+            "largest regulators: "
+            + ", ".join(
+                f"d = {r['radicand']}: {r['regulator']}" for r in report.largest_regulators
+            ),
+        ]
+    if report.imaginary is not None:
+        lines += _imaginary_lines(report.imaginary, db, report.proof)
     incomplete = missing_text(report.missing)
     if incomplete:
         lines.append(incomplete)
@@ -531,6 +537,24 @@ def report_command(
         payload["plot"] = plot
         lines.append(f"plot written to {plot}")
     emit(payload, "\n".join(lines), as_json, latex=lambda md: _report_latex(report, lines[0]))
+
+
+def _imaginary_lines(part: ImaginaryReport, db: str, proof: str) -> list[str]:
+    """The text of the imaginary section of a report."""
+    n = part.fields
+    ones = ", ".join(_minus(d) for d in part.class_number_one) or "none"
+    largest = ", ".join(
+        f"d = {_minus(r['radicand'])}: {r['class_number']:,}" for r in part.largest_class_numbers
+    )
+    return [
+        f"{n:,} imaginary fields with d in [{_minus(part.d_min)}, {_minus(part.d_max)}] ({db}); "
+        f"proof: {proof}",
+        f"class number 1: {len(part.class_number_one):,} (d = {ones})",
+        f"3 divides h: {part.three_divides:,} ({_percent(part.three_share)}); "
+        f"Cohen–Lenstra prediction {100 * part.prediction:.3f}%",
+        "h: " + _distribution_text(part.class_number_counts, n),
+        "largest class numbers: " + largest,
+    ]
 
 
 # --latex: the tables of a paper

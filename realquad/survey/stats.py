@@ -12,6 +12,15 @@
 * the parts of the surveyed ranges that are missing (chunks not computed,
   after an interrupted run), from :meth:`SurveyStore.missing`.
 
+Those are over the real fields; the imaginary fields (``d < 0``) of the same
+rows get their own section, an :class:`ImaginaryReport`: the fields with
+``h = 1`` (by Heegner, Baker and Stark exactly ``d = −1, −2, −3, −7, −11,
+−19, −43, −67, −163``), the distribution of ``h``, and the share with
+``3 | h`` against the Cohen–Lenstra prediction for imaginary quadratic
+fields, ``1 − ∏_{k ≥ 1} (1 − 3^−k) = 0.4398739…``
+(:data:`COHEN_LENSTRA_THREE_DIVIDES`, Cohen–Lenstra 1984, as above; the
+tests recompute the product), with the running share for the plot.
+
 The prediction is the Cohen–Lenstra probability that the odd part of the
 class group of a real quadratic field is trivial,
 ``∏_{p odd prime} ∏_{k ≥ 2} (1 − p^−k) = 0.754458…`` (H. Cohen and
@@ -38,6 +47,8 @@ from realquad.survey.store import RowFilter, SurveyStore
 
 #: Cohen–Lenstra: the predicted share of ``h = 1`` among real quadratic fields of prime discriminant.
 COHEN_LENSTRA_PRIME_SHARE = 0.75445817
+#: Cohen–Lenstra: the predicted share of ``3 | h`` among imaginary quadratic fields.
+COHEN_LENSTRA_THREE_DIVIDES = 0.43987392
 
 
 def _decimal(value: float | None) -> str | None:
@@ -102,6 +113,7 @@ class SurveyReport:
     )
     running_prime_share: list[tuple[int, float]] = field(default_factory=list, repr=False)
     missing: list[Interval] = field(default_factory=list)
+    imaginary: ImaginaryReport | None = None
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of a survey report (``docs/json.md``, *SurveyReport*): shares as decimal strings."""
@@ -129,6 +141,7 @@ class SurveyReport:
             "largest_regulators": list(self.largest_regulators),
             "proof": self.proof,
             "missing": missing_json(self.missing),
+            "imaginary": None if self.imaginary is None else self.imaginary.to_dict(),
         }
 
     @staticmethod
@@ -148,13 +161,80 @@ class SurveyReport:
         return self._share(self.unit_norm_minus_one, self.fields)
 
 
+@dataclass(frozen=True)
+class ImaginaryReport:
+    """Counts and shares over the imaginary fields of a survey (see the module docstring)."""
+
+    fields: int
+    d_min: int
+    d_max: int
+    class_number_one: list[int]
+    three_divides: int
+    class_number_counts: dict[int, int]
+    largest_class_numbers: list[dict[str, Any]]
+    prediction: float = COHEN_LENSTRA_THREE_DIVIDES
+    running_three_share: list[tuple[int, float]] = field(default_factory=list, repr=False)
+
+    @property
+    def three_share(self) -> float:
+        return self.three_divides / self.fields
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape (``docs/json.md``, *ImaginaryReport*)."""
+        return {
+            "fields": self.fields,
+            "d_min": self.d_min,
+            "d_max": self.d_max,
+            "class_number_one": list(self.class_number_one),
+            "three_divides": {
+                "count": self.three_divides,
+                "share": _decimal(self.three_share),
+                "cohen_lenstra_prediction": _decimal(self.prediction),
+                "prediction_source": SurveyReport.prediction_source,
+            },
+            "class_number_distribution": {str(k): v for k, v in self.class_number_counts.items()},
+            "largest_class_numbers": list(self.largest_class_numbers),
+        }
+
+
+def _imaginary_report(rows: list[tuple[Any, ...]], top: int) -> ImaginaryReport | None:
+    """The imaginary section over ``(d, D, h, …)`` rows with ``d < 0``, by increasing ``|D|``."""
+    if not rows:
+        return None
+    ordered = sorted(rows, key=lambda r: -r[1])
+    counts: Counter[int] = Counter()
+    three = 0
+    running: list[tuple[int, float]] = []
+    step = max(1, len(ordered) // 2000)  # about 2000 points for the plot
+    for i, (_d, D, h, *_rest) in enumerate(ordered, 1):
+        counts[h] += 1
+        three += h % 3 == 0
+        if i % step == 0 or i == len(ordered):
+            running.append((-D, three / i))
+    ranked = sorted(ordered, key=lambda r: (-r[2], -r[1]))[:top]
+    return ImaginaryReport(
+        fields=len(rows),
+        d_min=min(r[0] for r in rows),
+        d_max=max(r[0] for r in rows),
+        class_number_one=sorted((r[0] for r in rows if r[2] == 1), reverse=True),
+        three_divides=three,
+        class_number_counts=dict(sorted(counts.items())),
+        largest_class_numbers=[
+            {"radicand": d, "discriminant": D, "class_number": h} for d, D, h, *_ in ranked
+        ],
+        running_three_share=running,
+    )
+
+
 def survey_report(
     store: SurveyStore, where: RowFilter | None = None, top: int = 10
 ) -> SurveyReport:
     """The statistics of the rows of ``store`` matching ``where``, and what of its range is missing."""
-    rows = store.column_values(
+    every = store.column_values(
         ["d", "discriminant", "class_number", "unit_norm", "regulator", "proof"], where
     )
+    rows = [r for r in every if r[0] > 0]
+    imaginary = _imaginary_report([r for r in every if r[0] < 0], top)
     d_max = rows[-1][0] if rows else 0
     prime = bytearray(d_max + 1)
     for p in primes_below(d_max + 1):
@@ -190,7 +270,8 @@ def survey_report(
         class_number_counts=dict(sorted(h_counts.items())),
         odd_part_counts=dict(sorted(odd_counts.items())),
         largest_regulators=largest,
-        proof="GRH" if "GRH" in proofs else "unconditional",
+        proof="GRH" if "GRH" in proofs or any(r[5] == "GRH" for r in every) else "unconditional",
         running_prime_share=running,
+        imaginary=imaginary,
         missing=store.missing(where.d_min, where.d_max) if where else store.missing(),
     )

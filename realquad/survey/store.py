@@ -410,8 +410,11 @@ class SurveyStore:
         connection: sqlite3.Connection | None = None
         try:
             connection = _connect_for_reading(path)
-            if _check_schema(connection, path) == 1:
+            if _check_schema(connection, path) == 1:  # a view in this connection's temp schema
+                only = connection.execute("PRAGMA query_only").fetchone()[0]
+                connection.execute("PRAGMA query_only = OFF")
                 connection.execute(_VERSION_1_VIEW)
+                connection.execute(f"PRAGMA query_only = {int(only)}")
         except sqlite3.Error as exc:
             if connection is not None:
                 connection.close()

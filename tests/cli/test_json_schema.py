@@ -187,6 +187,10 @@ def test_survey_commands_match_the_page(capsys: pytest.CaptureFixture[str], tmp_
         (["survey", "run", "--d-max", "300", "--db", db, "--workers", "1"], "survey run"),
         (["survey", "query", "--db", db, "--limit", "0"], "survey query"),
         (["survey", "report", "--db", db], "survey report"),
+        # imaginary fields, into the same store: rows with empty unit keys, the report's section
+        (["survey", "run", "--d-min", "-300", "--d-max", "-1", "--db", db], "survey run"),
+        (["survey", "query", "--db", db, "--d-max", "-250"], "survey query"),
+        (["survey", "report", "--db", db], "survey report"),
     ):
         code, out, err = run(capsys, *args, "--json")
         assert code == 0, err
