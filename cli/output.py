@@ -136,7 +136,7 @@ class Sizer:
 
     def summary(self, n: int) -> dict[str, Any] | None:
         """``None`` if ``n`` has at most ``max_digits`` digits (0: no limit), else its summary."""
-        if self.max_digits == 0 or -(10**18) < n < 10**18:
+        if self.max_digits == 0 or -(10**18) < n < 10**18:  # the quick case of integer_summary
             return None
         hit = self._summaries.get(id(n))
         if hit is not None and hit[0] is n:

@@ -45,13 +45,15 @@ def integer_summary(n: object, max_digits: int) -> tuple[int, str, str] | None:
     """``None`` if ``|n|`` has at most ``max_digits`` digits (0: no limit), else ``(digits, leading, trailing)``.
 
     The leading and trailing :data:`EDGE` digits come from one division and
-    one remainder instead of a full decimal conversion.
+    one remainder instead of a full decimal conversion. An integer of at most
+    18 digits is always written in full (its summary would be no shorter).
 
     >>> integer_summary(12345, 10) is None, integer_summary(-(10**50 + 7), 30)
     (True, (51, '10000000000000000000', '00000000000000000007'))
     """
     m = abs(gmpy2.mpz(n))  # type: ignore[call-overload]
-    if max_digits == 0 or m.bit_length() * 0.30103 + 1 < max_digits:  # log₁₀ 2 < 0.30103
+    # at most bit_length·log₁₀ 2 + 1 digits, and log₁₀ 2 < 0.30103
+    if max_digits == 0 or m < 10**18 or m.bit_length() * 0.30103 + 1 < max_digits:
         return None
     k0 = int(gmpy2.num_digits(m, 10))  # exact or one too many
     if k0 <= EDGE + 1:

@@ -1,0 +1,137 @@
+"""``--latex`` on every command: present, well-formed (parsed, or compiled where an engine is
+installed), refused beside ``--json`` or ``--csv``, long integers summarised as in the text."""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+from typing import Any
+
+import click
+import pytest
+from realquad_cli.main import cli, main
+from sympy.solvers.diophantine.diophantine import diop_DN
+
+from tests.cli.support import COMMAND_NAMES, run
+from tests.latex_support import check_latex, compile_latex, latex_engine, to_sympy
+
+
+def _commands(group: click.Group, prefix: str = "") -> dict[str, click.Command]:
+    found: dict[str, click.Command] = {}
+    for name, command in group.commands.items():
+        if isinstance(command, click.Group):
+            found.update(_commands(command, f"{prefix}{name} "))
+        else:
+            found[prefix + name] = command
+    return found
+
+
+def test_every_command_takes_latex() -> None:
+    commands = _commands(cli)
+    assert set(COMMAND_NAMES) <= set(commands)
+    for name, command in commands.items():
+        options = {o for p in command.params for o in getattr(p, "opts", [])}
+        assert "--latex" in options, name
+
+
+@pytest.fixture(scope="module")
+def survey_db(tmp_path_factory: pytest.TempPathFactory) -> str:
+    db = str(tmp_path_factory.mktemp("survey") / "s.sqlite")
+    assert (
+        main(["survey", "run", "--d-min", "2", "--d-max", "200", "--db", db, "--workers", "1"]) == 0
+    )
+    return db
+
+
+CASES = [
+    ["cfrac", "61", "--convergents", "5", "--best", "100"],
+    ["cfrac", "-7/3"],
+    ["pell", "61"],
+    ["pell", "3", "--norm", "-1"],
+    ["pell", "9"],
+    ["unit", "94"],
+    ["unit", "-3"],
+    ["classgroup", "79"],
+    ["classgroup", "-84"],
+    ["split", "79", "--primes-up-to", "30"],
+    ["split", "-14", "--primes-up-to", "30"],
+    ["represent", "x^2 + 14y^2", "--primes-up-to", "60"],
+    ["represent", "x^2 - 79y^2"],
+    ["solve", "x^2 - 13y^2 = -4", "--bound", "100"],
+    ["solve", "x^2 + y^2 = 25"],
+    ["solve", "x^2 - 2xy + y^2 - x = 0"],
+    ["solve", "x^2 - 3xy + y^2 + x = 5"],
+]
+
+
+def _outputs(capsys: Any, db: str) -> list[str]:
+    outs = []
+    for args in [
+        *CASES,
+        ["survey", "query", "--db", db, "--d-max", "30"],
+        ["survey", "report", "--db", db],
+    ]:
+        code, out, err = run(capsys, *args, "--latex")
+        assert code == 0, (args, err)
+        outs.append(out)
+    return outs
+
+
+def test_every_command_writes_latex_that_parses_and_compiles(
+    capsys: Any, survey_db: str, tmp_path: Path
+) -> None:
+    outs = _outputs(capsys, survey_db)
+    for out in outs:
+        check_latex(out)
+        assert "% method: " in out or "proof: " in out or r"\begin{tabular}" in out
+    if latex_engine() is None:
+        pytest.skip("no LaTeX engine (pdflatex, lualatex, tectonic) installed; parsed only")
+    compile_latex(outs, tmp_path)
+
+
+def test_pell_61_in_latex(capsys: Any) -> None:
+    code, out, _ = run(capsys, "pell", "61", "--latex")
+    assert code == 0
+    m = re.search(r"\(x_\{1\}, y_\{1\}\) = \((\d+), (\d+)\)", out)
+    assert m is not None
+    # the least solution of x² − 61y² = 1 (sympy's diop_DN, an independent solver)
+    assert (int(m[1]), int(m[2])) in diop_DN(61, 1)
+    assert "% method: " in out and "proof: unconditional" in out
+
+
+@pytest.mark.parametrize(
+    "args",
+    [["pell", "61", "--json"], ["classgroup", "79", "--json"], ["survey", "query", "--csv"]],
+)
+def test_latex_with_json_or_csv_is_refused(capsys: Any, args: list[str]) -> None:
+    code, out, err = run(capsys, *args, "--latex")
+    assert code == 2 and out == ""
+    assert err.startswith("realquad: error: give --latex or --") and err.count("\n") == 1
+
+
+def test_long_integers_are_summarised_as_in_the_text(capsys: Any) -> None:
+    d = str(10**9 + 7)  # x has 6382 digits (more than --max-digits 100)
+    code, text, _ = run(capsys, "pell", d, "--max-digits", "100")
+    assert code == 0
+    code, out, _ = run(capsys, "pell", d, "--max-digits", "100", "--latex")
+    assert code == 0
+    check_latex(out)
+    terminal = re.search(r"x = (\d+)…(\d+) \(([\d,]+) digits", text)
+    typeset = re.search(r"\\underbrace\{(\d+)\\ldots (\d+)\}_\{(\d+)\\text\{ digits\}\}", out)
+    assert terminal is not None and typeset is not None
+    assert typeset.groups() == (terminal[1], terminal[2], terminal[3].replace(",", ""))
+    code, full, _ = run(capsys, "pell", "61", "--max-digits", "0", "--latex")
+    assert code == 0 and r"\underbrace" not in full
+
+
+def test_a_unit_in_compact_form(capsys: Any) -> None:
+    code, out, _ = run(capsys, "unit", "--disc", "100000000000000000129", "--latex")
+    assert code == 0
+    check_latex(out)
+    assert r"\varepsilon = " in out and "digits" in out
+    # the first factor of the compact form is a number of Q(√D) written as a surd
+    first = re.search(
+        r"\\left\((\\frac\{[^{}]*\\sqrt\{100000000000000000129\}\}\{\d+\})\\right\)", out
+    )
+    assert first is not None
+    assert to_sympy(first[1]).is_real
