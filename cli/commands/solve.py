@@ -21,9 +21,11 @@ from realquad_cli.progress import ElapsedTicker
 from realquad.core.integers import as_integer
 from realquad.equations.conics import solve_quadratic
 from realquad.equations.families import (
+    CompactOrbitFamily,
     Family,
     LineFamily,
     OrbitFamily,
+    ParabolaFamily,
     QuadraticSolutions,
     point_dict,
 )
@@ -56,7 +58,32 @@ def polynomial_text(coefficients: tuple[int, ...], var: str = "t") -> str:
     return terms_text((k, powers[degree - i]) for i, k in enumerate(coefficients))
 
 
+def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> list[str]:
+    """A class whose unit (and perhaps fundamental solution) stays in compact form."""
+    d = fam.d
+    if fam.fundamental is not None:
+        x, y = (sizer.text(v) for v in fam.fundamental)
+        first = f"  {i}. ({x}, {y})"
+    else:
+        first = (
+            f"  {i}. x + y√{d} in compact form ({plural(fam.generator.size, 'factor')}), "
+            f"x of about {fam.digits():,} digits"
+        )
+    return [
+        first,
+        f"     automorph: multiplication by the least unit t + u√{d} of norm 1, in compact form "
+        f"({plural(fam.unit.size, 'factor')}), t of about {fam.unit_digits():,} digits",
+        "     together with the mirror images −(x, y)",
+    ]
+
+
 def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
+    if isinstance(fam, CompactOrbitFamily):
+        lines = _compact_text(i, fam, sizer)
+        if k is not None:
+            mx, my = (sizer.text(v) for v in fam.solution(k))
+            lines.append(f"     member k = {k}: ({mx}, {my})")
+        return lines
     x, y = (sizer.text(v) for v in fam.fundamental)
     if isinstance(fam, OrbitFamily):
         m, t = fam.automorph.matrix, fam.automorph.translation
@@ -78,7 +105,7 @@ def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
         lines = [
             f"  {i}. the line (x, y) = ({polynomial_text((dx, x0))}, {polynomial_text((dy, y0))}), t ∈ Z"
         ]
-    else:
+    elif isinstance(fam, ParabolaFamily):
         px, py = fam.x_polynomial, fam.y_polynomial
         lines = [
             f"  {i}. the parabola (x, y) = ({polynomial_text(px)}, {polynomial_text(py)}), t ∈ Z"

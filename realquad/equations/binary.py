@@ -54,6 +54,7 @@ from realquad.equations.families import (
     Family,
     LineFamily,
     OrbitFamily,
+    ParabolaFamily,
     Point,
     QuadraticSolutions,
     sort_points,
@@ -361,8 +362,10 @@ def swap_solutions(s: QuadraticSolutions) -> QuadraticSolutions:
             )  # type: ignore[arg-type]
         elif isinstance(fam, LineFamily):
             fams.append(LineFamily(fam.point[::-1], fam.direction[::-1]))  # type: ignore[arg-type]
-        else:
-            fams.append(type(fam)(fam.y_polynomial, fam.x_polynomial))
+        elif isinstance(fam, ParabolaFamily):
+            fams.append(ParabolaFamily(fam.y_polynomial, fam.x_polynomial))
+        else:  # compact families solve x² − dy² = n, whose swap is not of that shape
+            raise DomainError("a family in compact form cannot have x and y exchanged")
     sols = sort_points([(y, x) for x, y in s.solutions])
     return QuadraticSolutions(
         (c, b, a, e, d, f), s.finite, fams, sols, s.method, s.proof, list(s.notes)

@@ -32,10 +32,13 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from math import floor
 
+import mpmath
+
 from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import InputError, TooLargeError
+from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import (
     MAX_DIGITS,
     MAX_TERMS,
@@ -351,7 +354,152 @@ class ParabolaFamily:
         return sort_points([p for p in pts if abs(p[0]) <= B and abs(p[1]) <= B])
 
 
-Family = OrbitFamily | LineFamily | ParabolaFamily
+#: Most digits of a member of a compact family that :meth:`CompactOrbitFamily.solution` writes out.
+MAX_MEMBER_DIGITS = 1_000_000
+
+#: Working precision (decimal digits after the point) of a compact family's logarithms.
+_LOG_DIGITS = 40
+
+
+def expand_point(number: CompactRepresentation) -> Point:
+    """``(x, y)`` with ``number = x + y√d``, for a compact number over ``D = 4d``.
+
+    >>> from realquad.core.numbers import QuadraticNumber
+    >>> three = CompactRepresentation.from_factors(52, [], QuadraticNumber(3, 1, 1, 52), 43)
+    >>> expand_point(three)            # 3 + √52 = 3 + 2√13
+    (3, 2)
+    """
+    u, v = number.expand()
+    if u % 2:
+        raise ArithmeticError("internal check failed: the number is not in Z[√d]")
+    return u // 2, v
+
+
+@dataclass(frozen=True)
+class CompactOrbitFamily:
+    """The class ``{±α·εᵏ : k ∈ Z}`` of solutions of ``x² − d y² = n`` with ``α`` and ``ε`` in compact form.
+
+    ``generator`` is Nagell's fundamental solution ``α = x + y√d`` (the member
+    with the least ``|y|``, then ``|x|``, then ``y ≥ 0``, ``x ≥ 0``), ``unit``
+    the least unit ``ε = t + u√d > 1`` of norm +1 of ``Z[√d]``, both compact
+    over the discriminant ``4d``; ``fundamental`` is ``(x, y)`` written out
+    when it has at most ``expanded_digits`` digits, else ``None``.
+    ``log_generator`` and ``log_unit`` are ``log |α|`` and ``log ε`` to
+    :data:`_LOG_DIGITS` digits after the point: they place every member
+    without expanding it (``|α εᵏ| = e^{log|α| + k log ε}``, and its conjugate
+    is ``n`` divided by it).
+    """
+
+    d: int
+    n: int
+    generator: CompactRepresentation
+    unit: CompactRepresentation
+    log_generator: mpmath.mpf
+    log_unit: mpmath.mpf
+    fundamental: Point | None
+    kind: str = field(default="compact_orbit", init=False, repr=False)
+
+    @property
+    def reflection(self) -> bool:
+        """``−(x, y)`` belongs to the family with ``(x, y)``."""
+        return True
+
+    def _logs(self, k: int) -> tuple[mpmath.mpf, mpmath.mpf]:
+        """``(log |α εᵏ|, log |(α εᵏ)'|)``."""
+        with mpmath.workdps(_LOG_DIGITS + len(str(abs(k))) + len(str(int(self.log_unit))) + 10):
+            big = self.log_generator + k * self.log_unit
+            return big, mpmath.log(abs(self.n)) - big
+
+    def digits(self, k: int = 0) -> int:
+        """About how many decimal digits ``x`` of the member ``α εᵏ`` has (from the logarithms, ±1)."""
+        with mpmath.workdps(_LOG_DIGITS + 20):
+            top = max(self._logs(k))
+            return max(1, int(mpmath.floor((top - mpmath.log(2)) / mpmath.log(10))) + 1)
+
+    def unit_digits(self) -> int:
+        """About how many decimal digits ``t`` of the unit ``ε = t + u√d`` has."""
+        with mpmath.workdps(_LOG_DIGITS + 20):
+            return max(1, int(mpmath.floor((self.log_unit - mpmath.log(2)) / mpmath.log(10))) + 1)
+
+    def member(self, k: int) -> CompactRepresentation:
+        """``α εᵏ`` in compact form."""
+        return self.generator if k == 0 else self.generator * self.unit.power(k)
+
+    def solution(self, k: int) -> Point:
+        """``(x, y)`` of ``α εᵏ``; refused beyond :data:`MAX_MEMBER_DIGITS` digits."""
+        if isinstance(k, bool) or not isinstance(k, int):
+            raise InputError("k must be an integer")
+        if k == 0 and self.fundamental is not None:
+            return self.fundamental
+        size = self.digits(k)
+        if size > MAX_MEMBER_DIGITS:
+            raise TooLargeError(
+                f"member k = {k} of the family has about {size:,} digits, more than "
+                f"{MAX_MEMBER_DIGITS:,}; it stays in compact form"
+            )
+        return expand_point(self.member(k))
+
+    def residues(self, m: int) -> Point:
+        """``(x mod m, y mod m)`` for the fundamental solution, from the compact form.
+
+        Needs ``m`` prime to 2 and to the factors' denominators (else :class:`DomainError`).
+        """
+        if self.fundamental is not None:
+            return self.fundamental[0] % m, self.fundamental[1] % m
+        a, b = self.generator.modulo(m)  # α ≡ a + b√(4d) = a + 2b√d
+        return a % m, 2 * b % m
+
+    def bounded(self, B: int) -> list[Point]:
+        """Every member with ``|x|, |y| ≤ B``, sorted; only members that can lie in the box are expanded.
+
+        ``|x| = |β + β'|/2 ≥ (e^L − e^{L'})/2`` for ``β = ±α εᵏ`` with
+        ``L ≥ L'`` its larger log and ``e^{L'} ≤ √|n|``, so a member with
+        ``e^L > 2B + √|n|`` lies outside; ``L`` grows with ``|k|`` on either
+        side of ``k = 0`` (the fundamental solution is balanced).
+        """
+        B = _check_bound(B)
+        with mpmath.workdps(_LOG_DIGITS + 20):
+            limit = mpmath.log(2 * B + isqrt(abs(self.n)) + 2)
+        out: set[Point] = set()
+        for step in (1, -1):
+            k = 0 if step == 1 else -1
+            while max(self._logs(k)) <= limit:
+                x, y = self.solution(k)
+                for p in ((x, y), (-x, -y)):
+                    if abs(p[0]) <= B and abs(p[1]) <= B:
+                        out.add(p)
+                if len(out) > MAX_LISTED:
+                    raise TooLargeError(f"more than {MAX_LISTED:,} solutions in the box")
+                k += step
+        return sort_points(out)
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``x + y√d = ±α εᵏ``, ``α`` written out when it is, else in compact form; ``ε`` compact."""
+        if self.fundamental is not None:
+            alpha = parenthesised(surd(*self.fundamental, 1, self.d, max_digits))
+        else:
+            alpha = r"\alpha"
+        every = rf"x + y{sqrt(self.d, max_digits)} = \pm{alpha}\varepsilon^{{k}},\quad k \in \mathbb{{Z}}"
+        rows = [every]
+        if self.fundamental is None:
+            rows.append(rf"\alpha = {self.generator.to_latex(max_digits)}")
+        rows.append(rf"\varepsilon = {self.unit.to_latex(max_digits)}")
+        return lines(rows)
+
+    def to_dict(self) -> JSONObject:
+        """The JSON shape of a compact family (``docs/json.md``, *Family*)."""
+        return {
+            "kind": self.kind,
+            "fundamental": None if self.fundamental is None else point_dict(self.fundamental),
+            "digits": self.digits(),
+            "compact": self.generator.to_dict(),
+            "unit_compact": self.unit.to_dict(),
+            "unit_digits": self.unit_digits(),
+            "mirrored": True,
+        }
+
+
+Family = OrbitFamily | LineFamily | ParabolaFamily | CompactOrbitFamily
 
 
 @dataclass(repr=False)

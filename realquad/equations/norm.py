@@ -56,25 +56,27 @@ import mpmath
 from realquad._backend import kernels
 from realquad.cfrac import complete_quotients, to_reduced
 from realquad.core.integers import as_integer, is_square, isqrt
+from realquad.core.lfunction import estimated_period
 from realquad.core.linalg import matrix_multiply, matrix_product
 from realquad.core.numbers import pair_multiply, pair_power
-from realquad.core.primes import (
-    divisors_from_factorization,
-    factorize,
-    square_roots_mod,
-    valuation,
-)
+from realquad.core.primes import square_roots_mod
+from realquad.core.results import check_method
 from realquad.equations.families import (
     AffineMap,
+    Family,
     LineFamily,
     OrbitFamily,
     Point,
     QuadraticSolutions,
 )
 from realquad.equations.finite import definite_solutions, square_solutions
+from realquad.equations.norm_compact import norm_families_infrastructure, primitive_parts
 from realquad.equations.pell import pell
 from realquad.errors import TooLargeError
+from realquad.infrastructure.table import compiled_table
 from realquad.latex import MAX_DIGITS, integer, terms
+from realquad.textio import about, shown
+from realquad.units.bsgs import check_reach
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
 MAX_CYCLE = 2_000_000
@@ -372,18 +374,13 @@ def norm_classes(d: int, n: int) -> tuple[list[Point], str]:
     >>> norm_classes(2445, -20)[0]
     [(-445, 9), (445, 9), (17625560, 356454)]
     """
-    factors = factorize(n)
+    parts = primitive_parts(n)
     _principal_cycle(d)  # refuses an overlong period before the unit is sought
     units = pell_units(d)
     r = isqrt(d)
     classes: set[Point] = set()
     methods = set()
-    exps = {p: e // 2 for p, e in factors.items()}
-    fs = divisors_from_factorization({p: e for p, e in exps.items() if e})
-    for f in fs:
-        m = n // (f * f)
-        mf = {p: e - 2 * valuation(f, p) for p, e in factors.items()}
-        mf = {p: e for p, e in mf.items() if e}
+    for f, m, mf in parts:
         if abs(m) <= r:
             prim = _primitive_short(d, m)
             methods.add(METHOD_SHORT)
@@ -401,13 +398,51 @@ def _result(d: int, n: int, **kw: object) -> NormEquationSolution:
     return NormEquationSolution(coefficients=(1, 0, -d, 0, 0, -n), d=d, n=n, **kw)  # type: ignore[arg-type]
 
 
-def solve_norm_equation(d: int, n: int) -> NormEquationSolution:
+#: The methods of :func:`solve_norm_equation` for ``d > 0`` not a square (``"auto"`` chooses).
+NORM_METHODS = ("auto", "cfrac", "infrastructure")
+
+
+def choose_norm_method(d: int, method: str = "auto") -> str:
+    """``"cfrac"`` or ``"infrastructure"`` for ``x² − dy² = n``, resolving ``"auto"``.
+
+    ``"auto"`` walks the principal cycle of ``√d`` while its expected length
+    (:func:`realquad.core.lfunction.estimated_period` of ``4d``, which is
+    ``h`` times the period) is at most :data:`MAX_CYCLE`, and tests ideals in
+    the infrastructure beyond — at once, without walking a cycle that is too
+    long, and only where the infrastructure's giant steps run compiled; the
+    infrastructure's own reach is checked first, so a refusal is immediate.
+
+    >>> choose_norm_method(13), choose_norm_method(10**24 + 49)
+    ('cfrac', 'infrastructure')
+    """
+    check_method(method, NORM_METHODS)
+    if method != "auto":
+        return method
+    D = 4 * d
+    if estimated_period(D, 2_000) <= MAX_CYCLE:
+        return "cfrac"
+    check_reach(D)
+    if not compiled_table(D):
+        raise TooLargeError(
+            f"x² − {shown(d)}y² = n: the principal cycle of √d may have "
+            f"{about(estimated_period(D, 2_000))} terms (the continued fraction walks at most "
+            f"{MAX_CYCLE:,}), and the infrastructure's giant steps run compiled only for "
+            "D < 2¹⁰⁶ (here in pure Python, minutes to hours)"
+        )
+    return "infrastructure"
+
+
+def solve_norm_equation(d: int, n: int, method: str = "auto") -> NormEquationSolution:
     """All integer solutions of ``x² − d y² = n``, for any integers ``d`` and ``n``.
 
-    ``d > 0`` not a square, ``n ≠ 0``: one :class:`OrbitFamily` per class,
-    its ``fundamental`` solution Nagell's, its ``automorph`` multiplication
-    by the least unit of norm +1 (``unit = (t, u, d)``), mirrored by
-    ``(x, y) ↦ (−x, −y)``. ``d < 0``, ``d = s² > 0`` with ``n ≠ 0``, or
+    ``d > 0`` not a square, ``n ≠ 0``: one family per class, its
+    ``fundamental`` solution Nagell's, mirrored by ``(x, y) ↦ (−x, −y)``.
+    ``method`` (:func:`choose_norm_method`): ``"cfrac"`` gives an
+    :class:`OrbitFamily` per class, whose ``automorph`` is multiplication by
+    the least unit of norm +1 (``unit = (t, u, d)``); ``"infrastructure"``
+    gives a :class:`CompactOrbitFamily` per class, with the fundamental
+    solution and that unit in compact form (:mod:`realquad.equations.norm_compact`).
+    ``d < 0``, ``d = s² > 0`` with ``n ≠ 0``, or
     ``n = 0`` with ``d`` not a square: finitely many solutions. ``d = s²``
     with ``n = 0`` and ``d = 0`` with ``n`` a square: lines.
 
@@ -442,6 +477,28 @@ def solve_norm_equation(d: int, n: int) -> NormEquationSolution:
             solutions=[(0, 0)],
             method="x² = d y² with d not a square",
         )
+    chosen = choose_norm_method(d, method)
+    if chosen == "cfrac":
+        try:
+            return _solve_cfrac(d, n)
+        except TooLargeError:
+            if method != "auto" or not compiled_table(4 * d):
+                raise
+    families, how, proof = norm_families_infrastructure(d, n)
+    compact: list[Family] = list(families)
+    return _result(
+        d,
+        n,
+        finite=not compact,
+        families=compact,
+        solutions=[],
+        method=how,
+        proof=proof,
+        classes=[f.fundamental for f in families if f.fundamental is not None],
+    )
+
+
+def _solve_cfrac(d: int, n: int) -> NormEquationSolution:
     classes, method = norm_classes(d, n)
     units = pell_units(d)
     t, u = units.plus

@@ -173,6 +173,11 @@ class CompactRepresentation:
         return sign * self.absolute_norm
 
     @property
+    def value_sign(self) -> int:
+        """The sign of the represented number: ``sign`` times the signs of the factors."""
+        return self.sign * self._raw_sign()
+
+    @property
     def size(self) -> int:
         """Number of stored factors."""
         return sum(len(c.factors) for c in self.chains)
@@ -197,7 +202,10 @@ class CompactRepresentation:
         if other.discriminant != self.discriminant:
             raise DomainError("units of different orders cannot be multiplied")
         return CompactRepresentation(
-            self.discriminant, self.chains + other.chains, self.sign * other.sign
+            self.discriminant,
+            self.chains + other.chains,
+            self.sign * other.sign,
+            self.absolute_norm * other.absolute_norm,
         )
 
     def power(self, k: int) -> CompactRepresentation:
