@@ -115,16 +115,21 @@ def latex_engine() -> str | None:
 
 def compile_latex(fragments: list[str], directory: Path) -> None:
     """Compile a document made of ``fragments`` (text mode) with the installed engine."""
-    engine = latex_engine()
-    assert engine is not None
     tex = directory / "note.tex"
     tex.write_text(PREAMBLE + "\n\n".join(fragments) + "\n\\end{document}\n", encoding="utf-8")
+    compile_document(tex)
+
+
+def compile_document(tex: Path) -> None:
+    """Compile the LaTeX document ``tex`` in its directory with the installed engine."""
+    engine = latex_engine()
+    assert engine is not None
     args = (
         [engine, tex.name]
         if engine == "tectonic"
         else [engine, "-interaction=nonstopmode", "-halt-on-error", tex.name]
     )
-    done = subprocess.run(args, cwd=directory, capture_output=True, text=True, timeout=120)
+    done = subprocess.run(args, cwd=tex.parent, capture_output=True, text=True, timeout=120)
     assert done.returncode == 0, done.stdout[-2000:]
 
 

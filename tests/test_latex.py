@@ -8,9 +8,11 @@ published values. The notebook display goes through IPython's own formatter.
 
 from __future__ import annotations
 
+import importlib.util
 import re
 from fractions import Fraction
 from pathlib import Path
+from types import ModuleType
 
 import mpmath
 import pytest
@@ -29,7 +31,13 @@ from realquad.equations.norm import solve_norm_equation
 from realquad.equations.pell import pell
 from realquad.splitting import form_primes
 from realquad.units import fundamental_unit, unit_group
-from tests.latex_support import check_latex, compile_latex, latex_engine, to_sympy
+from tests.latex_support import (
+    check_latex,
+    compile_document,
+    compile_latex,
+    latex_engine,
+    to_sympy,
+)
 
 # -- integers, as the terminal summarises them ---------------------------------------------
 
@@ -297,3 +305,31 @@ def test_every_result_compiles(tmp_path: Path) -> None:
     if latex_engine() is None:
         pytest.skip("no LaTeX engine (pdflatex, lualatex, tectonic) installed; parsed only")
     compile_latex(fragments, tmp_path)
+
+
+# -- the example set: the seminar handout on Q(√79) (docs/examples/latex_note.py) ------------
+
+
+def _handout_module() -> ModuleType:
+    path = Path(__file__).resolve().parents[1] / "docs" / "examples" / "latex_note.py"
+    spec = importlib.util.spec_from_file_location("latex_note", path)
+    assert spec is not None and spec.loader is not None
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+def test_the_handout(tmp_path: Path) -> None:
+    handout = _handout_module()
+    formulas = handout.formulas()
+    assert len(formulas) == 6
+    for formula in formulas:
+        check_latex(formula)
+    # sympy: √79 = [8; (1, 7, 1, 16)]
+    assert _read_expansion(formulas[0].split("\n")[1]) == ([8], [1, 7, 1, 16])
+    assert continued_fraction_periodic(0, 1, 79) == [8, [1, 7, 1, 16]]
+    if latex_engine() is None:
+        pytest.skip("no LaTeX engine installed; the formulas were parsed one by one")
+    document = handout.handout()
+    (tmp_path / "q79.tex").write_text(document, encoding="utf-8")
+    compile_document(tmp_path / "q79.tex")

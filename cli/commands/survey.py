@@ -536,7 +536,7 @@ def report_command(
     if plot is not None:
         payload["plot"] = plot
         lines.append(f"plot written to {plot}")
-    emit(payload, "\n".join(lines), as_json, latex=lambda md: _report_latex(report, lines[0]))
+    emit(payload, "\n".join(lines), as_json, latex=lambda md: _report_latex(report, db))
 
 
 def _imaginary_lines(part: ImaginaryReport, db: str, proof: str) -> list[str]:
@@ -590,51 +590,76 @@ def _run_latex(payload: dict[str, Any]) -> str:
 
 
 def _rows_latex(rows: list[dict[str, Any]], notes: list[str]) -> str:
-    """The queried fields as a table: d, D, h, h⁺, Cl, Cl⁺, N(ε), regulator, period, digits."""
+    """The queried fields as a table: d, D, h, h⁺, Cl, Cl⁺, w, N(ε), regulator, period, digits."""
     header = [
-        "$d$", "$D$", "$h$", "$h^{+}$", "$\\mathrm{Cl}$", "$\\mathrm{Cl}^{+}$",
+        "$d$", "$D$", "$h$", "$h^{+}$", "$\\mathrm{Cl}$", "$\\mathrm{Cl}^{+}$", "$w$",
         "$N(\\varepsilon)$", "$R$", "period", "digits",
     ]  # fmt: skip
     body = [
         [
-            *(_cell(r[k]) for k in ("radicand", "discriminant", "class_number")),
-            _cell(r["narrow_class_number"]),
+            *(f"${r[k]}$" for k in ("radicand", "discriminant")),
+            *(_cell(r[k]) for k in ("class_number", "narrow_class_number")),
             f"${group(r['invariants'])}$",
             f"${group(r['narrow_invariants'])}$",
-            f"${r['unit_norm']:+d}$",
+            _cell(r["roots_of_unity"]),
+            "--" if r["unit_norm"] is None else f"${r['unit_norm']:+d}$",
             *(_cell(r[k]) for k in ("regulator", "period_length", "digits")),
         ]
         for r in rows
     ]
-    return table("rrrrllrlrr", header, body) + "\n" + _comments(notes)
+    return table("rrrrllrrlrr", header, body) + "\n" + _comments(notes)
 
 
-def _report_latex(report: Any, first_line: str) -> str:
-    """The statistics as a table (count and share of each), then the largest regulators."""
+def _share_latex(value: float | None) -> str:
+    return "--" if value is None else f"{100 * value:.3f}\\%"
 
-    def share(value: float | None) -> str:
-        return "--" if value is None else f"{100 * value:.3f}\\%"
 
-    rows = [
-        ["$h = 1$", _cell(report.class_number_one), share(report.class_number_one_share)],
-        [
-            "$h = 1$, $d \\equiv 1 \\pmod 4$ prime",
-            _cell(report.prime_class_number_one),
-            share(report.prime_share),
-        ],
-        ["Cohen--Lenstra prediction", "", share(report.prediction)],
-        [
-            "$N(\\varepsilon) = -1$",
-            _cell(report.unit_norm_minus_one),
-            share(report.unit_norm_minus_one_share),
-        ],
-    ]
-    stats = table("lrr", ["", "fields", "share"], rows)
-    largest = table(
-        "rl",
-        ["$d$", "$R$"],
-        ([_cell(r["radicand"]), _cell(r["regulator"])] for r in report.largest_regulators),
-    )
+def _report_latex(report: Any, db: str) -> str:
+    """The statistics as tables (count and share of each), real and imaginary fields apart."""
+    tables: list[str] = []
+    notes: list[str] = []
+    if report.fields:
+        rows = [
+            [
+                "$h = 1$",
+                _cell(report.class_number_one),
+                _share_latex(report.class_number_one_share),
+            ],
+            [
+                "$h = 1$, $d \\equiv 1 \\pmod 4$ prime",
+                _cell(report.prime_class_number_one),
+                _share_latex(report.prime_share),
+            ],
+            ["Cohen--Lenstra prediction", "", _share_latex(report.prediction)],
+            [
+                "$N(\\varepsilon) = -1$",
+                _cell(report.unit_norm_minus_one),
+                _share_latex(report.unit_norm_minus_one_share),
+            ],
+        ]
+        tables.append(table("lrr", ["real fields", "fields", "share"], rows))
+        largest = ([_cell(r["radicand"]), _cell(r["regulator"])] for r in report.largest_regulators)
+        tables.append(table("rl", ["$d$", "$R$"], largest))
+        notes.append(f"{report.fields:,} real fields with d in [{report.d_min}, {report.d_max}]")
+    part = report.imaginary
+    if part is not None:
+        rows = [
+            [
+                "$h = 1$",
+                _cell(len(part.class_number_one)),
+                _share_latex(len(part.class_number_one) / part.fields),
+            ],
+            ["$3 \\mid h$", _cell(part.three_divides), _share_latex(part.three_share)],
+            ["Cohen--Lenstra prediction", "", _share_latex(part.prediction)],
+        ]
+        tables.append(table("lrr", ["imaginary fields", "fields", "share"], rows))
+        largest = (
+            [f"${r['radicand']}$", _cell(r["class_number"])] for r in part.largest_class_numbers
+        )
+        tables.append(table("rr", ["$d$", "$h$"], largest))
+        notes.append(f"{part.fields:,} imaginary fields with d in [{part.d_min}, {part.d_max}]")
+    notes.append(f"database {db}; proof: {report.proof}")
     incomplete = missing_text(report.missing)
-    notes = [first_line] + ([incomplete] if incomplete else [])
-    return stats + "\n\n" + largest + "\n" + _comments(notes)
+    if incomplete:
+        notes.append(incomplete)
+    return "\n\n".join(tables) + "\n" + _comments(notes)

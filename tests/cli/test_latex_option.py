@@ -37,9 +37,9 @@ def test_every_command_takes_latex() -> None:
 @pytest.fixture(scope="module")
 def survey_db(tmp_path_factory: pytest.TempPathFactory) -> str:
     db = str(tmp_path_factory.mktemp("survey") / "s.sqlite")
-    assert (
-        main(["survey", "run", "--d-min", "2", "--d-max", "200", "--db", db, "--workers", "1"]) == 0
-    )
+    for low, high in (("2", "200"), ("-80", "-3")):  # real and imaginary fields
+        args = ["survey", "run", "--d-min", low, "--d-max", high, "--db", db, "--workers", "1"]
+        assert main(args) == 0
     return db
 
 
@@ -68,7 +68,7 @@ def _outputs(capsys: Any, db: str) -> list[str]:
     outs = []
     for args in [
         *CASES,
-        ["survey", "query", "--db", db, "--d-max", "30"],
+        ["survey", "query", "--db", db, "--d-min", "-20", "--d-max", "30"],
         ["survey", "report", "--db", db],
     ]:
         code, out, err = run(capsys, *args, "--latex")
@@ -81,6 +81,7 @@ def test_every_command_writes_latex_that_parses_and_compiles(
     capsys: Any, survey_db: str, tmp_path: Path
 ) -> None:
     outs = _outputs(capsys, survey_db)
+    assert r"\mathfrak{p}" in outs[9] and "imaginary fields" in outs[-1]
     for out in outs:
         check_latex(out)
         assert "% method: " in out or "proof: " in out or r"\begin{tabular}" in out
