@@ -219,6 +219,31 @@ def product(factors: Sequence[str], per_row: int = 3) -> str:
     return r"\begin{aligned}&" + "\\\\\n&\\quad\\cdot ".join(rows) + r"\end{aligned}"
 
 
+def factor(base: str, exponent: int = 1, max_digits: int = MAX_DIGITS) -> str:
+    r"""``base^{e}`` as a factor of a product: a sum in parentheses even to the power 1.
+
+    >>> factor("79 - 4\\sqrt{376}"), factor(r"\frac{1 + \sqrt{5}}{2}"), factor("7", 3)
+    ('\\left(79 - 4\\sqrt{376}\\right)', '\\frac{1 + \\sqrt{5}}{2}', '7^{3}')
+    """
+    if exponent != 1:
+        return power(base, exponent, max_digits)
+    whole_fraction = base.startswith(r"\frac{") and _braced_end(base, 5) == len(base) - 1
+    return base if whole_fraction else parenthesised(base)
+
+
+def _braced_end(text: str, start: int) -> int:
+    """The index of the brace closing the group that opens at ``start``, after its second group."""
+    end = start
+    for _ in range(2):  # \frac{…}{…}: numerator, then denominator
+        depth = 0
+        for j in range(end, len(text)):
+            depth += {"{": 1, "}": -1}.get(text[j], 0)
+            if depth == 0:
+                end = j + 1
+                break
+    return end - 1
+
+
 def power(base: str, exponent: int, max_digits: int = MAX_DIGITS) -> str:
     r"""``base^{e}`` with the base in parentheses when it needs them; the base alone for ``e = 1``.
 

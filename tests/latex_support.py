@@ -169,7 +169,11 @@ def _python(latex: str) -> str:
 
 
 def to_sympy(latex: str, **symbols: object) -> sympy.Expr:
-    """The value of our LaTeX of a number (``\\frac``, ``\\sqrt``, ``\\left( \\right)``, ``^{…}``)."""
+    """The value of our LaTeX of a number (``\\frac``, ``\\sqrt``, ``\\left( \\right)``, ``^{…}``,
+    products ``\\cdot`` over the rows of an ``aligned`` block)."""
+    for layout in (r"\begin{aligned}", r"\end{aligned}", "&", r"\quad", "\\\\"):
+        latex = latex.replace(layout, " ")
+    latex = latex.replace(r"\cdot", "*")
     transformations = standard_transformations + (implicit_multiplication_application, convert_xor)
     names = {"sqrt": sympy.sqrt, **symbols}
     return parse_expr(_python(latex), local_dict=names, transformations=transformations)

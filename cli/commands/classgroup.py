@@ -13,6 +13,8 @@ from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
 from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.errors import InputError
+from realquad.latex import display, text
+from realquad.latex import lines as lines_latex
 from realquad.textio import group_text, plural, signed
 from realquad.units import unit_group
 
@@ -141,4 +143,23 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
     progress = ProgressLine() if order.discriminant > 10**11 else None
     G = class_group(order, progress=progress, method=method)
     payload = G.to_dict(with_classes=with_forms)
-    emit(payload, _text(G, payload, with_forms), as_json, latex=G.to_latex_display)
+    emit(
+        payload, _text(G, payload, with_forms), as_json, latex=lambda md: _latex(G, with_forms, md)
+    )
+
+
+def _latex(G: ClassGroup, with_forms: bool, max_digits: int) -> str:
+    """The groups; with ``--forms`` every narrow class as the set of its reduced forms."""
+    rows = [G.to_latex(max_digits)]
+    if with_forms:
+        shown = 0
+        classes = G.narrow_classes()
+        for k, cycle in enumerate(classes):
+            if shown >= SHOWN_FORMS:
+                rows.append(rf"\ldots\ {text(f'{len(classes) - k} more classes')}")
+                break
+            forms = ", ".join(F.to_latex(max_digits) for F in cycle[: SHOWN_FORMS - shown])
+            more = r", \ldots" if len(cycle) > SHOWN_FORMS - shown else ""
+            rows.append(rf"\mathcal{{C}}_{{{k}}} = \{{{forms}{more}\}}")
+            shown += len(cycle)
+    return display(lines_latex(rows), G.latex_note())

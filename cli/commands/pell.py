@@ -17,6 +17,8 @@ from realquad_cli.output import (
 
 from realquad.core.integers import as_integer
 from realquad.equations.pell import PellSolution, pell
+from realquad.latex import display, integer
+from realquad.latex import lines as lines_latex
 from realquad.textio import plural, shown, signed, to_decimal
 
 
@@ -98,7 +100,21 @@ def command(
         payload["output"] = output
         what = "the compact form" if sol.x is None and sol.compact is not None else "full values"
         lines.append(f"{what} written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits, latex=sol.to_latex_display)
+    emit(payload, "\n".join(lines), as_json, max_digits, lambda md: _latex(sol, payload, md))
+
+
+def _latex(sol: PellSolution, payload: dict, max_digits: int) -> str:
+    """The solution, then ``--mod`` and ``--leading`` when asked for."""
+    rows = [sol.to_latex(max_digits)]
+    residues = payload.get("residues")
+    if residues is not None:
+        m = integer(residues["modulus"], max_digits)
+        x, y = integer(residues["x"], max_digits), integer(residues["y"], max_digits)
+        rows.append(rf"x_{{1}} \equiv {x},\quad y_{{1}} \equiv {y} \pmod{{{m}}}")
+    leading = payload.get("leading")
+    if leading is not None:
+        rows.append(rf"x_{{1}} = {leading['x']}\ldots,\quad y_{{1}} = {leading['y']}\ldots")
+    return display(lines_latex(rows), sol.latex_note())
 
 
 def _extras(

@@ -31,7 +31,7 @@ from realquad.equations.families import (
 )
 from realquad.equations.parser import parse_equation
 from realquad.errors import InputError
-from realquad.latex import MAX_TERMS, display, integer, points
+from realquad.latex import MAX_TERMS, display, integer, point, points, text
 from realquad.latex import lines as lines_latex
 from realquad.textio import plural, terms_text
 
@@ -188,15 +188,31 @@ def command(
         write_atomically(output, dumps(payload) + "\n")
         payload["output"] = output
         lines.append(f"full values written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits, lambda md: solution_latex(sol, b, md))
+    members = [entry["member"] for entry in payload["families"] if "member" in entry]
+    emit(
+        payload,
+        "\n".join(lines),
+        as_json,
+        max_digits,
+        lambda md: solution_latex(sol, b, members, md),
+    )
 
 
-def solution_latex(sol: QuadraticSolutions, bound: int | None, max_digits: int) -> str:
-    """The solutions as LaTeX (``--latex``): the families, and those in the box of ``--bound``."""
-    body = sol.to_latex(max_digits)
+def solution_latex(
+    sol: QuadraticSolutions, bound: int | None, members: list[dict[str, Any]], max_digits: int
+) -> str:
+    """The solutions as LaTeX (``--latex``): the families, the ``--member`` of each (one row,
+    in the order of the families), and the solutions in the box of ``--bound``."""
+    rows = [sol.to_latex(max_digits)]
+    if members:
+        shown = [
+            point((m["x"], m["y"]), max_digits)
+            if m["x"] is not None
+            else text(f"about {m['digits']} digits (compact)")
+            for m in members
+        ]
+        rows.append(f"k = {integer(members[0]['k'])}:\\quad " + ",\\ ".join(shown))
     if bound is not None:
         box = points(sol.bounded(bound), MAX_TERMS, max_digits)
-        body = lines_latex(
-            [body, rf"|x|, |y| \le {integer(bound, max_digits)}:\quad (x, y) \in {box}"]
-        )
-    return display(body, sol.latex_note())
+        rows.append(rf"|x|, |y| \le {integer(bound, max_digits)}:\quad (x, y) \in {box}")
+    return display(lines_latex(rows), sol.latex_note())

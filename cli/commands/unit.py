@@ -120,7 +120,13 @@ def command(
         write_atomically(output, form.to_text(D, 2, f"fundamental unit (x + y*sqrt(d))/2, d = {D}"))
         payload["output"] = output
         lines.append(f"the compact form of 2ε = x + y√{sizer.text(D)} written to {output}")
-    emit(payload, "\n".join(lines), as_json, max_digits, latex=lambda md: _latex(eps, digits, md))
+    emit(
+        payload,
+        "\n".join(lines),
+        as_json,
+        max_digits,
+        latex=lambda md: _latex(eps, digits, compact, md),
+    )
 
 
 def _roots_of_unity(order: Order, as_json: bool) -> None:
@@ -139,11 +145,12 @@ def _roots_of_unity(order: Order, as_json: bool) -> None:
     emit(group.to_dict(), text, as_json, latex=group.to_latex_display)
 
 
-def _latex(eps: Unit, digits: int, max_digits: int) -> str:
-    """The unit, its norm and regulator; the compact form too when it is not expanded."""
+def _latex(eps: Unit, digits: int, compact: bool, max_digits: int) -> str:
+    """The unit, its norm and regulator; the compact form too with ``--compact`` or when the
+    unit is not expanded."""
     body = eps.to_latex(max_digits, digits)
     form = eps.compact()
-    if form is not None and not eps.expands_within(max_digits):
+    if form is not None and (compact or not eps.expands_within(max_digits)):
         body = lines([body, rf"\varepsilon = {form.to_latex(max_digits)}"])
     return display(body, eps.latex_note())
 

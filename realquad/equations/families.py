@@ -477,6 +477,7 @@ class CompactOrbitFamily:
         r"""``x + y√d = ±α εᵏ``, ``α`` written out when it is, else in compact form; ``ε`` compact."""
         if self.fundamental is not None:
             alpha = parenthesised(surd(*self.fundamental, 1, self.d, max_digits))
+            alpha = "" if alpha == "1" else alpha  # the class of the units themselves
         else:
             alpha = r"\alpha"
         every = rf"x + y{sqrt(self.d, max_digits)} = \pm{alpha}\varepsilon^{{k}},\quad k \in \mathbb{{Z}}"

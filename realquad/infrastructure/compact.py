@@ -39,7 +39,7 @@ from realquad.core.numbers import QuadraticNumber
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.distances import Factors, log_of_product
-from realquad.latex import MAX_DIGITS, power, product
+from realquad.latex import MAX_DIGITS, factor, power, product
 
 
 @dataclass(frozen=True)
@@ -106,7 +106,7 @@ class CompactRepresentation:
         """
         flat: list[str] = []
         for chain in self.chains:
-            factors = [power(a.to_latex(max_digits), e, max_digits) for a, e in chain.factors]
+            factors = [factor(a.to_latex(max_digits), e, max_digits) for a, e in chain.factors]
             if chain.power == 1:
                 flat += factors
             else:

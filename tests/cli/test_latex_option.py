@@ -61,6 +61,11 @@ CASES = [
     ["solve", "x^2 + y^2 = 25"],
     ["solve", "x^2 - 2xy + y^2 - x = 0"],
     ["solve", "x^2 - 3xy + y^2 + x = 5"],
+    ["solve", "x^2 - 13y^2 = -4", "--member", "2"],
+    ["solve", "x^2 - 1000000000000000000000049 y^2 = 1"],
+    ["pell", "61", "--mod", "1000", "--leading", "5"],
+    ["unit", "94", "--compact"],
+    ["classgroup", "--disc", "316", "--forms"],
 ]
 
 
@@ -136,3 +141,11 @@ def test_a_unit_in_compact_form(capsys: Any) -> None:
     )
     assert first is not None
     assert to_sympy(first[1]).is_real
+
+
+def test_members_of_the_families(capsys: Any) -> None:
+    code, out, _ = run(capsys, "solve", "x^2 - 13y^2 = -4", "--member", "2", "--latex")
+    assert code == 0
+    row = next(line for line in out.splitlines() if line.startswith("k = 2:"))
+    members = [(int(x), int(y)) for x, y in re.findall(r"\((-?\d+), (-?\d+)\)", row)]
+    assert len(members) == 3 and all(x * x - 13 * y * y == -4 for x, y in members)
