@@ -21,6 +21,7 @@ from realquad_cli.progress import ElapsedTicker
 from realquad.core.integers import as_integer
 from realquad.equations.conics import solve_quadratic
 from realquad.equations.families import (
+    MAX_MEMBER_DIGITS,
     CompactOrbitFamily,
     Family,
     LineFamily,
@@ -80,7 +81,11 @@ def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> list[str]:
 def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
     if isinstance(fam, CompactOrbitFamily):
         lines = _compact_text(i, fam, sizer)
-        if k is not None:
+        if k is not None and fam.digits(k) > MAX_MEMBER_DIGITS:
+            lines.append(
+                f"     member k = {k}: about {fam.digits(k):,} digits, left in compact form"
+            )
+        elif k is not None:
             mx, my = (sizer.text(v) for v in fam.solution(k))
             lines.append(f"     member k = {k}: ({mx}, {my})")
         return lines
@@ -116,6 +121,13 @@ def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
     return lines
 
 
+def _member(fam: Family, k: int) -> dict[str, Any]:
+    """The JSON shape of the ``k``-th member (``docs/json.md``, *Member*)."""
+    if isinstance(fam, CompactOrbitFamily) and fam.digits(k) > MAX_MEMBER_DIGITS:
+        return {"k": k, "x": None, "y": None, "digits": fam.digits(k)}
+    return {"k": k, **point_dict(fam.solution(k))}
+
+
 def build(
     sol: QuadraticSolutions, bound: int | None, member: int | None, max_digits: int
 ) -> tuple[dict[str, Any], list[str]]:
@@ -124,7 +136,7 @@ def build(
     payload = sol.to_dict(bound)
     if member is not None:
         for entry, fam in zip(payload["families"], sol.families, strict=True):
-            entry["member"] = {"k": member, **point_dict(fam.solution(member))}
+            entry["member"] = _member(fam, member)
     lines = [f"equation: {payload['equation']['text']}"]
     if sol.families:
         lines.append(f"{plural(len(sol.families), 'family', 'families')} of solutions:")

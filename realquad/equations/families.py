@@ -53,7 +53,7 @@ from realquad.latex import (
     terms,
     text,
 )
-from realquad.textio import terms_text
+from realquad.textio import decimal_digits, terms_text
 
 Point = tuple[int, int]
 
@@ -411,7 +411,10 @@ class CompactOrbitFamily:
             return big, mpmath.log(abs(self.n)) - big
 
     def digits(self, k: int = 0) -> int:
-        """About how many decimal digits ``x`` of the member ``α εᵏ`` has (from the logarithms, ±1)."""
+        """How many decimal digits ``x`` of the member ``α εᵏ`` has: exactly for a fundamental
+        solution written out, else from the logarithms (about, ±1)."""
+        if k == 0 and self.fundamental is not None:
+            return decimal_digits(self.fundamental[0])
         with mpmath.workdps(_LOG_DIGITS + 20):
             top = max(self._logs(k))
             return max(1, int(mpmath.floor((top - mpmath.log(2)) / mpmath.log(10))) + 1)

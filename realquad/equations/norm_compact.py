@@ -236,6 +236,6 @@ def norm_families_infrastructure(
 
 def _family_order(family: CompactOrbitFamily) -> tuple:
     if family.fundamental is None:
-        return (1, float(family.log_generator), 0, 0)
+        return (1, float(max(family._logs(0))), 0, 0)
     x, y = family.fundamental
     return (0, 0.0, gmpy2.mpz(y), gmpy2.mpz(x))

@@ -73,8 +73,34 @@ def _sympy_dn(d: int, n: int) -> Callable[[], Any]:
     return run
 
 
+#: Issue 16: d ≈ 10²⁴, n the product of the 6 least primes that split (2⁶ = 64 ideals to test).
+HUGE_D = 10**24 + 49
+
+
+def _infrastructure(d: int, n: int) -> Callable[[], Any]:
+    def run() -> int:
+        from realquad.infrastructure import principal
+
+        principal._search.cache_clear()  # the regulator search and its table count too
+        return len(solve_norm_equation(d, n).families)
+
+    return run
+
+
 def workloads() -> list[dict[str, Any]]:
-    out: list[dict[str, Any]] = []
+    n6 = 1
+    for p in split_primes(HUGE_D, 6):
+        n6 *= p
+    out: list[dict[str, Any]] = [
+        {
+            "name": f"norm equations: x² − (10²⁴ + 49)y² = {n6} (6 split primes, 64 ideals, infrastructure)",
+            "run": _infrastructure(HUGE_D, n6),
+            "reference": None,
+            "reference_name": None,
+            "repeat": 3,
+            "target": "≤ 60 s (issue 16)",
+        }
+    ]
     for d, sign in LARGE:
         n = sign * twelve_prime_n(d)
         out.append(

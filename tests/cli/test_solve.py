@@ -185,3 +185,40 @@ def test_sizer_summaries_are_exact():
             shown = Sizer(md).text(n)
             assert shown.startswith("−" if n < 0 else text[:1])
             assert (text in shown) if summary is None else (f"{len(text):,} digits" in shown)
+
+
+@pytest.mark.skipif(
+    __import__("realquad._backend")._backend.BACKEND != "compiled",
+    reason="the infrastructure's giant steps run compiled (the pure twin would take minutes)",
+)
+def test_compact_families_json_and_text(capsys):
+    from tests.cli.test_json_schema import _validate
+
+    d = 10**24 + 49
+    equation = f"x^2 - {d}y^2 = {1 - d}"  # (±1, ±1) solve it, the other classes are huge
+    data = run_json(capsys, "solve", equation, "--bound", "10^20", "--member", "1")
+    _validate("solve", data)
+    assert data["proof"] == "unconditional" and data["method"].startswith("principal ideal test")
+    assert {(p["x"], p["y"]) for p in data["solutions"]} == {(1, 1), (1, -1), (-1, 1), (-1, -1)}
+    kinds = {f["kind"] for f in data["families"]}
+    assert kinds == {"compact_orbit"}
+    small = [f for f in data["families"] if f["fundamental"] is not None]
+    assert sorted((f["fundamental"]["x"], f["fundamental"]["y"]) for f in small) == [
+        (-1, 1),
+        (1, 1),
+    ]
+    for fam in data["families"]:
+        assert fam["compact"]["norm"] == 1 - d and fam["unit_compact"]["norm"] == 1
+        assert fam["member"]["x"] is None and fam["member"]["digits"] > 10**11
+    code, out, _ = run(capsys, "solve", f"x^2 - {d}y^2 = 5")
+    assert code == 0
+    assert "in compact form" in out and "t of about" in out
+
+
+def test_refusal_beyond_reach_is_one_line_and_quick(capsys):
+    import time
+
+    start = time.perf_counter()
+    code, _, err = run(capsys, "solve", f"x^2 - {10**60 + 7}y^2 = 3")
+    assert code == 2 and err.startswith("realquad: error:") and err.count("\n") == 1
+    assert time.perf_counter() - start < 1.0
