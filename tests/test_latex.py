@@ -17,7 +17,7 @@ from types import ModuleType
 import mpmath
 import pytest
 import sympy
-from hypothesis import given
+from hypothesis import example, given
 from hypothesis import strategies as st
 from sympy.ntheory.continued_fraction import continued_fraction_periodic
 
@@ -27,8 +27,10 @@ from realquad.classgroup import class_group
 from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.core.numbers import QuadraticNumber
+from realquad.equations.conics import solve_quadratic
 from realquad.equations.norm import solve_norm_equation
 from realquad.equations.pell import pell
+from realquad.errors import RealquadError
 from realquad.splitting import form_primes
 from realquad.units import fundamental_unit, unit_group
 from tests.latex_support import (
@@ -340,3 +342,74 @@ def test_the_handout(tmp_path: Path) -> None:
     document = handout.handout()
     (tmp_path / "q79.tex").write_text(document, encoding="utf-8")
     compile_document(tmp_path / "q79.tex")
+
+
+# -- any equation: the solutions read back from the LaTeX are the brute-force ones -----------
+
+
+def _column(text: str) -> tuple[int, ...]:
+    return tuple(int(v) for v in re.findall(r"-?\d+", text))
+
+
+def _read_solutions(out: str, box: int) -> set[tuple[int, int]]:
+    """Every solution in the box that the LaTeX of an equation's solutions describes."""
+    found: set[tuple[int, int]] = set()
+    t, k = sympy.symbols("t k")
+    body = out.removeprefix(r"\begin{gathered}").removesuffix(r"\end{gathered}")
+    for row in body.split("\\\\\n"):
+        listed = re.search(r"\(x, y\) \\in \\\{(.*)\\\}$", row)
+        if listed:
+            found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", listed[1])}
+        elif row.startswith("(x, y) = ("):
+            X, Y = row.removeprefix("(x, y) = (").split(r"),\quad t")[0].split(", ")
+            for j in range(-4 * box, 4 * box + 1):
+                found.add((int(to_sympy(X, t=t).subs(t, j)), int(to_sympy(Y, t=t).subs(t, j))))
+        elif row.startswith("x + y"):
+            d = int(re.match(r"x \+ y\\sqrt\{(-?\d+)\}", row)[1])  # type: ignore[index]
+            found |= _members(row, d, 10**9)
+        elif row.startswith(r"\begin{pmatrix} x \\ y \end{pmatrix}"):
+            M = re.search(r"T\(v\) = \\begin\{pmatrix\}(.*?)\\end\{pmatrix\}v", row)
+            shift = re.search(r"v \+ \\begin\{pmatrix\}(.*?)\\end\{pmatrix\}", row)
+            start = re.search(r"T\^\{k\}\\begin\{pmatrix\}(.*?)\\end\{pmatrix\}", row)
+            mirror = re.search(
+                r"\\text\{or\}\\ (?:\\begin\{pmatrix\}(.*?)\\end\{pmatrix\} )?-T", row
+            )
+            assert M and start
+            a, b, c, e = _column(M[1])
+            s1, s2 = _column(shift[1]) if shift else (0, 0)
+            for step in (sympy.Matrix([[a, b], [c, e]]), sympy.Matrix([[a, b], [c, e]]).inv()):
+                p = sympy.Matrix(_column(start[1]))
+                v = sympy.Matrix([s1, s2])
+                shift_step = v if step[0, 0] == a and step[0, 1] == b else -step * v
+                for _ in range(12):
+                    found.add((int(p[0]), int(p[1])))
+                    if mirror:
+                        twice = _column(mirror[1]) if mirror[1] else (0, 0)
+                        found.add((twice[0] - int(p[0]), twice[1] - int(p[1])))
+                    p = step * p + shift_step
+        else:
+            assert row.endswith(":") or "has no integer solution" in row, row
+    return {(x, y) for x, y in found if abs(x) <= box and abs(y) <= box}
+
+
+@given(st.lists(st.integers(-4, 4), min_size=6, max_size=6))
+@example([1, 0, -2, 0, 0, 1])  # x² − 2y² = −1: a norm equation, x + y√2 = ±(1 + √2)(3 + 2√2)^k
+@example([1, -2, 1, -1, 0, 0])  # (x − y)² = x: a parabola
+@example([0, 1, 0, 1, 1, 0])  # xy + x + y = 0: (x + 1)(y + 1) = 1, finitely many
+@example([1, 0, -4, 0, 0, -5])  # x² − 4y² = 5: the square case
+def test_any_equation_reads_back_as_its_solutions(coefficients: list[int]) -> None:
+    a, b, c, d, e, f = coefficients
+    try:
+        solutions = solve_quadratic(a, b, c, d, e, f)
+    except RealquadError:
+        return  # refused inputs (no x and y, every pair a solution, …) have no LaTeX
+    out = solutions.to_latex()
+    check_latex(out)
+    box = 25
+    expected = {
+        (x, y)
+        for x in range(-box, box + 1)
+        for y in range(-box, box + 1)
+        if a * x * x + b * x * y + c * y * y + d * x + e * y + f == 0
+    }
+    assert _read_solutions(out, box) == expected

@@ -174,7 +174,8 @@ class OrbitFamily:
         x + y\sqrt{2} = \pm\left(3 + 2\sqrt{2}\right)^{k},\quad k \in \mathbb{Z}
         """
         zero = self.center == (0, 0)
-        if self.unit is not None and (zero or not self.reflection):
+        if self._multiplies() and (zero or not self.reflection):
+            assert self.unit is not None
             t, u, D = self.unit
             x0, y0 = self.fundamental
             first = surd(x0, y0, 1, D, max_digits)
@@ -188,12 +189,20 @@ class OrbitFamily:
         orbit = rf"T^{{k}}{start}"
         if self.reflection:
             twice = (int(2 * self.center[0]), int(2 * self.center[1]))
-            orbit += rf"\ {text('or')}\ {matrix(twice, max_digits)} - T^{{k}}{start}"
+            mirror = "" if zero else matrix(twice, max_digits) + " "
+            orbit += rf"\ {text('or')}\ {mirror}-T^{{k}}{start}"
         M, shift = self.automorph.matrix, self.automorph.translation
         T = rf"T(v) = {matrix(M, max_digits)}v"
         if shift != (0, 0):
             T += f" + {matrix(shift, max_digits)}"
         return rf"\begin{{pmatrix}} x \\ y \end{{pmatrix}} = {orbit},\quad k \in \mathbb{{Z}},\quad {T}"
+
+    def _multiplies(self) -> bool:
+        """Whether the automorph is multiplication by ``t + u√D`` on ``x + y√D`` (``unit``)."""
+        if self.unit is None:
+            return False
+        t, u, D = self.unit
+        return self.automorph == AffineMap((t, u * D, u, t))
 
     def mirror(self, v: Point) -> Point:
         """``2C − v``, the point reflection through the centre."""
