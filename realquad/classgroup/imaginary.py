@@ -38,12 +38,17 @@ D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §2–3 and §7.
 
 from __future__ import annotations
 
-from functools import partial
+from functools import lru_cache, partial
 
 from realquad._backend import call_kernel
 from realquad.classgroup.group import ClassGroup, ClassTable, Triple, forms_from_vectors
 from realquad.core.integers import isqrt
-from realquad.core.linalg import SmithForm, invariants_from_primary, smith_normal_form
+from realquad.core.linalg import (
+    SmithForm,
+    invariants_from_primary,
+    smith_normal_form,
+    triangular_invariants,
+)
 from realquad.core.orders import Order
 from realquad.core.primes import factorize, primes_below
 from realquad.core.progress import Progress
@@ -159,7 +164,7 @@ def class_invariants_from_class_number(
     _check_reach(D)
     primes = _generator_primes(D) if primes is None else primes
     powers: dict[int, list[int]] = {}
-    for p, e in factorize(class_number).items():
+    for p, e in _prime_powers(class_number):
         q = p**e
         if e == 1:
             powers[p] = [p]
@@ -172,8 +177,14 @@ def class_invariants_from_class_number(
                 f"internal check failed: the {p}-Sylow subgroup of Cl({D}) does not have {q} classes"
             )
         _, generators, relations = found
-        powers[p] = smith_normal_form(relations, len(generators)).invariants
+        powers[p] = triangular_invariants(relations)
     return invariants_from_primary(powers)
+
+
+@lru_cache(maxsize=65536)
+def _prime_powers(n: int) -> tuple[tuple[int, int], ...]:
+    """``factorize(n)`` as pairs (class numbers repeat: cached)."""
+    return tuple(factorize(n).items())
 
 
 def class_group_imaginary(

@@ -11,16 +11,31 @@ form ``r₃(n) = 12·(H(4n) − 2·H(n))`` with the Hurwitz class numbers ``H``
 * ``m ≡ 3 (mod 8)``: ``D = −m`` is fundamental, ``H(m) = h(−m)`` and
   ``H(4m) = h(−4m) + h(−m) = 4·h(−m)`` (the order of conductor 2 has
   ``h(−4m) = (2 − (D/2))·h(−m) = 3·h(−m)``), so ``h(−m) = r₃(m)/24``;
-* ``m ≡ 7 (mod 8)``: ``r₃(m) = 0`` and the series says nothing: the fields
-  with ``D ≡ 1 (mod 8)``, a third of all, need another method (the survey
-  takes them one by one).
+* ``m ≡ 7 (mod 8)`` (``D = −m ≡ 1 (mod 8)``, a third of all fields):
+  ``r₃(m) = 0`` and the sum of three squares says nothing. Three other
+  ternary forms take over, each the direct sum of a binary form and ``qz²``,
+
+  ``Q₃ = x² + xy + y² + 3z²``, ``Q₅ = 2x² + 2xy + 3y² + 5z²``,
+  ``Q₇ = x² + xy + 2y² + 7z²``,
+
+  the norm forms on the trace-zero part of the (Gross) lattices of the
+  maximal orders of the quaternion algebras ramified at ``q`` and ``∞``;
+  those algebras have class number one (from memory: exactly for
+  ``q = 2, 3, 5, 7, 13``), their genus is one class and Siegel's formula
+  gives ``r_Q(m) = k_q·(1 − (−m/q))·h(−m)`` with ``k₃ = 12``, ``k₅ = k₇ = 4``
+  for squarefree ``m ≡ 7 (mod 8)``, ``m > 3``. The first ``q`` with
+  ``(−m/q) ≠ 1`` gives ``h(−m)``; the fields in which 3, 5 and 7 all split
+  (one in eight of them) are left to another method (the survey takes them
+  one by one). The constants are checked in the tests against the reduced
+  forms for every such ``m`` up to ``2·10⁵``.
 
 The small fields: ``r₃(1) = 6`` (``D = −4``, ``w = 4``, ``h = 1``),
 ``r₃(3) = 8`` (``D = −3``, ``w = 6``, ``h = 1``).
 
 **Method.** ``θ(q)³`` to ``q^N`` by two products of polynomials with the
 fast Fourier transform in binary64 (``θ²`` rounded to integers, then
-``θ²·θ``); every coefficient is rounded to the nearest integer and the
+``θ²·θ``), the binary forms' series by listing their values and each
+``Q_q`` by one more product; every coefficient is rounded to the nearest integer and the
 computation is refused if any lies farther than ``1/4`` from one — the
 values are integers below ``10⁷`` and the transforms' errors are of the order
 ``10⁻¹⁰``, so the rounding is exact; the result is unconditional. The work
@@ -28,9 +43,9 @@ is ``O(N log N)`` for all ``N`` coefficients at once, against about ``√|D|``
 compositions per field for the reduced forms.
 
 >>> h = theta_class_numbers(-100)
->>> [h[D] for D in (-3, -4, -8, -11, -19, -20, -24, -35, -84)]
-[1, 1, 1, 1, 1, 2, 2, 2, 4]
->>> -23 in h   # D ≡ 1 (mod 8): not given by the series
+>>> [h[D] for D in (-3, -4, -8, -11, -19, -20, -23, -24, -35, -84)]
+[1, 1, 1, 1, 1, 2, 3, 2, 2, 4]
+>>> -311 in theta_class_numbers(-320)   # 3, 5, 7 all split in Q(√−311): not given
 False
 >>> three_square_counts(10).tolist()
 [1, 6, 12, 8, 6, 24, 24, 0, 12, 30, 24]
@@ -44,6 +59,8 @@ A005875, the Hurwitz class numbers ``12·H(n)`` OEIS A259825.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from realquad.errors import TooLargeError
@@ -51,7 +68,10 @@ from realquad.errors import TooLargeError
 #: Largest ``N = |D|`` (for ``D = −4m``: ``m``) the series is computed to (memory: about 80·N bytes).
 MAX_TERMS = 2 * 10**8
 
-METHOD = "sums of three squares (θ(q)³ by fast Fourier transform, Gauss's class number relation)"
+METHOD = (
+    "theta series of x² + y² + z² and of three ternary forms of class number one (fast Fourier "
+    "transform), Gauss's and Siegel's class number relations"
+)
 
 
 def three_square_counts(n_max: int) -> np.ndarray:
@@ -85,39 +105,103 @@ def _rounded(values: np.ndarray) -> np.ndarray:
     return rounded
 
 
-def class_number_from_counts(D: int, counts: np.ndarray) -> int | None:
-    """``h(D)`` for a fundamental ``D < 0`` from ``r₃`` (``counts``), or ``None`` when ``D ≡ 1 (mod 8)``.
+#: ``(q, (a, b, c), k_q)``: ``Q_q = ax² + bxy + cy² + qz²`` and its constant (module notes).
+TERNARY_FORMS = ((3, (1, 1, 1), 12), (5, (2, 2, 3), 4), (7, (1, 1, 2), 4))
 
-    ``counts`` must reach ``|D|/4`` for even ``D`` and ``|D|`` for odd ``D``.
+
+def binary_theta(a: int, b: int, c: int, n_max: int) -> np.ndarray:
+    """The number of ``(x, y)`` with ``ax² + bxy + cy² = n``, ``0 ≤ n ≤ n_max`` (positive definite form).
+
+    >>> binary_theta(1, 1, 1, 12).tolist()   # OEIS A004016: 6·Σ_{d|n} (d/3)
+    [1, 6, 0, 6, 6, 0, 0, 12, 0, 6, 0, 0, 6]
     """
-    if D == -3 or D == -4:
-        return 1
-    if D % 8 == 1:
-        return None
-    if D % 4 == 0:
-        value, parts = int(counts[-D // 4]), 12
-    else:
-        value, parts = int(counts[-D]), 24
+    disc = 4 * a * c - b * b
+    counts = np.zeros(n_max + 1, dtype=np.int64)
+    y_max = int(np.sqrt(4 * a * n_max / disc)) + 1
+    for y in range(-y_max, y_max + 1):
+        # a x² + b y x + (c y² − n) ≤ 0: x between the roots
+        rest = disc * y * y
+        if rest > 4 * a * n_max:
+            continue
+        half = np.sqrt((4 * a * n_max - rest) / (4.0 * a * a))
+        centre = -b * y / (2.0 * a)
+        xs = np.arange(int(np.floor(centre - half)) - 1, int(np.ceil(centre + half)) + 2)
+        values = a * xs * xs + b * y * xs + c * y * y
+        np.add.at(counts, values[(values >= 0) & (values <= n_max)], 1)
+    return counts
+
+
+def _ternary_counts(form: tuple[int, int, int], q: int, n_max: int) -> np.ndarray:
+    """The counts of ``ax² + bxy + cy² + qz²`` up to ``n_max`` (one product by FFT)."""
+    size = 1 << (2 * n_max + 1).bit_length()
+    binary = binary_theta(*form, n_max).astype(float)
+    sparse = np.zeros(n_max + 1)
+    zs = np.arange(1, int(np.sqrt(n_max / q)) + 2, dtype=np.int64)
+    sparse[0] = 1
+    sparse[q * zs[q * zs * zs <= n_max] ** 2] = 2
+    product = np.fft.rfft(binary, size)
+    del binary
+    product *= np.fft.rfft(sparse, size)
+    return _rounded(np.fft.irfft(product, size)[: n_max + 1]).astype(np.int64)
+
+
+@dataclass(frozen=True)
+class ThetaCounts:
+    """The theta series up to ``n_max``: ``r₃`` and the counts of the forms ``Q_q``."""
+
+    n_max: int
+    three_squares: np.ndarray
+    ternary: tuple[np.ndarray, ...]
+
+    def class_number(self, D: int) -> int | None:
+        """``h(D)`` for a fundamental ``-n_max·4 ≤ D < 0`` (``|D| ≤ n_max`` when ``D`` is odd),
+        or ``None`` when ``D ≡ 1 (mod 8)`` and 3, 5, 7 all split in ``Q(√D)``."""
+        if D == -3 or D == -4:
+            return 1
+        if D % 8 == 1:
+            m = -D
+            for (q, _, k), counts in zip(TERNARY_FORMS, self.ternary, strict=True):
+                symbol = 0 if m % q == 0 else (1 if pow(D % q, (q - 1) // 2, q) == 1 else -1)
+                if symbol != 1:
+                    return _quotient(D, int(counts[m]), k * (1 - symbol))
+            return None
+        if D % 4 == 0:
+            return _quotient(D, int(self.three_squares[-D // 4]), 12)
+        return _quotient(D, int(self.three_squares[-D]), 24)
+
+
+def _quotient(D: int, value: int, parts: int) -> int:
     if value % parts or value == 0:
-        raise ArithmeticError(f"internal check failed: r₃ gives no class number for {D}")
+        raise ArithmeticError(
+            f"internal check failed: the theta series give no class number for {D}"
+        )
     return value // parts
 
 
+def theta_counts(n_max: int) -> ThetaCounts:
+    """``r₃`` and the counts of ``Q₃``, ``Q₅``, ``Q₇`` for ``0 ≤ n ≤ n_max``."""
+    return ThetaCounts(
+        n_max,
+        three_square_counts(n_max),
+        tuple(_ternary_counts(form, q, n_max) for q, form, _ in TERNARY_FORMS),
+    )
+
+
 def theta_class_numbers(D_min: int, D_max: int = -3) -> dict[int, int]:
-    """``h(D)`` for every fundamental ``D`` with ``D_min ≤ D ≤ D_max < 0`` and ``D ≢ 1 (mod 8)``.
+    """``h(D)`` for every fundamental ``D`` with ``D_min ≤ D ≤ D_max < 0`` that the series give.
 
     >>> sorted(theta_class_numbers(-30, -20).items())
-    [(-24, 2), (-20, 2)]
+    [(-24, 2), (-23, 3), (-20, 2)]
     """
     if D_max >= 0 or D_min > D_max:
         return {}
-    counts = three_square_counts(-D_min)
+    counts = theta_counts(-D_min)
     squarefree = _squarefree_flags(-D_min)
     found: dict[int, int] = {}
     for D in range(D_max, D_min - 1, -1):
         m = -D if D % 4 else -D // 4
-        if (D % 4 == 1 or (D % 4 == 0 and m % 4 in (1, 2))) and squarefree[m] and D % 8 != 1:
-            h = class_number_from_counts(D, counts)
+        if (D % 4 == 1 or (D % 4 == 0 and m % 4 in (1, 2))) and squarefree[m]:
+            h = counts.class_number(D)
             if h is not None:
                 found[D] = h
     return found

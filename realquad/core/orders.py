@@ -95,6 +95,21 @@ class Order:
         object.__setattr__(self, "discriminant", check_discriminant(self.discriminant))
 
     @classmethod
+    def from_conductor(cls, fundamental: int, conductor: int = 1) -> Order:
+        """The order of conductor ``f`` in the field of fundamental discriminant ``D₀``, unfactored.
+
+        For callers that know ``D₀`` is fundamental (a survey sieved it): the
+        decomposition of ``D = D₀f²`` is taken as given instead of factoring
+        ``D``.
+
+        >>> Order.from_conductor(-20, 3) == Order(-180), Order.from_conductor(-20, 3).conductor
+        (True, 3)
+        """
+        order = cls(fundamental * conductor * conductor)
+        order.__dict__["_decomposition"] = (fundamental, conductor)  # the cached property's value
+        return order
+
+    @classmethod
     def of(cls, order: Order | int) -> Order:
         """``order`` itself, or the order of discriminant ``order``.
 

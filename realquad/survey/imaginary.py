@@ -8,13 +8,15 @@ columns are empty.
 **Two routes, both exact and unconditional.**
 
 * *Batch* (a run computes it once for all its chunks, :func:`with_class_numbers`):
-  for ``D ≢ 1 (mod 8)`` the class numbers of every field up to ``|D|`` come
-  at once from the sums of three squares (:mod:`realquad.classgroup.theta`);
+  the class numbers of every field up to ``|D|`` come at once from theta
+  series (:mod:`realquad.classgroup.theta`: the sums of three squares for
+  ``D ≢ 1 (mod 8)``, three other ternary forms for ``D ≡ 1 (mod 8)`` unless
+  3, 5 and 7 all split);
   with ``h`` known, the structure needs only the Sylow subgroups of order
   ``p^e``, ``e ≥ 2``, walked alone
   (:func:`~realquad.classgroup.imaginary.class_invariants_from_class_number`).
-* *Field by field*: for ``D ≡ 1 (mod 8)`` (where the series says nothing),
-  and for every field when the batch is not used, the whole class group by
+* *Field by field*: for the fields the series do not give (``D ≡ 1 (mod 8)``
+  with 3, 5, 7 split, about one in 24), and for every field when the batch is not used, the whole class group by
   its reduced forms (:mod:`realquad.classgroup.imaginary`).
 
 >>> rows = imaginary_fields([-1, -3, -5, -14, -23])
@@ -22,9 +24,9 @@ columns are empty.
 [(-4, 1, '[]', 4), (-3, 1, '[]', 6), (-20, 2, '[2]', 2), (-56, 4, '[4]', 2), (-23, 3, '[3]', 2)]
 >>> rows[2].unit_norm, rows[2].regulator, rows[2].proof
 (None, None, 'unconditional')
->>> chunk = with_class_numbers([Chunk("d", -30, -21)])[0]
->>> chunk.radicands(), chunk.class_numbers    # −23 ≡ 1 (mod 8): 0, field by field
-([-30, -29, -26, -23, -22, -21], (4, 6, 6, 0, 2, 4))
+>>> chunk = with_class_numbers([Chunk("d", -314, -308)])[0]
+>>> chunk.radicands(), chunk.class_numbers    # 3, 5 and 7 split in Q(√−311): 0, field by field
+([-314, -313, -311, -310, -309], (26, 8, 0, 8, 12))
 
 References: A. S. Mosunov and M. J. Jacobson Jr., "Unconditional class group
 tabulation of imaginary quadratic fields to |Δ| < 2⁴⁰", *Math. Comp.* 85
@@ -45,10 +47,10 @@ from realquad.classgroup.imaginary import (
     class_invariants_from_class_number,
     class_relations_imaginary,
 )
-from realquad.classgroup.theta import MAX_TERMS, class_number_from_counts, three_square_counts
+from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
 from realquad.core.integers import isqrt
-from realquad.core.linalg import smith_normal_form
+from realquad.core.linalg import triangular_invariants
 from realquad.core.orders import Order
 from realquad.core.primes import primes_below
 from realquad.survey.compute import FieldRecord
@@ -83,13 +85,13 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
     rows = []
     for d, h in zip(ds, known, strict=True):
         D = _discriminant(d)
-        order = Order(D)
+        order = Order.from_conductor(D)  # D is fundamental: the range sieved it
         if h:
             invariants = class_invariants_from_class_number(order, h, primes)
             method = METHOD_BATCH
         else:
-            h, generators, relations = class_relations_imaginary(order, primes=primes)
-            invariants = smith_normal_form(relations, len(generators)).invariants
+            h, _, relations = class_relations_imaginary(order, primes=primes)
+            invariants = triangular_invariants(relations)
             method = METHOD_ALONE
         text = json.dumps(invariants)
         rows.append(
@@ -130,13 +132,8 @@ def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
     largest = max((-_discriminant(d) for ds in radicands for d in ds), default=0)
     if largest == 0 or largest > MAX_TERMS:
         return chunks
-    counts = three_square_counts(largest)
+    counts = theta_counts(largest)
     return [
-        replace(
-            chunk,
-            class_numbers=tuple(
-                class_number_from_counts(_discriminant(d), counts) or 0 for d in ds
-            ),
-        )
+        replace(chunk, class_numbers=tuple(counts.class_number(_discriminant(d)) or 0 for d in ds))
         for chunk, ds in zip(chunks, radicands, strict=True)
     ]
