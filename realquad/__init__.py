@@ -7,6 +7,7 @@ the package's ``__init__`` choosing among the methods beneath it
 * :mod:`realquad.cfrac` — continued fractions;
 * :mod:`realquad.units` — fundamental units and regulators, roots of unity;
 * :mod:`realquad.classgroup` — class numbers and class groups;
+* :mod:`realquad.formclasses` — reduce, compare, compose, power, cycle and locate forms;
 * :mod:`realquad.splitting` — decomposition of primes and their classes; which primes a
   form represents; ring class polynomials;
 * :mod:`realquad.equations` — Pell, norm, binary-form and general quadratic equations;
@@ -48,6 +49,20 @@ from realquad.equations import (
     solve_quadratic,
 )
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
+from realquad.formclasses import (
+    FormClass,
+    FormComposition,
+    FormCycle,
+    FormEquivalence,
+    FormPower,
+    FormReduction,
+    compose_forms,
+    equivalence,
+    form_class,
+    form_cycle,
+    form_power,
+    reduce_form,
+)
 from realquad.splitting import (
     ClassPolynomial,
     FormPrimes,
@@ -71,7 +86,13 @@ __all__ = [
     "ContinuedFraction",
     "DomainError",
     "Form",
+    "FormClass",
+    "FormComposition",
+    "FormCycle",
+    "FormEquivalence",
+    "FormPower",
     "FormPrimes",
+    "FormReduction",
     "Ideal",
     "InputError",
     "NormEquationSolution",
@@ -89,16 +110,22 @@ __all__ = [
     "UnitGroup",
     "class_group",
     "class_numbers",
+    "compose_forms",
     "continued_fraction",
     "convergents",
     "decompose_prime",
+    "equivalence",
     "field",
+    "form_class",
+    "form_cycle",
+    "form_power",
     "form_primes",
     "from_periodic",
     "fundamental_unit",
     "kronecker",
     "parse_equation",
     "pell",
+    "reduce_form",
     "regulator",
     "representation_criterion",
     "represents_prime",
