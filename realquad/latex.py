@@ -7,8 +7,9 @@ here: integers, with those longer than ``max_digits`` summarised by their
 ends and their length as on the terminal (:func:`integer`); surds
 (:func:`surd`); forms (:func:`form`); finite abelian groups as products of
 cyclic groups (:func:`group`); continued fractions with the period under a bar
-(:func:`continued_fraction`); 2×2 matrices (:func:`matrix`). The LaTeX uses
-plain LaTeX and ``amsmath`` only, and is ASCII (Unicode stays in the notes).
+(:func:`continued_fraction`); 2×2 matrices (:func:`matrix`); tables
+(:func:`table`). The LaTeX needs ``amsmath`` and ``amssymb`` (for
+``\\mathbb{Z}``) and nothing else, and is ASCII (Unicode stays in the notes).
 
 >>> surd(1, 1, 2, 5)
 '\\\\frac{1 + \\\\sqrt{5}}{2}'
@@ -24,7 +25,7 @@ C_{2} \\times C_{6} [4; \\overline{1, 3, 1, 8}]
 from __future__ import annotations
 
 import html
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from typing import Any
 
 from realquad.textio import integer_summary, summarise_numbers, terms_text, to_decimal
@@ -33,6 +34,8 @@ from realquad.textio import integer_summary, summarise_numbers, terms_text, to_d
 MAX_DIGITS = 1000
 #: The most terms (partial quotients, solutions) written in full by default.
 MAX_TERMS = 1000
+#: Points ``(x, y)`` written on one line; a longer set is named and written over rows.
+POINTS_PER_ROW = 6
 
 
 def integer(n: int, max_digits: int = MAX_DIGITS) -> str:
@@ -125,6 +128,49 @@ def sequence(items: Sequence[int], max_terms: int, max_digits: int = MAX_DIGITS)
     shown = list(items if max_terms == 0 else items[:max_terms])
     text = ", ".join(integer(a, max_digits) for a in shown)
     return text + (r", \ldots" if len(shown) < len(items) else "")
+
+
+def set_rows(name: str, cells: Sequence[str], per_row: int, total: int | None = None) -> list[str]:
+    r"""``name = \{c_1, c_2, …\}`` over as many rows as it needs, ``per_row`` cells a row.
+
+    ``total`` (when the cells are the first of more) ends the set with ``\ldots`` and the count.
+
+    >>> set_rows("R", ["1", "5", "9", "13", "21"], 3)
+    ['R = \\{1, 5, 9,', '13, 21\\}']
+    """
+    cells = list(cells)
+    if total is not None and total > len(cells):
+        cells.append(rf"\ldots\ ({total}\text{{ in all}})")
+    rows = [", ".join(cells[i : i + per_row]) for i in range(0, len(cells), per_row)] or [""]
+    rows[0] = rf"{name} = \{{" + rows[0]
+    rows[-1] += r"\}"
+    return [row + ("," if i < len(rows) - 1 else "") for i, row in enumerate(rows)]
+
+
+def named_set(
+    name: str,
+    items: Sequence[Any],
+    write: Callable[[Any], str],
+    per_row: int,
+    max_terms: int = MAX_TERMS,
+) -> tuple[str, list[str]]:
+    r"""A set written in place when it fits on a row, else by its ``name`` and :func:`set_rows`.
+
+    Returns ``(what to write in place, the rows that define the name)``; at
+    most ``max_terms`` items are written (0: all).
+
+    >>> named_set("S", [(1, 0), (-1, 0)], point, 6)
+    ('\\{(1, 0), (-1, 0)\\}', [])
+    >>> named_set("S", list(range(5)), str, 3)
+    ('S', ['S = \\{0, 1, 2,', '3, 4\\}'])
+    """
+    if not items:
+        return r"\emptyset", []
+    shown = list(items if max_terms == 0 else items[:max_terms])
+    cells = [write(item) for item in shown]
+    if len(cells) <= per_row and len(shown) == len(items):
+        return r"\{" + ", ".join(cells) + r"\}", []
+    return name, set_rows(name, cells, per_row, len(items))
 
 
 def continued_fraction(
@@ -376,6 +422,12 @@ class Display:
 
     A result type defines ``to_latex(max_digits)``; its note says its
     ``method`` and ``proof`` when it has them (values such as forms have none).
+
+    >>> from realquad.core.forms import Form
+    >>> Form(1, 0, 5)._repr_latex_()
+    '$$x^{2} + 5y^{2}$$'
+    >>> Form(1, 0, 5)._repr_html_()
+    '<div class="realquad">$$x^{2} + 5y^{2}$$</div>'
     """
 
     __slots__ = ()
@@ -396,6 +448,7 @@ class Display:
         return display(self.to_latex(max_digits), self.latex_note())
 
     def _repr_latex_(self) -> str:
+        """``$$ … $$`` with the note on a last line (IPython's ``text/latex``)."""
         body = self.to_latex()
         note = self.latex_note()
         if note:
@@ -403,6 +456,7 @@ class Display:
         return f"$${body}$$"
 
     def _repr_html_(self) -> str:
+        """The same formula for an HTML renderer that typesets ``$$ … $$``, the note beneath."""
         note = self.latex_note()
         out = f'<div class="realquad">$${html.escape(self.to_latex())}$$'
         if note:

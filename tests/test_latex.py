@@ -356,9 +356,15 @@ def _read_solutions(out: str, box: int) -> set[tuple[int, int]]:
     found: set[tuple[int, int]] = set()
     t, k = sympy.symbols("t k")
     body = out.removeprefix(r"\begin{gathered}").removesuffix(r"\end{gathered}")
+    in_set = False
     for row in body.split("\\\\\n"):
         listed = re.search(r"\(x, y\) \\in \\\{(.*)\\\}$", row)
-        if listed:
+        if row.startswith("S = \\{") or in_set:  # a set too long for one row, over rows
+            found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", row)}
+            in_set = not row.endswith("\\}")
+        elif row.endswith(r"(x, y) \in S"):
+            continue
+        elif listed:
             found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", listed[1])}
         elif row.startswith("(x, y) = ("):
             X, Y = row.removeprefix("(x, y) = (").split(r"),\quad t")[0].split(", ")
@@ -397,6 +403,7 @@ def _read_solutions(out: str, box: int) -> set[tuple[int, int]]:
 @example([1, -2, 1, -1, 0, 0])  # (x − y)² = x: a parabola
 @example([0, 1, 0, 1, 1, 0])  # xy + x + y = 0: (x + 1)(y + 1) = 1, finitely many
 @example([1, 0, -4, 0, 0, -5])  # x² − 4y² = 5: the square case
+@example([1, 0, 1, 0, 0, -25])  # x² + y² = 25: twelve points, a set over two rows
 def test_any_equation_reads_back_as_its_solutions(coefficients: list[int]) -> None:
     a, b, c, d, e, f = coefficients
     try:

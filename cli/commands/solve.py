@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import re
+from functools import partial
 from typing import Any
 
 import click
@@ -32,7 +33,7 @@ from realquad.equations.families import (
 )
 from realquad.equations.parser import parse_equation
 from realquad.errors import InputError
-from realquad.latex import MAX_TERMS, display, integer, point, points, text
+from realquad.latex import POINTS_PER_ROW, display, integer, named_set, point, text
 from realquad.latex import lines as lines_latex
 from realquad.textio import plural, terms_text
 
@@ -225,6 +226,7 @@ def solution_latex(
         ]
         rows.append(f"k = {integer(members[0]['k'])}:\\quad " + ",\\ ".join(shown))
     if bound is not None:
-        box = points(sol.bounded(bound), MAX_TERMS, max_digits)
-        rows.append(rf"|x|, |y| \le {integer(bound, max_digits)}:\quad (x, y) \in {box}")
+        write = partial(point, max_digits=max_digits)
+        box, defining = named_set("B", sol.bounded(bound), write, POINTS_PER_ROW)
+        rows += [rf"|x|, |y| \le {integer(bound, max_digits)}:\quad (x, y) \in {box}", *defining]
     return display(lines_latex(rows), sol.latex_note())

@@ -30,6 +30,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
+from functools import partial
 from math import floor
 
 import mpmath
@@ -42,12 +43,14 @@ from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import (
     MAX_DIGITS,
     MAX_TERMS,
+    POINTS_PER_ROW,
     Display,
     brief_repr,
     lines,
     matrix,
+    named_set,
     parenthesised,
-    points,
+    point,
     sqrt,
     surd,
     terms,
@@ -593,16 +596,22 @@ class QuadraticSolutions(Display):
         >>> s = QuadraticSolutions((1, 0, 1, 0, 0, -25), True, [], [(-5, 0), (5, 0)], "demo")
         >>> print(s.to_latex())
         x^{2} + y^{2} - 25 = 0:\quad (x, y) \in \{(-5, 0), (5, 0)\}
+        >>> print(QuadraticSolutions((1, 0, 1, 0, 0, -25), True, [], [(-5, 0), (-4, -3), (-4, 3),
+        ...     (-3, -4), (-3, 4), (0, -5), (0, 5), (3, -4)], "demo").to_latex())
+        \begin{gathered}x^{2} + y^{2} - 25 = 0:\quad (x, y) \in S\\
+        S = \{(-5, 0), (-4, -3), (-4, 3), (-3, -4), (-3, 4), (0, -5),\\
+        (0, 5), (3, -4)\}\end{gathered}
         """
         first = self.equation_latex(max_digits)
         if self.finite and not self.solutions:
             return rf"{first}\quad {text('has no integer solution')}"
+        write = partial(point, max_digits=max_digits)
+        S, defining = named_set("S", self.solutions, write, POINTS_PER_ROW, max_terms)
         if self.finite:
-            return rf"{first}:\quad (x, y) \in {points(self.solutions, max_terms, max_digits)}"
+            return lines([rf"{first}:\quad (x, y) \in {S}", *defining])
         rows = [first + ":"] + [family.to_latex(max_digits) for family in self.families]
         if self.solutions:
-            others = points(self.solutions, max_terms, max_digits)
-            rows.append(rf"{text('and')}\ (x, y) \in {others}")
+            rows += [rf"{text('and')}\ (x, y) \in {S}", *defining]
         return lines(rows)
 
     def satisfies(self, x: int, y: int) -> bool:

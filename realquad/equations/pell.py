@@ -27,6 +27,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from fractions import Fraction
+from functools import partial
 
 import mpmath
 
@@ -42,15 +43,15 @@ from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.table import compiled_table
 from realquad.latex import (
     MAX_DIGITS,
-    MAX_TERMS,
+    POINTS_PER_ROW,
     Display,
     brief_repr,
     fraction,
     integer,
     lines,
+    named_set,
     parenthesised,
     point,
-    points,
     sqrt,
     surd,
     terms,
@@ -164,8 +165,9 @@ class PellSolution(Display):
         equation = terms([(1, "x^{2}"), (-self.d, "y^{2}")], max_digits)
         equation += f" = {integer(self.norm)}"
         if self.finite_solutions is not None:
-            found = points(self.finite_solutions, MAX_TERMS, max_digits)
-            return rf"{equation},\quad x, y \ge 0:\quad (x, y) \in {found}"
+            write = partial(point, max_digits=max_digits)
+            S, defining = named_set("S", self.finite_solutions, write, POINTS_PER_ROW)
+            return lines([rf"{equation},\quad x, y \ge 0:\quad (x, y) \in {S}", *defining])
         if not self.solvable:
             return rf"{equation}\quad {text('has no integer solution')}"
         r = sqrt(self.d, max_digits)

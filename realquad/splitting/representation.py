@@ -52,6 +52,7 @@ force in tests/splitting): D. A. Cox, *Primes of the Form x² + ny²*, Wiley 198
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import partial
 from math import gcd, lcm
 
 import gmpy2
@@ -73,6 +74,7 @@ from realquad.latex import (
     brief_repr,
     integer,
     lines,
+    named_set,
     point,
     sequence,
     text,
@@ -80,6 +82,11 @@ from realquad.latex import (
 from realquad.splitting.class_polynomial import ClassPolynomial, ring_class_polynomial
 from realquad.splitting.decomposition import decompose_prime
 from realquad.textio import signed
+
+#: Residues of the criterion written on one line of its LaTeX; more go into a set over rows.
+RESIDUES_PER_ROW = 12
+#: Primes with their ``(x, y)`` written on one line of the LaTeX.
+VALUES_PER_ROW = 4
 
 #: Why a prime is or is not represented.
 REASONS = ("represented", "inert", "divides_conductor", "other_class")
@@ -252,9 +259,14 @@ class RepresentationCriterion(Display):
         p \mid -20:\quad p = F(x, y) \iff p \in \{5\}\end{gathered}
         """
         D = integer(self.discriminant, max_digits)
-        if self.residues is not None:
-            shown = sequence(self.residues, max_terms)
-            condition = rf"p \equiv {shown} \pmod{{{integer(self.modulus, max_digits)}}}"
+        modulus = integer(self.modulus, max_digits)
+        residue_rows: list[str] = []
+        if self.residues is not None and len(self.residues) > RESIDUES_PER_ROW:
+            write = partial(integer, max_digits=max_digits)
+            R, residue_rows = named_set("R", self.residues, write, RESIDUES_PER_ROW, max_terms)
+            condition = rf"p \bmod {modulus} \in {R}"
+        elif self.residues is not None:
+            condition = rf"p \equiv {sequence(self.residues, max_terms)} \pmod{{{modulus}}}"
         else:
             condition = ",\\ ".join(f"{_character_latex(n)} = {v}" for n, v in self.characters)
         arrow = r"\iff" if self.exact else r"\implies"
@@ -270,7 +282,7 @@ class RepresentationCriterion(Display):
             legendre = rf"\left(\frac{{{D}}}{{p}}\right) = 1"
             condition = rf"{legendre},\ {condition},\ H(X) \bmod p\ {split}"
             rows.append(rf"H(X) = {self.polynomial.to_latex(max_digits).split(' = ', 1)[1]}")
-        rows.insert(0, rf"{where}:\quad p = F(x, y) {arrow} {condition}")
+        rows[0:0] = [rf"{where}:\quad p = F(x, y) {arrow} {condition}", *residue_rows]
         dividing = r"\{" + sequence(self.dividing_represented, 0) + r"\}"
         if not self.dividing_represented:
             dividing = r"\emptyset"
@@ -472,7 +484,7 @@ class FormPrimes(Display):
         >>> print(form_primes(Form(1, 0, 5), 10, criterion=False).to_latex())
         \begin{gathered}F(x, y) = x^{2} + 5y^{2},\quad D = -20,\quad h = 2\\
         5 = F(0, -1)\\
-        p = 2, 3, 7:\ \text{not represented}\end{gathered}
+        p \in \{2, 3, 7\}:\ \text{not represented}\end{gathered}
         """
         h = "h" if self.discriminant < 0 else "h^{+}"
         head = rf"F(x, y) = {self.form.to_latex(max_digits)},\quad D = {integer(self.discriminant)}"
@@ -481,12 +493,15 @@ class FormPrimes(Display):
         no = [r.p for r in self.primes if not r.represented]
         if yes:
             shown = yes if max_terms == 0 else yes[:max_terms]
-            found = ",\\ ".join(
-                f"{integer(r.p)} = F{point((r.x or 0, r.y or 0), max_digits)}" for r in shown
-            )
-            rows.append(found + (r",\ \ldots" if len(shown) < len(yes) else ""))
+            cells = [f"{integer(r.p)} = F{point((r.x or 0, r.y or 0), max_digits)}" for r in shown]
+            step = VALUES_PER_ROW
+            found = [",\\ ".join(cells[i : i + step]) for i in range(0, len(cells), step)]
+            rows += [row + "," for row in found[:-1]] + found[-1:]
+            rows[-1] += r",\ \ldots" if len(shown) < len(yes) else ""
         if no:
-            rows.append(rf"p = {sequence(no, max_terms)}:\ {text('not represented')}")
+            write = partial(integer, max_digits=max_digits)
+            N, defining = named_set("N", no, write, RESIDUES_PER_ROW, max_terms)
+            rows += [rf"p \in {N}:\ {text('not represented')}", *defining]
         if self.criterion is not None:
             rows.append(self.criterion.to_latex(max_digits, max_terms))
         return lines(rows)
