@@ -36,6 +36,8 @@ MAX_DIGITS = 1000
 MAX_TERMS = 1000
 #: Points ``(x, y)`` written on one line; a longer set is named and written over rows.
 POINTS_PER_ROW = 6
+#: Partial quotients written on one line; a longer expansion is written over rows.
+TERMS_PER_ROW = 24
 
 
 def integer(n: int, max_digits: int = MAX_DIGITS) -> str:
@@ -130,10 +132,17 @@ def sequence(items: Sequence[int], max_terms: int, max_digits: int = MAX_DIGITS)
     return text + (r", \ldots" if len(shown) < len(items) else "")
 
 
-def set_rows(name: str, cells: Sequence[str], per_row: int, total: int | None = None) -> list[str]:
+def set_rows(
+    name: str,
+    cells: Sequence[str],
+    per_row: int,
+    total: int | None = None,
+    brackets: tuple[str, str] = (r"\{", r"\}"),
+) -> list[str]:
     r"""``name = \{c_1, c_2, …\}`` over as many rows as it needs, ``per_row`` cells a row.
 
-    ``total`` (when the cells are the first of more) ends the set with ``\ldots`` and the count.
+    ``total`` (when the cells are the first of more) ends the set with ``\ldots`` and the
+    count; ``brackets`` ``("(", ")")`` writes a tuple instead.
 
     >>> set_rows("R", ["1", "5", "9", "13", "21"], 3)
     ['R = \\{1, 5, 9,', '13, 21\\}']
@@ -142,8 +151,8 @@ def set_rows(name: str, cells: Sequence[str], per_row: int, total: int | None = 
     if total is not None and total > len(cells):
         cells.append(rf"\ldots\ ({total}\text{{ in all}})")
     rows = [", ".join(cells[i : i + per_row]) for i in range(0, len(cells), per_row)] or [""]
-    rows[0] = rf"{name} = \{{" + rows[0]
-    rows[-1] += r"\}"
+    rows[0] = f"{name} = {brackets[0]}" + rows[0]
+    rows[-1] += brackets[1]
     return [row + ("," if i < len(rows) - 1 else "") for i, row in enumerate(rows)]
 
 
@@ -211,6 +220,43 @@ def continued_fraction(
         what = "period length" if period else "length"
         body += rf"\quad(\text{{{what} }} {len(period) if period else len(preperiod)})"
     return body
+
+
+def continued_fraction_rows(
+    preperiod: Sequence[int],
+    period: Sequence[int],
+    max_terms: int = MAX_TERMS,
+    max_digits: int = MAX_DIGITS,
+    per_row: int = TERMS_PER_ROW,
+) -> list[str]:
+    r"""The expansion on one row when it fits, else its shape in ``a_i`` and the terms over rows.
+
+    >>> continued_fraction_rows([3], [1, 2, 1, 6])
+    ['[3; \\overline{1, 2, 1, 6}]']
+    >>> for row in continued_fraction_rows([10], [1, 2, 3, 4, 5, 20], per_row=4):
+    ...     print(row)
+    [a_{0}; \overline{a_{1}, \ldots, a_{6}}]
+    (a_{0}, \ldots, a_{6}) = (10, 1, 2, 3,
+    4, 5, 20)
+    """
+    n, m, length = len(preperiod) + len(period), len(preperiod), len(period)
+    if n <= per_row:
+        return [continued_fraction(preperiod, period, max_terms, max_digits)]
+
+    def a(i: int) -> str:
+        return f"a_{{{i}}}"
+
+    head = {0: [], 1: [a(0)], 2: [a(0), a(1)]}.get(m, [a(0), a(1), r"\ldots", a(m - 1)])
+    if length:
+        tail = [rf"\overline{{{a(m)}, \ldots, {a(m + length - 1)}}}"]
+    else:
+        head, tail = [a(0)], [a(1), r"\ldots", a(n - 1)]
+    shape = ", ".join([*head[1:], *tail])
+    shape = f"[{head[0]}; {shape}]" if head else f"[{shape}]"
+    shown = [*preperiod, *period][: max_terms or n]
+    cells = [integer(t, max_digits) for t in shown]
+    name = rf"({a(0)}, \ldots, {a(n - 1)})"
+    return [shape, *set_rows(name, cells, per_row, n, ("(", ")"))]
 
 
 def matrix(entries: Sequence[int], max_digits: int = MAX_DIGITS) -> str:

@@ -128,11 +128,17 @@ def test_a_rational_number_has_no_bar() -> None:
     assert Fraction(-3) + 1 / (1 + Fraction(1, 2)) == Fraction(-7, 3)
 
 
-def test_a_long_period_is_cut_and_says_its_length() -> None:
-    cf = continued_fraction("1000003")
-    out = cf.to_latex(max_terms=5)
-    assert out.count(",") == 4 and r"\ldots" in out
-    assert rf"(\text{{period length }} {len(cf.period)})" in out
+def test_a_long_period_is_written_over_rows() -> None:
+    cf = continued_fraction("1051")
+    expected = continued_fraction_periodic(0, 1, 1051)  # sympy: [a0, [period of length 50]]
+    period = len(expected[-1])
+    out = cf.to_latex(max_terms=0)
+    check_latex(out)
+    rows = out.removeprefix(r"\begin{gathered}").removesuffix(r"\end{gathered}").split("\\\\\n")
+    assert rows[0] == rf"\sqrt{{1051}} = [a_{{0}}; \overline{{a_{{1}}, \ldots, a_{{{period}}}}}]"
+    written = " ".join(rows[1:]).split(" = (", 1)[1]
+    assert [int(t) for t in re.findall(r"\d+", written)] == expected[:-1] + expected[-1]
+    assert rf"\ldots\ ({1 + period}\text{{ in all}})" in cf.to_latex(max_terms=5)
 
 
 # -- units, class groups, Pell and norm equations -------------------------------------------
@@ -368,8 +374,8 @@ def _read_solutions(out: str, box: int) -> set[tuple[int, int]]:
             found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", listed[1])}
         elif row.startswith("(x, y) = ("):
             X, Y = row.removeprefix("(x, y) = (").split(r"),\quad t")[0].split(", ")
-            for j in range(-4 * box, 4 * box + 1):
-                found.add((int(to_sympy(X, t=t).subs(t, j)), int(to_sympy(Y, t=t).subs(t, j))))
+            x_of, y_of = (sympy.lambdify(t, to_sympy(Z, t=t)) for Z in (X, Y))
+            found |= {(int(x_of(j)), int(y_of(j))) for j in range(-4 * box, 4 * box + 1)}
         elif row.startswith("x + y"):
             d = int(re.match(r"x \+ y\\sqrt\{(-?\d+)\}", row)[1])  # type: ignore[index]
             found |= _members(row, d, 10**9)

@@ -229,10 +229,17 @@ def command(
     )
 
 
+#: Fractions written on one line of the LaTeX.
+FRACTIONS_PER_ROW = 8
+
+
 def _fractions_latex(label: str, pairs: list[tuple[int, int]], more: bool, max_digits: int) -> str:
-    r"""``label:\ \frac{p}{q}, …`` (``\ldots`` when the list was cut)."""
-    shown = ",\\ ".join(rational(p, q, max_digits) for p, q in pairs)
-    return rf"{label}:\quad {shown}" + (r",\ \ldots" if more else "")
+    r"""``label:\ \frac{p}{q}, …`` over rows (``\ldots`` when the list was cut)."""
+    cells = [rational(p, q, max_digits) for p, q in pairs] + ([r"\ldots"] if more else [])
+    step = FRACTIONS_PER_ROW
+    rows = [",\\ ".join(cells[i : i + step]) for i in range(0, len(cells), step)] or [""]
+    rows = [row + "," for row in rows[:-1]] + rows[-1:]
+    return lines_latex([rf"{label}:\quad {rows[0]}", *rows[1:]])
 
 
 def _approximation_entry(writer: _FractionWriter, a: Approximation) -> dict[str, Any]:

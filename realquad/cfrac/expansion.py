@@ -45,12 +45,13 @@ from realquad.latex import (
     MAX_TERMS,
     Display,
     brief_repr,
+    continued_fraction_rows,
     fraction,
     integer,
+    lines,
     sqrt,
     terms,
 )
-from realquad.latex import continued_fraction as continued_fraction_latex
 
 #: Default bound on the number of states a period search may visit.
 DEFAULT_MAX_TERMS = 20_000_000
@@ -244,8 +245,8 @@ class ContinuedFraction(Display):
             s = 1 if value.Q > 0 else -1
             pairs = [(s * value.P, ""), (s, sqrt(value.D, max_digits))]
             shown = fraction(terms(pairs, max_digits), abs(value.Q), max_digits)
-        expansion = continued_fraction_latex(self.preperiod, self.period, max_terms, max_digits)
-        return f"{shown} = {expansion}"
+        rows = continued_fraction_rows(self.preperiod, self.period, max_terms, max_digits)
+        return lines([f"{shown} = {rows[0]}", *rows[1:]])
 
     def __repr__(self) -> str:
         return brief_repr(
