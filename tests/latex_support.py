@@ -120,8 +120,8 @@ def compile_latex(fragments: list[str], directory: Path) -> None:
     compile_document(tex)
 
 
-def compile_document(tex: Path) -> None:
-    """Compile the LaTeX document ``tex`` in its directory with the installed engine."""
+def compile_document(tex: Path) -> str:
+    """Compile the LaTeX document ``tex`` in its directory with the installed engine; its log."""
     engine = latex_engine()
     assert engine is not None
     args = (
@@ -131,6 +131,8 @@ def compile_document(tex: Path) -> None:
     )
     done = subprocess.run(args, cwd=tex.parent, capture_output=True, text=True, timeout=120)
     assert done.returncode == 0, done.stdout[-2000:]
+    log = tex.with_suffix(".log")
+    return log.read_text(errors="replace") if log.exists() else done.stdout + done.stderr
 
 
 def _braced(text: str, start: int) -> tuple[str, int]:

@@ -347,7 +347,8 @@ def test_the_handout(tmp_path: Path) -> None:
         pytest.skip("no LaTeX engine installed; the formulas were parsed one by one")
     document = handout.handout()
     (tmp_path / "q79.tex").write_text(document, encoding="utf-8")
-    compile_document(tmp_path / "q79.tex")
+    log = compile_document(tmp_path / "q79.tex")
+    assert "Overfull \\hbox" not in log  # every formula of the handout fits the page
 
 
 # -- any equation: the solutions read back from the LaTeX are the brute-force ones -----------
