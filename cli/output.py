@@ -376,12 +376,15 @@ def emit(
     A command with ``--max-digits`` passes it: integers beyond it are
     summarised and the payload gets ``"truncated"`` (whether anything was).
     ``latex(max_digits)`` writes the result as LaTeX (a command without
-    ``--max-digits`` gets :data:`realquad.latex.MAX_DIGITS`).
+    ``--max-digits`` gets :data:`realquad.latex.MAX_DIGITS`); a file written
+    by ``--output`` is named in a comment after it.
     """
     if latex_wanted():
         if latex is None:  # pragma: no cover - every command passes its LaTeX
             raise InputError("this command has no LaTeX form")
-        click.echo(latex(MAX_DIGITS if max_digits is None else max_digits))
+        written = payload.get("output")
+        note = f"\n% full values written to {written}" if written else ""
+        click.echo(latex(MAX_DIGITS if max_digits is None else max_digits) + note)
         return
     if not as_json:
         click.echo(text)

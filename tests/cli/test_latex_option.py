@@ -149,3 +149,11 @@ def test_members_of_the_families(capsys: Any) -> None:
     row = next(line for line in out.splitlines() if line.startswith("k = 2:"))
     members = [(int(x), int(y)) for x, y in re.findall(r"\((-?\d+), (-?\d+)\)", row)]
     assert len(members) == 3 and all(x * x - 13 * y * y == -4 for x, y in members)
+
+
+def test_an_output_file_is_named_in_a_comment(capsys: Any, tmp_path: Path) -> None:
+    target = tmp_path / "x.txt"
+    code, out, _ = run(capsys, "pell", "61", "--output", str(target), "--latex")
+    assert code == 0 and target.exists()
+    assert out.rstrip().endswith(f"% full values written to {target}")
+    check_latex(out)
