@@ -3,6 +3,7 @@ installed), refused beside ``--json`` or ``--csv``, long integers summarised as 
 
 from __future__ import annotations
 
+import ast
 import re
 from pathlib import Path
 from typing import Any
@@ -15,6 +16,8 @@ from sympy.solvers.diophantine.diophantine import diop_DN
 from tests.cli.support import COMMAND_NAMES, run
 from tests.latex_support import check_latex, compile_latex, latex_engine, to_sympy
 
+COMMANDS_DIR = Path(__file__).resolve().parents[2] / "cli" / "commands"
+
 
 def _commands(group: click.Group, prefix: str = "") -> dict[str, click.Command]:
     found: dict[str, click.Command] = {}
@@ -24,6 +27,16 @@ def _commands(group: click.Group, prefix: str = "") -> dict[str, click.Command]:
         else:
             found[prefix + name] = command
     return found
+
+
+def test_every_command_passes_its_latex() -> None:
+    # emit(payload, text, as_json, max_digits, latex): a command without its LaTeX would
+    # answer --latex with an error; read every call of emit in the command modules
+    for path in sorted(COMMANDS_DIR.glob("*.py")):
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Call) and getattr(node.func, "id", None) == "emit":
+                given = len(node.args) >= 5 or any(k.arg == "latex" for k in node.keywords)
+                assert given, f"{path.name}:{node.lineno}: emit without the command's LaTeX"
 
 
 def test_every_command_takes_latex() -> None:
