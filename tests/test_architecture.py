@@ -92,7 +92,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"plots"},
     ],
     "realquad_cli": [
-        {"progress", "output", "orders"},
+        {"progress", "output", "orders", "formtext"},
         {"commands"},
         {"main"},
         {"reference"},

@@ -3,7 +3,17 @@
 from __future__ import annotations
 
 import click
-from realquad_cli.commands import cfrac, classgroup, pell, represent, solve, split, survey, unit
+from realquad_cli.commands import (
+    cfrac,
+    classgroup,
+    form,
+    pell,
+    represent,
+    solve,
+    split,
+    survey,
+    unit,
+)
 
 COMMANDS: list[click.Command] = [
     cfrac.command,
@@ -13,5 +23,6 @@ COMMANDS: list[click.Command] = [
     classgroup.command,
     split.command,
     represent.command,
+    form.command,
     solve.command,
 ]

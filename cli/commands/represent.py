@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 import click
+from realquad_cli.formtext import polynomial, read_form
 from realquad_cli.output import (
     Command,
     Sizer,
@@ -16,41 +17,13 @@ from realquad_cli.output import (
 )
 
 from realquad.core.forms import Form
-from realquad.equations.parser import parse_equation
-from realquad.errors import InputError, TooLargeError
+from realquad.errors import TooLargeError
 from realquad.splitting import FormPrimes, PrimeRepresentation, form_primes
 from realquad.splitting.representation import RepresentationCriterion
-from realquad.textio import plural, signed, terms_text
+from realquad.textio import plural, signed
 
 #: Largest bound accepted by --primes-up-to.
 MAX_BOUND = 10**6
-
-
-def read_form(text: str) -> Form:
-    """The form ``ax² + bxy + cy²`` written as people write it (integer coefficients, no ``=``).
-
-    >>> read_form("x^2 + 5y^2"), read_form("2x² + 2xy + 3y²"), read_form("x^2 - 79 y^2")
-    (Form(1, 0, 5), Form(2, 2, 3), Form(1, 0, -79))
-    """
-    if "=" in text:
-        raise InputError('write the form alone, without "=" (e.g. "x^2 + 5y^2")')
-    a, b, c, d, e, f = parse_equation(text)
-    scale = f - parse_equation(text + " = 1")[5]  # the common denominator the parser cleared
-    if scale != 1:
-        raise InputError(f"the form {text!r} must have integer coefficients")
-    if d or e or f:
-        raise InputError(
-            f"{text!r} is not a binary quadratic form ax² + bxy + cy²: it has terms of degree "
-            "below 2"
-        )
-    if not (a or b or c):
-        raise InputError(f"{text!r} is the zero form")
-    return Form(a, b, c)
-
-
-def polynomial(F: Form) -> str:
-    """``x² + bxy + cy²`` written out."""
-    return terms_text([(F.a, "x²"), (F.b, "xy"), (F.c, "y²")])
 
 
 def _line(r: PrimeRepresentation, F: Form, D: int, sizer: Sizer) -> str:

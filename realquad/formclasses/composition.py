@@ -25,8 +25,13 @@ from __future__ import annotations
 from realquad.core.forms import Form
 from realquad.core.integers import as_integer
 from realquad.core.results import Proof, check_method
-from realquad.errors import DomainError
+from realquad.errors import DomainError, TooLargeError
 from realquad.formclasses.results import FormComposition, FormPower
+from realquad.textio import decimal_digits
+
+#: Most ``bits(k)·digits(D)²`` :func:`form_power` takes on (a few seconds: each of the ~2·bits(k)
+#: compositions reduces numbers of ~digits(D) digits in ~digits(D) steps).
+MAX_POWER_WORK = 2 * 10**8
 
 #: The composition methods of :func:`compose_forms`.
 COMPOSITION_METHODS = ("dirichlet", "nucomp")
@@ -89,6 +94,13 @@ def form_power(F: Form, k: int) -> FormPower:
     """
     k = as_integer(k, "the exponent")
     _require_primitive(F)
+    digits = decimal_digits(F.discriminant)
+    if k.bit_length() * digits * digits > MAX_POWER_WORK:
+        raise TooLargeError(
+            f"a power with a {k.bit_length():,}-bit exponent of a form of discriminant with "
+            f"{digits:,} digits is beyond this command's budget (bits × digits² ≤ "
+            f"{MAX_POWER_WORK:.0e}); reduce the exponent modulo the order of the class first"
+        )
     reduction = _REDUCTION[F.is_definite]
     return FormPower(
         F,

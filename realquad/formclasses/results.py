@@ -21,14 +21,25 @@ from realquad.core.forms import Form
 from realquad.core.linalg import Matrix
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.results import JSONObject, Proof
+from realquad.latex import MAX_DIGITS, Display, integer, lines, matrix, text
+from realquad.latex import form as form_latex
 
 
 def _matrix(M: Matrix | None) -> list[int] | None:
     return None if M is None else [int(x) for x in M]
 
 
+def _form(F: Form, max_digits: int) -> str:
+    return form_latex(F.a, F.b, F.c, max_digits)
+
+
+def _acted(F: Form, M: Matrix, G: Form, max_digits: int) -> str:
+    """``F(αx + βy, γx + δy) = G`` written as ``F·M = G`` with the matrix."""
+    return rf"\left({_form(F, max_digits)}\right) \cdot {matrix(M, max_digits)} = {_form(G, max_digits)}"
+
+
 @dataclass(frozen=True)
-class FormReduction:
+class FormReduction(Display):
     """A reduced form ``reduced`` properly equivalent to ``form``, with ``form·matrix = reduced``."""
 
     form: Form
@@ -52,9 +63,17 @@ class FormReduction:
             "proof": self.proof,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``F·M = G``, ``G`` reduced.
+
+        >>> print(FormReduction(Form(6, 5, 2), Form(2, -1, 3), (0, -1, 1, 1), "m", "unconditional").to_latex())
+        \left(6x^{2} + 5xy + 2y^{2}\right) \cdot \begin{pmatrix} 0 & -1 \\ 1 & 1 \end{pmatrix} = 2x^{2} - xy + 3y^{2}
+        """
+        return _acted(self.form, self.matrix, self.reduced, max_digits)
+
 
 @dataclass(frozen=True)
-class FormEquivalence:
+class FormEquivalence(Display):
     """Whether ``form`` and ``other`` are equivalent, properly (``SL₂(Z)``) and in ``GL₂(Z)``.
 
     ``matrix`` (determinant 1) and ``improper_matrix`` (determinant −1), when
@@ -87,9 +106,22 @@ class FormEquivalence:
             "proof": self.proof,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """``F·M = G`` for each matrix found, else ``F ≁ G`` with the reason in words."""
+        rows = []
+        for M in (self.matrix, self.improper_matrix):
+            if M is not None:
+                rows.append(_acted(self.form, M, self.other, max_digits))
+        if self.matrix is None:
+            rows.append(
+                rf"{_form(self.form, max_digits)} \not\sim {_form(self.other, max_digits)}"
+                rf"\quad {text('(' + (self.reason or '') + ')')}"
+            )
+        return lines(rows)
+
 
 @dataclass(frozen=True)
-class FormComposition:
+class FormComposition(Display):
     """The class ``[form]·[other]``: the composite before reduction (``None`` by NUCOMP) and reduced."""
 
     form: Form
@@ -115,9 +147,22 @@ class FormComposition:
             "proof": self.proof,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``[F]·[G] = [H]`` with ``H`` reduced (and the composite before reduction).
+
+        >>> from realquad.formclasses import compose_forms
+        >>> print(compose_forms(Form(2, 1, 3), Form(2, 1, 3)).to_latex())
+        [2x^{2} + xy + 3y^{2}] \cdot [2x^{2} + xy + 3y^{2}] = [4x^{2} - 3xy + 2y^{2}] = [2x^{2} - xy + 3y^{2}]
+        """
+        parts = [f"[{_form(self.form, max_digits)}] \\cdot [{_form(self.other, max_digits)}]"]
+        if self.composite is not None:
+            parts.append(f"[{_form(self.composite, max_digits)}]")
+        parts.append(f"[{_form(self.reduced, max_digits)}]")
+        return " = ".join(parts)
+
 
 @dataclass(frozen=True)
-class FormPower:
+class FormPower(Display):
     """A reduced form of the class ``[form]^exponent``."""
 
     form: Form
@@ -141,9 +186,19 @@ class FormPower:
             "proof": self.proof,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``[F]^k = [G]``.
+
+        >>> from realquad.formclasses import form_power
+        >>> print(form_power(Form(2, 1, 3), 3).to_latex())
+        [2x^{2} + xy + 3y^{2}]^{3} = [x^{2} + xy + 6y^{2}]
+        """
+        k = integer(self.exponent, max_digits)
+        return f"[{_form(self.form, max_digits)}]^{{{k}}} = [{_form(self.reduced, max_digits)}]"
+
 
 @dataclass(frozen=True)
-class FormCycle:
+class FormCycle(Display):
     """The cycle of reduced forms of an indefinite form's class, and the automorph once round it.
 
     ``automorph`` ``A`` (determinant 1, trace ``t > 2``) fixes ``form``
@@ -180,9 +235,22 @@ class FormCycle:
             "proof": self.proof,
         }
 
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """The cycle as ``G₀ → G₁ → … → G₀`` (at most 12 forms written), the automorph and its unit."""
+        shown = [_form(G, max_digits) for G in self.cycle[:12]]
+        if len(self.cycle) > 12:
+            shown.append(r"\cdots " + text(f"({len(self.cycle)} forms in all)"))
+        return lines(
+            [
+                r" \to ".join([*shown, _form(self.cycle[0], max_digits)]),
+                _acted(self.form, self.automorph, self.form, max_digits)
+                + rf",\quad \varepsilon^{{+}} = {self.unit.to_latex(max_digits)}",
+            ]
+        )
+
 
 @dataclass(frozen=True)
-class FormClass:
+class FormClass(Display):
     """Where the class of a primitive form lies in ``Cl⁺`` and ``Cl`` of its order.
 
     ``narrow_class`` are the coordinates on the group's ``narrow_generators``
@@ -223,3 +291,20 @@ class FormClass:
             "method": self.method,
             "proof": self.proof,
         }
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        """The class as a product of powers of the narrow generators, its order, and the group."""
+        factors = [
+            f"[{_form(g, max_digits)}]^{{{e}}}"
+            for g, e in zip(self.group.narrow_generators, self.narrow_class, strict=True)
+            if e
+        ]
+        cl = r"\mathrm{Cl}" if self.group.is_imaginary else r"\mathrm{Cl}^{+}"
+        product = r" \cdot ".join(factors) or "1"
+        return lines(
+            [
+                f"[{_form(self.form, max_digits)}] = {product}"
+                rf"\quad {text('of order')}\ {self.narrow_order}\ {text('in')}\ {cl}",
+                self.group.to_latex(max_digits),
+            ]
+        )

@@ -153,6 +153,17 @@ CASES = [
     ["solve", "xy + x + y + 1 = 0", "--bound", "2", "--member", "1"],
     ["solve", "y = x^2", "--bound", "5", "--member", "3"],
     ["solve", "x^2 - 2y^2 + 3x - 5y = 7"],
+    ["form", "reduce", "6x^2 + 5xy + 2y^2"],
+    ["form", "reduce", "(1, 1, -18)"],
+    ["form", "equivalent", "3x^2 + 7xy - 2y^2", "(-2, 5, 6)"],
+    ["form", "equivalent", "x^2 + y^2", "x^2 + 2y^2"],
+    ["form", "compose", "3x^2 + 2xy + 5y^2", "2x^2 + 7y^2"],
+    ["form", "compose", "(3, 2, -26)", "(3, 2, -26)", "--method", "nucomp"],
+    ["form", "power", "(2, 1, 3)", "-4"],
+    ["form", "cycle", "x^2 - 79y^2"],
+    ["form", "cycle", "x^2 - 991y^2", "--max-digits", "10"],
+    ["form", "class", "3x^2 + 2xy + 5y^2"],
+    ["form", "class", "(3, 14, -10)"],
 ]
 
 
@@ -163,7 +174,7 @@ def test_command_output_matches_the_page(
     code, out, err = run(capsys, *args, "--json")
     assert code == 0, err
     data = json.loads(out, parse_int=lambda text: int(gmpy2.mpz(text)))
-    _validate(args[0], data)
+    _validate(" ".join(args[:2]) if args[0] == "form" else args[0], data)
 
 
 def test_output_file_keys(capsys: pytest.CaptureFixture[str], tmp_path: Path) -> None:
