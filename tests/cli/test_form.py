@@ -6,9 +6,11 @@ from __future__ import annotations
 import contextlib
 import io
 import json
+import shlex
 import subprocess
 import sys
 from itertools import product
+from pathlib import Path
 
 import gmpy2
 import pytest
@@ -208,3 +210,31 @@ def test_subprocess_smoke() -> None:
     )
     assert proc.returncode == 0, proc.stderr
     assert json.loads(proc.stdout)["unit"] == {"x": 80, "y": 9, "denominator": 1, "radicand": 79}
+
+
+def _page_examples() -> list[tuple[list[str], str]]:
+    """Every ``$ realquad form …`` example of docs/form.md with the output printed under it."""
+    page = Path(__file__).resolve().parents[2] / "docs" / "form.md"
+    examples: list[tuple[list[str], str]] = []
+    block: list[str] | None = None
+    for line in page.read_text(encoding="utf-8").splitlines():
+        if line.startswith("```"):
+            block = [] if block is None else None
+            continue
+        if block is None:
+            continue
+        if line.startswith("$ realquad form "):
+            examples.append((shlex.split(line[len("$ realquad ") :]), ""))
+        elif examples:
+            args, out = examples[-1]
+            examples[-1] = (args, out + line + "\n")
+    return examples
+
+
+@pytest.mark.parametrize(("args", "expected"), _page_examples())
+def test_the_guide_shows_what_the_command_prints(
+    capsys: pytest.CaptureFixture[str], args: list[str], expected: str
+) -> None:
+    code, out, err = run(capsys, *args)
+    assert code == 0, err
+    assert out == expected

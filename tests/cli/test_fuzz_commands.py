@@ -16,6 +16,7 @@ WORDS = [
     "--compact", "--d-min", "--d-max", "--db", "--limit", "--csv", "--top", "--class-number",
     "auto", "exact", "bsgs", "cfrac", "-1", "-5", "0", "1", "2", "4", "61", "79", "-20", "1300",
     "10^6", "x^2 - 2y^2 = 1", "sqrt(61)", "(1+sqrt(13))/2", "−3", "٣", "--", "-", "=", "",
+    "x^2 - 79y^2", "2x^2 + 2xy + 3y^2", "(3, 7, -2)", "1,0,5", "--max-forms", "nucomp",
 ]  # fmt: skip
 
 arguments = st.lists(

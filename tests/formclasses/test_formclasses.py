@@ -353,3 +353,36 @@ def test_location_refuses_non_primitive_forms_and_large_groups() -> None:
         form_class(Form(2, 0, 2))
     with pytest.raises(TooLargeError):
         form_class(Form(1, 1, -(10**15)), max_forms=1000)
+
+
+@pytest.mark.parametrize("D", [13, 17, 28, 40, 60, 85])
+def test_indefinite_equivalence_agrees_with_a_matrix_search(D: int) -> None:
+    # one-way brute force: a matrix with entries ≤ 2 carrying F to G means the answer is yes
+    forms = indefinite_reduced_forms(D)
+    for F, G in product(forms, repeat=2):
+        e = equivalence(F, G)
+        if small_matrix(F, G, 2, 1):
+            assert e.properly_equivalent
+        if small_matrix(F, G, 2, -1):
+            assert e.improperly_equivalent
+        if e.properly_equivalent:
+            assert F.act(e.matrix) == G
+            assert G in form_cycle(F).cycle  # reduced forms of one class share its cycle
+
+
+def test_a_non_maximal_order() -> None:
+    # discriminant −36 = 3²·(−4): the classes x² + 9y² and 2x² + 2xy + 5y² (brute-force count)
+    forms = definite_reduced_forms(-36)
+    assert forms == [Form(1, 0, 9), Form(2, 2, 5)]
+    c = form_class(Form(2, 2, 5))
+    assert c.narrow_order == 2 and c.group.order.conductor == 3
+    assert form_power(Form(2, 2, 5), 2).reduced == Form(1, 0, 9)
+
+
+def test_power_refuses_work_beyond_its_budget() -> None:
+    huge = Form(1, 1, -(10**2000))
+    with pytest.raises(TooLargeError, match="budget"):
+        form_power(huge, 2**200)
+    assert form_power(Form(2, 1, 3), 10**30).reduced == Form(
+        2, 1, 3
+    )  # h(−23) = 3, 10³⁰ ≡ 1 (mod 3)
