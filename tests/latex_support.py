@@ -31,7 +31,7 @@ KNOWN_MACROS = {
     "cdot", "times", "cong", "pm", "in", "mathbb", "mathcal", "mathfrak", "bar",
     "operatorname", "varepsilon", "log", "langle", "rangle", "zeta", "begin", "end",
     "nmid", "mid", "iff", "implies", "equiv", "pmod", "bmod", "emptyset", "le", "ge",
-    "delta", "mathrm", "hline", "approx", "alpha",
+    "delta", "mathrm", "hline", "approx", "alpha", "to", "not", "sim",
 }  # fmt: skip
 #: The environments the package may write.
 KNOWN_ENVIRONMENTS = {"gathered", "aligned", "pmatrix", "tabular"}

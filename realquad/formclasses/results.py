@@ -236,13 +236,15 @@ class FormCycle(Display):
         }
 
     def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
-        """The cycle as ``G₀ → G₁ → … → G₀`` (at most 12 forms written), the automorph and its unit."""
+        """The cycle as ``G₀ → G₁ → … → G₀`` (at most 12 forms, four a row), the automorph and its unit."""
         shown = [_form(G, max_digits) for G in self.cycle[:12]]
         if len(self.cycle) > 12:
-            shown.append(r"\cdots " + text(f"({len(self.cycle)} forms in all)"))
+            shown.append(r"\ldots " + text(f"({len(self.cycle)} forms in all)"))
+        shown.append(_form(self.cycle[0], max_digits))
+        rows = [r" \to ".join(shown[i : i + 4]) for i in range(0, len(shown), 4)]
         return lines(
             [
-                r" \to ".join([*shown, _form(self.cycle[0], max_digits)]),
+                *[row if i == 0 else r"\to " + row for i, row in enumerate(rows)],
                 _acted(self.form, self.automorph, self.form, max_digits)
                 + rf",\quad \varepsilon^{{+}} = {self.unit.to_latex(max_digits)}",
             ]

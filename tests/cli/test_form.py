@@ -20,6 +20,7 @@ from realquad_cli.main import main
 
 from realquad.core.forms import Form
 from tests.cli.support import run, run_json
+from tests.latex_support import check_latex, compile_latex, latex_engine
 
 
 def _form(d: dict) -> Form:
@@ -121,7 +122,42 @@ def test_class_of_an_indefinite_form(capsys: pytest.CaptureFixture[str]) -> None
     assert code == 0 and "class in Cl⁺: the principal class" in out
 
 
-def test_latex(capsys: pytest.CaptureFixture[str]) -> None:
+LATEX_CASES = [
+    ["reduce", "5x^2 + 6xy + 2y^2"],
+    ["equivalent", "3x^2 + 2xy + 5y^2", "3x^2 - 2xy + 5y^2"],
+    ["equivalent", "x^2 - 3y^2", "(-1, 0, 3)"],
+    ["compose", "(3, 2, 5)", "(3, 2, 5)"],
+    ["power", "(2, 1, 3)", "3"],
+    ["cycle", "x^2 - 79y^2"],
+    ["cycle", "(3, 7, -2)"],
+    ["class", "3x^2 - 2xy + 5y^2"],
+    ["class", "x^2 - 79y^2"],
+]
+
+
+@pytest.mark.parametrize("args", LATEX_CASES, ids=[" ".join(a) for a in LATEX_CASES])
+def test_latex_is_well_formed_and_says_its_method(
+    capsys: pytest.CaptureFixture[str], args: list[str]
+) -> None:
+    code, out, err = run(capsys, "form", *args, "--latex")
+    assert code == 0, err
+    check_latex(out)
+    assert "% method: " in out and "proof: unconditional" in out
+
+
+def test_latex_compiles(capsys: pytest.CaptureFixture[str], tmp_path: Path) -> None:
+    outs = []
+    for args in LATEX_CASES:
+        code, out, err = run(capsys, "form", *args, "--latex")
+        assert code == 0, err
+        outs.append(out)
+    if latex_engine() is None:
+        pytest.skip("no LaTeX engine (pdflatex, lualatex, tectonic) installed; parsed only")
+    compile_latex(outs, tmp_path)
+
+
+def test_latex_of_a_power(capsys: pytest.CaptureFixture[str]) -> None:
+    # h(−23) = 3 (Cox §2.A): the cube of 2x² + xy + 3y² is the principal form
     code, out, _ = run(capsys, "form", "power", "(2, 1, 3)", "3", "--latex")
     assert code == 0 and r"[2x^{2} + xy + 3y^{2}]^{3} = [x^{2} + xy + 6y^{2}]" in out
 
