@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
-from typing import Any
+from typing import Any, Protocol
 
 import click
 from realquad_cli.formtext import polynomial, read_form
@@ -38,7 +38,6 @@ from realquad.formclasses import (
     form_power,
     reduce_form,
 )
-from realquad.latex import Display
 from realquad.textio import decimal_digits, group_text, plural, signed
 
 #: Reduced forms listed in the text of ``form cycle`` (``--json`` has all).
@@ -68,22 +67,17 @@ def _forms_limit(max_forms: int | None, F: Form, default: int) -> int:
 
 
 @contextmanager
-def _more_forms_hint() -> Iterator[None]:
-    """A cycle beyond the limit: the error says how to walk further."""
+def _more_forms_hint(how: str = "walks further") -> Iterator[None]:
+    """A cycle or a group beyond the limit: the error says what ``--max-forms`` does."""
     try:
         yield
     except TooLargeError as exc:
-        raise TooLargeError(f"{exc}; --max-forms N walks further") from None
+        raise TooLargeError(f"{exc}; --max-forms N {how}") from None
 
 
 def _matrix_text(M: Matrix, sizer: Sizer) -> str:
     a, b, c, d = (sizer.text(x) for x in M)
     return f"[[{a}, {b}], [{c}, {d}]]"
-
-
-def _name(F: Form) -> str:
-    """``3x² + 7xy − 2y²`` (the polynomial; the coefficients stay exact in --json)."""
-    return polynomial(F)
 
 
 def _kind(F: Form) -> str:
@@ -95,9 +89,16 @@ def _footer(result: Any) -> str:
     return f"method: {result.method}; proof: {result.proof}"
 
 
-def _emit(result: Display, text: str, as_json: bool, max_digits: int | None) -> None:
-    payload: dict[str, Any] = result.to_dict()  # type: ignore[attr-defined]
-    emit(payload, text, as_json, max_digits, result.to_latex_display)
+class _Result(Protocol):
+    """What every result of :mod:`realquad.formclasses` has: its JSON shape and its LaTeX."""
+
+    def to_dict(self) -> dict[str, Any]: ...
+
+    def to_latex_display(self, max_digits: int = ...) -> str: ...
+
+
+def _emit(result: _Result, text: str, as_json: bool, max_digits: int | None) -> None:
+    emit(result.to_dict(), text, as_json, max_digits, result.to_latex_display)
 
 
 @click.group("form", cls=Group)
@@ -125,8 +126,8 @@ def reduce_command(form_text: str, max_digits: int, as_json: bool) -> None:
     r = reduce_form(F)
     sizer = Sizer(max_digits)
     lines = [
-        f"{_name(F)}: {_kind(F)}",
-        f"reduced form: {_name(r.reduced)}",
+        f"{polynomial(F)}: {_kind(F)}",
+        f"reduced form: {polynomial(r.reduced)}",
         f"matrix M = {_matrix_text(r.matrix, sizer)}: F(αx + βy, γx + δy) is the reduced form",
         _footer(r),
     ]
@@ -155,7 +156,7 @@ def equivalent_command(
 
 def _equivalence_text(e: FormEquivalence, sizer: Sizer) -> str:
     F, G = e.form, e.other
-    lines = [f"F = {_name(F)} ({_kind(F)})", f"G = {_name(G)} ({_kind(G)})"]
+    lines = [f"F = {polynomial(F)} ({_kind(F)})", f"G = {polynomial(G)} ({_kind(G)})"]
     if e.matrix is not None:
         lines.append(f"properly equivalent: F·M = G with M = {_matrix_text(e.matrix, sizer)}")
     else:
@@ -193,10 +194,10 @@ def compose_command(
     """
     F, G = read_form(form_text), read_form(other_text)
     c = compose_forms(F, G, method)
-    lines = [f"{_name(F)} ∘ {_name(G)}: {_kind(F)}"]
+    lines = [f"{polynomial(F)} ∘ {polynomial(G)}: {_kind(F)}"]
     if c.composite is not None:
-        lines.append(f"composite: {_name(c.composite)}")
-    lines += [f"reduced: {_name(c.reduced)}", _footer(c)]
+        lines.append(f"composite: {polynomial(c.composite)}")
+    lines += [f"reduced: {polynomial(c.reduced)}", _footer(c)]
     _emit(c, "\n".join(lines), as_json, max_digits)
 
 
@@ -214,8 +215,8 @@ def power_command(form_text: str, exponent: str, max_digits: int, as_json: bool)
     p = form_power(F, as_integer(exponent, "K"))
     sizer = Sizer(max_digits)
     lines = [
-        f"({_name(F)})^{sizer.text(p.exponent)}: {_kind(F)}",
-        f"reduced: {_name(p.reduced)}",
+        f"({polynomial(F)})^{sizer.text(p.exponent)}: {_kind(F)}",
+        f"reduced: {polynomial(p.reduced)}",
         _footer(p),
     ]
     _emit(p, "\n".join(lines), as_json, max_digits)
@@ -242,10 +243,10 @@ def cycle_command(form_text: str, max_forms: int | None, max_digits: int, as_jso
 def _cycle_text(c: FormCycle, sizer: Sizer) -> str:
     which = "the principal cycle" if c.principal else "not the principal cycle"
     lines = [
-        f"{_name(c.form)}: {_kind(c.form)}; reduced form {_name(c.reduced)}",
+        f"{polynomial(c.form)}: {_kind(c.form)}; reduced form {polynomial(c.reduced)}",
         f"cycle of {plural(len(c.cycle), 'reduced form')} ({which}):",
     ]
-    lines += [f"  {_name(G)}" for G in c.cycle[:SHOWN_FORMS]]
+    lines += [f"  {polynomial(G)}" for G in c.cycle[:SHOWN_FORMS]]
     if len(c.cycle) > SHOWN_FORMS:
         lines.append(f"  … {len(c.cycle) - SHOWN_FORMS:,} more (--json lists all)")
     lines.append(f"automorph A = {_matrix_text(c.automorph, sizer)}: F·A = F")
@@ -272,7 +273,8 @@ def class_command(form_text: str, max_forms: int | None, as_json: bool) -> None:
     Example: realquad form class "3x^2 + 2xy + 5y^2"
     """
     F = read_form(form_text)
-    c = form_class(F, 1_000_000 if max_forms is None else max_forms)
+    with _more_forms_hint("stores more (the exact method is what locates a form)"):
+        c = form_class(F, 1_000_000 if max_forms is None else max_forms)
     _emit(c, _class_text(c), as_json, None)
 
 
@@ -280,9 +282,9 @@ def _class_text(c: FormClass) -> str:
     G = c.group
     imaginary = G.is_imaginary
     narrow = "Cl" if imaginary else "Cl⁺"
-    lines = [f"{_name(c.form)}: {_kind(c.form)}; reduced form {_name(c.reduced)}"]
+    lines = [f"{polynomial(c.form)}: {_kind(c.form)}; reduced form {polynomial(c.reduced)}"]
     gens = ", ".join(
-        f"g{i + 1} = {_name(g)} of order {n}"
+        f"g{i + 1} = {polynomial(g)} of order {n}"
         for i, (g, n) in enumerate(zip(G.narrow_generators, G.narrow_invariants, strict=True))
     )
     lines.append(f"{narrow} ≅ {group_text(G.narrow_invariants)}; generators: {gens or 'none'}")
@@ -291,7 +293,7 @@ def _class_text(c: FormClass) -> str:
     )
     if not imaginary:
         wide = ", ".join(
-            f"h{i + 1} = {_name(g)} of order {n}"
+            f"h{i + 1} = {polynomial(g)} of order {n}"
             for i, (g, n) in enumerate(zip(G.generators, G.invariants, strict=True))
         )
         lines.append(f"Cl ≅ {group_text(G.invariants)}; generators: {wide or 'none'}")

@@ -59,7 +59,7 @@ from realquad.core.orders import Order
 from realquad.core.primes import kronecker, primes_below
 from realquad.core.results import JSONObject
 from realquad.errors import InputError
-from realquad.latex import MAX_DIGITS, Display, integer, point, text
+from realquad.latex import MAX_DIGITS, Display, clauses, integer, lines, point, text
 
 KINDS = {1: "split", 0: "ramified", -1: "inert"}
 
@@ -109,10 +109,13 @@ class PrimeDecomposition(Display):
         F = self.form if not self.represented_by_principal else Form.identity(ideal.discriminant)
         assert F is not None and self.x is not None and self.y is not None
         value = rf"{p} = {F.to_latex(max_digits)}\ {text('at')}\ (x, y) = {point((self.x, self.y), max_digits)}"
-        return (
-            rf"{p}\mathcal{{O}} = {shape},\quad \mathfrak{{p}} = {ideal.to_latex(max_digits)},"
-            rf"\quad [\mathfrak{{p}}] = {coordinates},\quad {value}"
-        )
+        parts = [
+            rf"{p}\mathcal{{O}} = {shape}",
+            rf"\mathfrak{{p}} = {ideal.to_latex(max_digits)}",
+            rf"[\mathfrak{{p}}] = {coordinates}",
+            value,
+        ]
+        return lines(clauses(parts))
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of a prime's decomposition (``docs/json.md``, *PrimeDecomposition*)."""
