@@ -74,7 +74,11 @@ LEVELS: dict[str, list[set[str]]] = {
         {"group"},
         {"exact", "bsgs", "imaginary", "imaginary_bsgs"},
     ],
-    "realquad.formclasses": [{"results"}, {"reduction", "composition", "cycles", "location"}],
+    "realquad.formclasses": [
+        {"results"},
+        {"walks"},
+        {"reduction", "composition", "cycles", "location"},
+    ],
     "realquad.splitting": [{"decomposition", "class_polynomial"}, {"representation"}],
     "realquad.equations": [
         {"parser", "families"},

@@ -26,26 +26,18 @@ from math import gcd
 
 from realquad.core.forms import Form
 from realquad.core.integers import isqrt
-from realquad.core.linalg import Matrix, matrix_inverse, matrix_multiply, matrix_product
+from realquad.core.linalg import matrix_inverse, matrix_multiply
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import Proof
 from realquad.errors import DomainError
 from realquad.formclasses.results import FormCycle
+from realquad.formclasses.walks import rho_matrix_product
 
 #: Reduced forms of one cycle listed at most, unless the caller says otherwise.
 DEFAULT_MAX_FORMS = 100_000
 
 UNCONDITIONAL: Proof = "unconditional"
-
-
-def _round_trip(cycle: list[Form]) -> Matrix:
-    """The product of the rho matrices once round the cycle (``cycle[0]·N = cycle[0]``)."""
-    steps = []
-    for k, G in enumerate(cycle):
-        nxt = cycle[(k + 1) % len(cycle)]
-        steps.append((0, -1, 1, (nxt.b + G.b) // (2 * G.c)))
-    return tuple(int(x) for x in matrix_product(steps))  # type: ignore[return-value]
 
 
 def form_cycle(F: Form, max_forms: int = DEFAULT_MAX_FORMS) -> FormCycle:
@@ -67,7 +59,7 @@ def form_cycle(F: Form, max_forms: int = DEFAULT_MAX_FORMS) -> FormCycle:
     cycle = R.cycle(max_forms)
     if cycle[0] != R:
         raise ArithmeticError(f"internal check failed: the cycle of {R} starts elsewhere")
-    N = _round_trip(cycle)
+    N = rho_matrix_product(cycle, len(cycle))
     A = matrix_multiply(matrix_multiply(M, N), matrix_inverse(M))
     t = A[0] + A[3]
     if t < 0:

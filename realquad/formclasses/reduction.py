@@ -8,7 +8,8 @@ equivalent to ``F`` exactly when ``G' = G·J = (a, −b, c)``, ``J = [[1, 0], [0
 is properly equivalent to ``F``. For ``D < 0`` the test compares the unique
 reduced forms; for ``D > 0`` it looks for the reduced form of ``G`` in the
 cycle of ``F`` (:meth:`realquad.core.forms.Form.cycle`, the kernel walk), and
-only then makes the matrices, as far along the cycle as needed.
+only then makes the matrix of the rho steps between, by a product tree
+(:func:`realquad.formclasses.walks.rho_matrix_product`).
 
 >>> from realquad.core.forms import Form
 >>> r = reduce_form(Form(6, 5, 2))
@@ -29,9 +30,10 @@ Computational Algebraic Number Theory*, Springer 1993, §5.3–5.6.
 from __future__ import annotations
 
 from realquad.core.forms import Form
-from realquad.core.linalg import Matrix
+from realquad.core.linalg import Matrix, matrix_inverse, matrix_multiply
 from realquad.core.results import Proof
 from realquad.formclasses.results import FormEquivalence, FormReduction
+from realquad.formclasses.walks import rho_matrix_product
 from realquad.textio import signed
 
 #: How each sign of discriminant is reduced.
@@ -69,12 +71,19 @@ def _flip(F: Form) -> Form:
     return F.act((1, 0, 0, -1))
 
 
-def _proper_matrix(F: Form, G: Form, cycle: set[Form] | None, max_forms: int) -> Matrix | None:
-    """``M`` with ``F·M = G`` if properly equivalent (``cycle``: the reduced forms of ``F``'s class)."""
-    if cycle is not None and G.reduced() not in cycle:
+def _proper_matrix(F: Form, G: Form, cycle: list[Form] | None, max_forms: int) -> Matrix | None:
+    """``M`` with ``F·M = G`` if properly equivalent (``cycle``: that of ``F``'s reduced form, ``D > 0``)."""
+    if cycle is None:  # D < 0: one reduced form per class
+        M = F.equivalent(G, max_forms)
+        return None if M is None else _checked(F, M, G)
+    G1, M2 = G.reduce()
+    try:
+        k = cycle.index(G1)
+    except ValueError:
         return None
-    M = F.equivalent(G, max_forms)
-    return None if M is None else _checked(F, M, G)
+    _, M1 = F.reduce()
+    N = rho_matrix_product(cycle, k)
+    return _checked(F, matrix_multiply(matrix_multiply(M1, N), matrix_inverse(M2)), G)
 
 
 def equivalence(F: Form, G: Form, max_forms: int = DEFAULT_MAX_FORMS) -> FormEquivalence:
@@ -96,7 +105,7 @@ def equivalence(F: Form, G: Form, max_forms: int = DEFAULT_MAX_FORMS) -> FormEqu
         return FormEquivalence(
             F, G, False, None, False, None, differ, "discriminants compared", UNCONDITIONAL
         )
-    cycle = None if definite else set(F.cycle(max_forms))
+    cycle = None if definite else F.reduce()[0].cycle(max_forms)
     M = _proper_matrix(F, G, cycle, max_forms)
     flipped = _proper_matrix(F, _flip(G), cycle, max_forms)
     improper = None
@@ -114,7 +123,7 @@ def equivalence(F: Form, G: Form, max_forms: int = DEFAULT_MAX_FORMS) -> FormEqu
         "reduced forms compared (one per class), matrices from the reductions"
         if definite
         else "the reduced form of the second looked up in the rho cycle of the first, matrices "
-        "from the reductions and the rho steps between"
+        "from the reductions and the rho steps between (product tree)"
     )
     return FormEquivalence(
         F, G, M is not None, M, improper is not None, improper, reason, method, UNCONDITIONAL

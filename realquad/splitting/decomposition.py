@@ -94,7 +94,8 @@ class PrimeDecomposition(Display):
 
         >>> from realquad.core.orders import Order
         >>> print(decompose_prime(Order(-56), 3).to_latex())
-        3\mathcal{O} = \mathfrak{p}\bar{\mathfrak{p}},\quad \mathfrak{p} = \left[3, \frac{-2 + \sqrt{-56}}{2}\right],\quad [\mathfrak{p}] = (1),\quad 3 = 3x^{2} + 2xy + 5y^{2}\ \text{at}\ (x, y) = (1, 0)
+        \begin{gathered}3\mathcal{O} = \mathfrak{p}\bar{\mathfrak{p}},\quad \mathfrak{p} = \left[3, \frac{-2 + \sqrt{-56}}{2}\right],\quad [\mathfrak{p}] = (1),\\
+        3 = 3x^{2} + 2xy + 5y^{2}\ \text{at}\ (x, y) = (1, 0)\end{gathered}
         """
         p = integer(self.p, max_digits)
         if self.divides_conductor:
