@@ -25,6 +25,7 @@ C_{2} \\times C_{6} [4; \\overline{1, 3, 1, 8}]
 from __future__ import annotations
 
 import html
+import re
 from collections.abc import Callable, Iterable, Sequence
 from typing import Any
 
@@ -38,6 +39,15 @@ MAX_TERMS = 1000
 POINTS_PER_ROW = 6
 #: Partial quotients written on one line; a longer expansion is written over rows.
 TERMS_PER_ROW = 24
+#: The width of a row of displayed maths, in digits (about a page of 10-point type).
+ROW_WIDTH = 62
+#: The width of a symbol or operator macro with its spaces, in digits (1 when not listed).
+_MACRO_WIDTH = {
+    "quad": 2, "cdot": 2, "times": 2, "cong": 2, "iff": 4, "implies": 4, "equiv": 2, "in": 2,
+    "nmid": 2, "mid": 2, "le": 2, "ge": 2, "pmod": 5, "bmod": 4, "ldots": 2, "log": 3,
+}  # fmt: skip
+#: Macros that take one group and show it (their own mark aside).
+_SHOWN = {"text", "operatorname", "mathrm", "mathbb", "mathcal", "mathfrak", "overline", "bar"}
 
 
 def integer(n: int, max_digits: int = MAX_DIGITS) -> str:
@@ -139,7 +149,8 @@ def set_rows(
     total: int | None = None,
     brackets: tuple[str, str] = (r"\{", r"\}"),
 ) -> list[str]:
-    r"""``name = \{c_1, c_2, …\}`` over as many rows as it needs, ``per_row`` cells a row.
+    r"""``name = \{c_1, c_2, …\}`` over as many rows as it needs, at most ``per_row`` cells
+    and :data:`ROW_WIDTH` of width a row.
 
     ``total`` (when the cells are the first of more) ends the set with ``\ldots`` and the
     count; ``brackets`` ``("(", ")")`` writes a tuple instead.
@@ -150,7 +161,7 @@ def set_rows(
     cells = list(cells)
     if total is not None and total > len(cells):
         cells.append(rf"\ldots\ ({total}\text{{ in all}})")
-    rows = [", ".join(cells[i : i + per_row]) for i in range(0, len(cells), per_row)] or [""]
+    rows = pack(cells, ", ", ROW_WIDTH - width(name) - 3, per_row) or [""]
     rows[0] = f"{name} = {brackets[0]}" + rows[0]
     rows[-1] += brackets[1]
     return [row + ("," if i < len(rows) - 1 else "") for i, row in enumerate(rows)]
@@ -296,16 +307,113 @@ def points(items: Sequence[Sequence[int]], max_terms: int, max_digits: int = MAX
     return rf"\{{{text}\}}"
 
 
-def product(factors: Sequence[str], per_row: int = 3) -> str:
-    r"""``f_1 \cdot f_2 \cdot …``, ``per_row`` factors to a row of an ``aligned`` block beyond one row.
+def _group(latex: str, start: int) -> tuple[str, int]:
+    """The group ``{…}`` at ``start`` (or the one character there): its inside and the index after."""
+    if start >= len(latex):
+        return "", start
+    if latex[start] != "{":
+        return latex[start], start + 1
+    depth = 0
+    for j in range(start, len(latex)):
+        depth += {"{": 1, "}": -1}.get(latex[j], 0)
+        if depth == 0:
+            return latex[start + 1 : j], j + 1
+    return latex[start + 1 :], len(latex)
+
+
+def width(latex: str) -> float:
+    r"""About how wide ``latex`` is when typeset, in digits: a fraction as wide as its wider
+    part, a brace's label not counted, exponents smaller, operators with their spaces.
+
+    >>> width("x^{2} + 5y^{2}"), width(r"\frac{1 + \sqrt{5}}{2}"), width(integer(10**80, 30))
+    (6.4, 5.0, 42.0)
+    """
+    total, i = 0.0, 0
+    while i < len(latex):
+        c = latex[i]
+        if c == "\\":
+            name = re.match(r"[A-Za-z]*", latex[i + 1 :])[0]  # type: ignore[index]
+            i += 1 + max(len(name), 1)
+            if name == "frac":
+                top, i = _group(latex, i)
+                bottom, i = _group(latex, i)
+                total += max(width(top), width(bottom))
+            elif name == "underbrace":
+                inside, i = _group(latex, i)
+                total += width(inside)
+                i = _group(latex, i + 1)[1]  # the label under the brace
+            elif name in _SHOWN or name == "sqrt":
+                inside, i = _group(latex, i)
+                total += width(inside) + (1 if name == "sqrt" else 0)
+            elif name in ("begin", "end"):
+                i = _group(latex, i)[1]
+            elif name not in ("left", "right"):
+                total += _MACRO_WIDTH.get(name, 1)
+        elif c in "^_":
+            inside, i = _group(latex, i + 1)
+            total += 0.7 * width(inside)
+        elif c in "{}& ":
+            i += 1
+        else:
+            total += 2 if c in "+-=" else 1
+            i += 1
+    return round(total, 1)
+
+
+def pack(
+    cells: Sequence[str], separator: str, budget: float = ROW_WIDTH, most: int | None = None
+) -> list[str]:
+    """The cells joined by ``separator`` into rows of at most ``budget`` digits of width
+    (:func:`width`; a cell wider than that has a row of its own) and at most ``most`` cells.
+
+    >>> pack(["1", "2", "3"], ", ", 4), pack(["1", "2", "3"], ", ", most=2)
+    (['1, 2', '3'], ['1, 2', '3'])
+    """
+    rows: list[list[str]] = []
+    used = 0.0
+    for cell in cells:
+        size = width(cell) + width(separator)
+        if rows and used + size <= budget and (most is None or len(rows[-1]) < most):
+            rows[-1].append(cell)
+            used += size
+        else:
+            rows.append([cell])
+            used = size
+    return [separator.join(row) for row in rows]
+
+
+def clauses(parts: Sequence[str], budget: float = ROW_WIDTH) -> list[str]:
+    r"""Statements ``a,\quad b,\quad …`` over as few rows as fit ``budget``, a comma ending each
+    row that the next continues.
+
+    >>> clauses(["h = 3", "h^{+} = 6"]), clauses(["h = 3", "h^{+} = 6"], 8)
+    (['h = 3,\\quad h^{+} = 6'], ['h = 3,', 'h^{+} = 6'])
+    """
+    rows = pack(parts, ",\\quad ", budget)
+    return [row + "," for row in rows[:-1]] + rows[-1:]
+
+
+def sum_rows(lead: str, summands: str, budget: float = ROW_WIDTH) -> list[str]:
+    r"""``lead`` then the sum ``summands`` over rows, broken before a ``+`` or ``-`` between terms.
+
+    >>> sum_rows("H(X) = ", "X^{2} + 3491750X - 5151296875", 20)
+    ['H(X) = X^{2} + 3491750X', '- 5151296875']
+    """
+    cells = re.split(r" (?=[+-] )", summands)
+    rows = pack(cells, " ", budget - width(lead))
+    return [lead + rows[0], *rows[1:]]
+
+
+def product(factors: Sequence[str], budget: float = ROW_WIDTH) -> str:
+    r"""``f_1 \cdot f_2 \cdot …``, over the rows of an ``aligned`` block when wider than ``budget``.
 
     >>> product(["a", "b"])
     'a \\cdot b'
-    >>> print(product(["a", "b", "c"], 2))
+    >>> print(product(["a", "b", "c"], 6))
     \begin{aligned}&a \cdot b\\
     &\quad\cdot c\end{aligned}
     """
-    rows = [" \\cdot ".join(factors[i : i + per_row]) for i in range(0, len(factors), per_row)]
+    rows = pack(factors, " \\cdot ", budget)
     if len(rows) <= 1:
         return rows[0] if rows else "1"
     return r"\begin{aligned}&" + "\\\\\n&\\quad\\cdot ".join(rows) + r"\end{aligned}"

@@ -13,7 +13,7 @@ from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
 from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.errors import InputError
-from realquad.latex import display, text
+from realquad.latex import display, set_rows, text
 from realquad.latex import lines as lines_latex
 from realquad.textio import group_text, plural, signed
 from realquad.units import unit_group
@@ -158,8 +158,8 @@ def _latex(G: ClassGroup, with_forms: bool, max_digits: int) -> str:
             if shown >= SHOWN_FORMS:
                 rows.append(rf"\ldots\ {text(f'{len(classes) - k} more classes')}")
                 break
-            forms = ", ".join(F.to_latex(max_digits) for F in cycle[: SHOWN_FORMS - shown])
-            more = r", \ldots" if len(cycle) > SHOWN_FORMS - shown else ""
-            rows.append(rf"\mathcal{{C}}_{{{k}}} = \{{{forms}{more}\}}")
+            forms = [F.to_latex(max_digits) for F in cycle[: SHOWN_FORMS - shown]]
+            total = len(cycle) if len(cycle) > len(forms) else None
+            rows += set_rows(rf"\mathcal{{C}}_{{{k}}}", forms, len(forms), total)
             shown += len(cycle)
     return display(lines_latex(rows), G.latex_note())

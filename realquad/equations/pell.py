@@ -44,18 +44,21 @@ from realquad.infrastructure.table import compiled_table
 from realquad.latex import (
     MAX_DIGITS,
     POINTS_PER_ROW,
+    ROW_WIDTH,
     Display,
     brief_repr,
     fraction,
     integer,
     lines,
     named_set,
+    pack,
     parenthesised,
     point,
     sqrt,
     surd,
     terms,
     text,
+    width,
 )
 from realquad.textio import about, decimal_digits, shown, signed, to_decimal
 from realquad.units import DEFAULT_MAX_PERIOD, Regulator, Unit, fundamental_unit
@@ -173,20 +176,25 @@ class PellSolution(Display):
         r = sqrt(self.d, max_digits)
         half = abs(self.norm) == 4
         exponent = "2k + 1" if self.norm < 0 else "k"
+        eta = fraction(f"x_{{1}} + y_{{1}}{r}", 2 if half else 1)
         if self.x is not None and self.y is not None:
-            first = rf"{equation}:\quad (x_{{1}}, y_{{1}}) = {point((self.x, self.y), max_digits)}"
+            rows = [rf"{equation}:\quad (x_{{1}}, y_{{1}}) = {point((self.x, self.y), max_digits)}"]
+            if width(rows[0]) > ROW_WIDTH:  # x₁ and y₁ on rows of their own
+                x, y = integer(self.x, max_digits), integer(self.y, max_digits)
+                rows = [f"{equation}:", *pack([f"x_{{1}} = {x}", f"y_{{1}} = {y}"], ",\\quad ")]
             base = surd(self.x, self.y, 2 if half else 1, self.d, max_digits)
         else:
             assert self.compact is not None
             about = "" if self.digits_exact else r"\approx "
             size = rf"{text('with')}\ {about}{integer(self.digits or 0, 0)}\ {text('digits')}"
-            eta = fraction(f"x_{{1}} + y_{{1}}{r}", 2 if half else 1)
-            first = rf"{equation}:\quad {eta} = {self.compact.to_latex(max_digits)}"
-            first += rf"\\x_{{1}}\ {size}"
+            rows = [rf"{equation}:\quad {eta} = {self.compact.to_latex(max_digits)}"]
+            rows.append(rf"x_{{1}}\ {size}")
             base = eta
         family = fraction(f"x + y{r}", 2 if half else 1)
         every = rf"{family} = \pm{parenthesised(base)}^{{{exponent}}},\quad k \in \mathbb{{Z}}"
-        return lines([first, every])
+        if width(every) > ROW_WIDTH:  # the least solution by its name
+            every = rf"{family} = \pm{parenthesised(eta)}^{{{exponent}}},\quad k \in \mathbb{{Z}}"
+        return lines([*rows, every])
 
     def solution(self, k: int) -> tuple[int, int]:
         """The k-th positive solution (k ≥ 1; k = 0 gives the trivial one for N > 0)."""

@@ -75,8 +75,10 @@ from realquad.latex import (
     integer,
     lines,
     named_set,
+    pack,
     point,
     sequence,
+    sum_rows,
     text,
 )
 from realquad.splitting.class_polynomial import ClassPolynomial, ring_class_polynomial
@@ -264,11 +266,11 @@ class RepresentationCriterion(Display):
         if self.residues is not None and len(self.residues) > RESIDUES_PER_ROW:
             write = partial(integer, max_digits=max_digits)
             R, residue_rows = named_set("R", self.residues, write, RESIDUES_PER_ROW, max_terms)
-            condition = rf"p \bmod {modulus} \in {R}"
+            conditions = [rf"p \bmod {modulus} \in {R}"]
         elif self.residues is not None:
-            condition = rf"p \equiv {sequence(self.residues, max_terms)} \pmod{{{modulus}}}"
+            conditions = [rf"p \equiv {sequence(self.residues, max_terms)} \pmod{{{modulus}}}"]
         else:
-            condition = ",\\ ".join(f"{_character_latex(n)} = {v}" for n, v in self.characters)
+            conditions = [f"{_character_latex(n)} = {v}" for n, v in self.characters]
         arrow = r"\iff" if self.exact else r"\implies"
         where = rf"p \nmid {D}"
         rows = []
@@ -280,9 +282,12 @@ class RepresentationCriterion(Display):
                 else text(f"splits into factors of degree {self.factor_degree}")
             )
             legendre = rf"\left(\frac{{{D}}}{{p}}\right) = 1"
-            condition = rf"{legendre},\ {condition},\ H(X) \bmod p\ {split}"
-            rows.append(rf"H(X) = {self.polynomial.to_latex(max_digits).split(' = ', 1)[1]}")
-        rows[0:0] = [rf"{where}:\quad p = F(x, y) {arrow} {condition}", *residue_rows]
+            conditions = [legendre, *conditions, rf"H(X) \bmod p\ {split}"]
+            rows += sum_rows("H(X) = ", self.polynomial.to_latex(max_digits).split(" = ", 1)[1])
+        head = rf"{where}:\quad p = F(x, y) {arrow} "
+        criterion = pack([head + conditions[0], *conditions[1:]], ",\\ ")
+        criterion = [row + "," for row in criterion[:-1]] + criterion[-1:]
+        rows[0:0] = [*criterion, *residue_rows]
         dividing = r"\{" + sequence(self.dividing_represented, 0) + r"\}"
         if not self.dividing_represented:
             dividing = r"\emptyset"
@@ -494,8 +499,7 @@ class FormPrimes(Display):
         if yes:
             shown = yes if max_terms == 0 else yes[:max_terms]
             cells = [f"{integer(r.p)} = F{point((r.x or 0, r.y or 0), max_digits)}" for r in shown]
-            step = VALUES_PER_ROW
-            found = [",\\ ".join(cells[i : i + step]) for i in range(0, len(cells), step)]
+            found = pack(cells, ",\\ ", most=VALUES_PER_ROW)
             rows += [row + "," for row in found[:-1]] + found[-1:]
             rows[-1] += r",\ \ldots" if len(shown) < len(yes) else ""
         if no:

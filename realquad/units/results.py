@@ -18,7 +18,7 @@ import mpmath
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
-from realquad.latex import MAX_DIGITS, Display, brief_repr, integer, sqrt, text
+from realquad.latex import MAX_DIGITS, Display, brief_repr, clauses, integer, lines, sqrt, text
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
@@ -220,12 +220,14 @@ class Unit(Display):
         reg = f"\\log\\varepsilon = {self.regulator(regulator_digits)}"
         norm = f"N(\\varepsilon) = {integer(self.norm)}"
         if self.expands_within(max_digits):
-            return f"\\varepsilon = {self.expand().to_latex(max_digits)},\\quad {norm},\\quad {reg}"
-        digits, exact = self.digits_from_regulator()
-        about = "" if exact else r"\approx "
-        r = sqrt(self.order.radicand, max_digits)
-        size = f"x {text(' has ')} {about}{integer(digits, 0)} {text(' digits')}"
-        return rf"\varepsilon = \frac{{x + y{r}}}{{c}},\quad {size},\quad {norm},\quad {reg}"
+            parts = [f"\\varepsilon = {self.expand().to_latex(max_digits)}", norm, reg]
+        else:
+            digits, exact = self.digits_from_regulator()
+            about = "" if exact else r"\approx "
+            r = sqrt(self.order.radicand, max_digits)
+            size = f"x {text(' has ')} {about}{integer(digits, 0)} {text(' digits')}"
+            parts = [rf"\varepsilon = \frac{{x + y{r}}}{{c}}", size, norm, reg]
+        return lines(clauses(parts))
 
     def to_dict(
         self, expand: bool = True, with_compact: bool = False, regulator_digits: int = 30

@@ -386,3 +386,25 @@ def test_power_refuses_work_beyond_its_budget() -> None:
     assert form_power(Form(2, 1, 3), 10**30).reduced == Form(
         2, 1, 3
     )  # h(−23) = 3, 10³⁰ ≡ 1 (mod 3)
+
+
+big = st.integers(-(10**50), 10**50)
+
+
+@given(a=big, b=big, c=big)
+@example(a=1, b=10**50, c=-1)
+@example(a=10**50, b=1, c=10**50)
+def test_large_forms_reduce_and_square_consistently(a: int, b: int, c: int) -> None:
+    D = b * b - 4 * a * c
+    assume(D != 0 and not (D > 0 and isqrt(D) ** 2 == D))
+    if D < 0 and a < 0:
+        a, b, c = -a, -b, -c
+    F = Form(a, b, c)
+    r = reduce_form(F)
+    al, be, ga, de = r.matrix
+    assert al * de - be * ga == 1 and F.act(r.matrix) == r.reduced and r.reduced.is_reduced()
+    if F.is_primitive():
+        square, composite = form_power(F, 2).reduced, compose_forms(F, F).reduced
+        assert square.discriminant == composite.discriminant == D
+        if D < 0:  # one reduced form per class (a long cycle for D > 0 is left to small D)
+            assert square == composite
