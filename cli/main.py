@@ -33,7 +33,8 @@ def cli() -> None:
     """Exact computation in real quadratic fields and orders.
 
     Continued fractions, Pell equations, fundamental units and regulators,
-    class groups and prime splitting, integer solutions of quadratic
+    class groups and prime splitting, binary quadratic forms (reduction,
+    equivalence, composition, cycles), integer solutions of quadratic
     equations in x and y, and surveys over ranges of fields. Every command
     takes --json; every result names its method and its proof.
     """
