@@ -134,7 +134,7 @@ def test_definite_reduction_matches_the_minimum(D: int, data: st.DataObject) -> 
     r = reduce_form(F)
     al, be, ga, de = r.matrix
     assert al * de - be * ga == 1 and F.act(r.matrix) == r.reduced
-    assert r.reduced == G  # one reduced form per class (Cohen, Thm 5.3.4)
+    assert r.reduced == G  # one reduced form per class (Cohen, §5.3)
     assert r.reduced.a == minimum(F)  # a reduced form's a is the least value (brute force)
 
 
