@@ -16,7 +16,7 @@ different forms of that class's cycle.
 Form(1, 1, 6)
 
 References: H. Cohen, *A Course in Computational Algebraic Number Theory*,
-Springer 1993, §5.4.2 (Algorithm 5.4.7) and §5.6; M. J. Jacobson Jr. and A. J.
+Springer 1993, §5.4 (Algorithm 5.4.7) and §5.6; M. J. Jacobson Jr. and A. J.
 van der Poorten, "Computational aspects of NUCOMP", ANTS-V, LNCS 2369 (2002).
 """
 

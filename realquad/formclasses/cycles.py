@@ -8,7 +8,7 @@ is, up to sign, the automorph ``A`` of the reduced form that generates its
 proper automorphs up to ``±1``; conjugated by the reduction matrix it fixes
 ``F`` itself. With trace ``t`` and lower-left entry ``a·u/g`` (``g`` the
 content of ``F``), ``(t + u√D')/2`` is the least unit ``> 1`` of norm +1 of
-the order of discriminant ``D' = D/g²`` (Buchmann–Vollmer, §6.12; for the
+the order of discriminant ``D' = D/g²`` (Buchmann–Vollmer, ch. 6; for the
 principal form, the least solution of ``t² − D'u² = 4``).
 
 >>> from realquad.core.forms import Form
@@ -17,7 +17,7 @@ principal form, the least solution of ``t² − D'u² = 4``).
 (10, (649, 2340, 180, 649), '649 + 180√13')
 
 References: J. Buchmann and U. Vollmer, *Binary Quadratic Forms*, Springer 2007,
-§6.8–6.12 (cycles, automorphisms and units).
+ch. 6 (cycles, automorphisms and units).
 """
 
 from __future__ import annotations
