@@ -114,7 +114,7 @@ def test_class_of_each_form_of_discriminant_minus_56(capsys: pytest.CaptureFixtu
 
 
 def test_class_of_an_indefinite_form(capsys: pytest.CaptureFixture[str]) -> None:
-    # Q(√79): h = 3 (OEIS A003649; from memory), the norm of ε = 80 + 9√79 is +1, so h⁺ = 6
+    # Q(√79): h = 3 (from memory), the norm of ε = 80 + 9√79 is +1, so h⁺ = 6
     data = run_json(capsys, "form", "class", "3x^2 + 14xy - 10y^2")
     assert data["class_group"]["narrow_invariants"] == [6]
     assert (data["narrow_order"], data["wide_order"]) == (6, 3)

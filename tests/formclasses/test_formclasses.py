@@ -204,8 +204,9 @@ def test_equivalence_refuses_a_cycle_beyond_the_limit() -> None:
 
 @pytest.mark.parametrize(
     ("D", "h"),
-    # class numbers h(D) of imaginary quadratic fields, OEIS A006641 (D = −3, −4, −7, …) and
-    # Cox, Primes of the Form x² + ny², §2.A (x² + 14y²: h(−56) = 4)
+    # class numbers h(D) from memory (−3, −4, −7, −8 are among Heegner's class-number-one
+    # discriminants; Cox, Primes of the Form x² + ny², §2.A has h(−56) = 4), each also
+    # checked by the brute-force count of reduced forms below
     [(-3, 1), (-4, 1), (-7, 1), (-8, 1), (-15, 2), (-20, 2), (-23, 3), (-56, 4), (-71, 7)],
 )
 def test_composition_makes_a_group_of_the_published_order(D: int, h: int) -> None:
@@ -254,7 +255,7 @@ def test_composition_is_associative_and_commutative(D: int, data: st.DataObject)
 
 
 def test_indefinite_powers_of_the_prime_form_above_3_in_q_sqrt_79() -> None:
-    # h⁺(4·79) = 6 with Cl⁺ cyclic, h(Q(√79)) = 3 (OEIS A003649: h of Q(√n), n = 79 → 3; from memory)
+    # h⁺(4·79) = 6 with Cl⁺ cyclic, h(Q(√79)) = 3 (from memory)
     F = prime_form(316, 3)
     principal = Form.identity(316)
     orders = [
