@@ -53,7 +53,7 @@ False
 References: C. F. Gauss, *Disquisitiones Arithmeticae*, art. 291–292; the
 class-number form and its use for tabulation: A. S. Mosunov and M. J.
 Jacobson Jr., "Unconditional class group tabulation of imaginary quadratic
-fields to |Δ| < 2⁴⁰", *Math. Comp.* 85 (2016), 1983–2009, §2–3; ``r₃`` is OEIS
+fields to ``|Δ|`` < 2⁴⁰", *Math. Comp.* 85 (2016), 1983–2009, §2–3; ``r₃`` is OEIS
 A005875, the Hurwitz class numbers ``12·H(n)`` OEIS A259825.
 """
 

@@ -29,7 +29,7 @@ columns are empty.
 ([-314, -313, -311, -310, -309], (26, 8, 0, 8, 12))
 
 References: A. S. Mosunov and M. J. Jacobson Jr., "Unconditional class group
-tabulation of imaginary quadratic fields to |Δ| < 2⁴⁰", *Math. Comp.* 85
+tabulation of imaginary quadratic fields to ``|Δ|`` < 2⁴⁰", *Math. Comp.* 85
 (2016), 1983–2009 (class numbers from theta series, then the structure from
 the factorisation of ``h``).
 """
