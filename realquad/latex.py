@@ -465,8 +465,12 @@ def rational(p: int, q: int, max_digits: int = MAX_DIGITS) -> str:
     return sign + fraction(integer(abs(p), max_digits), abs(q), max_digits)
 
 
-def table(align: str, header: Sequence[str], rows: Iterable[Sequence[str]]) -> str:
+def table(
+    align: str, header: Sequence[str], rows: Iterable[Sequence[str]], narrow: bool = False
+) -> str:
     r"""A ``tabular`` with ruled header; cells are LaTeX in text mode (``$…$`` for maths).
+
+    ``narrow`` sets it in small type with less space between the columns (a wide table).
 
     >>> print(table("rr", ["$d$", "$h$"], [["5", "1"]]))
     \begin{tabular}{rr}
@@ -479,7 +483,8 @@ def table(align: str, header: Sequence[str], rows: Iterable[Sequence[str]]) -> s
     """
     body = [" & ".join(row) + r" \\" for row in rows]
     out = [rf"\begin{{tabular}}{{{align}}}", r"\hline", " & ".join(header) + r" \\", r"\hline"]
-    return "\n".join([*out, *body, r"\hline", r"\end{tabular}"])
+    text = "\n".join([*out, *body, r"\hline", r"\end{tabular}"])
+    return "{\\small\\setlength{\\tabcolsep}{3pt}\n" + text + "}" if narrow else text
 
 
 def escape(words: str) -> str:

@@ -31,7 +31,7 @@ KNOWN_MACROS = {
     "cdot", "times", "cong", "pm", "in", "mathbb", "mathcal", "mathfrak", "bar",
     "operatorname", "varepsilon", "log", "langle", "rangle", "zeta", "begin", "end",
     "nmid", "mid", "iff", "implies", "equiv", "pmod", "bmod", "emptyset", "le", "ge",
-    "delta", "mathrm", "hline", "approx", "alpha", "to", "not", "sim",
+    "delta", "mathrm", "hline", "approx", "alpha", "small", "setlength", "tabcolsep", "to", "not", "sim",
 }  # fmt: skip
 #: The environments the package may write.
 KNOWN_ENVIRONMENTS = {"gathered", "aligned", "pmatrix", "tabular"}
@@ -113,11 +113,11 @@ def latex_engine() -> str | None:
     return None
 
 
-def compile_latex(fragments: list[str], directory: Path) -> None:
-    """Compile a document made of ``fragments`` (text mode) with the installed engine."""
+def compile_latex(fragments: list[str], directory: Path) -> str:
+    """Compile a document made of ``fragments`` (text mode) with the installed engine; its log."""
     tex = directory / "note.tex"
     tex.write_text(PREAMBLE + "\n\n".join(fragments) + "\n\\end{document}\n", encoding="utf-8")
-    compile_document(tex)
+    return compile_document(tex)
 
 
 def compile_document(tex: Path) -> str:

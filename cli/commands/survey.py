@@ -607,7 +607,7 @@ def _rows_latex(rows: list[dict[str, Any]], notes: list[str]) -> str:
         ]
         for r in rows
     ]
-    return table("rrrrllrrlrr", header, body) + "\n" + _comments(notes)
+    return table("rrrrllrrlrr", header, body, narrow=True) + "\n" + _comments(notes)
 
 
 def _share_latex(value: float | None) -> str:

@@ -105,7 +105,8 @@ def test_every_command_writes_latex_that_parses_and_compiles(
         assert "% method: " in out or "proof: " in out or r"\begin{tabular}" in out
     if latex_engine() is None:
         pytest.skip("no LaTeX engine (pdflatex, lualatex, tectonic) installed; parsed only")
-    compile_latex(outs, tmp_path)
+    log = compile_latex(outs, tmp_path)
+    assert "Overfull \\hbox" not in log  # every formula fits the width of a page
 
 
 def test_pell_61_in_latex(capsys: Any) -> None:
