@@ -11,7 +11,7 @@ from tests.cli.support import COMMAND_NAMES, run
 
 #: Words a command line is made of, to mix with random text.
 WORDS = [
-    "--json", "--disc", "--norm", "--digits", "--max-digits", "--output", "--method", "--forms",
+    "--json", "--latex", "--disc", "--norm", "--digits", "--max-digits", "--output", "--method", "--forms",
     "--prime", "--primes-up-to", "--bound", "--member", "--max-terms", "--convergents", "--best",
     "--compact", "--d-min", "--d-max", "--db", "--limit", "--csv", "--top", "--class-number",
     "auto", "exact", "bsgs", "cfrac", "-1", "-5", "0", "1", "2", "4", "61", "79", "-20", "1300",
