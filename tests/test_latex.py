@@ -32,7 +32,7 @@ from realquad.equations.norm import solve_norm_equation
 from realquad.equations.pell import pell
 from realquad.errors import RealquadError
 from realquad.splitting import form_primes
-from realquad.units import fundamental_unit, unit_group
+from realquad.units import fundamental_unit, regulator, unit_group
 from tests.latex_support import (
     check_latex,
     compile_document,
@@ -281,6 +281,7 @@ def _results() -> list[object]:
         Ideal(316, 1, 3, 2),
         continued_fraction("(1+sqrt(13))/2"),
         fundamental_unit(4 * 94),
+        regulator(4 * 94, 12),
         unit_group(-3),
         class_group(4 * 79),
         pell(61),

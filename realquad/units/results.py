@@ -29,7 +29,7 @@ NO_UNIT_OF_INFINITE_ORDER = (
 
 
 @dataclass(frozen=True)
-class Regulator:
+class Regulator(Display):
     """The regulator ``R = log ε`` of an order, rounded to ``digits`` significant digits.
 
     ``error_bound`` bounds ``|value − R|`` rigorously (absolute error of the
@@ -50,6 +50,24 @@ class Regulator:
 
     def __float__(self) -> float:
         return float(self.value)
+
+    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+        r"""``R \approx 0.4812…``, rounded to its digits (the note gives the error bound).
+
+        >>> from realquad.units import regulator
+        >>> r = regulator(5, 12)
+        >>> print(r.to_latex())
+        R \approx 0.481211825060
+        >>> r.latex_note().split("; ")[-1]
+        'rounded to 12 significant digits from a value within 2.7e-19 of R'
+        """
+        return rf"R \approx {self}"
+
+    def latex_note(self) -> str | None:
+        """The method and proof, and how far the printed value may be from ``R``."""
+        bound = mpmath.nstr(self.error_bound, 2)
+        closeness = f"rounded to {self.digits} significant digits from a value within {bound} of R"
+        return f"{super().latex_note()}; {closeness}"
 
     def to_dict(self) -> JSONObject:
         """The JSON shape of a regulator (``docs/json.md``, *Regulator*): decimals as strings."""
