@@ -292,21 +292,6 @@ def point(p: Sequence[int], max_digits: int = MAX_DIGITS) -> str:
     return "(" + ", ".join(integer(v, max_digits) for v in p) + ")"
 
 
-def points(items: Sequence[Sequence[int]], max_terms: int, max_digits: int = MAX_DIGITS) -> str:
-    r"""``\{(x_1, y_1), …\}``, at most ``max_terms`` of them (0: all); ``\emptyset`` when none.
-
-    >>> points([(1, 0), (-1, 0)], 0), points([], 0)
-    ('\\{(1, 0), (-1, 0)\\}', '\\emptyset')
-    """
-    if not items:
-        return r"\emptyset"
-    shown = list(items if max_terms == 0 else items[:max_terms])
-    text = ", ".join(point(p, max_digits) for p in shown)
-    if len(shown) < len(items):
-        text += rf", \ldots\ (\text{{{len(items)} in all}})"
-    return rf"\{{{text}\}}"
-
-
 def _group(latex: str, start: int) -> tuple[str, int]:
     """The group ``{…}`` at ``start`` (or the one character there): its inside and the index after."""
     if start >= len(latex):
@@ -427,21 +412,8 @@ def factor(base: str, exponent: int = 1, max_digits: int = MAX_DIGITS) -> str:
     """
     if exponent != 1:
         return power(base, exponent, max_digits)
-    whole_fraction = base.startswith(r"\frac{") and _braced_end(base, 5) == len(base) - 1
+    whole_fraction = base.startswith(r"\frac{") and _group(base, _group(base, 5)[1])[1] == len(base)
     return base if whole_fraction else parenthesised(base)
-
-
-def _braced_end(text: str, start: int) -> int:
-    """The index of the brace closing the group that opens at ``start``, after its second group."""
-    end = start
-    for _ in range(2):  # \frac{…}{…}: numerator, then denominator
-        depth = 0
-        for j in range(end, len(text)):
-            depth += {"{": 1, "}": -1}.get(text[j], 0)
-            if depth == 0:
-                end = j + 1
-                break
-    return end - 1
 
 
 def power(base: str, exponent: int, max_digits: int = MAX_DIGITS) -> str:
@@ -545,7 +517,7 @@ def display(body: str, note: str | None) -> str:
     return out
 
 
-def brief(value: Any, width: int = 60) -> str:
+def brief(value: Any, limit: int = 60) -> str:
     """``repr`` of a field for :func:`brief_repr`: long integers by their ends, long lists cut.
 
     >>> brief(10**70), brief(list(range(20)), 20)
@@ -558,8 +530,8 @@ def brief(value: Any, width: int = 60) -> str:
     if isinstance(value, (list, tuple)):
         parts: list[str] = []
         for item in value:
-            parts.append(brief(item, width))
-            if sum(len(p) + 2 for p in parts) > width:
+            parts.append(brief(item, limit))
+            if sum(len(p) + 2 for p in parts) > limit:
                 parts[-1] = f"…{len(value)} items"
                 break
         body = ", ".join(parts)
