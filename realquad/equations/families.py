@@ -488,8 +488,9 @@ class CompactOrbitFamily:
                 k += step
         return sort_points(out)
 
-    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
-        r"""``x + y√d = ±α εᵏ``, ``α`` written out when it is, else in compact form; ``ε`` compact."""
+    def to_latex(self, max_digits: int = MAX_DIGITS, with_unit: bool = True) -> str:
+        r"""``x + y√d = ±α εᵏ``, ``α`` written out when it is, else in compact form; ``ε`` compact
+        (left to the caller with ``with_unit=False``, when families share it)."""
         if self.fundamental is not None:
             alpha = parenthesised(surd(*self.fundamental, 1, self.d, max_digits))
             alpha = "" if alpha == "1" else alpha  # the class of the units themselves
@@ -499,7 +500,8 @@ class CompactOrbitFamily:
         rows = [every]
         if self.fundamental is None:
             rows.append(rf"\alpha = {self.generator.to_latex(max_digits)}")
-        rows.append(rf"\varepsilon = {self.unit.to_latex(max_digits)}")
+        if with_unit:
+            rows.append(rf"\varepsilon = {self.unit.to_latex(max_digits)}")
         return lines(rows)
 
     def to_dict(self) -> JSONObject:
@@ -609,10 +611,24 @@ class QuadraticSolutions(Display):
         S, defining = named_set("S", self.solutions, write, POINTS_PER_ROW, max_terms)
         if self.finite:
             return lines([rf"{first}:\quad (x, y) \in {S}", *defining])
-        rows = [first + ":"] + [family.to_latex(max_digits) for family in self.families]
+        rows = [first + ":", *self._family_rows(max_digits)]
         if self.solutions:
             rows += [rf"{text('and')}\ (x, y) \in {S}", *defining]
         return lines(rows)
+
+    def _family_rows(self, max_digits: int) -> list[str]:
+        """One row per family; the unit of families in compact form once, after them all."""
+        compact = [f for f in self.families if isinstance(f, CompactOrbitFamily)]
+        shared = len(compact) > 1 and all(f.unit == compact[0].unit for f in compact)
+        rows = [
+            f.to_latex(max_digits, with_unit=False)
+            if shared and isinstance(f, CompactOrbitFamily)
+            else f.to_latex(max_digits)
+            for f in self.families
+        ]
+        if shared:
+            rows.append(rf"\varepsilon = {compact[0].unit.to_latex(max_digits)}")
+        return rows
 
     def satisfies(self, x: int, y: int) -> bool:
         a, b, c, d, e, f = self.coefficients

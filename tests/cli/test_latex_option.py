@@ -183,3 +183,20 @@ def test_a_family_in_compact_form(capsys: Any) -> None:
     check_latex(out)
     assert r"x + y\sqrt{1000000000000000000000049} = \pm\varepsilon^{k}" in out
     assert r"\varepsilon = " in out
+
+
+@pytest.mark.skipif(
+    BACKEND != "compiled",
+    reason="the infrastructure's giant steps run compiled (the pure twin would take minutes)",
+)
+def test_families_in_compact_form_share_one_unit(capsys: Any) -> None:
+    d = 10**24 + 49
+    code, out, err = run(capsys, "solve", f"x^2 - {d} y^2 = {1 - d}", "--latex")
+    assert code == 0, err
+    check_latex(out)
+    assert out.count(r"\varepsilon = ") == 1  # written once, after the families that share it
+    family = re.escape(r"\right)\varepsilon^{k}")
+    root = re.escape(rf"\sqrt{{{d}}}")
+    starts = re.findall(rf"= \\pm\\left\((-?\d+) \+ {root}{family}", out)
+    assert sorted(int(x) for x in starts) == [-1, 1]
+    assert all(x * x - d == 1 - d for x in (-1, 1))  # (±1, 1) solve x² − dy² = 1 − d
