@@ -257,9 +257,10 @@ def continued_fraction_rows(
     def a(i: int) -> str:
         return f"a_{{{i}}}"
 
-    head = {0: [], 1: [a(0)], 2: [a(0), a(1)]}.get(m, [a(0), a(1), r"\ldots", a(m - 1)])
+    head = [a(i) for i in range(m)] if m <= 4 else [a(0), a(1), r"\ldots", a(m - 1)]
     if length:
-        tail = [rf"\overline{{{a(m)}, \ldots, {a(m + length - 1)}}}"]
+        bar = [a(i) for i in range(m, m + length)] if length <= 3 else [a(m), r"\ldots", a(n - 1)]
+        tail = [rf"\overline{{{', '.join(bar)}}}"]
     else:
         head, tail = [a(0)], [a(1), r"\ldots", a(n - 1)]
     shape = ", ".join([*head[1:], *tail])
