@@ -574,7 +574,7 @@ class QuadraticSolutions(Display):
     def __repr__(self) -> str:
         return brief_repr(
             type(self).__name__,
-            equation=equation_text(self.coefficients),
+            equation=self.equation_text(),
             finite=self.finite,
             families=len(self.families),
             solutions=self.solutions,
@@ -585,6 +585,10 @@ class QuadraticSolutions(Display):
     def latex_note(self) -> str | None:
         """The method and proof, then the notes, one a line."""
         return "\n".join([super().latex_note() or "", *(f"note: {n}" for n in self.notes)])
+
+    def equation_text(self) -> str:
+        """The equation as text: ``ax² + bxy + cy² + dx + ey + f = 0`` (:func:`equation_text`)."""
+        return equation_text(self.coefficients)
 
     def equation_latex(self, max_digits: int = MAX_DIGITS) -> str:
         """The equation in LaTeX: ``ax² + bxy + cy² + dx + ey + f = 0``."""

@@ -75,7 +75,7 @@ from realquad.equations.pell import pell
 from realquad.errors import TooLargeError
 from realquad.infrastructure.table import compiled_table
 from realquad.latex import MAX_DIGITS, integer, terms
-from realquad.textio import about, shown
+from realquad.textio import about, shown, signed, terms_text
 from realquad.units.bsgs import check_reach
 
 #: Longest principal cycle of √d the solver walks (and keeps in memory).
@@ -94,6 +94,14 @@ class NormEquationSolution(QuadraticSolutions):
     d: int = 0
     n: int = 0
     classes: list[Point] = field(default_factory=list)
+
+    def equation_text(self) -> str:
+        """``x² − dy² = n`` as text, as it was asked.
+
+        >>> repr(solve_norm_equation(13, -4))[:50]
+        "NormEquationSolution(equation='x² − 13y² = −4', fi"
+        """
+        return terms_text([(1, "x²"), (-self.d, "y²")]) + f" = {signed(self.n)}"
 
     def equation_latex(self, max_digits: int = MAX_DIGITS) -> str:
         """``x² − dy² = n`` in LaTeX.
