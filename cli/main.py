@@ -36,7 +36,8 @@ def cli() -> None:
     class groups and prime splitting, binary quadratic forms (reduction,
     equivalence, composition, cycles), integer solutions of quadratic
     equations in x and y, and surveys over ranges of fields. Every command
-    takes --json; every result names its method and its proof.
+    takes --json, and --latex for LaTeX to paste into a paper; every result
+    names its method and its proof.
     """
 
 
