@@ -64,6 +64,31 @@ def integer(n: int, max_digits: int = MAX_DIGITS) -> str:
     return rf"{sign}\underbrace{{{leading}\ldots {trailing}}}_{{{k}\text{{ digits}}}}"
 
 
+#: Digits a row of a long integer holds, in groups of five.
+DIGITS_PER_ROW = 50
+
+
+def integer_rows(name: str, n: int, max_digits: int = MAX_DIGITS) -> list[str]:
+    r"""``name = n`` on one row, or an integer too long for one over rows of fifty digits,
+    grouped by five with thin spaces (as tables of long numbers are printed).
+
+    >>> integer_rows("x", 12345)
+    ['x = 12345']
+    >>> for row in integer_rows("x", 7**100):
+    ...     print(row)
+    x = 32344\,76509\,62475\,79913\,44647\,76910\,02168\,10857\,20319\,89046
+    25400\,93389\,53313\,91691\,45963\,69280\,60001
+    """
+    text = integer(n, max_digits)
+    if width(f"{name} = {text}") <= ROW_WIDTH or r"\underbrace" in text:
+        return [f"{name} = {text}"]
+    sign, digits = ("-", text[1:]) if text.startswith("-") else ("", text)
+    groups = [digits[i : i + 5] for i in range(0, len(digits), 5)]
+    step = DIGITS_PER_ROW // 5
+    rows = [r"\,".join(groups[i : i + step]) for i in range(0, len(groups), step)]
+    return [f"{name} = {sign}{rows[0]}", *rows[1:]]
+
+
 def terms(pairs: Iterable[tuple[int, str]], max_digits: int = MAX_DIGITS) -> str:
     """``a m₁ + b m₂ + …`` in LaTeX (monomials given as LaTeX; coefficients ±1 left out).
 

@@ -49,6 +49,7 @@ from realquad.latex import (
     brief_repr,
     fraction,
     integer,
+    integer_rows,
     lines,
     named_set,
     pack,
@@ -180,8 +181,9 @@ class PellSolution(Display):
         if self.x is not None and self.y is not None:
             rows = [rf"{equation}:\quad (x_{{1}}, y_{{1}}) = {point((self.x, self.y), max_digits)}"]
             if width(rows[0]) > ROW_WIDTH:  # x₁ and y₁ on rows of their own
-                x, y = integer(self.x, max_digits), integer(self.y, max_digits)
-                rows = [f"{equation}:", *pack([f"x_{{1}} = {x}", f"y_{{1}} = {y}"], ",\\quad ")]
+                x = integer_rows("x_{1}", self.x, max_digits)
+                y = integer_rows("y_{1}", self.y, max_digits)
+                rows = [f"{equation}:", *(pack([*x, *y], ",\\quad ") if len(x) == 1 else x + y)]
             base = surd(self.x, self.y, 2 if half else 1, self.d, max_digits)
         else:
             assert self.compact is not None

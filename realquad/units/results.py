@@ -18,7 +18,20 @@ import mpmath
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
-from realquad.latex import MAX_DIGITS, Display, brief_repr, clauses, integer, lines, sqrt, text
+from realquad.latex import (
+    MAX_DIGITS,
+    ROW_WIDTH,
+    Display,
+    brief_repr,
+    clauses,
+    fraction,
+    integer,
+    integer_rows,
+    lines,
+    sqrt,
+    text,
+    width,
+)
 from realquad.textio import decimal_digits
 
 #: Why an imaginary order is refused: its units are the roots of unity (``w = 2, 4, 6``).
@@ -237,12 +250,18 @@ class Unit(Display):
         """
         reg = f"\\log\\varepsilon = {self.regulator(regulator_digits)}"
         norm = f"N(\\varepsilon) = {integer(self.norm)}"
+        r = sqrt(self.order.radicand, max_digits)
         if self.expands_within(max_digits):
-            parts = [f"\\varepsilon = {self.expand().to_latex(max_digits)}", norm, reg]
+            number = self.expand()
+            parts = [f"\\varepsilon = {number.to_latex(max_digits)}", norm, reg]
+            if width(parts[0]) > ROW_WIDTH:  # x and y on rows of their own
+                shape = fraction(f"x + y{r}", int(number.c))
+                x = integer_rows("x", int(number.x), max_digits)
+                y = integer_rows("y", int(number.y), max_digits)
+                return lines([*clauses([rf"\varepsilon = {shape}", norm, reg]), *x, *y])
         else:
             digits, exact = self.digits_from_regulator()
             about = "" if exact else r"\approx "
-            r = sqrt(self.order.radicand, max_digits)
             size = f"x {text(' has ')} {about}{integer(digits, 0)} {text(' digits')}"
             parts = [rf"\varepsilon = \frac{{x + y{r}}}{{c}}", size, norm, reg]
         return lines(clauses(parts))

@@ -79,6 +79,8 @@ CASES = [
     ["pell", "61", "--mod", "1000", "--leading", "5"],
     ["unit", "94", "--compact"],
     ["classgroup", "--disc", "316", "--forms"],
+    ["unit", "1000003"],
+    ["pell", "1000003"],
 ]
 
 
@@ -200,3 +202,19 @@ def test_families_in_compact_form_share_one_unit(capsys: Any) -> None:
     starts = re.findall(rf"= \\pm\\left\((-?\d+) \+ {root}{family}", out)
     assert sorted(int(x) for x in starts) == [-1, 1]
     assert all(x * x - d == 1 - d for x in (-1, 1))  # (±1, 1) solve x² − dy² = 1 − d
+
+
+def test_a_long_unit_over_rows_reads_back(capsys: Any) -> None:
+    code, out, _ = run(capsys, "unit", "1000003", "--latex")
+    assert code == 0
+    rows = out.split("\\\\\n")
+    start = {
+        name: next(i for i, r in enumerate(rows) if r.startswith(f"{name} = ")) for name in "xy"
+    }
+
+    def read(name: str, stop: int) -> int:
+        digits = " ".join(rows[start[name] : stop]).removeprefix(f"{name} = ")
+        return int(re.sub(r"[^0-9]", "", digits.split(r"\end")[0]))
+
+    x, y = read("x", start["y"]), read("y", len(rows))
+    assert len(str(x)) > 200 and x * x - 1000003 * y * y == 1  # a unit of norm +1
