@@ -79,7 +79,11 @@ LEVELS: dict[str, list[set[str]]] = {
         {"walks"},
         {"reduction", "composition", "cycles", "location"},
     ],
-    "realquad.splitting": [{"decomposition", "class_polynomial"}, {"representation"}],
+    "realquad.splitting": [
+        {"prime_classes"},
+        {"decomposition", "class_polynomial"},
+        {"representation"},
+    ],
     "realquad.equations": [
         {"parser", "families"},
         {"finite"},

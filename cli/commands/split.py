@@ -16,12 +16,14 @@ from realquad_cli.output import (
     read_primes,
 )
 
-from realquad.classgroup import ClassGroup, class_group
+from realquad.classgroup import ClassGroup
 from realquad.core.forms import Form
 from realquad.latex import display
 from realquad.latex import lines as lines_latex
 from realquad.splitting import PrimeDecomposition, decompose_prime, split_primes
-from realquad.textio import group_text, signed, terms_text
+from realquad.splitting.decomposition import group_for_primes
+from realquad.splitting.prime_classes import METHOD_LOCATED, coordinate_digits
+from realquad.textio import group_text, plural, signed, terms_text
 
 #: Largest bound accepted by --primes-up-to.
 MAX_BOUND = 10**7
@@ -46,13 +48,23 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
     x = sizer.text(s.x or 0)
     y = sizer.text(s.y or 0)
     narrowly = "" if principal.discriminant < 0 else "narrowly "  # D < 0: narrow = wide
-    if s.represented_by_principal:
+    if s.represented_by_principal and s.compact is not None:
+        how = (
+            f"{narrowly}principal: {s.p} = {_polynomial(principal)} at x + y(b₀ + √D)/2 = α, "
+            f"α in compact form ({plural(s.compact.size, 'factor')}, about "
+            f"{coordinate_digits(s.compact):,} digits)"
+        )
+    elif s.represented_by_principal:
         how = f"{narrowly}principal: {s.p} = {_polynomial(principal)} at x = {x}, y = {y}"
     else:
         assert s.form is not None
         how = f"not {narrowly}principal; {_form_text(s.form)} represents {s.p} at x = {x}, y = {y}"
     kinds = "narrow classes" if narrowly else "classes"
     return f"p = {s.p}: {s.kind}, ideals {ideals}; {kinds} {coords}; {how}"
+
+
+def _method(G: ClassGroup) -> str:
+    return G.method if G.lists_classes else f"{G.method}; {METHOD_LOCATED}"
 
 
 @click.command("split", cls=Command)
@@ -83,7 +95,7 @@ def command(
     """
     order = order_from_options(d, disc)
     B, p = read_primes(bound, prime, MAX_BOUND)
-    G = class_group(order, method="exact")
+    G = group_for_primes(order)
     results = [decompose_prime(order, p, G)] if p is not None else split_primes(order, B, G)
     principal = Form.identity(order.discriminant)
     payload: dict[str, Any] = {
@@ -91,7 +103,7 @@ def command(
         "principal_form": principal.to_dict(),
         "class_group": G.to_dict(),
         "primes": [s.to_dict() for s in results],
-        "method": G.method,
+        "method": _method(G),
         "proof": G.proof,
     }
     gens = ", ".join(
@@ -107,7 +119,7 @@ def command(
         f"{gens or f'none ({group_name} is trivial)'}",
     ]
     lines += [_line(s, principal, sizer) for s in results]
-    lines.append(f"method: {G.method}; proof: {G.proof}")
+    lines.append(f"method: {_method(G)}; proof: {G.proof}")
     emit(payload, "\n".join(lines), as_json, max_digits, lambda md: _latex(G, results, md))
 
 

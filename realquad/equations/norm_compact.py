@@ -145,15 +145,6 @@ def _nagell_key(v: Point) -> tuple[int, int, bool, bool]:
     return (abs(v[1]), abs(v[0]), v[1] < 0, v[0] < 0)
 
 
-def _conjugate(number: CompactRepresentation) -> CompactRepresentation:
-    """The conjugate ``β'``, factor by factor (a ring automorphism: the sign stays)."""
-    chains = tuple(
-        Chain(tuple((alpha.conjugate(), e) for alpha, e in chain.factors), chain.power)
-        for chain in number.chains
-    )
-    return CompactRepresentation(number.discriminant, chains, number.sign, number.absolute_norm)
-
-
 def _start(
     bases: list[CompactRepresentation],
     m: int,
@@ -222,7 +213,7 @@ def norm_families_infrastructure(
         for z, nu in generators.items():
             # J_z's generators ±ν εᵢ: the test's ν (log ≈ its distance x ∈ [0, R)) and the
             # conjugate of J_{−z}'s (log ≈ x − R), so the balanced one is at hand unexpanded
-            bases = [nu, _conjugate(generators[-z % a])]
+            bases = [nu, generators[-z % a].conjugate()]
             start = _start(bases, m, eps, unit.norm, R, size)
             if start is None:
                 continue  # every generator has norm −m

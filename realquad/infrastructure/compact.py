@@ -172,6 +172,19 @@ class CompactRepresentation:
                 sign = -sign
         return sign * self.absolute_norm
 
+    def conjugate(self) -> CompactRepresentation:
+        """The conjugate number, factor by factor (conjugation is a ring automorphism: the sign stays).
+
+        >>> from realquad.core.numbers import QuadraticNumber
+        >>> CompactRepresentation.from_factors(52, [], QuadraticNumber(3, 1, 1, 52), 43).conjugate().expand()
+        (6, -2)
+        """
+        chains = tuple(
+            Chain(tuple((alpha.conjugate(), e) for alpha, e in chain.factors), chain.power)
+            for chain in self.chains
+        )
+        return CompactRepresentation(self.discriminant, chains, self.sign, self.absolute_norm)
+
     @property
     def value_sign(self) -> int:
         """The sign of the represented number: ``sign`` times the signs of the factors."""

@@ -58,10 +58,21 @@ from realquad.core.linalg import Matrix, matrix_inverse, matrix_multiply
 from realquad.core.orders import Order
 from realquad.core.primes import kronecker, primes_below
 from realquad.core.results import JSONObject
-from realquad.errors import InputError
+from realquad.errors import InputError, TooLargeError
+from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import MAX_DIGITS, Display, clauses, integer, lines, point, text
+from realquad.splitting.prime_classes import (
+    coordinate_digits,
+    inverse_class,
+    locate,
+    principal_generator,
+    small_generator,
+)
 
 KINDS = {1: "split", 0: "ramified", -1: "inert"}
+
+#: Most digits of a generator written out as ``(x, y)``; a larger one stays in compact form.
+EXPANDED_DIGITS = 20_000
 
 
 @dataclass(frozen=True)
@@ -87,6 +98,7 @@ class PrimeDecomposition(Display):
     form: Form | None
     x: int | None
     y: int | None
+    compact: CompactRepresentation | None = None
 
     def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
         r"""``pO = 𝔭𝔭̄`` (or ``𝔭²``, or prime), the ideal ``𝔭``, its class as exponents on the
@@ -108,8 +120,12 @@ class PrimeDecomposition(Display):
         ideal = self.ideals[0]
         coordinates = point(self.classes[0], max_digits)
         F = self.form if not self.represented_by_principal else Form.identity(ideal.discriminant)
-        assert F is not None and self.x is not None and self.y is not None
-        value = rf"{p} = {F.to_latex(max_digits)}\ {text('at')}\ (x, y) = {point((self.x, self.y), max_digits)}"
+        assert F is not None
+        if self.compact is not None:  # a generator too large to write out
+            value = rf"{p} = N(\alpha),\quad \alpha = {self.compact.to_latex(max_digits)}"
+        else:
+            assert self.x is not None and self.y is not None
+            value = rf"{p} = {F.to_latex(max_digits)}\ {text('at')}\ (x, y) = {point((self.x, self.y), max_digits)}"
         parts = [
             rf"{p}\mathcal{{O}} = {shape}",
             rf"\mathfrak{{p}} = {ideal.to_latex(max_digits)}",
@@ -132,6 +148,7 @@ class PrimeDecomposition(Display):
             "form": None if self.form is None else self.form.to_dict(),
             "x": self.x,
             "y": self.y,
+            "compact": None if self.compact is None else self.compact.to_dict(),
         }
 
 
@@ -172,7 +189,7 @@ def decompose_prime(
         order = Order(order)
     p = _check_prime(p)
     D, f = order.discriminant, order.conductor
-    group = group if group is not None else class_group(order, method="exact")
+    group = group if group is not None else group_for_primes(order)
     kind = KINDS[kronecker(D, p)]
     field_kind = KINDS[kronecker(order.fundamental_discriminant, p)]
     if f % p == 0:
@@ -198,6 +215,8 @@ def decompose_prime(
     assert F is not None  # p ∤ f and (D/p) ≠ −1
     forms = [F] if kind == "ramified" else [F, F.inverse()]
     ideals = [Ideal.from_form(G) for G in forms]
+    if not group.lists_classes:
+        return _by_tests(group, p, kind, field_kind, ideals, F)
     classes = [group.narrow_class_of(G) for G in forms]
     wide = [group.class_of(G) for G in forms]
     G, M = F.reduce()  # F·M = G, so G(M⁻¹ (1, 0)) = F(1, 0) = p
@@ -213,6 +232,58 @@ def decompose_prime(
     return PrimeDecomposition(p, kind, False, field_kind, ideals, classes, wide, principal, G, x, y)
 
 
+def group_for_primes(order: Order) -> ClassGroup:
+    """The class group the classes of prime ideals refer to: exact within the cycle method's reach,
+    else baby-step giant-step (fields only, under GRH), whose classes are located by tests."""
+    try:
+        return class_group(order, method="exact")
+    except TooLargeError:
+        if order.discriminant < 0 or order.conductor != 1:
+            raise
+        return class_group(order, method="bsgs")
+
+
+def _by_tests(
+    group: ClassGroup, p: int, kind: str, field_kind: str, ideals: list[Ideal], F: Form
+) -> PrimeDecomposition:
+    """The decomposition when the group has no table: classes by principal ideal tests."""
+    narrow = locate(group, F, narrow=True)
+    same = group.narrow_invariants == group.invariants and group.unit_norm == -1
+    wide = narrow if same else locate(group, F, narrow=False)
+    classes, wides = [narrow], [wide]
+    if kind == "split":  # the conjugate ideal lies in the inverse class
+        classes.append(inverse_class(group, narrow, narrow=True))
+        wides.append(inverse_class(group, wide, narrow=False))
+    principal = not any(narrow)
+    G, M = F.reduce()  # F·M = G, so G(M⁻¹ (1, 0)) = F(1, 0) = p
+    x: int | None = M[3]
+    y: int | None = -M[2]
+    compact = None
+    if principal:
+        x, y, compact = _principal_representation(group, F)
+    return PrimeDecomposition(
+        p, kind, False, field_kind, ideals, classes, wides, principal, G, x, y, compact
+    )
+
+
+def _principal_representation(
+    group: ClassGroup, F: Form
+) -> tuple[int | None, int | None, CompactRepresentation | None]:
+    """``(x, y)`` with ``x² + b₀xy + c₀y² = p`` from a generator of norm ``p`` of ``F``'s ideal,
+    or the generator in compact form when it has more than :data:`EXPANDED_DIGITS` digits."""
+    D, p = F.discriminant, F.a
+    _, _, nu = principal_generator(D, p, F.b, group.unit_norm)
+    _, _, nu_conjugate = principal_generator(D, p, -F.b, group.unit_norm)
+    assert nu is not None and nu_conjugate is not None
+    eps = group.unit.compact() if group.unit is not None and group.unit_norm == -1 else None
+    alpha = small_generator([nu, nu_conjugate.conjugate()], p, eps)
+    if coordinate_digits(alpha) > EXPANDED_DIGITS:
+        return None, None, alpha
+    u, v = alpha.expand()  # α = (u + v√D)/2 = x + y(b₀ + √D)/2
+    b0 = Form.identity(D).b
+    return (u - b0 * v) // 2, v, None
+
+
 def split_primes(
     order: Order | int, bound: int, group: ClassGroup | None = None
 ) -> list[PrimeDecomposition]:
@@ -226,6 +297,7 @@ def split_primes(
     bound = as_integer(bound, "bound")
     if bound < 2:
         raise InputError(f"the bound must be at least 2, got {bound}")
-    group = group if group is not None else class_group(order, method="exact")
-    cycle = _PrincipalCycle(order.discriminant) if order.discriminant > 0 else None
+    group = group if group is not None else group_for_primes(order)
+    real_table = order.discriminant > 0 and group.lists_classes  # else no cycle is walked
+    cycle = _PrincipalCycle(order.discriminant) if real_table else None
     return [decompose_prime(order, p, group, cycle) for p in primes_below(bound + 1)]
