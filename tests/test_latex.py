@@ -370,8 +370,8 @@ def _read_solutions(out: str, box: int) -> set[tuple[int, int]]:
         if row.startswith("S = \\{") or in_set:  # a set too long for one row, over rows
             found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", row)}
             in_set = not row.endswith("\\}")
-        elif row.endswith(r"(x, y) \in S"):
-            continue
+        elif row.endswith(r"(x, y) \in S") or row.endswith(":"):
+            continue  # a set named on the rows below, or the equation itself
         elif listed:
             found |= {(int(a), int(b)) for a, b in re.findall(r"\((-?\d+), (-?\d+)\)", listed[1])}
         elif row.startswith("(x, y) = ("):

@@ -31,6 +31,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
 from functools import partial
+import math
 from math import floor
 
 import mpmath
@@ -38,14 +39,16 @@ import mpmath
 from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.results import JSONObject, Proof
-from realquad.errors import InputError, TooLargeError
+from realquad.errors import DomainError, InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import (
     MAX_DIGITS,
     MAX_TERMS,
     POINTS_PER_ROW,
+    ROW_WIDTH,
     Display,
     brief_repr,
+    integer_rows,
     lines,
     matrix,
     named_set,
@@ -55,6 +58,7 @@ from realquad.latex import (
     surd,
     terms,
     text,
+    width,
 )
 from realquad.textio import decimal_digits, terms_text
 
@@ -168,9 +172,14 @@ class OrbitFamily:
             "mirrored": self.reflection,
         }
 
-    def to_latex(self, max_digits: int = MAX_DIGITS) -> str:
+    def to_latex(
+        self, max_digits: int = MAX_DIGITS, named_unit: bool = False, index: int | None = None
+    ) -> str:
         r"""Every member: ``x + y√D = ±(x₀ + y₀√D)(t + u√D)^k`` for a norm equation, else
         ``(x, y)ᵀ = T^k (x₀, y₀)ᵀ`` (or its mirror image ``2C − T^k(…)``) with the automorph ``T``.
+
+        ``named_unit`` writes the unit as ``ε`` (:meth:`unit_rows` defines it); a fundamental
+        solution too long for the row is named ``α`` (``α_index``) and written on rows below.
 
         >>> T = AffineMap((3, 4, 2, 3))
         >>> print(OrbitFamily((1, 0), T, (Fraction(0), Fraction(0)), True, (3, 2, 2)).to_latex())
@@ -183,11 +192,22 @@ class OrbitFamily:
             x0, y0 = self.fundamental
             first = surd(x0, y0, 1, D, max_digits)
             first = "" if first == "1" else parenthesised(first)
+            defining: list[str] = []
+            if width(first) > ROW_WIDTH // 2:
+                alpha = r"\alpha" if index is None else rf"\alpha_{{{index}}}"
+                first = alpha
+                x, y = (f"{v}_{{{index or 0}}}" for v in "xy")
+                defining = [
+                    rf"{alpha} = {x} + {y}{sqrt(D, max_digits)}",
+                    *integer_rows(x, x0, max_digits),
+                    *integer_rows(y, y0, max_digits),
+                ]
             sign = r"\pm" if self.reflection else ""
-            unit = parenthesised(surd(t, u, 1, D, max_digits))
-            return (
+            unit = r"\varepsilon" if named_unit else parenthesised(surd(t, u, 1, D, max_digits))
+            every = (
                 rf"x + y{sqrt(D, max_digits)} = {sign}{first}{unit}^{{k}},\quad k \in \mathbb{{Z}}"
             )
+            return lines([every, *defining])
         start = matrix(self.fundamental, max_digits)
         orbit = rf"T^{{k}}{start}"
         if self.reflection:
@@ -199,6 +219,21 @@ class OrbitFamily:
         if shift != (0, 0):
             T += f" + {matrix(shift, max_digits)}"
         return rf"\begin{{pmatrix}} x \\ y \end{{pmatrix}} = {orbit},\quad k \in \mathbb{{Z}},\quad {T}"
+
+    def unit_rows(self, max_digits: int = MAX_DIGITS) -> list[str]:
+        r"""``ε = t + u√D``, its coordinates on rows of their own when they are long.
+
+        >>> T = AffineMap((3, 4, 2, 3))
+        >>> OrbitFamily((1, 0), T, (Fraction(0), Fraction(0)), True, (3, 2, 2)).unit_rows()
+        ['\\varepsilon = 3 + 2\\sqrt{2}']
+        """
+        assert self.unit is not None
+        t, u, D = self.unit
+        row = rf"\varepsilon = {surd(t, u, 1, D, max_digits)}"
+        if width(row) <= ROW_WIDTH:
+            return [row]
+        shape = rf"\varepsilon = t + u{sqrt(D, max_digits)}"
+        return [shape, *integer_rows("t", t, max_digits), *integer_rows("u", u, max_digits)]
 
     def _multiplies(self) -> bool:
         """Whether the automorph is multiplication by ``t + u√D`` on ``x + y√D`` (``unit``)."""
@@ -373,23 +408,29 @@ MAX_MEMBER_DIGITS = 1_000_000
 _LOG_DIGITS = 40
 
 
-def expand_point(number: CompactRepresentation) -> Point:
-    """``(x, y)`` with ``number = x + y√d``, for a compact number over ``D = 4d``.
+def expand_point(number: CompactRepresentation, a: int = 1, b: int = 0) -> Point:
+    """``(x, y)`` with ``number = ax + y(b + √D)/2`` (``D`` its discriminant; for ``a = 1``,
+    ``b = 0`` and ``D = 4d``: ``number = x + y√d``).
 
     >>> from realquad.core.numbers import QuadraticNumber
     >>> three = CompactRepresentation.from_factors(52, [], QuadraticNumber(3, 1, 1, 52), 43)
-    >>> expand_point(three)            # 3 + √52 = 3 + 2√13
-    (3, 2)
+    >>> expand_point(three), expand_point(three, 2, 2)   # 3 + √52 = 3 + 2√13 = 2·1 + 2·(2 + √52)/2
+    ((3, 2), (1, 2))
     """
-    u, v = number.expand()
-    if u % 2:
-        raise ArithmeticError("internal check failed: the number is not in Z[√d]")
-    return u // 2, v
+    u, v = number.expand()  # number = (u + v√D)/2
+    x, r = divmod(u - b * v, 2 * a)
+    if r:
+        raise ArithmeticError("internal check failed: the number is not in [a, (b + √D)/2]")
+    return x, v
 
 
 @dataclass(frozen=True)
 class CompactOrbitFamily:
     """The class ``{±α·εᵏ : k ∈ Z}`` of solutions of ``x² − d y² = n`` with ``α`` and ``ε`` in compact form.
+
+    For a form, ``a x² + bxy + cy² = n`` (``a > 0``), the same with ``α = ax +
+    y(b + √D)/2`` of norm ``a·n`` and ``ε`` the least unit of norm +1 of the
+    order of discriminant ``D = b² − 4ac`` (fields ``a``, ``b``; then ``d = D``).
 
     ``generator`` is Nagell's fundamental solution ``α = x + y√d`` (the member
     with the least ``|y|``, then ``|x|``, then ``y ≥ 0``, ``x ≥ 0``), ``unit``
@@ -409,6 +450,8 @@ class CompactOrbitFamily:
     log_generator: mpmath.mpf
     log_unit: mpmath.mpf
     fundamental: Point | None
+    a: int = 1
+    b: int = 0
     kind: str = field(default="compact_orbit", init=False, repr=False)
 
     @property
@@ -420,7 +463,7 @@ class CompactOrbitFamily:
         """``(log |α εᵏ|, log |(α εᵏ)'|)``."""
         with mpmath.workdps(_LOG_DIGITS + len(str(abs(k))) + len(str(int(self.log_unit))) + 10):
             big = self.log_generator + k * self.log_unit
-            return big, mpmath.log(abs(self.n)) - big
+            return big, mpmath.log(self.generator.absolute_norm) - big
 
     def digits(self, k: int = 0) -> int:
         """How many decimal digits ``x`` of the member ``α εᵏ`` has: exactly for a fundamental
@@ -452,7 +495,7 @@ class CompactOrbitFamily:
                 f"member k = {k} of the family has about {size:,} digits, more than "
                 f"{MAX_MEMBER_DIGITS:,}; it stays in compact form"
             )
-        return expand_point(self.member(k))
+        return expand_point(self.member(k), self.a, self.b)
 
     def residues(self, m: int) -> Point:
         """``(x mod m, y mod m)`` for the fundamental solution, from the compact form.
@@ -461,20 +504,23 @@ class CompactOrbitFamily:
         """
         if self.fundamental is not None:
             return self.fundamental[0] % m, self.fundamental[1] % m
-        a, b = self.generator.modulo(m)  # α ≡ a + b√(4d) = a + 2b√d
-        return a % m, 2 * b % m
+        s, t = self.generator.modulo(m)  # α ≡ s + t√D = (2s + 2t√D)/2: u ≡ 2s, v ≡ 2t
+        if math.gcd(self.a, m) != 1:
+            raise DomainError(f"the modulus {m} shares a factor with a = {self.a}")
+        return (s - self.b * t) * pow(self.a, -1, m) % m, 2 * t % m
 
     def bounded(self, B: int) -> list[Point]:
         """Every member with ``|x|, |y| ≤ B``, sorted; only members that can lie in the box are expanded.
 
-        ``|x| = |β + β'|/2 ≥ (e^L − e^{L'})/2`` for ``β = ±α εᵏ`` with
-        ``L ≥ L'`` its larger log and ``e^{L'} ≤ √|n|``, so a member with
-        ``e^L > 2B + √|n|`` lies outside; ``L`` grows with ``|k|`` on either
-        side of ``k = 0`` (the fundamental solution is balanced).
+        ``|y| = |β − β'|/√D ≥ (e^L − e^{L'})/√D`` for ``β = ±α εᵏ`` with
+        ``L ≥ L'`` its larger log and ``e^{L'} ≤ √|N(α)|``, so a member with
+        ``e^L > B√D + √|N(α)|`` lies outside; ``L`` grows with ``|k|`` on
+        either side of ``k = 0`` (the fundamental solution is balanced).
         """
         B = _check_bound(B)
         with mpmath.workdps(_LOG_DIGITS + 20):
-            limit = mpmath.log(2 * B + isqrt(abs(self.n)) + 2)
+            D, norm = self.generator.discriminant, self.generator.absolute_norm
+            limit = mpmath.log(B * mpmath.sqrt(D) + isqrt(norm) + 2)
         out: set[Point] = set()
         for step in (1, -1):
             k = 0 if step == 1 else -1
@@ -621,17 +667,28 @@ class QuadraticSolutions(Display):
         return lines(rows)
 
     def _family_rows(self, max_digits: int) -> list[str]:
-        """One row per family; the unit of families in compact form once, after them all."""
+        """One row per family; a unit that families share, once after them all (always in
+        compact form, and when written out if it would make a row too wide)."""
         compact = [f for f in self.families if isinstance(f, CompactOrbitFamily)]
         shared = len(compact) > 1 and all(f.unit == compact[0].unit for f in compact)
-        rows = [
-            f.to_latex(max_digits, with_unit=False)
-            if shared and isinstance(f, CompactOrbitFamily)
-            else f.to_latex(max_digits)
-            for f in self.families
-        ]
+        orbits = [f for f in self.families if isinstance(f, OrbitFamily) and f._multiplies()]
+        named = (
+            bool(orbits)
+            and all(f.unit == orbits[0].unit for f in orbits)
+            and any(width(f.to_latex(max_digits)) > ROW_WIDTH for f in orbits)
+        )
+        rows = []
+        for i, f in enumerate(self.families, 1):
+            if shared and isinstance(f, CompactOrbitFamily):
+                rows.append(f.to_latex(max_digits, with_unit=False))
+            elif isinstance(f, OrbitFamily):
+                rows.append(f.to_latex(max_digits, named and f in orbits, index=i))
+            else:
+                rows.append(f.to_latex(max_digits))
         if shared:
             rows.append(rf"\varepsilon = {compact[0].unit.to_latex(max_digits)}")
+        if named:
+            rows += orbits[0].unit_rows(max_digits)
         return rows
 
     def satisfies(self, x: int, y: int) -> bool:

@@ -218,3 +218,27 @@ def test_a_long_unit_over_rows_reads_back(capsys: Any) -> None:
 
     x, y = read("x", start["y"]), read("y", len(rows))
     assert len(str(x)) > 200 and x * x - 1000003 * y * y == 1  # a unit of norm +1
+
+
+def _digits_after(rows: list[str], name: str) -> int:
+    """The integer written from the row ``name = …`` on, over the rows that continue it."""
+    start = next(i for i, r in enumerate(rows) if r.startswith(f"{name} = "))
+    body = [rows[start].removeprefix(f"{name} = ")]
+    for row in rows[start + 1 :]:
+        digits = row.split(r"\end")[0].strip()
+        if not re.fullmatch(r"[\d\\,]+", digits):
+            break
+        body.append(digits)
+    return int(re.sub(r"[^0-9]", "", " ".join(body).split(r"\end")[0]))
+
+
+def test_long_solutions_and_units_are_named(capsys: Any) -> None:
+    d, n = 1000003, -2
+    code, out, _ = run(capsys, "solve", f"x^2 - {d} y^2 = {n}", "--latex")
+    assert code == 0
+    check_latex(out)
+    assert r"= \pm\alpha_{1}\varepsilon^{k}" in out and r"\varepsilon = t + u\sqrt" in out
+    rows = out.split("\\\\\n")
+    x, y = _digits_after(rows, "x_{1}"), _digits_after(rows, "y_{1}")
+    t, u = _digits_after(rows, "t"), _digits_after(rows, "u")
+    assert x * x - d * y * y == n and t * t - d * u * u == 1  # read back, checked by arithmetic
