@@ -13,7 +13,7 @@ from realquad.classgroup import class_group
 
 #: Fundamental discriminants −(10^k + 3) (conductor 1 for these k).
 EXACT_FIELDS = [-(10**8) - 3, -(10**10) - 3, -(10**12) - 3, -(10**13) - 3]
-GRH_FIELDS = [-(10**20) - 3, -(10**24) - 3]
+GRH_FIELDS = [-(10**20) - 3, -(10**24) - 3, -(10**28) - 3, -(10**30) - 3]
 
 
 def workloads() -> list[dict[str, Any]]:
