@@ -63,17 +63,21 @@ def polynomial_text(coefficients: tuple[int, ...], var: str = "t") -> str:
 def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> list[str]:
     """A class whose unit (and perhaps fundamental solution) stays in compact form."""
     d = fam.d
+    if (fam.a, fam.b) == (1, 0):
+        element, unit = f"x + y√{d}", f"t + u√{d}"
+    else:  # a form: α = ax + y(b + √D)/2, ε = (t + u√D)/2
+        element, unit = f"{fam.a}x + y({fam.b} + √{d})/2", f"(t + u√{d})/2"
     if fam.fundamental is not None:
         x, y = (sizer.text(v) for v in fam.fundamental)
         first = f"  {i}. ({x}, {y})"
     else:
         first = (
-            f"  {i}. x + y√{d} in compact form ({plural(fam.generator.size, 'factor')}), "
+            f"  {i}. {element} in compact form ({plural(fam.generator.size, 'factor')}), "
             f"x of about {fam.digits():,} digits"
         )
     return [
         first,
-        f"     automorph: multiplication by the least unit t + u√{d} of norm 1, in compact form "
+        f"     automorph: multiplication by the least unit {unit} of norm 1, in compact form "
         f"({plural(fam.unit.size, 'factor')}), t of about {fam.unit_digits():,} digits",
         "     together with the mirror images −(x, y)",
     ]

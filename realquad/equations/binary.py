@@ -60,7 +60,13 @@ from realquad.equations.families import (
     sort_points,
 )
 from realquad.equations.finite import definite_solutions, square_solutions
-from realquad.equations.norm import balanced_representative, norm_classes, pell_units
+from realquad.equations.norm import (
+    balanced_representative,
+    choose_norm_method,
+    norm_classes,
+    pell_units,
+)
+from realquad.equations.norm_compact import form_families_infrastructure
 from realquad.equations.pell import pell
 from realquad.errors import DomainError, TooLargeError
 from realquad.textio import decimal_digits
@@ -191,11 +197,12 @@ def _orbit_families(
     step = (gmpy2.mpz(step[0]), gmpy2.mpz(step[1]))
     span = lcm(r, p) // r
 
-    def key(w: Point) -> tuple[int, int, bool, bool]:
-        # least |Q|, then |P|; ties (mirror images) go to y ≥ 0, then x ≥ 0 in the original unknowns
+    def key(w: Point) -> tuple[int, int, bool, bool, int]:
+        # least |Q|, then |P|; ties (mirror images) go to y ≥ 0, then x ≥ 0 in the original
+        # unknowns, and a tie left (P and −P in one orbit) to the least |x|
         xy = sub.back(*w)
         assert xy is not None
-        return (abs(w[1]), abs(w[0]), xy[1] < 0, xy[0] < 0)
+        return (abs(w[1]), abs(w[0]), xy[1] < 0, xy[0] < 0, abs(xy[0]))
 
     reps: dict[Point, Point] = {}
     for alpha in classes:
@@ -420,5 +427,9 @@ def solve_binary_form(a: int, b: int, c: int, n: int) -> QuadraticSolutions:
         return QuadraticSolutions(
             coefficients, out.finite, out.families, out.solutions, out.method, notes=out.notes
         )
+    if n and Delta > 0 and not is_square(Delta) and choose_norm_method(Delta) == "infrastructure":
+        families, method, proof = form_families_infrastructure(a, b, c, n)
+        found: list[Family] = list(families)
+        return QuadraticSolutions(coefficients, not found, found, [], method, proof)
     sol = solve_transformed(coefficients, (2 * a, b, 0, 1), (0, 0), Delta, 4 * a * n)
     return sol

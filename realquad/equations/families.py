@@ -27,6 +27,7 @@ how they were found (``method``) and how sure the answer is (``proof``).
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
@@ -38,7 +39,7 @@ import mpmath
 from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.results import JSONObject, Proof
-from realquad.errors import InputError, TooLargeError
+from realquad.errors import DomainError, InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import (
     MAX_DIGITS,
@@ -407,23 +408,29 @@ MAX_MEMBER_DIGITS = 1_000_000
 _LOG_DIGITS = 40
 
 
-def expand_point(number: CompactRepresentation) -> Point:
-    """``(x, y)`` with ``number = x + y√d``, for a compact number over ``D = 4d``.
+def expand_point(number: CompactRepresentation, a: int = 1, b: int = 0) -> Point:
+    """``(x, y)`` with ``number = ax + y(b + √D)/2`` (``D`` its discriminant; for ``a = 1``,
+    ``b = 0`` and ``D = 4d``: ``number = x + y√d``).
 
     >>> from realquad.core.numbers import QuadraticNumber
     >>> three = CompactRepresentation.from_factors(52, [], QuadraticNumber(3, 1, 1, 52), 43)
-    >>> expand_point(three)            # 3 + √52 = 3 + 2√13
-    (3, 2)
+    >>> expand_point(three), expand_point(three, 1, 2)   # 3 + √52 = 3 + 2√13 = 1 + 2·(2 + √52)/2
+    ((3, 2), (1, 2))
     """
-    u, v = number.expand()
-    if u % 2:
-        raise ArithmeticError("internal check failed: the number is not in Z[√d]")
-    return u // 2, v
+    u, v = number.expand()  # number = (u + v√D)/2
+    x, r = divmod(u - b * v, 2 * a)
+    if r:
+        raise ArithmeticError("internal check failed: the number is not in [a, (b + √D)/2]")
+    return x, v
 
 
 @dataclass(frozen=True)
 class CompactOrbitFamily:
     """The class ``{±α·εᵏ : k ∈ Z}`` of solutions of ``x² − d y² = n`` with ``α`` and ``ε`` in compact form.
+
+    For a form, ``a x² + bxy + cy² = n`` (``a > 0``), the same with ``α = ax +
+    y(b + √D)/2`` of norm ``a·n`` and ``ε`` the least unit of norm +1 of the
+    order of discriminant ``D = b² − 4ac`` (fields ``a``, ``b``; then ``d = D``).
 
     ``generator`` is Nagell's fundamental solution ``α = x + y√d`` (the member
     with the least ``|y|``, then ``|x|``, then ``y ≥ 0``, ``x ≥ 0``), ``unit``
@@ -443,6 +450,8 @@ class CompactOrbitFamily:
     log_generator: mpmath.mpf
     log_unit: mpmath.mpf
     fundamental: Point | None
+    a: int = 1
+    b: int = 0
     kind: str = field(default="compact_orbit", init=False, repr=False)
 
     @property
@@ -454,7 +463,7 @@ class CompactOrbitFamily:
         """``(log |α εᵏ|, log |(α εᵏ)'|)``."""
         with mpmath.workdps(_LOG_DIGITS + len(str(abs(k))) + len(str(int(self.log_unit))) + 10):
             big = self.log_generator + k * self.log_unit
-            return big, mpmath.log(abs(self.n)) - big
+            return big, mpmath.log(self.generator.absolute_norm) - big
 
     def digits(self, k: int = 0) -> int:
         """How many decimal digits ``x`` of the member ``α εᵏ`` has: exactly for a fundamental
@@ -486,7 +495,7 @@ class CompactOrbitFamily:
                 f"member k = {k} of the family has about {size:,} digits, more than "
                 f"{MAX_MEMBER_DIGITS:,}; it stays in compact form"
             )
-        return expand_point(self.member(k))
+        return expand_point(self.member(k), self.a, self.b)
 
     def residues(self, m: int) -> Point:
         """``(x mod m, y mod m)`` for the fundamental solution, from the compact form.
@@ -495,20 +504,23 @@ class CompactOrbitFamily:
         """
         if self.fundamental is not None:
             return self.fundamental[0] % m, self.fundamental[1] % m
-        a, b = self.generator.modulo(m)  # α ≡ a + b√(4d) = a + 2b√d
-        return a % m, 2 * b % m
+        s, t = self.generator.modulo(m)  # α ≡ s + t√D = (2s + 2t√D)/2: u ≡ 2s, v ≡ 2t
+        if math.gcd(self.a, m) != 1:
+            raise DomainError(f"the modulus {m} shares a factor with a = {self.a}")
+        return (s - self.b * t) * pow(self.a, -1, m) % m, 2 * t % m
 
     def bounded(self, B: int) -> list[Point]:
         """Every member with ``|x|, |y| ≤ B``, sorted; only members that can lie in the box are expanded.
 
-        ``|x| = |β + β'|/2 ≥ (e^L − e^{L'})/2`` for ``β = ±α εᵏ`` with
-        ``L ≥ L'`` its larger log and ``e^{L'} ≤ √|n|``, so a member with
-        ``e^L > 2B + √|n|`` lies outside; ``L`` grows with ``|k|`` on either
-        side of ``k = 0`` (the fundamental solution is balanced).
+        ``|y| = |β − β'|/√D ≥ (e^L − e^{L'})/√D`` for ``β = ±α εᵏ`` with
+        ``L ≥ L'`` its larger log and ``e^{L'} ≤ √|N(α)|``, so a member with
+        ``e^L > B√D + √|N(α)|`` lies outside; ``L`` grows with ``|k|`` on
+        either side of ``k = 0`` (the fundamental solution is balanced).
         """
         B = _check_bound(B)
         with mpmath.workdps(_LOG_DIGITS + 20):
-            limit = mpmath.log(2 * B + isqrt(abs(self.n)) + 2)
+            D, norm = self.generator.discriminant, self.generator.absolute_norm
+            limit = mpmath.log(B * mpmath.sqrt(D) + isqrt(norm) + 2)
         out: set[Point] = set()
         for step in (1, -1):
             k = 0 if step == 1 else -1

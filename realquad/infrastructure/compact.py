@@ -227,7 +227,7 @@ class CompactRepresentation:
             raise DomainError("only units have inverses in the order")
         chains = tuple(Chain(c.factors, c.power * k) for c in self.chains)
         return CompactRepresentation(
-            self.discriminant, chains, self.sign ** (k % 2), self.absolute_norm**k
+            self.discriminant, chains, self.sign ** (k % 2), self.absolute_norm ** abs(k)
         )
 
     def modulo(self, m: int) -> tuple[int, int]:

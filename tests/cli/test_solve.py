@@ -222,3 +222,20 @@ def test_refusal_beyond_reach_is_one_line_and_quick(capsys):
     code, _, err = run(capsys, "solve", f"x^2 - {10**60 + 7}y^2 = 3")
     assert code == 2 and err.startswith("realquad: error:") and err.count("\n") == 1
     assert time.perf_counter() - start < 1.0
+
+
+@pytest.mark.skipif(
+    __import__("realquad._backend")._backend.BACKEND != "compiled",
+    reason="the infrastructure's giant steps run compiled (the pure twin would take minutes)",
+)
+def test_a_form_beyond_the_continued_fraction_json(capsys):
+    from tests.cli.test_json_schema import _validate
+
+    d = 10**24 + 49
+    n = 3 * 25 + 10 - 4 * d  # 3x² + xy − dy² at (5, 2)
+    data = run_json(capsys, "solve", f"3x^2 + xy - {d}y^2 = {n}", "--bound", "10")
+    _validate("solve", data)
+    assert {"x": 5, "y": 2} in data["solutions"]
+    assert data["proof"] == "unconditional"
+    code, out, _ = run(capsys, "solve", f"3x^2 + xy - {d}y^2 = 5")
+    assert code == 0 and "3x + y(1 + √" in out and "(t + u√" in out

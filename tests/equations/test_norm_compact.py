@@ -202,3 +202,70 @@ def test_refusals_are_immediate() -> None:
         assert time.perf_counter() - start < 1.0
     with pytest.raises(InputError, match="method"):
         solve_norm_equation(13, 3, "sieve")
+
+
+def random_forms(rng: random.Random, count: int) -> list[tuple[int, int, int, int]]:
+    """Primitive indefinite forms (a, b, c) with a non-square discriminant up to about 10⁸, and n;
+    half the n are values of the form (so solvable)."""
+    cases = []
+    while len(cases) < count:
+        a = rng.choice([1, -1]) * rng.randrange(1, 30)
+        b = rng.randrange(-40, 40)
+        c = rng.choice([1, -1]) * rng.randrange(1, 10 ** rng.choice([1, 3, 6]))
+        D = b * b - 4 * a * c
+        if math.gcd(math.gcd(a, b), c) != 1 or D <= 0 or is_square(D):
+            continue
+        if rng.random() < 0.5:
+            x, y = rng.randrange(-20, 20), rng.randrange(1, 20)
+            n = a * x * x + b * x * y + c * y * y
+        else:
+            n = rng.choice([1, -1]) * rng.randrange(1, 3000)
+        if n:
+            cases.append((a, b, c, n))
+    return cases
+
+
+def form_fundamentals_both_ways(a: int, b: int, c: int, n: int) -> tuple[list, list]:
+    from realquad.equations.binary import solve_binary_form
+    from realquad.equations.norm_compact import form_families_infrastructure
+
+    cf = sorted(f.fundamental for f in solve_binary_form(a, b, c, n).families)
+    fams, _, proof = form_families_infrastructure(a, b, c, n)
+    assert proof == "unconditional"
+    return cf, sorted(f.solution(0) for f in fams)
+
+
+@giant_steps_compiled
+def test_forms_by_the_infrastructure_match_the_continued_fraction() -> None:
+    # ax² + bxy + cy² = n: same families, same fundamental solutions after expansion
+    for a, b, c, n in random_forms(random.Random(20261204), 40):
+        cf, infrastructure = form_fundamentals_both_ways(a, b, c, n)
+        assert cf == infrastructure, (a, b, c, n)
+
+
+@giant_steps_compiled
+@pytest.mark.slow
+def test_forms_by_the_infrastructure_match_the_continued_fraction_many() -> None:
+    for a, b, c, n in random_forms(random.Random(17), 1000):
+        cf, infrastructure = form_fundamentals_both_ways(a, b, c, n)
+        assert cf == infrastructure, (a, b, c, n)
+
+
+@giant_steps_compiled
+def test_a_form_beyond_the_continued_fraction() -> None:
+    # 3x² + xy − (10²⁴ + 49)y² = n: Δ ≈ 1.2·10²⁵, the families in compact form
+    from realquad.equations.binary import solve_binary_form
+
+    a, b, c = 3, 1, -(10**24 + 49)
+    n = 3 * 5 * 5 + 5 * 2 + c * 4  # the value at (5, 2), so at least one family
+    sol = solve_binary_form(a, b, c, n)
+    assert sol.proof == "unconditional" and sol.method.startswith("principal ideal test")
+    assert sol.families and all(isinstance(f, CompactOrbitFamily) for f in sol.families)
+    assert (5, 2) in sol.bounded(10)
+    for fam in sol.families:
+        assert isinstance(fam, CompactOrbitFamily)
+        assert fam.generator.norm == a * n and fam.unit.norm == 1
+        for p in PRIMES:
+            x, y = fam.residues(p)
+            assert (a * x * x + b * x * y + c * y * y - n) % p == 0
+            assert fam.member(-2).norm == a * n
