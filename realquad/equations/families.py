@@ -537,12 +537,20 @@ class CompactOrbitFamily:
     def to_latex(self, max_digits: int = MAX_DIGITS, with_unit: bool = True) -> str:
         r"""``x + y√d = ±α εᵏ``, ``α`` written out when it is, else in compact form; ``ε`` compact
         (left to the caller with ``with_unit=False``, when families share it)."""
-        if self.fundamental is not None:
+        a, b = self.a, self.b  # α = ax + y(b + √D)/2 = (2ax + by + y√D)/2 for a form
+        if self.fundamental is not None and (a, b) == (1, 0):
             alpha = parenthesised(surd(*self.fundamental, 1, self.d, max_digits))
             alpha = "" if alpha == "1" else alpha  # the class of the units themselves
+        elif self.fundamental is not None:
+            x0, y0 = self.fundamental
+            alpha = parenthesised(surd(2 * a * x0 + b * y0, y0, 2, self.d, max_digits))
         else:
             alpha = r"\alpha"
-        every = rf"x + y{sqrt(self.d, max_digits)} = \pm{alpha}\varepsilon^{{k}},\quad k \in \mathbb{{Z}}"
+        if (a, b) == (1, 0):
+            lhs = rf"x + y{sqrt(self.d, max_digits)}"
+        else:
+            lhs = rf"{a}x + y\frac{{{b} + {sqrt(self.d, max_digits)}}}{{2}}"
+        every = rf"{lhs} = \pm{alpha}\varepsilon^{{k}},\quad k \in \mathbb{{Z}}"
         rows = [every]
         if self.fundamental is None:
             rows.append(rf"\alpha = {self.generator.to_latex(max_digits)}")

@@ -20,6 +20,12 @@ where the two neighbours tie (an ambiguous class), they have the same ``|x|``
 and ``|y|`` and the signs decide, as in Nagell's choice. Nothing is expanded
 unless it is small.
 
+The same serves a primitive form: ``a x² + bxy + cy² = n`` (``a > 0``) has
+its solutions in the elements ``α = ax + y(b + √D)/2`` of norm ``a·n`` of
+``I = [a, (b + √D)/2]``, so the ideals ``I·J`` with ``N(J) = |n|`` are tested
+(:func:`form_families_infrastructure`); ``x² − dy² = n`` is the form
+``(1, 0, −d)`` with ``I = O``.
+
 >>> fams, method, proof = norm_families_infrastructure(13, -4)
 >>> [f.fundamental for f in fams], proof
 ([(-3, 1), (3, 1), (36, 10)], 'unconditional')
