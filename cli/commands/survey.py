@@ -61,7 +61,7 @@ def _signed_bound(value: str | None, name: str) -> int | None:
         return None
     n = as_integer(value, name)
     if abs(n) > MAX_BOUND:
-        raise InputError(f"{name} must be between -{MAX_BOUND:,} and {MAX_BOUND:,}, got {n}")
+        raise InputError(f"{name} must be at most {MAX_BOUND:,} in absolute value, got {n}")
     return n
 
 

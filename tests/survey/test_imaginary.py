@@ -204,7 +204,7 @@ def test_the_commands_on_negative_ranges(
         (["--d-max", "-5"], "give --d-min"),
         (["--d-min", "-5", "--d-max", "10"], "both signs"),
         (["--d-min", "-9", "--d-max", "-9"], "empty range"),
-        (["--d-min", "-99999999999999999999999", "--d-max", "-1"], "--d-min must be between"),
+        (["--d-min", "-99999999999999999999999", "--d-max", "-1"], "--d-min must be at most"),
     ],
 )
 def test_bad_negative_ranges(
