@@ -52,8 +52,9 @@ from realquad.core.results import Proof
 from realquad.equations.families import CompactOrbitFamily, Point, expand_point
 from realquad.infrastructure.compact import Chain, CompactRepresentation
 from realquad.infrastructure.ideals import Cycle
-from realquad.infrastructure.principal import principal_ideal_test
-from realquad.units import Unit, fundamental_unit
+from realquad.infrastructure.principal import principal_ideal_test, principal_search
+from realquad.units import Unit
+from realquad.units.bsgs import check_reach, unit_from_search
 
 METHOD_INFRASTRUCTURE = (
     "principal ideal test in the infrastructure for every ideal [|m|, z + √d], z² ≡ d (mod |m|); "
@@ -246,8 +247,9 @@ def _families(
 ) -> tuple[list[CompactOrbitFamily], Proof]:
     """The classes of ``a x² + bxy + cy² = n`` (``a > 0``, primitive) from the ideals ``I·J``."""
     D = b * b - 4 * a * c
-    if unit is None:
-        unit = fundamental_unit(Order(D), "bsgs")
+    if unit is None:  # from the search the tests share: one regulator search in all
+        check_reach(D)
+        unit = unit_from_search(Order(D), principal_search(D))
     eps = unit.compact()
     assert eps is not None, "the infrastructure gives units in compact form"
     plus = eps if unit.norm == 1 else eps.power(2)

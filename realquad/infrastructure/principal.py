@@ -83,6 +83,15 @@ def principal_ideal_test(D: int, a: int, b: int) -> PrincipalityResult:
     return PrincipalityResult(D, a, b, True, generator)
 
 
+def principal_search(D: int) -> BSGSResult:
+    """The regulator search of ``D`` whose baby-step table the principal ideal tests share (cached).
+
+    Its factors give the fundamental unit (``realquad.units.bsgs.unit_from_search``), so a
+    caller that tests ideals and needs the unit searches once.
+    """
+    return _search(D)
+
+
 @lru_cache(maxsize=2)
 def _search(D: int) -> BSGSResult:
     """The regulator search of ``D`` with its baby-step table (kept for repeated tests).
