@@ -89,7 +89,7 @@ def _range_options(f: Any, by_discriminant: bool = False) -> Any:
 
 @click.group("survey", cls=Group)
 def command() -> None:
-    """Tabulate every real quadratic field Q(√d) in a range into a database; query it; report on it.
+    """Tabulate every quadratic field Q(√d) in a range (d > 1 or d < 0) into a database; query it; report on it.
 
     Example: realquad survey run --d-max 10000; realquad survey query --class-number 1; realquad survey report
     """
@@ -134,6 +134,8 @@ def run_command(
     as_json: bool,
 ) -> None:
     """Compute h, h⁺, Cl⁺, unit norm, regulator, period and digits of ε for every field in the range.
+
+    Negative bounds survey imaginary fields (h, Cl, w; no unit): --d-min -100000 --d-max -1.
 
     Rerun the same command to resume after an interruption: finished chunks are skipped.
     Example: realquad survey run --d-min 2 --d-max 100000 --workers 2
