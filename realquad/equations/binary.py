@@ -46,6 +46,7 @@ import mpmath
 
 from realquad._backend import kernels
 from realquad.core.integers import as_integer, is_square, isqrt
+from realquad.core.lfunction import estimated_period
 from realquad.core.linalg import matrix_multiply
 from realquad.core.numbers import pair_multiply, pair_power
 from realquad.core.primes import divisors
@@ -61,6 +62,7 @@ from realquad.equations.families import (
 )
 from realquad.equations.finite import definite_solutions, square_solutions
 from realquad.equations.norm import (
+    MAX_CYCLE,
     balanced_representative,
     choose_norm_method,
     norm_classes,
@@ -69,7 +71,7 @@ from realquad.equations.norm import (
 from realquad.equations.norm_compact import form_families_infrastructure
 from realquad.equations.pell import pell
 from realquad.errors import DomainError, TooLargeError
-from realquad.textio import decimal_digits
+from realquad.textio import about, decimal_digits, shown
 
 Matrix = tuple[int, int, int, int]
 
@@ -320,6 +322,17 @@ def solve_transformed(
                 lines.append(line)
         return QuadraticSolutions(
             coefficients, not lines, lines, [], "the equation factors into two linear equations"
+        )
+    try:
+        beyond = choose_norm_method(D) == "infrastructure"
+    except TooLargeError:  # beyond the infrastructure too (or its kernels are not compiled)
+        beyond = True
+    if beyond:  # refused at once, not after walking a cycle
+        raise TooLargeError(
+            f"the period of √{shown(D)} is beyond the continued fraction ("
+            f"{about(estimated_period(4 * D, 2_000))} terms expected, limit {MAX_CYCLE:,}); "
+            "the infrastructure solves x² − dy² = n and ax² + bxy + cy² = n at this size, "
+            "not yet a conic with linear terms"
         )
     classes, method = norm_classes(D, K)
     families, note = _orbit_families(sub, D, K, classes, method)
