@@ -71,6 +71,7 @@ from realquad.equations.norm import (
 from realquad.equations.norm_compact import form_families_infrastructure
 from realquad.equations.pell import pell
 from realquad.errors import DomainError, TooLargeError
+from realquad.infrastructure.table import compiled_table
 from realquad.textio import about, decimal_digits, shown
 
 Matrix = tuple[int, int, int, int]
@@ -440,9 +441,13 @@ def solve_binary_form(a: int, b: int, c: int, n: int) -> QuadraticSolutions:
         return QuadraticSolutions(
             coefficients, out.finite, out.families, out.solutions, out.method, notes=out.notes
         )
-    if n and Delta > 0 and not is_square(Delta) and choose_norm_method(Delta) == "infrastructure":
-        families, method, proof = form_families_infrastructure(a, b, c, n)
-        found: list[Family] = list(families)
-        return QuadraticSolutions(coefficients, not found, found, [], method, proof)
-    sol = solve_transformed(coefficients, (2 * a, b, 0, 1), (0, 0), Delta, 4 * a * n)
-    return sol
+    hyperbolic = bool(n) and Delta > 0 and not is_square(Delta)
+    if not hyperbolic or choose_norm_method(Delta) == "cfrac":
+        try:
+            return solve_transformed(coefficients, (2 * a, b, 0, 1), (0, 0), Delta, 4 * a * n)
+        except TooLargeError:  # a period longer than its estimate: the infrastructure takes over
+            if not hyperbolic or not compiled_table(4 * Delta):
+                raise
+    families, method, proof = form_families_infrastructure(a, b, c, n)
+    found: list[Family] = list(families)
+    return QuadraticSolutions(coefficients, not found, found, [], method, proof)
