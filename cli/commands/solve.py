@@ -60,32 +60,40 @@ def polynomial_text(coefficients: tuple[int, ...], var: str = "t") -> str:
     return terms_text((k, powers[degree - i]) for i, k in enumerate(coefficients))
 
 
-def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> list[str]:
-    """A class whose unit (and perhaps fundamental solution) stays in compact form."""
+def _unit_texts(fam: CompactOrbitFamily) -> tuple[str, str]:
+    """How the family's fundamental solution and its unit are written: ``x + y√d`` or, for a
+    form, ``ax + y(b + √D)/2``; ``t + u√d`` or ``(t + u√D)/2``."""
     d = fam.d
     if (fam.a, fam.b) == (1, 0):
-        element, unit = f"x + y√{d}", f"t + u√{d}"
-    else:  # a form: α = ax + y(b + √D)/2, ε = (t + u√D)/2
-        element, unit = f"{fam.a}x + y({fam.b} + √{d})/2", f"(t + u√{d})/2"
+        return f"x + y√{d}", f"t + u√{d}"
+    return f"{fam.a}x + y({fam.b} + √{d})/2", f"(t + u√{d})/2"
+
+
+def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> str:
+    """A class whose fundamental solution is written out, or kept in compact form."""
     if fam.fundamental is not None:
         x, y = (sizer.text(v) for v in fam.fundamental)
-        first = f"  {i}. ({x}, {y})"
-    else:
-        first = (
-            f"  {i}. {element} in compact form ({plural(fam.generator.size, 'factor')}), "
-            f"x of about {fam.digits():,} digits"
-        )
+        return f"  {i}. ({x}, {y})"
+    element, _ = _unit_texts(fam)
+    return (
+        f"  {i}. {element} in compact form ({plural(fam.generator.size, 'factor')}), "
+        f"x of about {fam.digits():,} digits"
+    )
+
+
+def _shared_automorph(fam: CompactOrbitFamily) -> list[str]:
+    """The automorph every compact family of one equation shares, said once."""
+    _, unit = _unit_texts(fam)
     return [
-        first,
-        f"     automorph: multiplication by the least unit {unit} of norm 1, in compact form "
-        f"({plural(fam.unit.size, 'factor')}), t of about {fam.unit_digits():,} digits",
-        "     together with the mirror images −(x, y)",
+        f"automorph of every family: multiplication by the least unit {unit} of norm 1, in "
+        f"compact form ({plural(fam.unit.size, 'factor')}), t of about {fam.unit_digits():,} "
+        "digits; the families hold the mirror images −(x, y) too"
     ]
 
 
 def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
     if isinstance(fam, CompactOrbitFamily):
-        lines = _compact_text(i, fam, sizer)
+        lines = [_compact_text(i, fam, sizer)]
         if k is not None and fam.digits(k) > MAX_MEMBER_DIGITS:
             lines.append(
                 f"     member k = {k}: about {fam.digits(k):,} digits, left in compact form"
@@ -147,6 +155,9 @@ def build(
         lines.append(f"{plural(len(sol.families), 'family', 'families')} of solutions:")
         for i, fam in enumerate(sol.families, 1):
             lines += _family_text(i, fam, member, sizer)
+        compact = [fam for fam in sol.families if isinstance(fam, CompactOrbitFamily)]
+        if compact:
+            lines += _shared_automorph(compact[0])
     listed = payload["solutions"]
     if listed is not None:
         what = f"with |x|, |y| ≤ {sizer.text(bound)}" if bound is not None else "in all"
