@@ -248,7 +248,11 @@ def _by_tests(
 ) -> PrimeDecomposition:
     """The decomposition when the group has no table: classes by principal ideal tests."""
     narrow = locate(group, F, narrow=True)
-    same = group.narrow_invariants == group.invariants and group.unit_norm == -1
+    same = (
+        group.unit_norm == -1  # Cl⁺ = Cl: one search serves both, if on the same generators
+        and group.narrow_invariants == group.invariants
+        and group.narrow_generators == group.generators
+    )
     wide = narrow if same else locate(group, F, narrow=False)
     classes, wides = [narrow], [wide]
     if kind == "split":  # the conjugate ideal lies in the inverse class
