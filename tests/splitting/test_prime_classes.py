@@ -60,6 +60,9 @@ def test_located_classes_agree_with_the_class_table(D: int) -> None:
         assert class_order(mine.classes[0], narrow) == class_order(
             theirs.classes[0], exact.narrow_invariants
         )
+        assert class_order(mine.wide_classes[0], tested.invariants) == class_order(
+            theirs.wide_classes[0], exact.invariants
+        )
         principal = Form.identity(D)
         if mine.represented_by_principal:
             assert mine.x is not None and mine.y is not None
