@@ -60,8 +60,10 @@ A005875, the Hurwitz class numbers ``12·H(n)`` OEIS A259825.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
-import numpy as np
+if TYPE_CHECKING:  # numpy is imported where it is used: it costs 0.1 s of every start-up
+    import numpy as np
 
 from realquad.errors import TooLargeError
 
@@ -76,6 +78,8 @@ METHOD = (
 
 def three_square_counts(n_max: int) -> np.ndarray:
     """``r₃(n)`` for ``0 ≤ n ≤ n_max``, exact, as ``int64`` (OEIS A005875)."""
+    import numpy as np
+
     if n_max < 0:
         raise ValueError("n_max must be at least 0")
     if n_max > MAX_TERMS:
@@ -99,6 +103,8 @@ def three_square_counts(n_max: int) -> np.ndarray:
 
 def _rounded(values: np.ndarray) -> np.ndarray:
     """``values`` rounded to integers, refused if any is not within ``1/4`` of one."""
+    import numpy as np
+
     rounded = np.rint(values)
     if values.size and float(np.max(np.abs(values - rounded))) > 0.25:
         raise ArithmeticError("internal check failed: a theta coefficient is not near an integer")
@@ -115,6 +121,8 @@ def binary_theta(a: int, b: int, c: int, n_max: int) -> np.ndarray:
     >>> binary_theta(1, 1, 1, 12).tolist()   # OEIS A004016: 6·Σ_{d|n} (d/3)
     [1, 6, 0, 6, 6, 0, 0, 12, 0, 6, 0, 0, 6]
     """
+    import numpy as np
+
     disc = 4 * a * c - b * b
     counts = np.zeros(n_max + 1, dtype=np.int64)
     y_max = int(np.sqrt(4 * a * n_max / disc)) + 1
@@ -133,6 +141,8 @@ def binary_theta(a: int, b: int, c: int, n_max: int) -> np.ndarray:
 
 def _ternary_counts(form: tuple[int, int, int], q: int, n_max: int) -> np.ndarray:
     """The counts of ``ax² + bxy + cy² + qz²`` up to ``n_max`` (one product by FFT)."""
+    import numpy as np
+
     size = 1 << (2 * n_max + 1).bit_length()
     binary = binary_theta(*form, n_max).astype(float)
     sparse = np.zeros(n_max + 1)
@@ -209,6 +219,8 @@ def theta_class_numbers(D_min: int, D_max: int = -3) -> dict[int, int]:
 
 def _squarefree_flags(n_max: int) -> np.ndarray:
     """``flags[m]`` is true when ``m`` is squarefree (``0 ≤ m ≤ n_max``; ``0`` is not)."""
+    import numpy as np
+
     flags = np.ones(n_max + 1, dtype=bool)
     flags[0] = False
     k = 2

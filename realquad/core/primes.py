@@ -29,8 +29,6 @@ import itertools
 from bisect import bisect_left
 
 import gmpy2
-from sympy import factorint
-from sympy.ntheory import sqrt_mod
 
 from realquad._backend import call_kernel
 from realquad.errors import InputError, TooLargeError
@@ -107,6 +105,8 @@ def factorize(n: int) -> dict[int, int]:
                     f"cannot factor a {gmpy2.num_digits(m, 10)}-digit composite part in "
                     f"reasonable time (limit {MAX_HARD_DIGITS} digits)"
                 )
+            from sympy import factorint  # imported here: sympy costs 0.3 s of every start-up
+
             for p, e in factorint(int(m)).items():
                 result[int(p)] = result.get(int(p), 0) + int(e)
     return dict(sorted(result.items()))
@@ -200,6 +200,8 @@ def square_roots_mod(d: int, m: int, factors: dict[int, int] | None = None) -> l
             f"z² ≡ d has up to {bound:,} square roots modulo the {decimal_digits(m)}-digit |m| "
             f"(limit {MAX_ROOTS:,}); too many classes to examine"
         )
+    from sympy.ntheory import sqrt_mod  # imported here: sympy costs 0.3 s of every start-up
+
     roots, modulus = [0], 1
     for p, e in factors.items():
         q = p**e

@@ -56,8 +56,6 @@ from functools import partial
 from math import gcd, lcm
 
 import gmpy2
-from sympy.polys.domains import ZZ
-from sympy.polys.galoistools import gf_diff, gf_gcd, gf_pow_mod, gf_rem, gf_sub
 
 from realquad.classgroup import ClassGroup, class_group
 from realquad.classgroup.genus import character_value, represented_prime_to
@@ -324,6 +322,10 @@ def factor_degrees_are(coefficients: list[int], p: int, k: int) -> bool | None:
     >>> factor_degrees_are([1, 0, 1], 2, 1) is None
     True
     """
+    # imported here: sympy costs 0.3 s of every start-up
+    from sympy.polys.domains import ZZ
+    from sympy.polys.galoistools import gf_diff, gf_gcd, gf_pow_mod, gf_rem, gf_sub
+
     f = [c % p for c in reversed(coefficients)]
     one = [1]
     if gf_gcd(f, gf_diff(f, p, ZZ), p, ZZ) != one:
