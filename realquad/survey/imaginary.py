@@ -24,9 +24,10 @@ columns are empty.
 [(-4, 1, '[]', 4), (-3, 1, '[]', 6), (-20, 2, '[2]', 2), (-56, 4, '[4]', 2), (-23, 3, '[3]', 2)]
 >>> rows[2].unit_norm, rows[2].regulator, rows[2].proof
 (None, None, 'unconditional')
->>> chunk = with_class_numbers([Chunk("d", -314, -308)])[0]
->>> chunk.radicands(), chunk.class_numbers    # 3, 5 and 7 split in Q(√−311): 0, field by field
-([-314, -313, -311, -310, -309], (26, 8, 0, 8, 12))
+>>> chunk = with_class_numbers([Chunk("d", -320, -1)])[0]
+>>> known = dict(zip(chunk.radicands(), chunk.class_numbers))
+>>> known[-314], known[-313], known[-311]   # 3, 5 and 7 split in Q(√−311): 0, field by field
+(26, 8, 0)
 
 References: A. S. Mosunov and M. J. Jacobson Jr., "Unconditional class group
 tabulation of imaginary quadratic fields to ``|Δ|`` < 2⁴⁰", *Math. Comp.* 85
@@ -122,18 +123,43 @@ def imaginary_chunk(chunk: Chunk) -> list[FieldRecord]:
 def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
     """The imaginary ``chunks`` with the class numbers the batch proves attached.
 
-    One series of ``r₃`` up to the largest ``|D|`` of the chunks serves them
-    all; beyond :data:`~realquad.classgroup.theta.MAX_TERMS` terms the
-    chunks go field by field.
+    One series up to the largest ``|D|`` of the chunks serves them all. It
+    pays when the chunks hold a fair share of the fields below that ``|D|``
+    (at least one in :data:`BATCH_SHARE`; a full range holds about 3 in 10);
+    a few fields far out, or more than
+    :data:`~realquad.classgroup.theta.MAX_TERMS` terms, go field by field.
     """
     if not chunks:
         return chunks
     radicands = [chunk.radicands() for chunk in chunks]
-    largest = max((-_discriminant(d) for ds in radicands for d in ds), default=0)
-    if largest == 0 or largest > MAX_TERMS:
+    largest = largest_discriminant(chunks)
+    fields = sum(len(ds) for ds in radicands)
+    if not batch_pays(largest, fields):
         return chunks
     counts = theta_counts(largest)
     return [
         replace(chunk, class_numbers=tuple(counts.class_number(_discriminant(d)) or 0 for d in ds))
         for chunk, ds in zip(chunks, radicands, strict=True)
     ]
+
+
+#: The batch is used when the fields to compute are at least ``1/BATCH_SHARE`` of ``max |D|``.
+BATCH_SHARE = 40
+
+
+def batch_pays(largest: int, fields: int) -> bool:
+    """Whether one series to ``|D| = largest`` is worth it for ``fields`` fields (see above).
+
+    >>> batch_pays(10**6, 303_968), batch_pays(8 * 10**6, 607), batch_pays(10**9, 10**9)
+    (True, False, False)
+    """
+    return 0 < largest <= MAX_TERMS and fields * BATCH_SHARE >= largest
+
+
+def largest_discriminant(chunks: list[Chunk]) -> int:
+    """The largest ``|D|`` the imaginary ``chunks`` can hold (``4|d|`` for a range of ``d``).
+
+    >>> largest_discriminant([Chunk("d", -30, -21), Chunk("D", -50, -41)])
+    120
+    """
+    return max((-c.lo * (4 if c.kind == "d" else 1) for c in chunks), default=0)

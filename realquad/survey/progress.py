@@ -49,6 +49,12 @@ def _duration(seconds: float) -> str:
     return f"{h}h{m:02d}m{s:02d}s" if h else (f"{m}m{s:02d}s" if m else f"{s}s")
 
 
+def note(mode: Mode, text: str, stream: TextIO | None = None) -> None:
+    """One line on the progress stream (stderr) unless ``mode`` is ``quiet``."""
+    if mode != "quiet":
+        print(text, file=stream or sys.stderr, flush=True)
+
+
 class SurveyProgress:
     """Counts finished fields against ``total`` and shows it in the chosen ``mode``."""
 

@@ -26,8 +26,13 @@ from typing import Any
 
 from realquad.survey.compute import survey_chunk
 from realquad.survey.executors import InProcessExecutor
-from realquad.survey.imaginary import imaginary_chunk, with_class_numbers
-from realquad.survey.progress import Mode, SurveyProgress
+from realquad.survey.imaginary import (
+    batch_pays,
+    imaginary_chunk,
+    largest_discriminant,
+    with_class_numbers,
+)
+from realquad.survey.progress import Mode, SurveyProgress, note
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, Chunk, SurveyRange
 from realquad.survey.store import SurveyStore
 
@@ -85,8 +90,18 @@ def tabulate(
         chunks = list(survey_range.chunks(chunk_size))
         counts = {c: len(c.radicands()) for c in chunks}
         todo = [c for c in chunks if not store.is_done(c)]
-        if survey_range.imaginary and chunk_function is imaginary_chunk:
+        if survey_range.imaginary and chunk_function is imaginary_chunk and todo:
+            largest = largest_discriminant(todo)
+            # seconds or minutes before the first chunk: say what happens
+            loud = batch_pays(largest, sum(counts[c] for c in todo)) and largest > 10**6
+            if loud:
+                note(
+                    progress, f"survey: class numbers to |D| = {largest:,} from theta series first"
+                )
+            begun = time.perf_counter()
             todo = with_class_numbers(todo)
+            if loud:
+                note(progress, f"survey: theta series done in {time.perf_counter() - begun:.1f} s")
         store.begin_run(survey_range)
         outcome = SurveyOutcome(store.path, sum(counts.values()), executor=executor.description)
         outcome.skipped_chunks = len(chunks) - len(todo)
