@@ -32,10 +32,10 @@ form ``r₃(n) = 12·(H(4n) − 2·H(n))`` with the Hurwitz class numbers ``H``
 The small fields: ``r₃(1) = 6`` (``D = −4``, ``w = 4``, ``h = 1``),
 ``r₃(3) = 8`` (``D = −3``, ``w = 6``, ``h = 1``).
 
-**Method.** ``θ(q)³`` to ``q^N`` by two products of polynomials with the
-fast Fourier transform in binary64 (``θ²`` rounded to integers, then
-``θ²·θ``), the binary forms' series by listing their values and each
-``Q_q`` by one more product; every coefficient is rounded to the nearest integer and the
+**Method.** Each ternary form is a binary form plus ``qz²`` (``x² + y² + z²``
+with ``q = 1``): the binary form's series by listing its values, then one
+product with ``θ(q^q)`` by the fast Fourier transform in binary64 (of a
+length ``2^a·3^b·5^c`` just above ``2N``); every coefficient is rounded to the nearest integer and the
 computation is refused if any lies farther than ``1/4`` from one — the
 values are integers below ``10⁷`` and the transforms' errors are of the order
 ``10⁻¹⁰``, so the rounding is exact; the result is unconditional. The work
@@ -78,27 +78,35 @@ METHOD = (
 
 def three_square_counts(n_max: int) -> np.ndarray:
     """``r₃(n)`` for ``0 ≤ n ≤ n_max``, exact, as ``int64`` (OEIS A005875)."""
-    import numpy as np
-
     if n_max < 0:
         raise ValueError("n_max must be at least 0")
     if n_max > MAX_TERMS:
         raise TooLargeError(
             f"the sums-of-three-squares series stops at {MAX_TERMS:,} terms (asked for {n_max:,})"
         )
-    size = 1 << (2 * n_max + 1).bit_length()
-    theta = np.zeros(n_max + 1)
-    squares = np.arange(1, int(np.sqrt(n_max)) + 2, dtype=np.int64) ** 2
-    theta[0] = 1
-    theta[squares[squares <= n_max]] = 2
-    spectrum = np.fft.rfft(theta, size)
-    del theta
-    two = _rounded(np.fft.irfft(spectrum * spectrum, size)[: n_max + 1])
-    product = np.fft.rfft(two, size)
-    del two
-    product *= spectrum
-    del spectrum
-    return _rounded(np.fft.irfft(product, size)[: n_max + 1]).astype(np.int64)
+    return _ternary_counts((1, 0, 1), 1, n_max)  # x² + y² (listed) times θ(q)
+
+
+def _transform_length(n: int) -> int:
+    """The least ``2^a·3^b·5^c ≥ n`` (even): a length the transform handles fast, at most a few
+    per cent above ``n`` where the next power of two may be twice it.
+
+    >>> _transform_length(2 * 10**6 + 1), _transform_length(2 * 10**8 + 1), _transform_length(1)
+    (2025000, 201326592, 2)
+    """
+    best = 1 << max(1, (n - 1).bit_length())
+    p5 = 1
+    while p5 < best:
+        p35 = p5
+        while p35 < best:
+            m = p35
+            while m < n:
+                m *= 2
+            if m % 2 == 0 and m < best:
+                best = m
+            p35 *= 3
+        p5 *= 5
+    return best
 
 
 def _rounded(values: np.ndarray) -> np.ndarray:
@@ -143,7 +151,7 @@ def _ternary_counts(form: tuple[int, int, int], q: int, n_max: int) -> np.ndarra
     """The counts of ``ax² + bxy + cy² + qz²`` up to ``n_max`` (one product by FFT)."""
     import numpy as np
 
-    size = 1 << (2 * n_max + 1).bit_length()
+    size = _transform_length(2 * n_max + 1)
     binary = binary_theta(*form, n_max).astype(float)
     sparse = np.zeros(n_max + 1)
     zs = np.arange(1, int(np.sqrt(n_max / q)) + 2, dtype=np.int64)
