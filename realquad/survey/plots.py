@@ -51,55 +51,75 @@ def check_plot_path(path: str) -> None:
 
 def _real_panels(report: SurveyReport, rows: list[tuple[Any, ...]], left, middle, right) -> None:  # type: ignore[no-untyped-def]
     """Class number one among prime discriminants, the distribution of h, regulators against √D."""
-    if report.running_prime_share:
-        xs = [d for d, _ in report.running_prime_share]
-        ys = [100 * s for _, s in report.running_prime_share]
-        left.plot(xs, ys, lw=1, label="survey")
-    left.axhline(
-        100 * report.prediction, color="red", ls="--", lw=1, label="Cohen–Lenstra 75.446 %"
+    _share_panel(
+        left,
+        report.running_prime_share,
+        report.prediction,
+        "Cohen–Lenstra 75.446 %",
+        ("prime d ≡ 1 (mod 4) up to", "share with h = 1 (%)"),
+        "class number one, prime discriminants",
     )
-    left.set_xlabel("prime d ≡ 1 (mod 4) up to")
-    left.set_ylabel("share with h = 1 (%)")
-    left.set_title("class number one, prime discriminants")
-    left.legend(loc="best")
     _distribution_panel(middle, report.class_number_counts, report.fields)
-    if rows:
-        right.scatter(
-            [math.sqrt(D) for _, D, _, _ in rows], [float(r) for *_, r in rows], s=1, alpha=0.4
-        )
-        right.set_xscale("log")
-        right.set_yscale("log")
-    right.set_xlabel("√D")
-    right.set_ylabel("regulator R")
-    right.set_title("regulator against √D")
+    _log_scatter(
+        right,
+        [math.sqrt(D) for _, D, _, _ in rows],
+        [float(r) for *_, r in rows],
+        ("√D", "regulator R"),
+        "regulator against √D",
+    )
 
 
 def _imaginary_panels(
     part: ImaginaryReport, rows: list[tuple[Any, ...]], left, middle, right
 ) -> None:  # type: ignore[no-untyped-def]
     """The share of 3 | h, the distribution of h, and h against √|D| (imaginary fields)."""
-    if part.running_three_share:
-        left.plot(
-            [n for n, _ in part.running_three_share],
-            [100 * s for _, s in part.running_three_share],
-            lw=1,
-            label="survey",
-        )
-    left.axhline(100 * part.prediction, color="red", ls="--", lw=1, label="Cohen–Lenstra 43.987 %")
-    left.set_xlabel("|D| up to")
-    left.set_ylabel("share with 3 | h (%)")
-    left.set_title("3 divides h, imaginary fields")
-    left.legend(loc="best")
+    _share_panel(
+        left,
+        part.running_three_share,
+        part.prediction,
+        "Cohen–Lenstra 43.987 %",
+        ("|D| up to", "share with 3 | h (%)"),
+        "3 divides h, imaginary fields",
+    )
     _distribution_panel(middle, part.class_number_counts, part.fields)
-    if rows:
-        right.scatter(
-            [math.sqrt(-D) for _, D, _, _ in rows], [h for _, _, h, _ in rows], s=1, alpha=0.4
-        )
-        right.set_xscale("log")
-        right.set_yscale("log")
-    right.set_xlabel("√|D|")
-    right.set_ylabel("class number h")
-    right.set_title("h against √|D| (imaginary fields)")
+    _log_scatter(
+        right,
+        [math.sqrt(-D) for _, D, _, _ in rows],
+        [h for _, _, h, _ in rows],
+        ("√|D|", "class number h"),
+        "h against √|D| (imaginary fields)",
+    )
+
+
+def _share_panel(  # type: ignore[no-untyped-def]
+    axis,
+    running: list[tuple[int, float]],
+    prediction: float,
+    label: str,
+    labels: tuple[str, str],
+    title: str,
+) -> None:
+    """A running share (in per cent) against its predicted value."""
+    if running:
+        axis.plot([x for x, _ in running], [100 * y for _, y in running], lw=1, label="survey")
+    axis.axhline(100 * prediction, color="red", ls="--", lw=1, label=label)
+    axis.set_xlabel(labels[0])
+    axis.set_ylabel(labels[1])
+    axis.set_title(title)
+    axis.legend(loc="best")
+
+
+def _log_scatter(
+    axis, xs: list[float], ys: list[float], labels: tuple[str, str], title: str
+) -> None:  # type: ignore[no-untyped-def]
+    """Points on logarithmic axes (none drawn for an empty list)."""
+    if xs:
+        axis.scatter(xs, ys, s=1, alpha=0.4)
+        axis.set_xscale("log")
+        axis.set_yscale("log")
+    axis.set_xlabel(labels[0])
+    axis.set_ylabel(labels[1])
+    axis.set_title(title)
 
 
 def _distribution_panel(axis, counts: dict[int, int], fields: int) -> None:  # type: ignore[no-untyped-def]

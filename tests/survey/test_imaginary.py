@@ -226,3 +226,14 @@ def test_a_few_fields_far_out_go_field_by_field(tmp_path: Path) -> None:
     assert len(rows) > 500 and {r["method"] for r in rows} == {METHOD_ALONE}
     for r in rows[:20]:  # the full walk agrees
         assert class_group_imaginary(Order(r["discriminant"])).class_number == r["class_number"]
+
+
+def test_the_plot_of_a_store_with_both_signs(
+    capsys: pytest.CaptureFixture[str], tmp_path: Path
+) -> None:
+    db, picture = str(tmp_path / "both.sqlite"), tmp_path / "both.png"
+    assert _cli(capsys, "survey", "run", "--d-max", "300", "--db", db)[0] == 0
+    assert _cli(capsys, "survey", "run", "--d-min", "-300", "--d-max", "-1", "--db", db)[0] == 0
+    status, out, _ = _cli(capsys, "survey", "report", "--db", db, "--plot", str(picture))
+    assert status == 0 and f"plot written to {picture}" in out
+    assert picture.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
