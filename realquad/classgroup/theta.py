@@ -65,6 +65,7 @@ from typing import TYPE_CHECKING
 if TYPE_CHECKING:  # numpy is imported where it is used: it costs 0.1 s of every start-up
     import numpy as np
 
+from realquad.core.primes import kronecker
 from realquad.errors import TooLargeError
 
 #: Largest ``N = |D|`` (for ``D = −4m``: ``m``) the series is computed to (memory: about 80·N bytes).
@@ -177,11 +178,10 @@ class ThetaCounts:
         if D == -3 or D == -4:
             return 1
         if D % 8 == 1:
-            m = -D
             for (q, _, k), counts in zip(TERNARY_FORMS, self.ternary, strict=True):
-                symbol = 0 if m % q == 0 else (1 if pow(D % q, (q - 1) // 2, q) == 1 else -1)
+                symbol = kronecker(D, q)
                 if symbol != 1:
-                    return _quotient(D, int(counts[m]), k * (1 - symbol))
+                    return _quotient(D, int(counts[-D]), k * (1 - symbol))
             return None
         if D % 4 == 0:
             return _quotient(D, int(self.three_squares[-D // 4]), 12)
