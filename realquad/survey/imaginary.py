@@ -52,10 +52,11 @@ from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
 from realquad.core.integers import isqrt
 from realquad.core.linalg import triangular_invariants
-from realquad.core.orders import Order
+from realquad.core.orders import Order, fundamental_discriminant_of
 from realquad.core.primes import primes_below
 from realquad.survey.compute import FieldRecord
 from realquad.survey.ranges import Chunk
+from realquad.units import unit_group
 
 #: The method of a row whose class number came from the batch.
 METHOD_BATCH = (
@@ -63,14 +64,6 @@ METHOD_BATCH = (
 )
 #: The method of a row computed alone.
 METHOD_ALONE = f"class number and structure: {FORMS_METHOD}"
-
-
-def _discriminant(d: int) -> int:
-    return d if d % 4 == 1 else 4 * d
-
-
-def _roots_of_unity(D: int) -> int:
-    return 6 if D == -3 else 4 if D == -4 else 2
 
 
 def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[FieldRecord]:
@@ -85,7 +78,7 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
     known = list(class_numbers) or [0] * len(ds)
     rows = []
     for d, h in zip(ds, known, strict=True):
-        D = _discriminant(d)
+        D = fundamental_discriminant_of(d)
         order = Order.from_conductor(D)  # D is fundamental: the range sieved it
         if h:
             invariants = class_invariants_from_class_number(order, h, primes)
@@ -103,7 +96,7 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
                 narrow_class_number=h,
                 class_group=text,
                 narrow_class_group=text,
-                roots_of_unity=_roots_of_unity(D),
+                roots_of_unity=unit_group(order).roots_of_unity,
                 unit_norm=None,
                 regulator=None,
                 period_length=None,
@@ -138,7 +131,12 @@ def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
         return chunks
     counts = theta_counts(largest)
     return [
-        replace(chunk, class_numbers=tuple(counts.class_number(_discriminant(d)) or 0 for d in ds))
+        replace(
+            chunk,
+            class_numbers=tuple(
+                counts.class_number(fundamental_discriminant_of(d)) or 0 for d in ds
+            ),
+        )
         for chunk, ds in zip(chunks, radicands, strict=True)
     ]
 
