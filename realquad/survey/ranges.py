@@ -30,6 +30,7 @@ from dataclasses import dataclass, field
 from typing import Literal
 
 from realquad.core.integers import isqrt
+from realquad.core.orders import fundamental_discriminant_of
 from realquad.core.primes import primes_below
 from realquad.errors import InputError
 
@@ -100,7 +101,7 @@ class Chunk:
         lo, hi = self.lo, min(self.hi, -3)
         odd = [d for d in negative_radicands_in(lo, hi) if d % 4 == 1]
         even = [d for d in negative_radicands_in(-(-lo // 4), hi // 4) if d % 4 in (2, 3)]
-        return [d for _, d in sorted([(d, d) for d in odd] + [(4 * d, d) for d in even])]
+        return sorted(odd + even, key=fundamental_discriminant_of)  # in the order of D
 
 
 @dataclass(frozen=True)
