@@ -17,7 +17,7 @@ from realquad.errors import InputError
 from realquad.latex import escape, group, table
 from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
-from realquad.survey.executors import make_executor
+from realquad.core.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange

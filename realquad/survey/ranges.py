@@ -87,6 +87,11 @@ class Chunk:
     hi: int
     class_numbers: tuple[int, ...] = field(default=(), compare=False, repr=False)
 
+    @property
+    def label(self) -> str:
+        """Words for this chunk in messages."""
+        return f"the chunk {self.kind} in [{self.lo}, {self.hi}]"
+
     def radicands(self) -> list[int]:
         """The squarefree ``d`` of the fields in this chunk, in the chunk's order."""
         if self.hi < 0:

@@ -25,7 +25,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from realquad.survey.compute import survey_chunk
-from realquad.survey.executors import InProcessExecutor
+from realquad.core.executors import InProcessExecutor
 from realquad.survey.imaginary import (
     batch_pays,
     imaginary_chunk,

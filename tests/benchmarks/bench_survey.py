@@ -17,7 +17,7 @@ from collections.abc import Callable
 from typing import Any
 
 from realquad.survey.compute import _regulator_text, survey_field, survey_fields
-from realquad.survey.executors import make_executor
+from realquad.core.executors import make_executor
 from realquad.survey.ranges import Chunk, SurveyRange, squarefree_in
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import tabulate

@@ -17,7 +17,7 @@ from collections.abc import Callable
 from typing import Any
 
 from realquad.classgroup.theta import theta_counts
-from realquad.survey.executors import make_executor
+from realquad.core.executors import make_executor
 from realquad.survey.imaginary import imaginary_fields, with_class_numbers
 from realquad.survey.ranges import Chunk, SurveyRange
 from realquad.survey.store import SurveyStore

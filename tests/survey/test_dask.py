@@ -35,7 +35,7 @@ def test_dask_run_equals_local_run(tmp_path: Path) -> None:
 
 
 def test_scheduler_without_workers_is_refused() -> None:
-    from realquad.survey.executors import DaskExecutor
+    from realquad.core.executors import DaskExecutor
 
     with distributed.LocalCluster(
         n_workers=0, processes=False, host="127.0.0.1", dashboard_address=None, protocol="tcp"
@@ -65,7 +65,7 @@ def test_a_port_that_is_not_a_scheduler_is_refused() -> None:
 
     threading.Thread(target=answer_nonsense, daemon=True).start()
     from realquad.errors import InputError
-    from realquad.survey.executors import DaskExecutor
+    from realquad.core.executors import DaskExecutor
 
     with pytest.raises(InputError, match="cannot reach the Dask scheduler"):
         DaskExecutor(f"tcp://127.0.0.1:{port}", timeout=1.0)

@@ -18,7 +18,7 @@ from typing import Any
 import pytest
 
 from realquad.errors import InputError
-from realquad.survey.executors import ChunkFunction, DaskExecutor, Finished
+from realquad.core.executors import WorkFunction, DaskExecutor, Finished
 from realquad.survey.ranges import Chunk, SurveyRange
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
@@ -83,7 +83,7 @@ class _After:
         self.inner, self.after, self.act = inner, after, act
         self.description = inner.description
 
-    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
+    def map_unordered(self, chunks: Iterable[Chunk], function: WorkFunction) -> Iterator[Finished]:
         for count, finished in enumerate(self.inner.map_unordered(chunks, function), 1):
             yield finished
             if count == self.after:
@@ -123,7 +123,7 @@ def test_no_worker_left_stops_the_run_in_bounded_time_and_resumes(
 
         start = time.monotonic()
         with SurveyStore.open_for_writing(str(target)) as store:
-            with pytest.raises(InputError, match="no workers left and no chunk finished for 3 s"):
+            with pytest.raises(InputError, match="no workers left and nothing finished for 3 s"):
                 tabulate(RANGE, store, _After(executor, 2, kill_all), chunk_size=CHUNK)  # type: ignore[arg-type]
             saved = store.chunks_written
             assert saved >= 2 and store.missing()  # what finished is kept; the rest is missing

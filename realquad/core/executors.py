@@ -1,15 +1,17 @@
-"""Where the chunks of a survey are computed: this process, local worker processes, or Dask.
+"""Where independent pieces of work are computed: this process, local worker processes, or Dask.
 
-Every executor takes the chunks still to do and yields ``(chunk, rows,
-seconds)`` as chunks finish, in any order; only the calling process writes
-to the store. Stopping an executor (``close``, also on Ctrl-C) ends its
-workers at once: the chunks they were computing are simply not saved, and
-rerunning the survey computes them again.
+A piece of work (a survey's chunk of fields, a batch of sieve polynomials)
+is any picklable object with a ``label`` (words for messages: "the chunk d in
+[2, 9]"); a function turns it into a list of results. Every executor takes
+the pieces still to do and yields ``(piece, results, seconds)`` as pieces
+finish, in any order; only the calling process writes to its store.
+Stopping an executor (``close``, also on Ctrl-C) ends its workers at once:
+the pieces they were computing are simply not saved, and rerunning the
+command computes them again.
 
->>> from realquad.survey.ranges import Chunk
 >>> with InProcessExecutor() as ex:
-...     [(c.lo, len(rows)) for c, rows, _ in ex.map_unordered([Chunk("d", 2, 9)], _count_chunk)]
-[(2, 5)]
+...     [(p.label, rows) for p, rows, _ in ex.map_unordered([_Example("two", 2)], _count_to)]
+[('two', [0, 1])]
 """
 
 from __future__ import annotations
@@ -25,26 +27,41 @@ import sys
 import threading
 import time
 from collections.abc import Callable, Iterable, Iterator
-from typing import Any
+from dataclasses import dataclass
+from typing import Any, Protocol
 from urllib.parse import urlsplit
 
 from realquad.errors import InputError
-from realquad.survey.ranges import Chunk
-
-ChunkFunction = Callable[[Chunk], list[Any]]
-Finished = tuple[Chunk, list[Any], float]
 
 
-def _count_chunk(chunk: Chunk) -> list[int]:
-    """The radicands of a chunk (a cheap chunk function for examples and tests)."""
-    return chunk.radicands()
+class Work(Protocol):
+    """A piece of work: picklable, with words for it in messages."""
+
+    @property
+    def label(self) -> str: ...
 
 
-def _timed(job: tuple[ChunkFunction, Chunk]) -> Finished:
-    function, chunk = job
+WorkFunction = Callable[[Any], list[Any]]
+Finished = tuple[Any, list[Any], float]
+
+
+@dataclass(frozen=True)
+class _Example:
+    """A piece of work for the examples: count to ``n``."""
+
+    label: str
+    n: int
+
+
+def _count_to(piece: _Example) -> list[int]:
+    return list(range(piece.n))
+
+
+def _timed(job: tuple[WorkFunction, Work]) -> Finished:
+    function, piece = job
     start = time.perf_counter()
-    rows = function(chunk)
-    return chunk, rows, time.perf_counter() - start
+    rows = function(piece)
+    return piece, rows, time.perf_counter() - start
 
 
 def _ignore_interrupts() -> None:
@@ -65,13 +82,13 @@ def _ignore_interrupts() -> None:
 
 
 class InProcessExecutor:
-    """Compute the chunks one after the other in this process."""
+    """Compute the pieces one after the other in this process."""
 
     description = "this process"
 
-    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
-        for chunk in chunks:
-            yield _timed((function, chunk))
+    def map_unordered(self, pieces: Iterable[Any], function: WorkFunction) -> Iterator[Finished]:
+        for piece in pieces:
+            yield _timed((function, piece))
 
     def close(self) -> None:
         pass
@@ -84,7 +101,7 @@ class InProcessExecutor:
 
 
 class ProcessPoolExecutor(InProcessExecutor):
-    """Compute the chunks in ``workers`` local processes."""
+    """Compute the pieces in ``workers`` local processes."""
 
     def __init__(self, workers: int) -> None:
         self.workers = workers
@@ -93,8 +110,8 @@ class ProcessPoolExecutor(InProcessExecutor):
             workers, initializer=_ignore_interrupts
         )
 
-    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
-        yield from self._pool.imap_unordered(_timed, [(function, c) for c in chunks], chunksize=1)
+    def map_unordered(self, pieces: Iterable[Any], function: WorkFunction) -> Iterator[Finished]:
+        yield from self._pool.imap_unordered(_timed, [(function, c) for c in pieces], chunksize=1)
 
     def close(self) -> None:
         self._pool.terminate()
@@ -102,13 +119,13 @@ class ProcessPoolExecutor(InProcessExecutor):
 
 
 class DaskExecutor(InProcessExecutor):
-    """Compute the chunks on the Dask distributed cluster whose scheduler is at ``address``.
+    """Compute the pieces on the Dask distributed cluster whose scheduler is at ``address``.
 
-    A worker lost in the middle of a chunk costs only that chunk: the
+    A worker lost in the middle of a piece costs only that piece: the
     scheduler gives it to another worker (after ``allowed-failures`` losses,
     3 by default, it gives up and the run stops with one line). When no worker
     is left and nothing has finished for ``stall_timeout`` seconds, the run
-    stops with one line; the chunks finished so far are saved and the same
+    stops with one line; the pieces finished so far are saved and the same
     command resumes once workers are back. The cluster library's own log
     messages are silenced while the executor lives (its lines, and the
     tracebacks it logs when a run is interrupted, are not for the user). If
@@ -144,14 +161,14 @@ class DaskExecutor(InProcessExecutor):
             self.close()
             raise
 
-    def map_unordered(self, chunks: Iterable[Chunk], function: ChunkFunction) -> Iterator[Finished]:
+    def map_unordered(self, pieces: Iterable[Any], function: WorkFunction) -> Iterator[Finished]:
         from distributed import wait
 
-        jobs = [(function, c) for c in chunks]
+        jobs = [(function, c) for c in pieces]
         if not jobs:
             return
         self._futures = self._client.map(_timed, jobs, pure=False)
-        chunk_of = {f.key: c for f, (_, c) in zip(self._futures, jobs, strict=True)}
+        piece_of = {f.key: c for f, (_, c) in zip(self._futures, jobs, strict=True)}
         pending = set(self._futures)
         last_progress = time.monotonic()
         while pending:
@@ -163,13 +180,13 @@ class DaskExecutor(InProcessExecutor):
             except Exception as exc:
                 raise self._lost(exc) from None
             for future in done:
-                yield self._result(future, chunk_of[future.key], last_progress)
+                yield self._result(future, piece_of[future.key], last_progress)
                 last_progress = time.monotonic()
 
-    def _result(self, future: Any, chunk: Chunk, last_progress: float) -> Finished:
-        """The finished chunk, or :class:`InputError` when the cluster gave up on it.
+    def _result(self, future: Any, piece: Work, last_progress: float) -> Finished:
+        """The finished piece, or :class:`InputError` when the cluster gave up on it.
 
-        A chunk whose result lived on a worker lost since is computed again,
+        A piece whose result lived on a worker lost since is computed again,
         so fetching it waits in short steps, watching for a cluster left
         without workers.
         """
@@ -183,8 +200,8 @@ class DaskExecutor(InProcessExecutor):
                 if type(exc).__name__ != "KilledWorker":
                     raise self._lost(exc) from None
                 raise InputError(
-                    f"the Dask cluster lost every worker that tried the chunk {chunk.kind} in "
-                    f"[{chunk.lo}, {chunk.hi}]; the chunks finished before are saved; "
+                    f"the Dask cluster lost every worker that tried {piece.label}; the work "
+                    "finished before is saved; "
                     "rerun the same command to resume"
                 ) from None
 
@@ -193,8 +210,8 @@ class DaskExecutor(InProcessExecutor):
         if "Cancelled" not in type(exc).__name__:
             return exc
         return InputError(
-            f"lost the connection to the Dask scheduler at {self.address!r}; the chunks "
-            "finished so far are saved; rerun the same command to resume"
+            f"lost the connection to the Dask scheduler at {self.address!r}; the work "
+            "finished so far is saved; rerun the same command to resume"
         )
 
     def _check_workers(self, last_progress: float) -> None:
@@ -207,8 +224,8 @@ class DaskExecutor(InProcessExecutor):
             workers = 0
         if workers == 0:
             raise InputError(
-                f"the Dask cluster at {self.address!r} has no workers left and no chunk "
-                f"finished for {self.stall_timeout:g} s; the chunks finished so far are saved; "
+                f"the Dask cluster at {self.address!r} has no workers left and nothing "
+                f"finished for {self.stall_timeout:g} s; the work finished so far is saved; "
                 "start workers and rerun the same command to resume"
             )
 
