@@ -72,6 +72,7 @@ KERNEL_SOURCES = (
     "definite_kernels",
     "survey_kernels",
     "infrastructure_kernels",
+    "sieve_kernels",
 )
 
 KERNELS = Extension(

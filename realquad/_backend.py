@@ -41,6 +41,7 @@ TWINS = (
     "definite_kernels",
     "survey_kernels",
     "infrastructure_kernels",
+    "sieve_kernels",
 )
 
 BACKEND = "python"

@@ -72,6 +72,9 @@ static PyMethodDef methods[] = {
      "Baby steps stored in the table, with double-double distances."},
     {"infrastructure_giant_search", (PyCFunction)(void (*)(void))k_infrastructure_giant_search, METH_FASTCALL,
      "Giant steps until one meets the table, passes a distance, or a budget is spent."},
+    /* the relation search: sieving a family of polynomials */
+    {"sieve_family", (PyCFunction)(void (*)(void))k_sieve_family, METH_FASTCALL,
+     "Candidates (k, x, hits) of a family of sieve polynomials: x whose sum of logarithms reaches threshold."},
     {NULL, NULL, 0, NULL},
 };
 

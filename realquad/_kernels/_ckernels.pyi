@@ -80,3 +80,15 @@ def infrastructure_giant_search(
     budget: int,
     progress: object,
 ) -> tuple[int, int, int, int, float, float, float]: ...
+
+# the relation search: sieving a family of polynomials
+def sieve_family(
+    primes: list[int],
+    logs: list[int],
+    roots1: list[int],
+    roots2: list[int],
+    shifts: list[list[int]],
+    steps: list[int],
+    M: int,
+    threshold: int,
+) -> list[tuple[int, int, list[int]]]: ...

@@ -33,7 +33,9 @@
  * forms in a hash table); definite_kernels.c (positive definite forms: reduction,
  * composition, the class group of D < 0 by one reduced form per class); survey_kernels.c (survey_numbers: many fields per
  * call); infrastructure_kernels.c (baby and giant steps, the baby-step table
- * and the giant-step search); _ckernels.c (the method table and the module).
+ * and the giant-step search); sieve_kernels.c (sieve_family: a family of
+ * sieve polynomials, the hot loop of the relation search); _ckernels.c (the
+ * method table and the module).
  */
 #ifndef REALQUAD_KERNELS_H
 #define REALQUAD_KERNELS_H
@@ -416,6 +418,8 @@ KERNEL(k_infrastructure_table_size);
 KERNEL(k_infrastructure_table_get);
 KERNEL(k_infrastructure_table_extend);
 KERNEL(k_infrastructure_giant_search);
+/* sieve_kernels.c */
+KERNEL(k_sieve_family);
 
 #undef KERNEL
 
