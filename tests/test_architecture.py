@@ -55,7 +55,7 @@ LEVELS: dict[str, list[set[str]]] = {
     ],
     "realquad.core": [
         {"results", "progress", "integers", "linalg", "tokens"},
-        {"primes"},
+        {"primes", "lattice"},
         {"orders", "numbers"},
         {"forms", "lfunction"},
         {"ideals"},
