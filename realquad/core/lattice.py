@@ -269,9 +269,11 @@ def _prime(rng: random.Random, used: set[int]) -> int:
 
 
 def _mod(x: Any, p: int) -> Any:
-    """``x mod p`` for a float array of integers below ``2⁵²`` in size (a floor, then one correction)."""
+    """``x mod p`` for a float array of integers below ``2⁵²`` in size (``p = 0``: ``x`` itself)."""
     import numpy as np
 
+    if not p:
+        return x
     q = x * (1.0 / p)
     np.floor(q, out=q)
     q *= p
@@ -310,7 +312,8 @@ def _lu(A: Any, p: int) -> tuple[Any, Any, int]:
     """``P·A = L·U`` modulo ``p`` for ``A`` (m × k, m ≥ k): (L and U in one array, perm, swaps).
 
     Recursive on the columns (the updates are matrix products); raises :class:`_Singular`
-    when the rank modulo ``p`` is below ``k``.
+    when the rank modulo ``p`` is below ``k``. With ``p = 0``, in floating point with
+    partial pivoting (the largest entry of the column).
     """
     import numpy as np
 
@@ -325,12 +328,13 @@ def _lu(A: Any, p: int) -> tuple[Any, Any, int]:
             nz = np.flatnonzero(A[j:, j])
             if nz.size == 0:
                 raise _Singular(j, perm.copy())
-            r = j + int(nz[0])
+            r = j + (int(nz[0]) if p else int(np.argmax(np.abs(A[j:, j]))))
             if r != j:
                 A[[j, r]] = A[[r, j]]
                 perm[[j, r]] = perm[[r, j]]
                 swaps += 1
-            A[j + 1 :, j] = _mod(A[j + 1 :, j] * pow(int(A[j, j]), p - 2, p), p)
+            scale = pow(int(A[j, j]), p - 2, p) if p else 1.0 / A[j, j]
+            A[j + 1 :, j] = _mod(A[j + 1 :, j] * scale, p)
             if j + 1 < c1:
                 update = np.outer(A[j + 1 :, j], A[j, j + 1 : c1])
                 A[j + 1 :, j + 1 : c1] = _mod(A[j + 1 :, j + 1 : c1] - update, p)
@@ -387,6 +391,46 @@ def _det_mod(B: list[list[int]], p: int) -> int:
     return det % p
 
 
+def _determinant_bound(B: list[list[int]]) -> int | None:
+    """A proven upper bound on ``|det B|``, close to it, from floating point (``None``: no bound).
+
+    With ``P·B ≈ L·D·V`` in floats, ``X ≈ L⁻¹`` and ``Y ≈ V⁻¹`` forced unit triangular
+    have determinant 1, so ``det(X·P·B·Y) = ±det B`` while ``X·P·B·Y`` is nearly diagonal:
+    Hadamard's bound on its rows is tight. The rows are those of the computed product
+    plus its rounding error, bounded by ``γ·|X|·|P·B|·|Y|`` (Higham, *Accuracy and
+    Stability of Numerical Algorithms*, 2002, §3.5), taken with a wide margin.
+    """
+    import numpy as np
+
+    k = len(B)
+    if max(abs(x) for row in B for x in row) >= 2**50:
+        return None
+    M = np.array(B, dtype=float)
+    try:
+        LU, perm, _ = _lu(M, 0)
+    except _Singular:
+        return None
+    identity = np.eye(k)
+    with np.errstate(all="ignore"):
+        X = np.tril(_trsm(LU, identity, 0), -1) + identity
+        V = np.triu(LU, 1) / np.diag(LU)[:, None]
+        Y = np.triu(_trsm(np.ascontiguousarray(V[::-1, ::-1]), identity, 0)[::-1, ::-1], 1)
+        Y += identity
+        for T in (X, Y):
+            T[np.abs(T) < 2.0**-500] = 0.0  # no underflow in the products below
+        P = M[perm]
+        F = (X @ P) @ Y
+        E = (np.abs(X) @ np.abs(P)) @ np.abs(Y) * (64.0 * (k + 2) * 2.0**-53) + 2.0**-900
+        rows = (np.sqrt((F * F).sum(axis=1)) + np.sqrt((E * E).sum(axis=1))) * (1 + 2.0**-30)
+        logs = np.log2(rows)
+    if not np.isfinite(logs).all():
+        return None
+    total = float(logs.sum()) + 2.0**-20 * (k + 1 + float(np.abs(logs).sum()))
+    e = math.floor(total)
+    mantissa = math.ceil(2.0 ** (total - e) * 2**52) + 1
+    return mantissa << (e - 52) if e >= 52 else -(-mantissa >> (52 - e))
+
+
 def _hadamard(M: Sequence[Sequence[int]], extra: int = 0) -> int:
     """``∏ ⌈√(‖row‖² + extra²)⌉`` over the rows: a bound on the determinants of ``M``'s rows."""
     out = 1
@@ -408,16 +452,19 @@ def _ratrecon(u: int, P: int, num: int, den: int) -> tuple[int, int]:
 
 
 def _dixon(
-    B: list[list[int]], inverse: Any, p: int, W: list[list[int]]
+    B: list[list[int]], inverse: Any, p: int, W: list[list[int]], den: int = 0
 ) -> tuple[list[list[int]], int]:
-    """``B⁻¹W = num/δ`` exactly: ``p``-adic lifting with ``inverse = B⁻¹ mod p`` (Dixon 1982)."""
+    """``B⁻¹W = num/δ`` exactly: ``p``-adic lifting with ``inverse = B⁻¹ mod p`` (Dixon 1982).
+
+    ``den``, when given, bounds ``|det B|`` (else Hadamard's bound does).
+    """
     import numpy as np
 
     k, t = len(B), len(W[0])
     columns = [list(c) for c in zip(*B, strict=True)]
     top_w = max(abs(x) for row in W for x in row)
     norm_w = math.isqrt(max(sum(row[j] ** 2 for row in W) for j in range(t))) + 1
-    den = min(_hadamard(B), _hadamard(columns))
+    den = den or min(_hadamard(B), _hadamard(columns))
     col_bound = 1
     for c in columns:
         col_bound *= max(math.isqrt(sum(x * x for x in c)) + 1, norm_w)
@@ -434,7 +481,7 @@ def _dixon(
         X = _mm(inverse, (R % p).astype(float), p)
         digits.append(X.astype(np.int64))
         Xe = X if kind is float else X.astype(np.int64).astype(kind)
-        R = (R - Bx @ Xe) / p if kind is float else (R - Bx @ Xe) // p
+        R = (R - _mm(Bx, Xe, 0)) / p if kind is float else (R - Bx @ Xe) // p
     level = [d.astype(object) for d in digits]
     base = p
     while len(level) > 1:  # the p-adic digits summed in a balanced tree
@@ -612,22 +659,28 @@ def _dense_quotient(
     for x in np.diag(LU[:k]):
         det_p = det_p * int(x) % p
     bound = min(_hadamard(B), _hadamard([list(c) for c in zip(*B, strict=True)]))
-    t = 1 if k == 1 else 2
+    bound = min(bound, _determinant_bound(B) or bound)
+    t = 0
+    columns_of_nums: list[list[int]] = []  # the columns of B⁻¹W, times delta
+    delta, want = 1, 1 if k == 1 else 2
     while True:  # x ↦ x·B⁻¹W mod Z^t, injective on Z^k/row(B) once its image has order |det B|
-        W = (
-            [[rng.randint(-512, 512) for _ in range(t)] for _ in range(k)]
-            if t < k
-            else [[int(i == j) for j in range(k)] for i in range(k)]
-        )
-        nums, delta = _dixon(B, inverse, p, W)
-        V = [[x % delta for x in row] for row in nums]
+        if want >= k:  # the identity: always injective
+            columns_of_nums, delta, new = [], 1, [[int(i == j) for i in range(k)] for j in range(k)]
+        else:
+            new = [[rng.randint(-512, 512) for _ in range(k)] for _ in range(want - t)]
+        nums, d = _dixon(B, inverse, p, [list(r) for r in zip(*new, strict=True)], bound)
+        g = delta * d // math.gcd(delta, d)
+        columns_of_nums = [[x * (g // delta) for x in c] for c in columns_of_nums]
+        columns_of_nums += [[x * (g // d) for x in c] for c in zip(*nums, strict=True)]
+        delta, t = g, len(columns_of_nums)
+        V = [[x % delta for x in r] for r in zip(*columns_of_nums, strict=True)]
         H1, _ = _hnf_mod(V, [delta] * t)
         image = delta**t // math.prod(H1[i][i] for i in range(t))
         if _determinant_is(B, image, bound, [(p, det_p)], rng, used):
             break
-        if t == k:  # pragma: no cover - W = 1 is injective
+        if t >= k:  # pragma: no cover - W = 1 is injective
             raise ArithmeticError("internal check failed: det B is not the order of Z^k/B")
-        t = min(2 * t, k)
+        want = min(2 * t, k)
     skip = set(chosen)
     others = []
     for i, row in enumerate(rows):
