@@ -99,12 +99,13 @@ def test_tiny_groups_by_enumeration(seed: int) -> None:
 def test_edge_cases() -> None:
     assert lattice_quotient([], 0) == LatticeQuotient(1, [], [], 0, [])
     assert lattice_quotient([{0: 0}], 1) is None  # a zero row: rank 0
-    assert lattice_quotient([{0: 5}, {0: 5}, {0: -5}], 1).invariants == [5]  # duplicates
+    Q = lattice_quotient([{0: 5}, {0: 5}, {0: -5}], 1)
+    assert Q is not None and Q.invariants == [5]  # duplicates
     assert lattice_quotient([{0: 1}, {1: 3}], 3) is None  # column 2 in no row
     assert lattice_quotient([{0: 1, 1: 1}, {0: 2, 1: 2}, {0: 3, 1: 3}], 2) is None  # rank 1
     big = 10**30 + 57
     Q = lattice_quotient([{0: big, 1: 3 * big}, {1: big}], 2)
-    assert Q.invariants == [big, big] and Q.order == big**2
+    assert Q is not None and Q.invariants == [big, big] and Q.order == big**2
     with pytest.raises(InputError):
         lattice_quotient([{2: 1}], 2)
 
