@@ -183,6 +183,7 @@ def _eliminate(
         for j in r:
             where[j].add(i)
     alive = set(range(len(rows)))
+    top = [max(abs(x) for x in r.values()) for r in rows]  # upper bounds on the rows' entries
     active = [True] * n
     heap = [(len(where[j]), j) for j in range(n)]
     heapq.heapify(heap)
@@ -206,11 +207,11 @@ def _eliminate(
         if best < 0 or (w - 1) * (size - 1) > COST_LIMIT:
             continue  # back on the heap when one of its rows changes
         pivot = rows[best]
-        top = max(abs(x) for x in pivot.values())
+        for i in where[c]:
+            if abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT:
+                top[i] = max(abs(x) for x in rows[i].values())
         if w > 1 and any(
-            abs(rows[i][c]) * top + max(abs(x) for x in rows[i].values()) > ENTRY_LIMIT
-            for i in where[c]
-            if i != best
+            abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT for i in where[c] if i != best
         ):
             continue
         eps = pivot[c]
@@ -221,7 +222,7 @@ def _eliminate(
         for i in list(where[c]):
             row = rows[i]
             f = row[c] * eps
-            before = len(row)
+            before, top[i] = len(row), top[i] + abs(f) * top[best]
             for j, x in pivot.items():
                 y = row.get(j, 0) - f * x
                 if y:
@@ -391,14 +392,16 @@ def _det_mod(B: list[list[int]], p: int) -> int:
     return det % p
 
 
-def _determinant_bound(B: list[list[int]]) -> int | None:
-    """A proven upper bound on ``|det B|``, close to it, from floating point (``None``: no bound).
+def _determinant_bound(B: list[list[int]]) -> tuple[int, int] | None:
+    """Proven upper bounds on ``|det B|`` (close to it) and on ``‖B⁻¹‖∞``, from floating point.
 
     With ``P·B ≈ L·D·V`` in floats, ``X ≈ L⁻¹`` and ``Y ≈ V⁻¹`` forced unit triangular
     have determinant 1, so ``det(X·P·B·Y) = ±det B`` while ``X·P·B·Y`` is nearly diagonal:
     Hadamard's bound on its rows is tight. The rows are those of the computed product
     plus its rounding error, bounded by ``γ·|X|·|P·B|·|Y|`` (Higham, *Accuracy and
-    Stability of Numerical Algorithms*, 2002, §3.5), taken with a wide margin.
+    Stability of Numerical Algorithms*, 2002, §3.5), taken with a wide margin. The
+    same product, diagonally dominant, bounds ``‖B⁻¹‖∞ ≤ ‖Y‖∞·‖F⁻¹‖∞·‖X‖∞``. ``None``:
+    the floats give no bound (huge entries, overflow, no dominance).
     """
     import numpy as np
 
@@ -423,12 +426,17 @@ def _determinant_bound(B: list[list[int]]) -> int | None:
         E = (np.abs(X) @ np.abs(P)) @ np.abs(Y) * (64.0 * (k + 2) * 2.0**-53) + 2.0**-900
         rows = (np.sqrt((F * F).sum(axis=1)) + np.sqrt((E * E).sum(axis=1))) * (1 + 2.0**-30)
         logs = np.log2(rows)
-    if not np.isfinite(logs).all():
+        diagonal = np.abs(np.diag(F))  # F = diag·(1 + Z), ‖Z‖∞ ≤ rho: ‖F⁻¹‖∞ ≤ max 1/|d|/(1 − rho)
+        rho = float(((np.abs(F - np.diag(np.diag(F))) + E).sum(axis=1) / diagonal).max())
+        norms = [float(np.abs(T).sum(axis=1).max()) for T in (X, Y)]
+        inverse = norms[0] * norms[1] / float(diagonal.min()) / (1 - rho) * (1 + 2.0**-30)
+    if not np.isfinite(logs).all() or not 0 <= rho < 0.5 or not np.isfinite(inverse):
         return None
     total = float(logs.sum()) + 2.0**-20 * (k + 1 + float(np.abs(logs).sum()))
     e = math.floor(total)
     mantissa = math.ceil(2.0 ** (total - e) * 2**52) + 1
-    return mantissa << (e - 52) if e >= 52 else -(-mantissa >> (52 - e))
+    det = mantissa << (e - 52) if e >= 52 else -(-mantissa >> (52 - e))
+    return det, math.ceil(inverse) + 1
 
 
 def _hadamard(M: Sequence[Sequence[int]], extra: int = 0) -> int:
@@ -452,23 +460,25 @@ def _ratrecon(u: int, P: int, num: int, den: int) -> tuple[int, int]:
 
 
 def _dixon(
-    B: list[list[int]], inverse: Any, p: int, W: list[list[int]], den: int = 0
+    B: list[list[int]], inverse: Any, p: int, W: list[list[int]], den: int = 0, norm: int = 0
 ) -> tuple[list[list[int]], int]:
     """``B⁻¹W = num/δ`` exactly: ``p``-adic lifting with ``inverse = B⁻¹ mod p`` (Dixon 1982).
 
-    ``den``, when given, bounds ``|det B|`` (else Hadamard's bound does).
+    ``den`` and ``norm``, when given, bound ``|det B|`` and ``‖B⁻¹‖∞`` (else Hadamard's
+    bounds do); the numerators ``det B·B⁻¹w`` are bounded by ``den·norm·max|w|`` then.
     """
     import numpy as np
 
     k, t = len(B), len(W[0])
-    columns = [list(c) for c in zip(*B, strict=True)]
     top_w = max(abs(x) for row in W for x in row)
-    norm_w = math.isqrt(max(sum(row[j] ** 2 for row in W) for j in range(t))) + 1
-    den = den or min(_hadamard(B), _hadamard(columns))
-    col_bound = 1
-    for c in columns:
-        col_bound *= max(math.isqrt(sum(x * x for x in c)) + 1, norm_w)
-    num = min(_hadamard(B, top_w), col_bound)  # Cramer: a column of B replaced by one of W
+    if norm:
+        num = den * norm * top_w
+    else:
+        columns = [list(c) for c in zip(*B, strict=True)]
+        norm_w = math.isqrt(max(sum(row[j] ** 2 for row in W) for j in range(t))) + 1
+        den = den or min(_hadamard(B), _hadamard(columns))
+        # Cramer: a column of B replaced by one of W
+        num = min(_hadamard(B, top_w), math.prod(max(_hadamard([c]), norm_w) for c in columns))
     P, steps = 1, 0
     while P <= 2 * num * den:
         P, steps = P * p, steps + 1
@@ -480,8 +490,10 @@ def _dixon(
     for _ in range(steps):
         X = _mm(inverse, (R % p).astype(float), p)
         digits.append(X.astype(np.int64))
-        Xe = X if kind is float else X.astype(np.int64).astype(kind)
-        R = (R - _mm(Bx, Xe, 0)) / p if kind is float else (R - Bx @ Xe) // p
+        if kind is float:
+            R = (R - _mm(Bx, X, 0)) / p
+        else:
+            R = (R - Bx @ X.astype(np.int64).astype(kind)) // p
     level = [d.astype(object) for d in digits]
     base = p
     while len(level) > 1:  # the p-adic digits summed in a balanced tree
@@ -658,17 +670,17 @@ def _dense_quotient(
     det_p = 1
     for x in np.diag(LU[:k]):
         det_p = det_p * int(x) % p
-    bound = min(_hadamard(B), _hadamard([list(c) for c in zip(*B, strict=True)]))
-    bound = min(bound, _determinant_bound(B) or bound)
+    floats = _determinant_bound(B)
+    bound, norm = floats or (min(_hadamard(B), _hadamard([list(c) for c in zip(*B)])), 0)
     t = 0
     columns_of_nums: list[list[int]] = []  # the columns of B⁻¹W, times delta
-    delta, want = 1, 1 if k == 1 else 2
+    delta, want = 1, min(k, 4)
     while True:  # x ↦ x·B⁻¹W mod Z^t, injective on Z^k/row(B) once its image has order |det B|
         if want >= k:  # the identity: always injective
             columns_of_nums, delta, new = [], 1, [[int(i == j) for i in range(k)] for j in range(k)]
         else:
             new = [[rng.randint(-512, 512) for _ in range(k)] for _ in range(want - t)]
-        nums, d = _dixon(B, inverse, p, [list(r) for r in zip(*new, strict=True)], bound)
+        nums, d = _dixon(B, inverse, p, [list(r) for r in zip(*new, strict=True)], bound, norm)
         g = delta * d // math.gcd(delta, d)
         columns_of_nums = [[x * (g // delta) for x in c] for c in columns_of_nums]
         columns_of_nums += [[x * (g // d) for x in c] for c in zip(*nums, strict=True)]
