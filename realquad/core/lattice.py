@@ -15,28 +15,31 @@ vector per invariant generating that cyclic factor, and the coordinate map
 >>> lattice_quotient([{0: 1, 1: 1}], 2) is None         # rank 1 < 2: infinite
 True
 
-**Method.** (1) *Structured Gaussian elimination* (LaMacchia and Odlyzko 1990;
-Pomerance and Smith 1992): a column with an entry ``±1`` in some row is
-eliminated with that row as pivot (the row expresses the column through the
-others, which ``coordinates`` replays); pivots are taken in the order of the
-Markowitz cost ``(column weight − 1)(row weight − 1)`` (Markowitz 1957), the
-cheapest first, singletons (cost 0) before all, while the fill-in stays
-small and the entries stay below ``2¹⁶``. These row operations are unimodular,
-so the group of the remaining *core* (``k`` columns, ``m ≥ k`` rows) is the group
-of the input. (2) On the core, ``k`` rows ``B`` independent modulo a word prime
-are chosen; ``G' = Z^k/ row(B)`` has order ``|det B|``. For a random integer
-matrix ``W`` (``k × t``) the map ``x ↦ x·B⁻¹W mod Z^t`` kills ``row(B)``; ``B⁻¹W``
-comes from Dixon's ``p``-adic lifting (Dixon 1982) and rational reconstruction
-with Hadamard bounds. The map is injective on ``G'`` exactly when its image has
-order ``|det B|``, which is checked with ``det B`` modulo enough primes to pass
-the Hadamard bound divided by the image's order (otherwise ``t`` doubles). The
-group is then the image modulo the images of the other rows: Hermite normal
-forms modulo a multiple of the determinant in ``t`` columns (Domich, Kannan and
-Trotter 1987; Cohen, *A Course in Computational Algebraic Number Theory*,
-Springer 1993, §2.4.2) and the Smith normal form of :mod:`realquad.core.linalg`.
-Modular linear algebra runs in ``numpy`` floats with primes below ``2²⁰`` (every
-product and every sum of up to 8192 of them is exact). When ``B`` cannot be
-found, a kernel vector lifted the same way proves the rank is below ``n``.
+**Method.** (1) *Structured Gaussian elimination* (LaMacchia and Odlyzko 1990): a
+column with an entry ``±1`` is eliminated with the sparsest such row as pivot (the
+row expresses the column through the others, which ``coordinates`` replays);
+columns are taken lightest first (singletons cost nothing), a pivot whose
+Markowitz cost ``(column weight − 1)(row weight − 1)`` (Markowitz 1957) passes
+``COST_LIMIT`` or that would make an entry pass ``2¹⁶`` waits, and the elimination
+stops when a quarter of the active part is filled. These row operations are
+unimodular, so the remaining *core* (``k`` columns, ``m ≥ k`` rows) has the same
+group. (2) On the core, ``k`` rows ``B`` independent modulo a word prime ``p`` are
+chosen; ``G' = Z^k/row(B)`` has order ``|det B|``. For a random integer matrix
+``W`` (``k × t``) the map ``x ↦ x·B⁻¹W mod Z^t`` kills ``row(B)``; ``B⁻¹W`` comes
+from Dixon's ``p``-adic lifting (Dixon 1982) and rational reconstruction, with
+bounds on ``|det B|`` and ``‖B⁻¹‖`` proven from floating point
+(``_determinant_bound``; Hadamard's when the floats give none). The map is
+injective on ``G'`` exactly when its image has order ``|det B|``: the image's
+order divides ``det B``, and ``det B`` modulo ``p`` (and more primes while their
+product is below the bound over the image's order) settles it; otherwise ``t``
+doubles. The group is then the image modulo the images of the other rows:
+Hermite normal forms modulo a multiple of the determinant in ``t`` columns
+(Domich, Kannan and Trotter 1987; Cohen, *A Course in Computational Algebraic
+Number Theory*, Springer 1993, §2.4.2) and the Smith normal form of
+:mod:`realquad.core.linalg`. Modular linear algebra runs in ``numpy`` floats with
+primes below ``2²⁰`` (sums of up to 4000 products stay below ``2⁵²``, exact).
+When ``B`` cannot be found, a kernel vector lifted the same way proves the rank
+is below ``n``.
 
 References: B. A. LaMacchia and A. M. Odlyzko, "Solving large sparse linear
 systems over finite fields", CRYPTO '90, LNCS 537 (1991); H. M. Markowitz,
