@@ -7,9 +7,15 @@ from typing import Any
 import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import Command, emit, json_option
+from realquad_cli.parallel import parallel_options, parse_parallel
 from realquad_cli.progress import ProgressLine
 
-from realquad.classgroup import CLASS_GROUP_METHODS, ClassGroup, class_group
+from realquad.classgroup import (
+    CLASS_GROUP_METHODS,
+    ClassGroup,
+    choose_class_group_method,
+    class_group,
+)
 from realquad.core.forms import Form
 from realquad.core.ideals import Ideal
 from realquad.errors import InputError
@@ -122,10 +128,30 @@ def _form_lines(lines: list[str], payload: dict[str, Any]) -> None:
     show_default=True,
     help="exact: cycles of reduced forms (unconditional); bsgs: baby-step giant-step in the "
     "infrastructure (fields, under GRH); auto: by size. For D < 0, exact lists the reduced "
-    "definite forms and bsgs uses the class number formula (fields, under GRH).",
+    "definite forms, bsgs uses the class number formula and subexp index calculus with a sieve "
+    "(fields, under GRH).",
 )
+@click.option(
+    "--relations",
+    "relations_file",
+    type=str,
+    default=None,
+    metavar="FILE",
+    help="With --method subexp: keep the relations in this file; a run stopped at any moment "
+    "resumes from it.",
+)
+@parallel_options("sieving")
 @json_option
-def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_json: bool) -> None:
+def command(
+    d: str | None,
+    disc: str | None,
+    with_forms: bool,
+    method: str,
+    relations_file: str | None,
+    workers: str | None,
+    scheduler: str | None,
+    as_json: bool,
+) -> None:
     """Class numbers h and h⁺ and the groups Cl and Cl⁺ of Q(√d), or of the order of discriminant D.
 
     For d < 0 (D < 0) the order is imaginary: h⁺ = h, and w, the number of roots of unity, is shown.
@@ -139,9 +165,24 @@ def command(d: str | None, disc: str | None, with_forms: bool, method: str, as_j
         )
     if with_forms:
         method = "exact"
+    count, scheduler = parse_parallel(workers, scheduler)
+    parallel = relations_file is not None or count is not None or scheduler is not None
+    chosen = choose_class_group_method(order, method)
+    if parallel and chosen != "subexp":
+        raise InputError(
+            "--relations, --workers and --scheduler belong to the sieve of --method subexp "
+            f"(this order takes the {chosen} method)"
+        )
     # small groups take the lean kernel, which reports nothing; beyond 10¹¹ the full table reports
-    progress = ProgressLine() if order.discriminant > 10**11 else None
-    G = class_group(order, progress=progress, method=method)
+    progress = ProgressLine() if abs(order.discriminant) > 10**11 else None
+    G = class_group(
+        order,
+        progress=progress,
+        method=method,
+        workers=count,
+        scheduler=scheduler,
+        relations_file=relations_file,
+    )
     payload = G.to_dict(with_classes=with_forms)
     emit(
         payload, _text(G, payload, with_forms), as_json, latex=lambda md: _latex(G, with_forms, md)

@@ -11,13 +11,14 @@ from typing import Any
 
 import click
 from realquad_cli.output import Command, Group, IntegerRange, emit, json_option
+from realquad_cli.parallel import parallel_options, parse_parallel
 
+from realquad.core.executors import make_executor
 from realquad.core.integers import as_integer
 from realquad.errors import InputError
 from realquad.latex import escape, group, table
 from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
-from realquad.core.executors import make_executor
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
@@ -101,20 +102,7 @@ def command() -> None:
     "--discriminants", is_flag=True, help="Bound the fundamental discriminant D instead of d."
 )
 @_db_option
-@click.option(
-    "--workers",
-    type=str,
-    default=None,
-    metavar="N",
-    help="Local worker processes (default: all cores).",
-)
-@click.option(
-    "--scheduler",
-    type=str,
-    default=None,
-    metavar="ADDRESS",
-    help="Run the chunks on the Dask cluster of this scheduler.",
-)
+@parallel_options("chunks")
 @click.option(
     "--chunk-size",
     type=str,
@@ -149,13 +137,9 @@ def run_command(
             raise InputError("give --d-min N (the most negative d of a survey of imaginary fields)")
         lo = 2
     size = _bound(chunk_size, "--chunk-size", DEFAULT_CHUNK_SIZE)
-    count = _bound(workers, "--workers") if workers is not None else None
+    count, scheduler = parse_parallel(workers, scheduler)
     assert lo is not None and size is not None
-    if count is not None and count > 1024:
-        raise InputError(f"--workers must be at most 1024, got {count}")
     survey_range = SurveyRange("D" if discriminants else "d", lo, hi)
-    if scheduler is not None and not scheduler.strip():
-        raise InputError("--scheduler needs an address such as tcp://127.0.0.1:8786")
     # Check the database before anything else touches it, then reach the workers, then open it.
     SurveyStore.check_writable(db)
     executor = make_executor(count, scheduler)

@@ -7,7 +7,11 @@ Imaginary orders (``D < 0``):
 * ``"bsgs"`` — baby-step giant-step with the class number formula
   (:mod:`realquad.classgroup.imaginary_bsgs`), fields only, ``proof: "GRH"``,
   ``|D|`` up to ``10³²``;
-* ``"auto"`` — the exact method within its reach, baby-step giant-step beyond.
+* ``"subexp"`` — index calculus with a self-initialising sieve
+  (:mod:`realquad.classgroup.subexp`), fields only, ``proof: "GRH"``,
+  ``|D|`` from ``10¹⁰`` to ``10⁸⁰`` and beyond, in time sub-exponential in ``log |D|``;
+* ``"auto"`` — the exact method within its reach, baby-step giant-step to
+  :data:`AUTO_SUBEXP_IMAGINARY`, index calculus beyond.
 
 Real orders (``D > 0``):
 
@@ -48,13 +52,19 @@ from realquad.classgroup.exact import class_group_exact
 from realquad.classgroup.group import ClassGroup, ClassTable
 from realquad.classgroup.imaginary import class_group_imaginary, class_relations_imaginary
 from realquad.classgroup.imaginary_bsgs import class_group_imaginary_bsgs
+from realquad.classgroup.subexp import class_group_subexp
 from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
+from realquad.errors import DomainError, InputError
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
-CLASS_GROUP_METHODS = ("auto", "exact", "bsgs")
+CLASS_GROUP_METHODS = ("auto", "exact", "bsgs", "subexp")
+
+#: ``|D|`` of an imaginary field from which ``method="auto"`` chooses index calculus over
+#: baby-step giant-step (the two cross there on this project's benchmarks, docs/performance.md).
+AUTO_SUBEXP_IMAGINARY = 10**22
 
 #: Estimated number of reduced forms (about ``2h·R/1.19``) up to which ``method="auto"`` runs the
 #: exact cycle method; beyond, baby-step giant-step under GRH is faster (docs/performance.md).
@@ -78,7 +88,9 @@ def choose_class_group_method(
     check_method(method, CLASS_GROUP_METHODS)
     D = order.discriminant
     if D < 0 and method == "auto":
-        return "exact" if -D <= imaginary.MAX_DISCRIMINANT or order.conductor != 1 else "bsgs"
+        if -D <= imaginary.MAX_DISCRIMINANT or order.conductor != 1:
+            return "exact"
+        return "bsgs" if -D < AUTO_SUBEXP_IMAGINARY else "subexp"
     if method != "auto":
         return method
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms
@@ -95,6 +107,10 @@ def class_group(
     max_forms: int | None = None,
     progress: Progress | None = None,
     method: str = "auto",
+    *,
+    workers: int | None = None,
+    scheduler: str | None = None,
+    relations_file: str | None = None,
 ) -> ClassGroup:
     """The wide and narrow class groups of an order (given as :class:`Order` or its discriminant, either sign).
 
@@ -102,11 +118,27 @@ def class_group(
     ``"bsgs"`` (baby-step giant-step in the infrastructure; fields only, proof
     ``"GRH"``) or ``"auto"`` (:func:`choose_class_group_method`).
     For ``D < 0``: ``"exact"`` (reduced definite forms), ``"bsgs"`` (fields, under GRH), ``"auto"``.
+    ``"subexp"`` (index calculus, :mod:`~realquad.classgroup.subexp`; fields, under GRH)
+    sieves in ``workers`` local processes or on the Dask cluster at ``scheduler``
+    and keeps its relations in ``relations_file`` (resumable); the other methods
+    take none of the three.
     ``max_forms`` bounds the reduced forms (for ``D < 0`` the classes) the exact method stores;
     ``progress`` hears how far a long computation has come.
     """
     order = Order.of(order)
     chosen = choose_class_group_method(order, method, max_forms)
+    if chosen == "subexp":
+        if order.discriminant > 0:
+            raise DomainError(
+                "the sub-exponential method takes imaginary fields (D < 0) so far; for D > 0 use "
+                "--method bsgs"
+            )
+        return class_group_subexp(order, progress, 1, workers, scheduler, relations_file)
+    if workers is not None or scheduler is not None or relations_file is not None:
+        raise InputError(
+            "workers, a scheduler and a relation file belong to the sieve of method='subexp' "
+            f"(this order takes the {chosen} method)"
+        )
     if order.discriminant < 0 and chosen == "bsgs":
         return class_group_imaginary_bsgs(order)
     if order.discriminant < 0:
@@ -137,10 +169,12 @@ def class_numbers(
 
 __all__ = [
     "AUTO_EXACT_FORMS",
+    "AUTO_SUBEXP_IMAGINARY",
     "CLASS_GROUP_METHODS",
     "ClassGroup",
     "ClassTable",
     "choose_class_group_method",
     "class_group",
+    "class_group_subexp",
     "class_numbers",
 ]

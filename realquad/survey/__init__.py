@@ -10,8 +10,8 @@
 * :mod:`~realquad.survey.stats` and :mod:`~realquad.survey.plots` — report and pictures.
 """
 
-from realquad.survey.compute import FieldRecord, survey_field
 from realquad.core.executors import make_executor
+from realquad.survey.compute import FieldRecord, survey_field
 from realquad.survey.ranges import Chunk, SurveyRange
 from realquad.survey.stats import COHEN_LENSTRA_PRIME_SHARE, SurveyReport, survey_report
 from realquad.survey.store import RowFilter, SurveyStore

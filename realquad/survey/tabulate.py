@@ -24,8 +24,8 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-from realquad.survey.compute import survey_chunk
 from realquad.core.executors import InProcessExecutor
+from realquad.survey.compute import survey_chunk
 from realquad.survey.imaginary import (
     batch_pays,
     imaginary_chunk,

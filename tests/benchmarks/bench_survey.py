@@ -16,8 +16,8 @@ import tempfile
 from collections.abc import Callable
 from typing import Any
 
-from realquad.survey.compute import _regulator_text, survey_field, survey_fields
 from realquad.core.executors import make_executor
+from realquad.survey.compute import _regulator_text, survey_field, survey_fields
 from realquad.survey.ranges import Chunk, SurveyRange, squarefree_in
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import tabulate

@@ -64,8 +64,8 @@ def test_a_port_that_is_not_a_scheduler_is_refused() -> None:
             pass
 
     threading.Thread(target=answer_nonsense, daemon=True).start()
-    from realquad.errors import InputError
     from realquad.core.executors import DaskExecutor
+    from realquad.errors import InputError
 
     with pytest.raises(InputError, match="cannot reach the Dask scheduler"):
         DaskExecutor(f"tcp://127.0.0.1:{port}", timeout=1.0)

@@ -17,8 +17,8 @@ from typing import Any
 
 import pytest
 
+from realquad.core.executors import DaskExecutor, Finished, WorkFunction
 from realquad.errors import InputError
-from realquad.core.executors import WorkFunction, DaskExecutor, Finished
 from realquad.survey.ranges import Chunk, SurveyRange
 from realquad.survey.store import SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate

@@ -1,0 +1,296 @@
+"""Collecting relations: families of sieve polynomials until the relations cover the factor base.
+
+Each round picks a leading coefficient ``a`` (a product of factor-base
+primes near the size that balances the values over the sieve interval, one of
+them a prime no relation has touched yet, so every column is reached),
+sieves its ``2^(s−1)`` polynomials with the ``sieve_family`` kernel
+(compiled, with its pure twin) and turns the candidates into relations
+(:mod:`~realquad.relations.smooth`). Relations with one large prime are
+kept; two of them sharing that prime combine into a relation on the factor
+base, which the linear algebra does by elimination.
+
+The parameters (:func:`sieve_parameters`) depend on the size of ``D`` only,
+and the choices of ``a`` on a seeded generator, so one seed gives one set of
+relations with either kernel.
+
+The work goes out in batches of families (:class:`SieveBatch`, computed by
+:func:`sieve_batch` in this process, local processes or on a Dask cluster,
+:mod:`realquad.core.executors`); the process that chooses the ``a`` collects
+the relations and saves each finished batch to the relation file when there
+is one (:mod:`~realquad.relations.store`), so a search stopped at any moment
+resumes with every relation it had.
+"""
+
+from __future__ import annotations
+
+import bisect
+import math
+import random
+from collections import Counter
+from collections.abc import Callable, Iterator
+from dataclasses import dataclass
+
+from realquad._backend import call_kernel
+from realquad.core.executors import InProcessExecutor
+from realquad.core.progress import Progress
+from realquad.relations.factor_base import FactorBase, factor_base
+from realquad.relations.families import Family, family, sieve_inputs
+from realquad.relations.smooth import Relation, relation_at
+from realquad.relations.store import RelationStore
+
+
+@dataclass(frozen=True)
+class SieveParameters:
+    """The sieve interval ``[−M, M)``, the large-prime bound, the threshold and the target ``a``."""
+
+    M: int
+    large_bound: int
+    threshold: int
+    scale: float
+    log_a: float
+    factors: int
+    small: int
+    batch: int = 64
+
+    def to_dict(self) -> dict[str, int | float]:
+        return {
+            "half_interval": self.M,
+            "large_prime_bound": self.large_bound,
+            "threshold": self.threshold,
+            "factors_of_a": self.factors,
+        }
+
+
+def sieve_parameters(D: int, bound: int) -> SieveParameters:
+    """Parameters for ``D`` and a factor base up to ``bound`` (tuned on this project's benchmarks).
+
+    >>> P = sieve_parameters(-(10**40 + 3), 33_932)
+    >>> P.M, P.factors, P.large_bound
+    (32768, 5, 1696600)
+    """
+    digits = math.log10(abs(D))
+    M = (
+        2
+        ** next(
+            e for limit, e in ((14, 12), (20, 13), (26, 14), (50, 15), (75, 16)) if digits < limit
+        )
+        if digits < 75
+        else 2**17
+    )
+    root = math.sqrt(abs(D))
+    if D < 0:
+        log_a = math.log(root / (2 * M))
+        typical = math.log2(M * root * 0.7)
+    else:
+        log_a = math.log(math.sqrt(abs(D) / 2) / M)
+        typical = math.log2(M * root / (2 * math.sqrt(2)) * 0.5)
+    large_bound = 50 * bound
+    scale = min(1.0, 240.0 / (typical + 20))
+    slack = math.log2(large_bound) * 0.9 + 4  # one large prime, and the small primes not sieved
+    threshold = max(1, round(scale * (typical - slack)))
+    factors = max(2, min(11, round(log_a / math.log(2000))))
+    batch = 2 if digits < 30 else 64
+    return SieveParameters(M, large_bound, threshold, scale, log_a, factors, 40, batch)
+
+
+def sieve_logs(fb: FactorBase, params: SieveParameters) -> list[int]:
+    """The sieve's logarithms: ``round(scale·log₂ p)``, ``0`` (not sieved) below ``params.small``."""
+    return [
+        0 if p < params.small else x for p, x in zip(fb.primes, fb.logs(params.scale), strict=True)
+    ]
+
+
+def family_relations(
+    fb: FactorBase, params: SieveParameters, logs: list[int], fam: Family
+) -> list[Relation]:
+    """The relations of the polynomials of one family (the ``sieve_family`` kernel, then trial division)."""
+    roots1, roots2, shifts = sieve_inputs(fb, fam)
+    found = call_kernel(
+        "sieve_family",
+        fb.primes,
+        logs,
+        roots1,
+        roots2,
+        shifts,
+        fam.steps,
+        params.M,
+        params.threshold,
+    )
+    out = []
+    for k, x, hits in found:
+        rel = relation_at(fb, fam, k, x, params.large_bound, hits)
+        if rel is not None:
+            out.append(rel)
+    return out
+
+
+@dataclass(frozen=True)
+class SieveBatch:
+    """Families of polynomials to sieve, by the primes of their ``a``: one piece of work."""
+
+    discriminant: int
+    bound: int
+    params: SieveParameters
+    families: tuple[tuple[int, ...], ...]
+    number: int
+
+    @property
+    def label(self) -> str:
+        return f"sieve batch {self.number} of D = {self.discriminant}"
+
+
+_FACTOR_BASES: dict[tuple[int, int], tuple[FactorBase, list[int]]] = {}
+
+
+def sieve_batch(batch: SieveBatch) -> list[Relation]:
+    """The relations of every family of a batch (in a worker: the factor base is built once)."""
+    key = (batch.discriminant, batch.bound)
+    if key not in _FACTOR_BASES:
+        _FACTOR_BASES.clear()
+        fb = factor_base(batch.discriminant, batch.bound)
+        _FACTOR_BASES[key] = fb, sieve_logs(fb, batch.params)
+    fb, logs = _FACTOR_BASES[key]
+    out = []
+    for primes in batch.families:
+        out += family_relations(fb, batch.params, logs, family(fb, list(primes)))
+    return out
+
+
+class Collector:
+    """Chooses the families and keeps the relations found (module notes)."""
+
+    def __init__(
+        self,
+        fb: FactorBase,
+        params: SieveParameters,
+        seed: int = 1,
+        store: RelationStore | None = None,
+    ) -> None:
+        self.fb = fb
+        self.params = params
+        self.rng = random.Random(seed)
+        self.counts: Counter[int] = Counter()  # usable relations touching each prime
+        self.relations: list[Relation] = []
+        self._lonely: dict[int, Relation] = {}  # large primes met once, with their relation
+        self._paired: set[int] = set()  # large primes met at least twice
+        self.used: set[int] = set()
+        self.families = 0
+        self.polynomials = 0
+        self.store = store
+        if store is not None:
+            self.used = store.families()
+            self._keep(store.relations())
+        self.pool = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if p > 30 and not r]
+        self.logs = sieve_logs(fb, params)
+        self._batches = 0
+
+    def _keep(self, relations: list[Relation]) -> None:
+        """Keep relations; count the primes of those usable: full ones, and large primes met twice."""
+        self.relations += relations
+        for rel in relations:
+            if rel.large != 1:
+                first = self._lonely.pop(rel.large, None)
+                if first is None and rel.large not in self._paired:
+                    self._lonely[rel.large] = rel
+                    continue
+                self._paired.add(rel.large)
+                if first is not None:
+                    self.counts.update(first.exponents.keys())
+            self.counts.update(rel.exponents.keys())
+
+    def uncovered(self) -> list[int]:
+        """Factor-base primes no usable relation touches yet (they must all be reached)."""
+        return [p for p in self.fb.primes if not self.counts[p]]
+
+    def choose_a(self) -> list[int]:
+        """The primes of the next ``a``: one no relation has met yet, the rest near the balancing size.
+
+        One new prime per family: any relation of the family then expresses
+        its class by the others (two new primes would need two relations).
+        """
+        P = self.params
+        pool = self.pool
+        for attempt in range(400):
+            spread = 1 + attempt // 25  # wider choices while the near ones are used up
+            chosen: list[int] = []
+            log_left = P.log_a
+            waiting = [p for p in pool if not self.counts[p] and p not in self.used]
+            for p in self.rng.sample(waiting, min(1, len(waiting))):
+                if math.log(p) < log_left - math.log(pool[0]):
+                    chosen.append(p)
+                    log_left -= math.log(p)
+            rest = max(1, P.factors - len(chosen))
+            while rest > 1:
+                size = math.exp(log_left / rest)
+                i = bisect.bisect_left(pool, size)
+                width = max(40, len(pool) // 8) * spread
+                lo, hi = max(0, i - width), min(len(pool), i + width)
+                p = pool[self.rng.randrange(lo, hi)] if hi > lo else pool[-1]
+                if p not in chosen:
+                    chosen.append(p)
+                    log_left -= math.log(p)
+                    rest -= 1
+            i = bisect.bisect_left(pool, math.exp(log_left))
+            near = pool[max(0, i - 2 * spread) : i + 2 * spread]
+            p = near[self.rng.randrange(len(near))] if near else pool[-1]
+            if p not in chosen:
+                chosen.append(p)
+            a = math.prod(chosen)
+            if a not in self.used and len(chosen) >= 2:
+                self.used.add(a)
+                return sorted(chosen)
+        raise ArithmeticError("internal check failed: no new leading coefficient for the sieve")
+
+    def sieve(self, fam: Family) -> list[Relation]:
+        """The relations of one family, kept."""
+        rels = family_relations(self.fb, self.params, self.logs, fam)
+        self.families += 1
+        self.polynomials += len(fam.bs)
+        self._keep(rels)
+        return rels
+
+    def rounds(self) -> Iterator[list[Relation]]:
+        """Families one after another in this process, forever: the relations each gives."""
+        while True:
+            yield self.sieve(family(self.fb, self.choose_a()))
+
+    def collect(
+        self,
+        missing: Callable[[], int],
+        executor: InProcessExecutor | None = None,
+        workers: int = 1,
+        progress: Progress | None = None,
+        expected: int | None = None,
+    ) -> None:
+        """Sieve batches of families on ``executor`` until ``missing()`` (rows still wanted) is 0.
+
+        Each round sends ``2·workers`` batches, sized from the rows gained per
+        family so far so that a round ends near the goal instead of far past it.
+        """
+        executor = executor if executor is not None else InProcessExecutor()
+        per_batch = max(1, min(self.params.batch, 256 >> (self.params.factors - 1)))
+        parts = 2 * workers
+        rate = 0.0  # rows gained per family
+        while (short := missing()) > 0:
+            most = parts * per_batch
+            want = parts if rate <= 0 else max(parts, min(most, math.ceil(1.2 * short / rate)))
+            sizes = [want // parts + (k < want % parts) for k in range(parts)]
+            batches = []
+            for size in filter(None, sizes):
+                self._batches += 1
+                families = tuple(tuple(self.choose_a()) for _ in range(size))
+                batches.append(
+                    SieveBatch(
+                        self.fb.discriminant, self.fb.bound, self.params, families, self._batches
+                    )
+                )
+            for batch, rels, _ in executor.map_unordered(batches, sieve_batch):
+                self.families += len(batch.families)
+                self.polynomials += sum(2 ** (len(f) - 1) for f in batch.families)
+                self._keep(rels)
+                if self.store is not None:
+                    self.store.add(rels, [math.prod(f) for f in batch.families])
+                if progress is not None:
+                    progress("relations found", len(self.relations), expected)
+            gained = short - missing()
+            rate = max(rate, gained / want) if gained > 0 else rate

@@ -1,0 +1,101 @@
+"""From sieve candidates to relations: the smooth values of a form and the classes they give.
+
+For the form ``f = (a, b, c)`` of a family and an integer ``x``, the value
+``n = f(x, 1)`` is the first coefficient of ``f·[[x, −1], [1, 0]] =
+(n, B, ·)`` with ``B = −(2ax + b)``, a form properly equivalent to ``f``.
+When ``|n| = ∏ p^{e_p}`` factors over the factor base (and at most one
+large prime), ``(|n|, B, ·)`` is the composition of the ``(p^{e_p}, B, ·)``,
+and ``(p^e, B, ·) = P_p^{±e}`` with ``+`` when ``B ≡ b_p`` modulo ``p``
+(modulo 4 for ``p = 2``). With ``[f] = ∏ P_q^{σ_q}`` over ``q | a``
+(:mod:`~realquad.relations.families`) this is the relation
+``Σ ±e_p·[P_p] − Σ σ_q·[P_q] = 0`` in the class group (for ``D > 0`` the
+wide group, ``n`` and ``−n`` being norms of ideals in one wide class; the
+element ``ax + (b + √D)/2``, of norm ``a·n``, generates the principal ideal
+behind it). M. J. Jacobson Jr., "Applying sieving to the computation of
+quadratic class groups", *Math. Comp.* 68 (1999), 859–867.
+
+>>> from realquad.relations.factor_base import factor_base
+>>> from realquad.relations.families import family
+>>> fb = factor_base(-1000003, 60)
+>>> fam = family(fb, [37, 47])            # a = 1739
+>>> rel = relation_at(fb, fam, 0, 0, 10**6)   # f(0) = c = 313, a large prime
+>>> rel.exponents, rel.large
+({37: 1, 47: 1, 313: 1}, 313)
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import gmpy2
+
+from realquad.relations.factor_base import FactorBase, prime_b
+from realquad.relations.families import Family
+
+
+@dataclass(frozen=True)
+class Relation:
+    """``Σ exponents[p]·[P_p] = 0`` in the class group, found at ``x`` on the form ``(a, b, ·)``.
+
+    ``large`` is the one prime beyond the factor base in it (``1``: none).
+    """
+
+    exponents: dict[int, int]
+    a: int
+    b: int
+    x: int
+    large: int = 1
+
+
+def _sign(B: int, p: int, bp: int, D: int) -> int:
+    """``+1`` when ``(p^e, B, ·)`` is a power of ``P_p = (p, b_p, ·)``, ``−1`` for its inverse."""
+    if D % p == 0:
+        return 1
+    modulus = 4 if p == 2 else p
+    return 1 if (B - bp) % modulus == 0 else -1
+
+
+def relation_at(
+    fb: FactorBase, fam: Family, k: int, x: int, large_bound: int, hits: list[int] | None = None
+) -> Relation | None:
+    """The relation of polynomial ``k`` of ``fam`` at ``x``, or ``None`` if the value is not smooth.
+
+    ``hits``: the factor-base indices the sieve reports dividing the value
+    (all odd primes not dividing ``a`` are tried when ``None``). At most one
+    prime ``≤ large_bound`` beyond the factor base is allowed.
+    """
+    D, a, b = fb.discriminant, fam.a, fam.bs[k]
+    c = (b * b - D) // (4 * a)
+    n = gmpy2.mpz(abs((a * x + b) * x + c))
+    B = -(2 * a * x + b)
+    exponents: dict[int, int] = {}
+    tried = (
+        range(fb.size) if hits is None else hits
+    )  # the sieve's hits, or every prime of the factor base
+    in_a = set(fam.a_primes)
+    for j in tried:
+        p = fb.primes[j]
+        if p in in_a or (hits is None and p == 2):
+            continue
+        n, e = gmpy2.remove(n, p)
+        if e:
+            exponents[p] = _sign(B, p, fb.b[j], D) * e
+    for p in ([2] if 2 in fb.index else []) + fam.a_primes:
+        n, e = gmpy2.remove(n, p)
+        if e:
+            exponents[p] = _sign(B, p, fb.b[fb.index[p]], D) * e
+    large = 1
+    if n != 1:
+        if n > large_bound or n <= fb.bound or not gmpy2.is_prime(n):
+            return None
+        large = int(n)
+        exponents[large] = _sign(B, large, prime_b(D, large), D)
+    for q, sigma in zip(fam.a_primes, fam.signs(k, fb), strict=True):
+        e = exponents.get(q, 0) - sigma
+        if e:
+            exponents[q] = e
+        else:
+            exponents.pop(q, None)
+    if not exponents:
+        return None
+    return Relation(dict(sorted(exponents.items())), a, b, x, large)
