@@ -64,7 +64,7 @@ CLASS_GROUP_METHODS = ("auto", "exact", "bsgs", "subexp")
 
 #: ``|D|`` of an imaginary field from which ``method="auto"`` chooses index calculus over
 #: baby-step giant-step (the two cross there on this project's benchmarks, docs/performance.md).
-AUTO_SUBEXP_IMAGINARY = 10**22
+AUTO_SUBEXP_IMAGINARY = 10**25
 
 #: Estimated number of reduced forms (about ``2h·R/1.19``) up to which ``method="auto"`` runs the
 #: exact cycle method; beyond, baby-step giant-step under GRH is faster (docs/performance.md).

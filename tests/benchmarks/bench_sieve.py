@@ -1,23 +1,24 @@
 """The sieve kernel for the benchmark runner (``tests/benchmarks/run.py``).
 
 One family of 64 polynomials ``a·x² + b_k·x + c_k`` of discriminant
-``D = −(10⁶⁰ + 7)`` (``a`` a product of seven factor-base primes, the
-``b_k`` in Gray-code order) sieved over ``−2¹⁶ ≤ x < 2¹⁶`` with the first
-3000 primes that split or ramify, as the relation search of the
-sub-exponential class group method sieves it; against the pure-Python twin.
-The inputs are built here from the definitions (square roots of ``D`` modulo
-each prime, the roots ``(±t − b)·(2a)⁻¹`` and their shifts ``B_l·a⁻¹``), not
-through the relation search, so the workload stays the same when that code
-changes.
+``D = −(10⁶⁰ + 7)`` (``a`` a product of seven factor-base primes near the
+balancing size, the ``b_k`` in Gray-code order) sieved over ``−2¹⁶ ≤ x < 2¹⁶``
+with the first 3000 primes that split or ramify, built by the relation
+search's own functions (:mod:`realquad.relations`); against the pure-Python
+twin.
 """
 
 from __future__ import annotations
 
+import bisect
+import dataclasses
 import math
 from typing import Any
 
 from realquad._backend import kernels, pure
-from realquad.core.primes import kronecker, primes_below
+from realquad.relations.collect import sieve_logs, sieve_parameters
+from realquad.relations.factor_base import factor_base
+from realquad.relations.families import family, sieve_inputs
 
 D = -(10**60 + 7)
 PRIMES = 3000
@@ -27,58 +28,36 @@ FACTORS = 7  # 2⁶ = 64 polynomials
 
 def family_inputs() -> tuple[list[Any], int]:
     """The arguments of ``sieve_family`` for the workload's family, and its polynomial count."""
-    primes: list[int] = []
-    roots: list[int] = []  # a square root t of D modulo p
-    for p in primes_below(10**6):
-        if kronecker(D, p) == -1:
-            continue
-        b = pure.prime_form_b(D, p)  # b² ≡ D (mod 4p)
-        primes.append(p)
-        roots.append(b % p)
-        if len(primes) == PRIMES:
-            break
-    # the leading coefficient: seven consecutive split primes near the size that balances the values
-    size = math.exp(math.log(math.isqrt(-D) / (2 * M)) / FACTORS)
-    pool = [i for i, p in enumerate(primes) if p > size and D % p]
-    chosen = pool[:FACTORS]
-    a = math.prod(primes[i] for i in chosen)
-    B = []
-    for i in chosen:
-        q, t = primes[i], roots[i]
-        A = a // q
-        B.append(A * (t * pow(A, -1, q) % q))
-    b = sum(B)
-    if (b - D) % 2:
-        b += a
-    steps: list[int] = []
-    positive = [True] * FACTORS
-    for i in range(1, 2 ** (FACTORS - 1)):
-        v = (i & -i).bit_length() - 1  # Gray code: b_k ∓ 2·B_v
-        steps.append(-(v + 1) if positive[v] else v + 1)
-        positive[v] = not positive[v]
-    left_out = {primes[i] for i in chosen} | {2}
-    roots1, roots2, shifts = [], [], [[] for _ in B]
-    for p, t in zip(primes, roots, strict=True):
-        if p in left_out:
-            roots1.append(-1)
-            roots2.append(-1)
-            for row in shifts:
-                row.append(0)
-            continue
-        ainv = pow(a, -1, p)
-        half = ainv * ((p + 1) // 2) % p  # (2a)⁻¹ mod p
-        roots1.append((t - b) * half % p)
-        roots2.append((-t - b) * half % p)
-        for row, Bl in zip(shifts, B, strict=True):
-            row.append(Bl * ainv % p)
-    # logarithms and threshold: log₂ of the primes scaled so every sum stays below 256, the
-    # primes below 40 not sieved; the threshold leaves room for one prime up to 50× the largest
-    typical = math.log2(M * math.isqrt(-D) * 0.7)
-    scale = min(1.0, 240.0 / (typical + 20))
-    logs = [0 if p < 40 else max(1, round(scale * math.log2(p))) for p in primes]
-    slack = math.log2(50 * primes[-1]) * 0.9 + 4
-    threshold = max(1, round(scale * (typical - slack)))
-    return [primes, logs, roots1, roots2, shifts, steps, M, threshold], len(steps) + 1
+    bound = 60_000
+    fb = factor_base(D, bound)
+    while fb.size < PRIMES:
+        bound = bound * 5 // 4
+        fb = factor_base(D, bound)
+    fb = dataclasses.replace(
+        fb,
+        primes=fb.primes[:PRIMES],
+        b=fb.b[:PRIMES],
+        ramified=fb.ramified[:PRIMES],
+        index={p: j for j, p in enumerate(fb.primes[:PRIMES])},
+        bound=fb.primes[PRIMES - 1],
+    )
+    params = dataclasses.replace(sieve_parameters(D, fb.bound), M=M)
+    size = math.exp(params.log_a / FACTORS)
+    pool = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if p > 2 and not r]
+    i = bisect.bisect_left(pool, size)
+    fam = family(fb, pool[i - FACTORS // 2 : i - FACTORS // 2 + FACTORS])
+    roots1, roots2, shifts = sieve_inputs(fb, fam)
+    args = [
+        fb.primes,
+        sieve_logs(fb, params),
+        roots1,
+        roots2,
+        shifts,
+        fam.steps,
+        M,
+        params.threshold,
+    ]
+    return args, len(fam.bs)
 
 
 def workloads() -> list[dict[str, Any]]:
