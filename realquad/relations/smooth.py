@@ -47,8 +47,12 @@ class Relation:
     large: int = 1
 
 
-def _sign(B: int, p: int, bp: int, D: int) -> int:
-    """``+1`` when ``(p^e, B, ·)`` is a power of ``P_p = (p, b_p, ·)``, ``−1`` for its inverse."""
+def sign_of(B: int, p: int, bp: int, D: int) -> int:
+    """``+1`` when ``(p^e, B, ·)`` is a power of ``P_p = (p, b_p, ·)``, ``−1`` for its inverse.
+
+    >>> sign_of(3, 7, 3, -47), sign_of(-3, 7, 3, -47), sign_of(0, 47, 47, -47)   # ramified: +1
+    (1, -1, 1)
+    """
     if D % p == 0:
         return 1
     modulus = 4 if p == 2 else p
@@ -79,17 +83,17 @@ def relation_at(
             continue
         n, e = gmpy2.remove(n, p)
         if e:
-            exponents[p] = _sign(B, p, fb.b[j], D) * e
+            exponents[p] = sign_of(B, p, fb.b[j], D) * e
     for p in ([2] if 2 in fb.index else []) + fam.a_primes:
         n, e = gmpy2.remove(n, p)
         if e:
-            exponents[p] = _sign(B, p, fb.b[fb.index[p]], D) * e
+            exponents[p] = sign_of(B, p, fb.b[fb.index[p]], D) * e
     large = 1
     if n != 1:
         if n > large_bound or n <= fb.bound or not gmpy2.is_prime(n):
             return None
         large = int(n)
-        exponents[large] = _sign(B, large, prime_b(D, large), D)
+        exponents[large] = sign_of(B, large, prime_b(D, large), D)
     for q, sigma in zip(fam.a_primes, fam.signs(k, fb), strict=True):
         e = exponents.get(q, 0) - sigma
         if e:

@@ -15,7 +15,7 @@ from realquad._backend import BACKEND
 from realquad.classgroup import choose_class_group_method, class_group
 from realquad.classgroup.imaginary import class_group_imaginary
 from realquad.classgroup.subexp import MIN_DISCRIMINANT, check_relation, class_group_subexp
-from realquad.core.forms import Form
+from realquad.core.forms import Form, prime_form
 from realquad.core.lfunction import class_number_interval
 from realquad.core.orders import Order, field
 from realquad.errors import DomainError, InputError
@@ -23,7 +23,7 @@ from realquad.relations.store import RelationStore
 from tests.classgroup.test_imaginary import is_fundamental
 
 #: The pure-Python sieve is a hundred times slower: on the twins these run only with the slow tests.
-HEAVY = pytest.mark.slow if BACKEND == "python" else pytest.mark.usefixtures()
+HEAVY = pytest.mark.slow if BACKEND == "python" else pytest.mark.heavy
 
 
 def _order(D: int) -> Form:
@@ -162,3 +162,32 @@ def _bound(D: int) -> int:
     from realquad.core.lfunction import generating_bound
 
     return generating_bound(D)
+
+
+def _element_order(coords: list[int], invariants: list[int]) -> int:
+    return math.lcm(1, *(d // math.gcd(c, d) for c, d in zip(coords, invariants, strict=True)))
+
+
+@settings(max_examples=10 if BACKEND == "compiled" else 2, deadline=None)
+@given(st.integers(min_value=10**10, max_value=10**12), st.integers(min_value=1, max_value=10**9))
+def test_class_of_locates_forms(n, e):
+    # the class of P^e for a prime form P: its order in the group agrees with the exact method's
+    # table (one reduced form per class), and class_of is additive on products
+    D = field(-n).discriminant
+    if -D < MIN_DISCRIMINANT:
+        return
+    G = class_group_subexp(Order(D))
+    E = class_group_imaginary(Order(D))
+    P = next(F for F in (prime_form(D, p) for p in (3, 5, 7, 11, 13, 17, 19, 23, 29, 31)) if F)
+    Q = next(F for F in (prime_form(D, p) for p in (37, 41, 43, 47, 53, 59, 61, 67)) if F)
+    F = P.power(e)
+    assert _element_order(G.class_of(F), G.invariants) == _element_order(
+        E.class_of(F), E.invariants
+    )
+    total = [
+        (x + y) % d for x, y, d in zip(G.class_of(F), G.class_of(Q), G.invariants, strict=True)
+    ]
+    assert G.class_of(F.compose(Q)) == total
+    assert G.is_principal(F.power(G.class_number)) and G.is_narrowly_principal(Form.identity(D))
+    with pytest.raises(DomainError, match="discriminant"):
+        G.class_of(Form(1, 1, 1))
