@@ -185,7 +185,7 @@ class _Locator:
 
     def __call__(self, F: Form, tries: int = 3_000_000) -> list[int]:
         rng = random.Random(F.a ^ F.b)
-        G, shift = F.reduced(), {}
+        G, shift = F.reduced(), dict[int, int]()
         for _ in range(tries):
             found = self._smooth_exponents(G.a, G.b)
             if found is not None:
