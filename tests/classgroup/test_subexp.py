@@ -21,9 +21,7 @@ from realquad.core.orders import Order, field
 from realquad.errors import DomainError, InputError
 from realquad.relations.store import RelationStore
 from tests.classgroup.test_imaginary import is_fundamental
-
-#: The pure-Python sieve is a hundred times slower: on the twins these run only with the slow tests.
-HEAVY = pytest.mark.slow if BACKEND == "python" else pytest.mark.heavy
+from tests.markers import HEAVY
 
 
 def _order(D: int) -> Form:
