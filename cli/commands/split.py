@@ -64,7 +64,11 @@ def _line(s: PrimeDecomposition, principal: Form, sizer: Sizer) -> str:
 
 
 def _method(G: ClassGroup) -> str:
-    return G.method if G.lists_classes else f"{G.method}; {METHOD_LOCATED}"
+    if G.lists_classes:
+        return G.method
+    if G.locates_classes:
+        return f"{G.method}; classes of prime ideals by relations through them"
+    return f"{G.method}; {METHOD_LOCATED}"
 
 
 @click.command("split", cls=Command)

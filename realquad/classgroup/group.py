@@ -199,6 +199,11 @@ class ClassGroup(Display):
         return self._table is not None
 
     @property
+    def locates_classes(self) -> bool:
+        """Whether :meth:`class_of` answers for any form: from the table, or by index calculus."""
+        return self.lists_classes or self._locate is not None
+
+    @property
     def lists_classes(self) -> bool:
         """Whether :attr:`table` (every class with its forms) is available for this group."""
         return self._table is not None or self._table_source is not None

@@ -215,7 +215,7 @@ def decompose_prime(
     assert F is not None  # p ∤ f and (D/p) ≠ −1
     forms = [F] if kind == "ramified" else [F, F.inverse()]
     ideals = [Ideal.from_form(G) for G in forms]
-    if not group.lists_classes:
+    if not group.locates_classes:
         return _by_tests(group, p, kind, field_kind, ideals, F)
     classes = [group.narrow_class_of(G) for G in forms]
     wide = [group.class_of(G) for G in forms]
@@ -234,13 +234,14 @@ def decompose_prime(
 
 def group_for_primes(order: Order) -> ClassGroup:
     """The class group the classes of prime ideals refer to: exact within the cycle method's reach,
-    else baby-step giant-step (fields only, under GRH), whose classes are located by tests."""
+    else (fields only, under GRH) baby-step giant-step for D > 0, whose classes are located by
+    principal ideal tests, and index calculus for D < 0, whose classes are located by relations."""
     try:
         return class_group(order, method="exact")
     except TooLargeError:
-        if order.discriminant < 0 or order.conductor != 1:
+        if order.conductor != 1:
             raise
-        return class_group(order, method="bsgs")
+        return class_group(order, method="bsgs" if order.discriminant > 0 else "subexp")
 
 
 def _by_tests(

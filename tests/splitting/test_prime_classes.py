@@ -140,3 +140,28 @@ def test_split_command_beyond_the_exact_method(capsys: pytest.CaptureFixture[str
     for prime in data["primes"]:
         if prime["represented_by_principal"] and prime["compact"] is not None:
             assert prime["x"] is None and prime["compact"]["norm"] == prime["p"]
+
+
+def test_imaginary_fields_beyond_the_exact_method_split_by_index_calculus():
+    # Q(√−(10¹⁶ + 3)) is beyond the exact method: the classes come from index calculus
+    # (relations through each prime ideal), checked here by composition of forms: the ideals
+    # above a split prime lie in inverse classes, the form named represents p at the (x, y)
+    # given (evaluated), and every class is the class the group computes for the prime form
+    from realquad.core.forms import Form, prime_form
+    from realquad.core.orders import field
+    from realquad.splitting import split_primes
+    from realquad.splitting.decomposition import group_for_primes
+
+    order = field(-(10**16) - 3)
+    D = order.discriminant
+    group = group_for_primes(order)
+    assert group.proof == "GRH" and group.method.startswith("index calculus")
+    rows = split_primes(order, 80, group)
+    split = [s for s in rows if s.kind == "split"]
+    assert len(split) >= 5
+    for s in split:
+        a, b = s.classes
+        assert all((x + y) % d == 0 for x, y, d in zip(a, b, group.invariants, strict=True))
+        assert a == group.class_of(prime_form(D, s.p))
+        assert s.form is not None and s.x is not None and s.y is not None
+        assert Form(s.form.a, s.form.b, s.form.c).value(s.x, s.y) == s.p
