@@ -55,7 +55,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"survey_kernels", "sieve_kernels"},
     ],
     "realquad.core": [
-        {"results", "progress", "integers", "linalg", "tokens", "executors"},
+        {"results", "progress", "integers", "linalg", "tokens", "executors", "modular_linalg"},
         {"primes", "lattice"},
         {"orders", "numbers"},
         {"forms", "lfunction"},
