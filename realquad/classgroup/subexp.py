@@ -213,7 +213,7 @@ def _quotient(
     need = fb.size + max(20, fb.size // 20)
     while True:
         collector.collect(
-            functools.partial(_missing, fb, collector, need), executor, workers, progress, need
+            functools.partial(_missing, fb, collector, need), executor, workers, progress
         )
         rows, columns = _rows(fb, collector.relations, need)
         found = lattice_quotient(rows, len(columns))

@@ -183,6 +183,8 @@ class Collector:
         self.pool = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if p > 30 and not r]
         self.logs = sieve_logs(fb, params)
         self._batches = 0
+        self._gained = 0  # rows gained by collect() so far, and the most wanted at once
+        self._goal = 0
 
     def _keep(self, relations: list[Relation]) -> None:
         """Keep relations; count the primes of those usable: full ones, and large primes met twice."""
@@ -260,18 +262,21 @@ class Collector:
         executor: InProcessExecutor | None = None,
         workers: int = 1,
         progress: Progress | None = None,
-        expected: int | None = None,
     ) -> None:
         """Sieve batches of families on ``executor`` until ``missing()`` (rows still wanted) is 0.
 
         Each round sends ``2·workers`` batches, sized from the rows gained per
         family so far so that a round ends near the goal instead of far past it.
+        ``progress`` hears, after each round, the rows gained against the rows
+        wanted (a relation with a large prime met once is no row yet).
         """
         executor = executor if executor is not None else InProcessExecutor()
         per_batch = max(1, min(self.params.batch, 256 >> (self.params.factors - 1)))
         parts = 2 * workers
         rate = 0.0  # rows gained per family
-        while (short := missing()) > 0:
+        short = missing()
+        self._goal = max(self._goal, self._gained + short)
+        while short > 0:
             most = parts * per_batch
             want = parts if rate <= 0 else max(parts, min(most, math.ceil(1.2 * short / rate)))
             sizes = [want // parts + (k < want % parts) for k in range(parts)]
@@ -290,7 +295,10 @@ class Collector:
                 self._keep(rels)
                 if self.store is not None:
                     self.store.add(rels, [math.prod(f) for f in batch.families])
-                if progress is not None:
-                    progress("relations found", len(self.relations), expected)
-            gained = short - missing()
-            rate = max(rate, gained / want) if gained > 0 else rate
+            now = missing()
+            gained, short = short - now, now
+            if gained > 0:
+                rate = max(rate, gained / want)
+                self._gained += gained
+            if progress is not None:
+                progress("relation rows found", self._gained, self._goal)
