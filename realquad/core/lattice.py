@@ -425,6 +425,15 @@ class _Basis:
     chosen: list[int]
     inverse: Any
     det: int
+    bounds: tuple[int, int] | None = None
+
+    def bound(self, B: list[list[int]]) -> tuple[int, int]:
+        """Bounds on ``|det B|`` and ``‖B⁻¹‖∞`` (0: none), computed once (``B``: the chosen rows)."""
+        if self.bounds is None:
+            columns = [list(c) for c in zip(*B, strict=True)]
+            hadamard = min(hadamard_bound(B), hadamard_bound(columns))
+            self.bounds = determinant_bound(B) or (hadamard, 0)
+        return self.bounds
 
 
 @dataclass
@@ -529,8 +538,7 @@ def _dense_quotient(core: _Core) -> tuple[list[int], list[list[int]]]:
         for j, x in rows[i].items():
             B[r][index[j]] = x
     det_p = basis.det
-    floats = determinant_bound(B)
-    bound, norm = floats or (min(hadamard_bound(B), hadamard_bound([list(c) for c in zip(*B)])), 0)
+    bound, norm = basis.bound(B)
     t = 0
     columns_of_nums: list[list[int]] = []  # the columns of B⁻¹W, times delta
     delta, want = 1, min(k, 4)
@@ -657,8 +665,12 @@ def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, i
     W = [[rows[e].get(c, 0) for e in extra] for c in on]
     if not any(any(w) for w in W):  # pragma: no cover - only with a rank lost modulo p
         return []
-    inverse_t = np.ascontiguousarray(inverse.T)
-    nums, delta = dixon_solve(BT, inverse_t, p, W, *(determinant_bound(BT) or (0, 0)))
+    if core.basis is not None:  # ‖B⁻ᵀ‖∞ = ‖B⁻¹‖₁ ≤ k·‖B⁻¹‖∞
+        bound, norm = core.basis.bound([list(c) for c in zip(*BT, strict=True)])
+        bounds = (bound, k * norm)
+    else:
+        bounds = determinant_bound(BT) or (0, 0)
+    nums, delta = dixon_solve(BT, np.ascontiguousarray(inverse.T), p, W, *bounds)
     out = []
     for start in range(0, len(extra), BATCH):
         batch = range(start, min(start + BATCH, len(extra)))
