@@ -43,19 +43,19 @@ is below ``n``. The modular algebra is :mod:`realquad.core.modular_linalg`.
 
 **Kernel.** :func:`lattice_kernel` returns integer vectors ``c`` with
 ``Σ c[i]·rows[i] = 0``, each checked exactly; :func:`lattice_quotient_and_kernel`
-gives both answers from one elimination and one basis ``B``. Elimination
-records its row operations, so a combination of the rows after it is rewritten
-on the original rows by replaying them backwards. Repeated and zero rows give
-vectors of one or two ±1 entries, then rows that elimination made zero give
-small ones (the lightest first). The rest come from the core: ``s`` other rows
-``e`` drawn at random (``seed``), ``λ_e = e·B⁻¹ = N_e/δ`` by Dixon lifting on
-``Bᵀ``; the kernel of those ``k + s`` rows is ``{(x, y) : y·N ≡ 0 mod δ,
-x = −y·N/δ}``, a basis of its ``y`` from a Hermite form modulo ``δ`` of a random
-projection of ``N`` (checked on ``N`` itself; the projection widens until it
-passes), then LLL-reduced for the Euclidean norm of ``(x, y)`` (Lenstra,
-Lenstra and Lovász 1982), batches of ``BATCH`` rows at a time. Such vectors
-generate the whole kernel of the rows they use; their entries are about
-``|det B|^{1/s}`` (about 300 bits for ``s = 8`` when ``|det B| ≈ 2²⁵⁰⁰``).
+gives both answers from one elimination and one basis ``B``. Elimination logs its
+row operations; replayed backwards they rewrite a combination of the rows after
+it on the original rows. Repeated and zero rows give vectors of one or two ±1
+entries, rows that elimination made zero small ones (lightest first). The rest
+come from the core: ``s`` other rows ``E`` drawn with ``seed``, in batches of
+``BATCH``; the kernel of ``B ∪ E`` is ``{(x, y) : x = −y·Λ ∈ Z^k}``, ``Λ = E·B⁻¹``.
+Its vectors are short, about ``|det B|^{1/s}``, so a few ``p``-adic digits of
+``Λ`` (Dixon lifting on ``Bᵀ``) suffice: LLL (Lenstra, Lenstra and Lovász 1982;
+brought in by the top bits first) finds them in a lattice of ``s + 4``
+dimensions where they are the short vectors; ``s`` of them, checked, generate
+the kernel of the rows they use. Failing that, ``Λ = N/δ`` exactly, a basis from
+a Hermite form of ``{y : y·N ≡ 0 mod δ}`` and LLL. About 300-bit entries for
+``s = 8`` and ``|det B| ≈ 2²⁵⁰⁰``.
 
 References: B. A. LaMacchia and A. M. Odlyzko, "Solving large sparse linear
 systems over finite fields", CRYPTO '90, LNCS 537 (1991); H. M. Markowitz,
@@ -92,9 +92,14 @@ from realquad.core.modular_linalg import (
     hadamard_bound,
     hnf_mod,
     inverse_mod,
+    kernel_mod,
+    lifting_bounds,
     lll_gram,
+    lll_rows,
     lu_mod,
+    padic_lift,
     rank_profile_mod,
+    vanishes_mod,
     word_prime,
 )
 from realquad.core.progress import Progress
@@ -522,14 +527,8 @@ def _dense_quotient(core: _Core) -> tuple[list[int], list[list[int]]]:
     """Invariants and the coordinates of each core column, given a basis of the core."""
     basis = core.basis
     assert basis is not None
-    rows, columns, rng, used, p, inverse = (
-        core.rows,
-        core.columns,
-        core.rng,
-        core.used,
-        basis.p,
-        basis.inverse,
-    )
+    rows, columns, rng, used = core.rows, core.columns, core.rng, core.used
+    p, inverse = basis.p, basis.inverse
     k = len(columns)
     index = {c: i for i, c in enumerate(columns)}
     chosen = basis.chosen
@@ -580,6 +579,8 @@ def _dense_quotient(core: _Core) -> tuple[list[int], list[list[int]]]:
 
 #: Extra rows of the dense core whose combined kernel is found in one Hermite form.
 BATCH = 16
+#: Columns of the random projection in :func:`_short_kernel`.
+SHORT_PROJECTION = 4
 
 
 def _smallest(
@@ -636,10 +637,11 @@ def _vanishes(vector: Mapping[int, int], rows: Sequence[Mapping[int, int]]) -> b
 def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, int]]:
     """Up to ``want`` independent kernel vectors of the core rows (position ↦ coefficient).
 
-    Rows ``B`` independent modulo ``p`` (on as many columns), ``want`` other rows ``e``
-    drawn with ``rng``; ``λ_e = e·B⁻¹ = N_e/δ`` by Dixon lifting on ``Bᵀ``. In each
-    batch of extra rows the kernel is ``{y : Σ y_e N_e ≡ 0 mod δ}`` (then ``x = −Σ y_e λ_e``
-    on ``B``): a basis from :func:`_batch_kernel`. Every vector is checked on the core.
+    Rows ``B`` independent modulo ``p`` (on as many columns), ``want`` other rows ``E``
+    drawn with ``rng``, in batches of ``BATCH``; the kernel of ``B ∪ E`` is
+    ``{(x, y) : x·B + y·E = 0}``, ``x = −y·Λ`` with ``Λ = E·B⁻¹``. A basis comes from
+    :func:`_short_kernel` (few ``p``-adic digits of ``Λ``) or else from ``Λ = N/δ``
+    exactly (Dixon lifting on ``Bᵀ``, :func:`~realquad.core.modular_linalg.kernel_mod`), then LLL-reduced.
     """
     import numpy as np
 
@@ -662,54 +664,88 @@ def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, i
     extra = sorted(rng.sample(others, min(want, len(others))))
     on = [columns[j] for j in pivots]
     BT = [[rows[i].get(c, 0) for i in chosen] for c in on]
-    W = [[rows[e].get(c, 0) for e in extra] for c in on]
-    if not any(any(w) for w in W):  # pragma: no cover - only with a rank lost modulo p
-        return []
     if core.basis is not None:  # ‖B⁻ᵀ‖∞ = ‖B⁻¹‖₁ ≤ k·‖B⁻¹‖∞
         bound, norm = core.basis.bound([list(c) for c in zip(*BT, strict=True)])
         bounds = (bound, k * norm)
     else:
         bounds = determinant_bound(BT) or (0, 0)
-    nums, delta = dixon_solve(BT, np.ascontiguousarray(inverse.T), p, W, *bounds)
+    inverse_t = np.ascontiguousarray(inverse.T)
     out = []
     for start in range(0, len(extra), BATCH):
-        batch = range(start, min(start + BATCH, len(extra)))
-        N = np.array([[gmpy2.mpz(row[j]) for row in nums] for j in batch], dtype=object)
-        Y = _batch_kernel(N, delta, rng)
-        V = np.hstack([-(Y @ N) // delta, Y])  # the rows (x | y): x·B + y·E = 0
+        batch = extra[start : start + BATCH]
+        W = [[rows[e].get(c, 0) for e in batch] for c in on]
+        if not any(any(w) for w in W):  # pragma: no cover - only with a rank lost modulo p
+            continue
+        V = _short_kernel(core, chosen, batch, (BT, inverse_t, p, W), bounds, rng)
+        if V is None:
+            nums, delta = dixon_solve(BT, inverse_t, p, W, *bounds)
+            N = np.array([[gmpy2.mpz(x) for x in c] for c in zip(*nums)], dtype=object)
+            Y = kernel_mod(N, delta, rng)
+            V = np.hstack([-(Y @ N) // delta, Y])  # the rows (x | y): x·B + y·E = 0
         for vector in np.array(lll_gram((V @ V.T).tolist()), dtype=object) @ V:
-            places = chosen + [extra[j] for j in batch]
-            out.append({i: int(x) for i, x in zip(places, vector, strict=True) if x})
+            out.append({i: int(x) for i, x in zip(chosen + batch, vector, strict=True) if x})
     return sorted(out, key=_weight)
 
 
-def _batch_kernel(N: Any, delta: int, rng: random.Random) -> Any:
-    """A basis (rows of an object array) of ``{y ∈ Z^s : y·N ≡ 0 (mod δ)}`` (``N``: ``s × r``).
+def _short_kernel(
+    core: _Core,
+    chosen: list[int],
+    batch: list[int],
+    system: tuple[list[list[int]], Any, int, list[list[int]]],
+    bounds: tuple[int, int],
+    rng: random.Random,
+) -> Any:
+    """A basis (rows ``(x | y)``) of the kernel of the rows ``chosen ∪ batch``, or ``None``.
 
-    The rows ``(N_j·P mod δ | e_j)`` for a random ``r × t`` matrix ``P`` and the
-    ``δ·e_i`` span ``{(u, y) : u ≡ y·N·P}``; the last ``s`` rows of its Hermite form
-    (modulo ``δ``) are a basis of the kernel of ``y ↦ y·N·P mod δ``, which contains
-    the wanted kernel and equals it when the check passes; else ``t`` doubles
-    (``P = 1`` at the end: exact).
+    With ``U ≡ Λ (mod P)`` from ``L`` digits of Dixon lifting (``system``: ``Bᵀ``,
+    ``B⁻ᵀ mod p``, ``p``, ``Eᵀ``), every kernel vector gives ``(y, x·R)`` in the lattice
+    ``{(y, z) : z ≡ −y·U·R (mod P)}`` (``R`` random, ``r × t``, ``t = SHORT_PROJECTION``),
+    of determinant ``P^t``. The kernel's vectors, of size about ``μ = |det B|^{1/s}``,
+    are its shortest once ``P`` passes ``μ^{(s+t)/t}`` (``μ`` guessed from the bounds;
+    ``L`` doubles while below the digits that exact reconstruction needs). A reduced
+    basis vector whose ``x = −y·U mod P`` (balanced) satisfies ``x·R = z`` and
+    ``x·B + y·E ≡ 0`` modulo two other primes is taken; ``s`` of them, part of a basis
+    of a lattice in which the kernel is embedded, generate the kernel.
+    that contains the whole kernel, generate it.
     """
     import numpy as np
 
-    s, r = N.shape
-    t = min(r, s + 4)
-    while True:
-        if t >= r:
-            M = N % delta
-        else:
-            P = np.array([[rng.randrange(-(2**30), 2**30) for _ in range(t)] for _ in range(r)])
-            M = (N @ P.astype(object)) % delta
-        t = M.shape[1]
-        units = [[int(i == j) for i in range(s)] for j in range(s)]
-        rows = [[int(x) for x in m] + u for m, u in zip(M, units, strict=True)]
-        H, _ = hnf_mod(rows, [delta] * (t + s))
-        Y = np.array([[gmpy2.mpz(x) for x in H[t + j][t:]] for j in range(s)], dtype=object)
-        if not ((Y @ N) % delta).any():
-            return Y
-        t = min(r, 2 * t)
+    BT, inverse_t, p, W = system
+    s, r = len(batch), len(BT)
+    num, den = lifting_bounds(BT, W, *bounds)
+    digit = p.bit_length() - 1
+    most = (2 * num * den).bit_length() // digit + 1
+    size = den.bit_length() // s + max(bounds[1], 1).bit_length() + s + 8
+    t = SHORT_PROJECTION
+    steps = ((s + t) * size // t + s + t + 64) // digit + 1
+    columns = core.columns
+    index = {c: i for i, c in enumerate(columns)}
+    checks = []
+    for _ in range(2):
+        q = word_prime(rng, core.used)
+        B_q = dense_rows_mod([core.rows[i] for i in chosen], index, len(columns), q)
+        E_q = dense_rows_mod([core.rows[i] for i in batch], index, len(columns), q)
+        checks.append((q, B_q, E_q))
+    while steps < most:
+        P = p**steps
+        U = padic_lift(BT, inverse_t, p, W, steps).T  # s × r: the λ_e modulo P
+        R = np.array([[rng.randint(-4, 4) for _ in range(t)] for _ in range(r)], dtype=object)
+        M = np.zeros((s + t, s + t), dtype=object)
+        M[:s, s:] = (-(U @ R)) % P
+        for i in range(s + t):
+            M[i, i] = 1 if i < s else P
+        found = []
+        for row in np.array(lll_rows(M.tolist(), s), dtype=object):
+            y, z = row[:s], row[s:]
+            if not y.any():
+                continue
+            x = np.array([v - P if 2 * v > P else v for v in (-(y @ U)) % P], dtype=object)
+            if not (x @ R != z).any():
+                found.append(np.concatenate([x, y]))
+        if len(found) == s and all(vanishes_mod(found, r, *check) for check in checks):
+            return np.array(found, dtype=object)
+        steps *= 2
+    return None
 
 
 # -- generators --------------------------------------------------------------------------------

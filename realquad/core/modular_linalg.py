@@ -332,42 +332,12 @@ def dixon_solve(
     >>> dixon_solve(B, inverse_mod(lu_mod(np.array(B, dtype=float), 7)[0], 7), 7, [[1], [1]])
     ([[3], [2]], 6)
     """
-    import numpy as np
-
     k, t = len(B), len(W[0])
-    top_w = max(abs(x) for row in W for x in row)
-    if norm:
-        num = den * norm * top_w
-    else:
-        columns = [list(c) for c in zip(*B, strict=True)]
-        norm_w = math.isqrt(max(sum(row[j] ** 2 for row in W) for j in range(t))) + 1
-        den = den or min(hadamard_bound(B), hadamard_bound(columns))
-        # Cramer: a column of B replaced by one of W
-        num = min(
-            hadamard_bound(B, top_w), math.prod(max(hadamard_bound([c]), norm_w) for c in columns)
-        )
+    num, den = lifting_bounds(B, W, den, norm)
     P, steps = 1, 0
     while P <= 2 * num * den:
         P, steps = P * p, steps + 1
-    top = max(abs(x) for row in B for x in row)
-    kind: Any = float if top * k * p < 2**52 else np.int64 if top * k * p < 2**62 else object
-    Bx = np.array(B, dtype=kind)
-    R = np.array(W, dtype=kind)
-    digits = []
-    for _ in range(steps):
-        X = matmul_mod(inverse, (R % p).astype(float), p)
-        digits.append(X.astype(np.int64))
-        if kind is float:
-            R = (R - matmul_mod(Bx, X, 0)) / p
-        else:
-            R = (R - Bx @ X.astype(np.int64).astype(kind)) // p
-    level = [d.astype(object) for d in digits]
-    base = p
-    while len(level) > 1:  # the p-adic digits summed in a balanced tree
-        pairs = [level[i] + level[i + 1] * base for i in range(0, len(level) - 1, 2)]
-        level = pairs + level[len(level) - len(level) % 2 :]
-        base *= base
-    Y = level[0]
+    Y = padic_lift(B, inverse, p, W, steps)
     delta, nums = 1, [[0] * t for _ in range(k)]
     for i in range(k):
         for j in range(t):
@@ -380,6 +350,68 @@ def dixon_solve(
                 z = a
             nums[i][j] = z
     return nums, delta
+
+
+def lifting_bounds(
+    B: list[list[int]], W: list[list[int]], den: int = 0, norm: int = 0
+) -> tuple[int, int]:
+    """Bounds on the numerators and the denominator of ``B⁻¹W = num/δ`` (``δ | det B``).
+
+    ``den`` and ``norm`` as in :func:`dixon_solve`; without ``norm``, Hadamard's bound
+    on ``det B`` with a column replaced by one of ``W`` (Cramer's rule).
+
+    >>> lifting_bounds([[2, 0], [0, 3]], [[1], [1]])       # Cramer: |det| ≤ 6, numerators ≤ 6
+    (6, 6)
+    """
+    t = len(W[0])
+    top_w = max(abs(x) for row in W for x in row)
+    if norm:
+        return den * norm * top_w, den
+    columns = [list(c) for c in zip(*B, strict=True)]
+    norm_w = math.isqrt(max(sum(row[j] ** 2 for row in W) for j in range(t))) + 1
+    den = den or min(hadamard_bound(B), hadamard_bound(columns))
+    num = min(
+        hadamard_bound(B, top_w), math.prod(max(hadamard_bound([c]), norm_w) for c in columns)
+    )
+    return num, den
+
+
+def padic_lift(B: list[list[int]], inverse: Any, p: int, W: list[list[int]], steps: int) -> Any:
+    """``B⁻¹W mod p^steps`` (an object array, entries in ``[0, p^steps)``): Dixon's digits.
+
+    Each step solves ``B·X ≡ R (mod p)`` with ``inverse`` and passes ``R ← (R − B·X)/p``
+    on, exactly; the digits are summed in a balanced tree.
+
+    >>> import numpy as np
+    >>> B = [[2, 0], [0, 3]]
+    >>> padic_lift(B, inverse_mod(lu_mod(np.array(B, dtype=float), 7)[0], 7), 7, [[1], [1]], 2)
+    array([[25],
+           [33]], dtype=object)
+    """
+    import numpy as np
+
+    k = len(B)
+    top = max(abs(x) for row in B for x in row)
+    kind: Any = float if top * k * p < 2**52 else np.int64 if top * k * p < 2**62 else object
+    Bx = np.array(B, dtype=kind)
+    R = np.array(W, dtype=kind)
+    digits = []
+    for _ in range(steps):
+        X = matmul_mod(inverse, (R % p).astype(float), p)
+        digits.append(X.astype(np.int64))
+        if kind is float:
+            R = (R - matmul_mod(Bx, X, 0)) / p
+        else:
+            R = (R - Bx @ X.astype(np.int64).astype(kind)) // p
+    if not digits:
+        return np.zeros((k, len(W[0])), dtype=object)
+    level = [d.astype(object) for d in digits]
+    base = p
+    while len(level) > 1:  # the p-adic digits summed in a balanced tree
+        pairs = [level[i] + level[i + 1] * base for i in range(0, len(level) - 1, 2)]
+        level = pairs + level[len(level) - len(level) % 2 :]
+        base *= base
+    return level[0]
 
 
 def determinant_is(
@@ -583,6 +615,57 @@ def rank_profile_mod(A: Any, p: int) -> tuple[list[int], list[int]]:
     return rows, columns
 
 
+def kernel_mod(N: Any, delta: int, rng: random.Random) -> Any:
+    """A basis (rows of an object array) of ``{y ∈ Z^s : y·N ≡ 0 (mod δ)}`` (``N``: ``s × r``).
+
+    The rows ``(N_j·P mod δ | e_j)`` for a random ``r × t`` matrix ``P`` and the
+    ``δ·e_i`` span ``{(u, y) : u ≡ y·N·P}``; the last ``s`` rows of its Hermite form
+    (modulo ``δ``) are a basis of the kernel of ``y ↦ y·N·P mod δ``, which contains
+    the wanted kernel and equals it when the check passes; else ``t`` doubles
+    (``P = 1`` at the end: exact).
+
+    >>> import numpy as np
+    >>> Y = kernel_mod(np.array([[1], [2], [3]], dtype=object), 6, random.Random(1))
+    >>> [[int(x) for x in y] for y in Y]                    # y₀ + 2y₁ + 3y₂ ≡ 0 (mod 6)
+    [[1, 1, 1], [0, 3, 0], [0, 0, 2]]
+    """
+    import numpy as np
+
+    s, r = N.shape
+    t = min(r, s + 4)
+    while True:
+        if t >= r:
+            M = N % delta
+        else:
+            P = np.array([[rng.randrange(-(2**30), 2**30) for _ in range(t)] for _ in range(r)])
+            M = (N @ P.astype(object)) % delta
+        t = M.shape[1]
+        units = [[int(i == j) for i in range(s)] for j in range(s)]
+        rows = [[int(x) for x in m] + u for m, u in zip(M, units, strict=True)]
+        H, _ = hnf_mod(rows, [delta] * (t + s))
+        Y = np.array([[gmpy2.mpz(x) for x in H[t + j][t:]] for j in range(s)], dtype=object)
+        if not ((Y @ N) % delta).any():
+            return Y
+        t = min(r, 2 * t)
+
+
+def vanishes_mod(vectors: list[Any], r: int, q: int, B_q: Any, E_q: Any) -> bool:
+    """Whether ``x·B + y·E ≡ 0 (mod q)`` for every vector ``(x | y)`` (``x`` of length ``r``).
+
+    ``B_q`` and ``E_q`` hold ``B`` and ``E`` modulo ``q`` as float arrays.
+
+    >>> import numpy as np
+    >>> B, E = np.array([[1.0, 2.0]]), np.array([[3.0, 6.0]])
+    >>> vanishes_mod([[-3, 1]], 1, 7, B, E), vanishes_mod([[3, 1]], 1, 7, B, E)
+    (True, False)
+    """
+    import numpy as np
+
+    X = np.array([[int(a) % q for a in v[:r]] for v in vectors], dtype=float)
+    Y = np.array([[int(a) % q for a in v[r:]] for v in vectors], dtype=float)
+    return not (mod_floats(matmul_mod(X, B_q, q) + matmul_mod(Y, E_q, q), q)).any()
+
+
 # -- LLL reduction from a Gram matrix ----------------------------------------------------------
 
 
@@ -660,3 +743,36 @@ def lll_gram(gram: Sequence[Sequence[int]]) -> list[list[int]]:
                 reduce(k, l)
             k += 1
     return [[int(x) for x in row] for row in U]
+
+
+def lll_rows(M: Sequence[Sequence[int]], large: int, chunk: int = 64) -> list[list[int]]:
+    """An LLL-reduced basis of the lattice spanned by the (independent) rows of ``M``.
+
+    The coordinates from ``large`` on, the big ones, come in gradually: the rows
+    with those coordinates shifted right by ``e`` bits are reduced (:func:`lll_gram`)
+    and the transformation applied to ``M``, for ``e`` falling by ``chunk`` to 0.
+    Each round starts from a basis reduced for the one before, so most of the work
+    is done on short numbers (a known acceleration for knapsack-like bases).
+
+    >>> lll_rows([[1, 0, 12345], [0, 1, 54321], [0, 0, 100003]], 2, chunk=8)
+    [[3, 3, -8], [16, -11, 1], [-278, -421, -262]]
+    """
+    rows = [list(map(int, row)) for row in M]
+    top = max((abs(x).bit_length() for row in rows for x in row[large:]), default=0)
+    e = max(0, top - chunk)
+    while True:
+        cut = [row[:large] + [x >> e for x in row[large:]] for row in rows]
+        gram = [[sum(a * b for a, b in zip(u, v, strict=True)) for v in cut] for u in cut]
+        try:
+            U = lll_gram(gram)
+        except ArithmeticError:  # the cut rows are dependent: a finer cut
+            if e == 0:
+                raise
+            U = [[int(i == j) for j in range(len(rows))] for i in range(len(rows))]
+        rows = [
+            [sum(c * row[j] for c, row in zip(u, rows, strict=True) if c) for j in range(len(row))]
+            for u, row in zip(U, rows, strict=True)
+        ]
+        if e == 0:
+            return rows
+        e = max(0, e - chunk)

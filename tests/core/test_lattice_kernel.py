@@ -165,7 +165,8 @@ def test_quotient_and_kernel_together(n: int, moduli: list[int], seed: int) -> N
 
 @pytest.mark.parametrize("n", [300, pytest.param(2000, marks=pytest.mark.slow)])
 def test_random_relations_with_a_large_core(n: int) -> None:
-    """Relations drawn at random in a kernel (the benchmark's builder): a core of ~n/3 columns."""
+    """Relations drawn at random in a kernel (the benchmark's builder): a core of ~n/3 columns,
+    whose kernel vectors come from a few p-adic digits and LLL."""
     rows = kernel_instance(n, n)
     Q, kernel = lattice_quotient_and_kernel(rows, n, count=8)
     expected = lattice_quotient(rows, n)
@@ -174,6 +175,9 @@ def test_random_relations_with_a_large_core(n: int) -> None:
     used = sorted({i for c in kernel for i in c})
     C = Matrix([[c.get(i, 0) for i in used] for c in kernel])
     assert rank(C) == 8  # sympy: independent
+    if n <= 300:  # they generate the kernel of the rows they use (sympy rank and Smith form)
+        assert len(used) - rank(matrix([rows[i] for i in used], n)) == 8
+        assert all(abs(int(d)) == 1 for d in invariant_factors(C))
 
 
 # -- relations with real weights: the kernel's multiples of the regulator ----------------------
