@@ -66,7 +66,7 @@ METHOD = (
 MIN_DISCRIMINANT = 10**10
 
 #: ``|D|`` from which the sieving runs on every core by default (below, starting processes costs more).
-PARALLEL_FROM = 10**35
+PARALLEL_FROM = 10**50
 
 
 def _interval(D: int, w: int) -> tuple[int, int]:
@@ -238,7 +238,7 @@ def class_group_subexp(
     """The class group of an imaginary quadratic field by index calculus, under GRH (module notes).
 
     The sieving runs in ``workers`` local processes (default: one below
-    ``|D| = 10³⁵``, every core beyond) or on the Dask cluster at ``scheduler``;
+    ``|D| = 10⁵⁰``, every core beyond) or on the Dask cluster at ``scheduler``;
     with ``relations_file`` every relation is saved as it comes, and a run
     stopped at any moment resumes from the file.
     """
