@@ -57,7 +57,7 @@ from realquad.classgroup.genus import assigned_characters
 from realquad.classgroup.group import ClassGroup, Triple, forms_from_vectors
 from realquad.core.forms import Form, prime_form_coefficients
 from realquad.core.lfunction import bach_bound, class_number_interval
-from realquad.core.linalg import SmithForm, smith_normal_form
+from realquad.core.linalg import SmithForm, diagonal_smith, smith_normal_form
 from realquad.core.orders import Order
 from realquad.core.primes import factorize, primes_below
 from realquad.errors import DomainError, TooLargeError
@@ -191,8 +191,7 @@ class _Group:
 
 def _interval(D: int, w: int) -> tuple[int, int]:
     X = next(x for limit, x in _INTERVAL_X if -D <= limit)
-    iv = class_number_interval(D, w, X)
-    return max(1, math.ceil(iv.lower)), math.floor(iv.upper)
+    return class_number_interval(D, w, X).integers()
 
 
 def _class_number(group: _Group, gens: list[Triple], lo: int, hi: int, known: int) -> int:
@@ -297,13 +296,6 @@ def class_group_imaginary_bsgs(order: Order) -> ClassGroup:
     if math.prod(invariants) != h:
         raise ArithmeticError(f"internal check failed: invariants {invariants} of {D}, h = {h}")
     raw: list[Triple] = [x for _, x in factors]
-    n = len(raw)
-    smith = (
-        smith_normal_form(
-            [[d if i == j else 0 for j in range(n)] for i, d in enumerate(invariants)], n
-        )
-        if n
-        else SmithForm([], [], [], [])
-    )
+    smith = diagonal_smith(invariants)
     forms = [Form._raw(*x) for x in raw]
     return ClassGroup.definite(order, h, invariants, forms, smith, raw, METHOD, "GRH", w)

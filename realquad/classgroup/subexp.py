@@ -41,17 +41,17 @@ from collections import Counter
 
 import gmpy2
 
-from realquad.classgroup.group import ClassGroup, Triple
+from realquad.classgroup.group import ClassGroup, Triple, forms_from_vectors
 from realquad.core.executors import InProcessExecutor, make_executor
-from realquad.core.forms import Form
+from realquad.core.forms import Form, prime_form_coefficients
 from realquad.core.lattice import LatticeQuotient, lattice_quotient
 from realquad.core.lfunction import class_number_interval, generating_bound
-from realquad.core.linalg import SmithForm, smith_normal_form
+from realquad.core.linalg import diagonal_smith
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.errors import DomainError, TooLargeError
 from realquad.relations.collect import Collector, sieve_parameters
-from realquad.relations.factor_base import FactorBase, factor_base, prime_b
+from realquad.relations.factor_base import FactorBase, factor_base
 from realquad.relations.smooth import Relation, sign_of
 from realquad.relations.store import RelationStore
 from realquad.units import unit_group
@@ -70,9 +70,7 @@ PARALLEL_FROM = 10**50
 
 
 def _interval(D: int, w: int) -> tuple[int, int]:
-    X = 10**5 if -D < 10**30 else 10**6
-    iv = class_number_interval(D, w, X)
-    lo, hi = max(1, math.ceil(iv.lower)), math.floor(iv.upper)
+    lo, hi = class_number_interval(D, w, 10**5 if -D < 10**30 else 10**6).integers()
     if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
     return lo, hi
@@ -113,18 +111,16 @@ def _rows(
 
 
 def _prime_form(D: int, p: int) -> Form:
-    b = prime_b(D, p)
-    return Form._raw(p, b, (b * b - D) // (4 * p))
+    found = prime_form_coefficients(D, p)
+    assert found is not None  # p splits or ramifies: it is in a relation
+    return Form._raw(*found)
 
 
 def _form_of(D: int, columns: list[int], vector: dict[int, int], modulus: int) -> Form:
     """The reduced form ``∏ P_{columns[j]}^{vector[j]}`` (exponents taken modulo ``modulus``)."""
-    F = Form.identity(D)
-    for j, e in vector.items():
-        e %= modulus
-        if e:
-            F = F.compose(_prime_form(D, columns[j]).power(e))
-    return F.reduced()
+    support = sorted(vector)
+    primes = [(F.a, F.b, F.c) for F in (_prime_form(D, columns[j]) for j in support)]
+    return forms_from_vectors(D, primes, [[vector[j] for j in support]], modulus)[0].reduced()
 
 
 def check_relation(D: int, relation: Relation) -> bool:
@@ -139,8 +135,7 @@ def check_relation(D: int, relation: Relation) -> bool:
     """
     F = Form.identity(D)
     for p, e in relation.exponents.items():
-        P = _prime_form(D, p)
-        F = F.compose(P.power(e) if e > 0 else P.inverse().power(-e))
+        F = F.compose(_prime_form(D, p).power(e))
     return F.reduced() == Form.identity(D).reduced()
 
 
@@ -275,14 +270,7 @@ def class_group_subexp(
     for F, d in zip(forms, found.invariants, strict=True):
         if not F.power(d).reduced() == Form.identity(D).reduced():
             raise ArithmeticError(f"internal check failed: {F} does not have order dividing {d}")
-    n = len(forms)
-    smith = (
-        smith_normal_form(
-            [[d if i == j else 0 for j in range(n)] for i, d in enumerate(found.invariants)], n
-        )
-        if n
-        else SmithForm([], [], [], [])
-    )
+    smith = diagonal_smith(list(found.invariants))
     raw: list[Triple] = [(F.a, F.b, F.c) for F in forms]
     method = METHOD.format(n=fb.size, bound=bound)
     locate = _Locator(D, fb, found, columns)

@@ -139,6 +139,10 @@ class HRInterval:
     def contains(self, value: float) -> bool:
         return self.lower <= value <= self.upper
 
+    def integers(self) -> tuple[int, int]:
+        """``(⌈lower⌉, ⌊upper⌋)`` with the lower end at least 1: the integers the interval holds."""
+        return max(1, math.ceil(self.lower)), math.floor(self.upper)
+
 
 def _weighted_sums(D: int, X: int) -> float:
     """``(B_K(X) − B_K(X/9)) − (B_Q(X) − B_Q(X/9))`` for ``K = Q(√D)`` (see :func:`hR_interval`).

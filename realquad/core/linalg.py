@@ -132,6 +132,20 @@ class SmithForm:
         return out
 
 
+def diagonal_smith(invariants: list[int]) -> SmithForm:
+    """The Smith form of ``⊕ Z/dᵢ`` already in invariant factors (one generator per factor).
+
+    >>> diagonal_smith([2, 6]).invariants, diagonal_smith([]).invariants
+    ([2, 6], [])
+    """
+    n = len(invariants)
+    if not n:
+        return SmithForm([], [], [], [])
+    return smith_normal_form(
+        [[d if i == j else 0 for j in range(n)] for i, d in enumerate(invariants)], n
+    )
+
+
 def invariants_from_primary(powers: dict[int, list[int]]) -> list[int]:
     """The invariant factors ``d₁ | d₂ | …`` (increasing) of ``⊕ Z/q`` over the prime powers ``q``.
 

@@ -52,14 +52,6 @@ class SieveParameters:
     small: int
     batch: int = 64
 
-    def to_dict(self) -> dict[str, int | float]:
-        return {
-            "half_interval": self.M,
-            "large_prime_bound": self.large_bound,
-            "threshold": self.threshold,
-            "factors_of_a": self.factors,
-        }
-
 
 def sieve_parameters(D: int, bound: int) -> SieveParameters:
     """Parameters for ``D`` and a factor base up to ``bound`` (tuned on this project's benchmarks).
@@ -69,14 +61,8 @@ def sieve_parameters(D: int, bound: int) -> SieveParameters:
     (32768, 5, 1696600)
     """
     digits = math.log10(abs(D))
-    M = (
-        2
-        ** next(
-            e for limit, e in ((14, 12), (20, 13), (26, 14), (50, 15), (75, 16)) if digits < limit
-        )
-        if digits < 75
-        else 2**17
-    )
+    sizes = ((14, 12), (20, 13), (26, 14), (50, 15), (75, 16), (math.inf, 17))
+    M = 2 ** next(e for limit, e in sizes if digits < limit)
     root = math.sqrt(abs(D))
     if D < 0:
         log_a = math.log(root / (2 * M))
@@ -174,8 +160,6 @@ class Collector:
         self._lonely: dict[int, Relation] = {}  # large primes met once, with their relation
         self._paired: set[int] = set()  # large primes met at least twice
         self.used: set[int] = set()
-        self.families = 0
-        self.polynomials = 0
         self.store = store
         if store is not None:
             self.used = store.families()
@@ -246,8 +230,6 @@ class Collector:
     def sieve(self, fam: Family) -> list[Relation]:
         """The relations of one family, kept."""
         rels = family_relations(self.fb, self.params, self.logs, fam)
-        self.families += 1
-        self.polynomials += len(fam.bs)
         self._keep(rels)
         return rels
 
@@ -290,8 +272,6 @@ class Collector:
                     )
                 )
             for batch, rels, _ in executor.map_unordered(batches, sieve_batch):
-                self.families += len(batch.families)
-                self.polynomials += sum(2 ** (len(f) - 1) for f in batch.families)
                 self._keep(rels)
                 if self.store is not None:
                     self.store.add(rels, [math.prod(f) for f in batch.families])
