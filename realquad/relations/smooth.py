@@ -73,13 +73,10 @@ def relation_at(
     n = gmpy2.mpz(abs((a * x + b) * x + c))
     B = -(2 * a * x + b)
     exponents: dict[int, int] = {}
-    tried = (
-        range(fb.size) if hits is None else hits
-    )  # the sieve's hits, or every prime of the factor base
-    in_a = set(fam.a_primes)
-    for j in tried:
+    in_a = set(fam.a_primes)  # they and 2 are divided out below (the sieve leaves them out)
+    for j in range(fb.size) if hits is None else hits:
         p = fb.primes[j]
-        if p in in_a or (hits is None and p == 2):
+        if p == 2 or p in in_a:
             continue
         n, e = gmpy2.remove(n, p)
         if e:
