@@ -69,8 +69,15 @@ LEVELS: dict[str, list[set[str]]] = {
         {"regulator_search"},
         {"principal"},
     ],
-    "realquad.relations": [{"factor_base"}, {"families"}, {"smooth"}, {"store"}, {"collect"}],
-    "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs"}],
+    "realquad.relations": [
+        {"factor_base"},
+        {"families"},
+        {"smooth"},
+        {"store", "regulator"},
+        {"collect"},
+        {"system"},
+    ],
+    "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs", "subexp"}],
     "realquad.classgroup": [
         {"genus", "structure", "theta"},
         {"group"},

@@ -127,9 +127,9 @@ def _form_lines(lines: list[str], payload: dict[str, Any]) -> None:
     default="auto",
     show_default=True,
     help="exact: cycles of reduced forms (unconditional); bsgs: baby-step giant-step in the "
-    "infrastructure (fields, under GRH); auto: by size. For D < 0, exact lists the reduced "
-    "definite forms, bsgs uses the class number formula and subexp index calculus with a sieve "
-    "(fields, under GRH).",
+    "infrastructure (fields, under GRH); subexp: index calculus with a sieve (fields from "
+    "|D| = 10¹⁰ on, under GRH; for D > 0 with the regulator); auto: by size. For D < 0, exact "
+    "lists the reduced definite forms and bsgs uses the class number formula.",
 )
 @click.option(
     "--relations",

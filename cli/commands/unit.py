@@ -15,14 +15,22 @@ from realquad_cli.output import (
     size_options,
     write_atomically,
 )
+from realquad_cli.parallel import parallel_options, parse_parallel
 from realquad_cli.progress import ProgressLine
 
 from realquad.core.orders import Order
 from realquad.errors import InputError
 from realquad.infrastructure.compact import CompactRepresentation
-from realquad.latex import display, lines
+from realquad.latex import display, lines, text
 from realquad.textio import MINUS, plural, signed, to_decimal
-from realquad.units import METHODS, Unit, fundamental_unit, unit_group
+from realquad.units import (
+    METHODS,
+    UNIT_PERIOD_LIMIT,
+    Unit,
+    choose_method,
+    fundamental_unit,
+    unit_group,
+)
 
 
 @click.command("unit", cls=Command)
@@ -39,13 +47,25 @@ from realquad.units import METHODS, Unit, fundamental_unit, unit_group
     type=click.Choice(METHODS),
     default="auto",
     show_default=True,
-    help="cfrac: continued fraction; bsgs: baby-step giant-step in the infrastructure; auto: by size.",
+    help="cfrac: continued fraction; bsgs: baby-step giant-step in the infrastructure "
+    "(unconditional); subexp: index calculus with a sieve (fields from 10¹⁰ on, under GRH); "
+    "auto: by size.",
 )
 @click.option(
     "--compact",
     is_flag=True,
     help="Also print the unit in compact form (a short product of small numbers).",
 )
+@click.option(
+    "--relations",
+    "relations_file",
+    type=str,
+    default=None,
+    metavar="FILE",
+    help="With --method subexp: keep the relations in this file; a run stopped at any moment "
+    "resumes from it.",
+)
+@parallel_options("sieving")
 @json_option
 @size_options
 def command(
@@ -54,13 +74,17 @@ def command(
     digits: int,
     method: str,
     compact: bool,
+    relations_file: str | None,
+    workers: str | None,
+    scheduler: str | None,
     as_json: bool,
     max_digits: int,
     output: str | None,
 ) -> None:
     """Fundamental unit ε = (x + y√d)/c and regulator log ε of Q(√d), or of the order of discriminant D.
 
-    Example: realquad unit 94; realquad unit --disc 52; realquad unit --disc 100000000000000000129
+    Example: realquad unit 94; realquad unit --disc 52; realquad unit --disc 100000000000000000129;
+    realquad unit 10000000000000000000000000000000000000121 --method subexp
     """
     order = order_from_options(d, disc)
     if not order.is_real:
@@ -71,10 +95,24 @@ def command(
         raise InputError(
             "the compact form comes from the infrastructure: use --method bsgs or auto"
         )
-    if compact:
-        method = "bsgs"
+    chosen = choose_method(order, method, UNIT_PERIOD_LIMIT)
+    if compact and chosen == "cfrac":
+        method = chosen = "bsgs"
+    count, scheduler = parse_parallel(workers, scheduler)
+    if (relations_file, count, scheduler) != (None, None, None) and chosen != "subexp":
+        raise InputError(
+            "--relations, --workers and --scheduler belong to the sieve of --method subexp "
+            f"(this order takes the {chosen} method)"
+        )
     with ProgressLine() as progress:
-        eps = fundamental_unit(order, method, progress=progress)
+        eps = fundamental_unit(
+            order,
+            method,
+            progress=progress,
+            workers=count,
+            scheduler=scheduler,
+            relations_file=relations_file,
+        )
         reg = eps.regulator(digits)
     form = eps.compact()
     expanded = form is None or _fits(form, max_digits, output)
@@ -105,7 +143,12 @@ def command(
         f"regulator log ε = {reg}",
         f"method: {eps.method}; proof: {eps.proof}",
     ]
-    if compact and form is not None:
+    if compact and form is not None and form.size > SHOWN_FACTORS:
+        lines.append(
+            f"compact form: ε is a product of {plural(form.size, 'power')} of numbers "
+            "(x + y√D)/z, too many to print; --output FILE writes them"
+        )
+    elif compact and form is not None:
         lines.append(compact_text(form, "ε"))
     if output is not None and expanded:
         exact = eps.expand()
@@ -150,7 +193,9 @@ def _latex(eps: Unit, digits: int, compact: bool, max_digits: int) -> str:
     unit is not expanded."""
     body = eps.to_latex(max_digits, digits)
     form = eps.compact()
-    if form is not None and (compact or not eps.expands_within(max_digits)):
+    if form is not None and form.size > SHOWN_FACTORS:
+        body = lines([body, text(f"compact form: a product of {form.size} powers (see --output)")])
+    elif form is not None and (compact or not eps.expands_within(max_digits)):
         body = lines([body, rf"\varepsilon = {form.to_latex(max_digits)}"])
     return display(body, eps.latex_note())
 
@@ -159,6 +204,9 @@ def signed_unit(norm: int) -> str:
     """``+1`` or ``−1``."""
     return "+1" if norm > 0 else f"{MINUS}1"
 
+
+#: Most factors of a compact form printed with ``--compact`` (index calculus gives thousands).
+SHOWN_FACTORS = 100
 
 #: Largest unit expanded for ``--output`` when ``--max-digits`` is smaller.
 OUTPUT_DIGITS_LIMIT = 20_000_000

@@ -135,7 +135,7 @@ class ClassGroup(Display):
     _table: ClassTable | None = dataclass_field(default=None, repr=False)
     roots_of_unity: int = 2
     #: Coordinates of a form's class without a table (index calculus: a relation through it).
-    _locate: Callable[[Form], list[int]] | None = dataclass_field(default=None, repr=False)
+    _locate: Callable[[Form, bool], list[int]] | None = dataclass_field(default=None, repr=False)
 
     @classmethod
     def definite(
@@ -151,7 +151,7 @@ class ClassGroup(Display):
         roots_of_unity: int,
         table_source: Callable[[], ClassTable] | None = None,
         table: ClassTable | None = None,
-        locate: Callable[[Form], list[int]] | None = None,
+        locate: Callable[[Form, bool], list[int]] | None = None,
     ) -> ClassGroup:
         """The group of an imaginary order: narrow and wide are one group (no unit of norm −1)."""
         return cls(
@@ -227,18 +227,18 @@ class ClassGroup(Display):
     def discriminant(self) -> int:
         return self.order.discriminant
 
-    def _located(self, form: Form | Ideal) -> list[int]:
+    def _located(self, form: Form | Ideal, narrow: bool = False) -> list[int]:
         """Coordinates from the group's locator (index calculus), for a form of this discriminant."""
         assert self._locate is not None
         F = form if isinstance(form, Form) else form.form()
         if F.discriminant != self.discriminant or not F.is_primitive():
             raise DomainError(f"{F} is not a primitive form of discriminant {self.discriminant}")
-        return self._locate(F)
+        return self._locate(F, narrow)
 
     def narrow_class_of(self, form: Form | Ideal) -> list[int]:
         """Coordinates of the class of ``form`` on :attr:`narrow_generators` (mod the invariants)."""
-        if self._locate is not None and self._table is None and self.is_imaginary:
-            return self._located(form)
+        if self._locate is not None and self._table is None:
+            return self._located(form, narrow=True)
         return self._narrow_smith.coordinates(
             list(self.table.vectors[self.table.class_index(form)])
         )
@@ -250,8 +250,8 @@ class ClassGroup(Display):
         return self._wide_smith.coordinates(list(self.table.vectors[self.table.class_index(form)]))
 
     def is_narrowly_principal(self, form: Form | Ideal) -> bool:
-        if self._locate is not None and self._table is None and self.is_imaginary:
-            return not any(self._located(form))
+        if self._locate is not None and self._table is None:
+            return not any(self._located(form, narrow=True))
         return self.table.class_index(form) == 0
 
     def is_principal(self, form: Form | Ideal) -> bool:

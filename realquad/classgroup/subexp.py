@@ -1,19 +1,21 @@
-"""Class groups of imaginary quadratic fields by index calculus (sub-exponential), under GRH.
+"""Class groups of quadratic fields by index calculus (sub-exponential), under GRH.
 
-The classes of the prime ideals of norm up to ``4 log² |D|`` generate the
-class group under GRH (:func:`realquad.core.lfunction.generating_bound`);
-they are the factor base. Relations among them come from smooth values of
-forms found by a self-initialising sieve (:mod:`realquad.relations`); the
-group is ``Z^n`` modulo the lattice of relations
-(:func:`realquad.core.lattice.lattice_quotient`: structured Gaussian
-elimination, then Hermite and Smith normal forms). Its order is a multiple
-of ``h`` as soon as the relations have full rank; relations are added until
-it falls in the GRH-explicit interval for ``h = w√|D|·L(1, χ)/(2π)``
-(:func:`realquad.core.lfunction.class_number_interval`, whose upper end is
-below twice its lower end), where the only multiple of ``h`` is ``h`` itself.
-Then the quotient is the class group, its invariants are those of
-``Cl(D)``, and each generator (a product of prime forms) is checked to have
-the order of its invariant by composition.
+The relations and their certification are
+:func:`realquad.relations.system.index_calculus`: the classes of the prime
+ideals of norm up to ``4 log² |D|`` generate the class group under GRH;
+relations among them come from smooth values of forms found by a
+self-initialising sieve; the group is ``Z^n`` modulo the lattice of
+relations (:func:`realquad.core.lattice.lattice_quotient`: structured
+Gaussian elimination, then Hermite and Smith normal forms), certified by the
+GRH-explicit interval for ``h`` (``D < 0``) or, with the regulator from the
+units of the relation kernel, for ``h·R`` (``D > 0``). This module turns the
+quotient into a :class:`~realquad.classgroup.group.ClassGroup`: each
+generator is a product of prime forms (for ``D < 0`` checked by composition
+to have the order of its invariant, and a sample of relations checked to be
+principal); for ``D > 0`` the narrow group has one more column, the class of
+the principal ideals with a generator of negative norm (the form
+``(−1, b₀, −c₀)``), and the unit comes in :attr:`ClassGroup.unit`. The class
+of any form is found by a smooth form in its coset (:class:`_Locator`).
 
 Running time ``L(|D|)^{c}`` with ``L(x) = exp(√(log x·log log x))``
 (J. Buchmann, "A subexponential algorithm for the determination of class
@@ -28,33 +30,27 @@ subexponential algorithm for computation of class groups", *J. AMS* 2
 >>> E = class_group_imaginary(Order(-(10**12 + 11)))
 >>> G.class_number == E.class_number, G.invariants == E.invariants, G.proof
 (True, True, 'GRH')
+>>> H = class_group_subexp(Order(4 * (10**10 + 19)))      # Q(√(10¹⁰ + 19)): h = 1, h⁺ = 2
+>>> H.class_number, H.narrow_invariants, H.unit_norm, str(H.regulator)[:12]
+(1, [2], 1, '147160.38610')
 """
 
 from __future__ import annotations
 
-import contextlib
-import functools
 import math
-import os
 import random
-from collections import Counter
 
 import gmpy2
 
 from realquad.classgroup.group import ClassGroup, Triple, forms_from_vectors
-from realquad.core.executors import InProcessExecutor, make_executor
 from realquad.core.forms import Form, prime_form_coefficients
-from realquad.core.lattice import LatticeQuotient, lattice_quotient
-from realquad.core.lfunction import class_number_interval, generating_bound
 from realquad.core.linalg import diagonal_smith
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import DomainError, TooLargeError
-from realquad.relations.collect import Collector, sieve_parameters
-from realquad.relations.factor_base import FactorBase, factor_base
+from realquad.errors import TooLargeError
 from realquad.relations.smooth import Relation, sign_of
-from realquad.relations.store import RelationStore
-from realquad.units import unit_group
+from realquad.relations.system import IndexCalculus, index_calculus
+from realquad.units.subexp import unit_from_relations
 
 METHOD = (
     "index calculus: relations among the {n} prime ideals of norm ≤ {bound} from a "
@@ -62,52 +58,11 @@ METHOD = (
     "analytic class number formula"
 )
 
-#: Fields from this ``|D|`` on (smaller ones are the exact method's; the sieve needs room).
-MIN_DISCRIMINANT = 10**10
-
-#: ``|D|`` from which the sieving runs on every core by default (below, starting processes costs more).
-PARALLEL_FROM = 10**50
-
-
-def _interval(D: int, w: int) -> tuple[int, int]:
-    lo, hi = class_number_interval(D, w, 10**5 if -D < 10**30 else 10**6).integers()
-    if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
-        raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
-    return lo, hi
-
-
-def _rows(
-    fb: FactorBase, relations: list[Relation], need: int
-) -> tuple[list[dict[int, int]], list[int]]:
-    """Sparse rows on the columns: the factor base, then the large primes met at least twice.
-
-    When the relations without a large prime meet every prime of the factor
-    base and number at least ``need`` and half the factor base again, only
-    they go to the linear algebra: every one that meets a prime no earlier one
-    met, then others up to that number (fewer rows, faster elimination).
-    """
-    rows = [{j: 2} for j, r in enumerate(fb.ramified) if r]
-    full = [rel for rel in relations if rel.large == 1]
-    limit = max(need, fb.size + fb.size // 2) + 50
-    if len(full) >= limit:
-        met: set[int] = set()
-        chosen = []
-        for rel in full:
-            if not met.issuperset(rel.exponents):
-                met.update(rel.exponents)
-                chosen.append(rel)
-        if len(met) == fb.size:
-            kept = {id(rel) for rel in chosen}
-            chosen += [rel for rel in full if id(rel) not in kept][: max(0, limit - len(chosen))]
-            rows += [{fb.index[p]: e for p, e in rel.exponents.items()} for rel in chosen]
-            return rows, list(fb.primes)
-    large = Counter(r.large for r in relations if r.large != 1)
-    columns = list(fb.primes) + sorted(q for q, k in large.items() if k >= 2)
-    index = {p: j for j, p in enumerate(columns)}
-    for rel in relations:
-        if rel.large == 1 or large[rel.large] >= 2:
-            rows.append({index[p]: e for p, e in rel.exponents.items()})
-    return rows, columns
+METHOD_REAL = (
+    "index calculus: relations among the {n} prime ideals of norm ≤ {bound} from a "
+    "self-initialising sieve, Smith normal form of the relation lattice, the regulator from the "
+    "units of its kernel, h·R certified by the analytic class number formula"
+)
 
 
 def _prime_form(D: int, p: int) -> Form:
@@ -116,10 +71,16 @@ def _prime_form(D: int, p: int) -> Form:
     return Form._raw(*found)
 
 
-def _form_of(D: int, columns: list[int], vector: dict[int, int], modulus: int) -> Form:
-    """The reduced form ``∏ P_{columns[j]}^{vector[j]}`` (exponents taken modulo ``modulus``)."""
+def _form_of(
+    D: int, columns: list[int], vector: dict[int, int], modulus: int, extra: Form | None = None
+) -> Form:
+    """The reduced form ``∏ P_{columns[j]}^{vector[j]}`` (exponents taken modulo ``modulus``).
+
+    Column ``len(columns)`` (the narrow group's sign column) is the form ``extra``.
+    """
     support = sorted(vector)
-    primes = [(F.a, F.b, F.c) for F in (_prime_form(D, columns[j]) for j in support)]
+    forms = [extra if j == len(columns) else _prime_form(D, columns[j]) for j in support]
+    primes = [(F.a, F.b, F.c) for F in forms if F is not None]
     return forms_from_vectors(D, primes, [[vector[j] for j in support]], modulus)[0].reduced()
 
 
@@ -139,31 +100,32 @@ def check_relation(D: int, relation: Relation) -> bool:
     return F.reduced() == Form.identity(D).reduced()
 
 
-def _missing(fb: FactorBase, collector: Collector, need: int) -> int:
-    """Rows still wanted: ``need`` beyond the large-prime columns, and one per prime not yet met."""
-    rows, columns = _rows(fb, collector.relations, need)
-    return max(need + len(columns) - fb.size - len(rows), len(collector.uncovered()))
-
-
 class _Locator:
     """The coordinates of a class on the generators: a smooth reduced form in the class's coset.
 
     ``F·∏ P_j^{e_j}`` for random small exponents on a few factor-base primes
-    is reduced to ``(a, b, c)``; when ``a`` factors over the factor base,
-    ``(a, b, ·) = ∏ P_p^{±e_p}`` (signs from ``b`` modulo ``p``, as in
-    :mod:`realquad.relations.smooth`), which writes ``[F]`` on the columns,
-    and the quotient's coordinate map does the rest. The expected number of
-    tries is the inverse of the chance that a number of size ``√|D|`` is
-    smooth over the factor base: hundreds at 40 digits, about 10⁵ at 60.
+    is reduced to ``(a, b, c)``; when ``|a|`` factors over the factor base,
+    the ideal ``[|a|, (−b + √D)/2] = ∏ P_p^{±e_p}`` (signs from ``b`` modulo
+    ``p``, as in :mod:`realquad.relations.smooth`) writes ``[F]`` on the
+    columns, and the quotient's coordinate map does the rest. For ``D > 0``
+    the narrow class also counts the sign of ``a``: a form with ``a < 0``
+    is, in ``Cl⁺``, its ideal's class times that of the principal ideals with
+    a generator of negative norm (the narrow quotient's last column). The
+    expected number of tries is the inverse of the chance that a number of
+    size ``√|D|`` is smooth over the factor base: hundreds at 40 digits, about
+    10⁵ at 60.
     """
 
-    def __init__(self, D: int, fb: FactorBase, found: LatticeQuotient, columns: list[int]) -> None:
-        self.D, self.fb, self.found = D, fb, found
-        self.index = {p: j for j, p in enumerate(columns)}
+    def __init__(self, found: IndexCalculus) -> None:
+        self.found = found
+        self.fb = fb = found.factor_base
+        self.D = fb.discriminant
+        self.index = {p: j for j, p in enumerate(found.matrix.columns)}
         self.product = gmpy2.mpz(math.prod(fb.primes))
         self.small = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if not r][:30]
 
     def _smooth_exponents(self, a: int, b: int) -> dict[int, int] | None:
+        a = abs(a)
         g = gmpy2.gcd(self.product % a, a)
         rest = gmpy2.mpz(a)
         while g > 1:
@@ -178,7 +140,7 @@ class _Locator:
                 out[p] = out.get(p, 0) + sign_of(b, p, bp, self.D) * int(e)
         return out
 
-    def __call__(self, F: Form, tries: int = 3_000_000) -> list[int]:
+    def __call__(self, F: Form, narrow: bool = False, tries: int = 3_000_000) -> list[int]:
         rng = random.Random(F.a ^ F.b)
         G, shift = F.reduced(), dict[int, int]()
         for _ in range(tries):
@@ -186,40 +148,20 @@ class _Locator:
             if found is not None:
                 for p, e in shift.items():
                     found[p] = found.get(p, 0) - e
-                return self.found.coordinates({self.index[p]: e for p, e in found.items() if e})
+                vector = {self.index[p]: e for p, e in found.items() if e}
+                if not narrow or self.found.narrow is None:
+                    return self.found.quotient.coordinates(vector)
+                if G.a < 0:
+                    vector[len(self.index)] = 1
+                if self.found.narrow is self.found.quotient:
+                    vector.pop(len(self.index), None)
+                return self.found.narrow.coordinates(vector)
             shift = {p: rng.randrange(1, 4) for p in rng.sample(self.small, 3)}
             G = F
             for p, e in shift.items():
                 G = G.compose(_prime_form(self.D, p).power(e))
             G = G.reduced()
         raise TooLargeError(f"no smooth form found in the class of {F} after {tries:,} tries")
-
-
-def _quotient(
-    fb: FactorBase,
-    collector: Collector,
-    lo: int,
-    hi: int,
-    executor: InProcessExecutor,
-    workers: int,
-    progress: Progress | None,
-) -> tuple[LatticeQuotient, list[int]]:
-    """The quotient by the relations once its order is in ``[lo, hi]`` (then it is ``h``)."""
-    need = fb.size + max(20, fb.size // 20)
-    while True:
-        collector.collect(
-            functools.partial(_missing, fb, collector, need), executor, workers, progress
-        )
-        rows, columns = _rows(fb, collector.relations, need)
-        found = lattice_quotient(rows, len(columns))
-        if found is not None and found.order <= hi:
-            if found.order < lo:
-                raise ArithmeticError(
-                    f"internal check failed: the relations give {found.order} classes, below the "
-                    f"class number interval [{lo}, {hi}] (GRH?)"
-                )
-            return found, columns
-        need = max(need, len(rows) - (len(columns) - fb.size)) + max(10, fb.size // 20)
 
 
 def class_group_subexp(
@@ -230,50 +172,70 @@ def class_group_subexp(
     scheduler: str | None = None,
     relations_file: str | None = None,
 ) -> ClassGroup:
-    """The class group of an imaginary quadratic field by index calculus, under GRH (module notes).
+    """The class group of a quadratic field by index calculus, under GRH (module notes).
 
-    The sieving runs in ``workers`` local processes (default: one below
-    ``|D| = 10⁵⁰``, every core beyond) or on the Dask cluster at ``scheduler``;
-    with ``relations_file`` every relation is saved as it comes, and a run
-    stopped at any moment resumes from the file.
+    ``workers``, ``scheduler`` and ``relations_file`` are those of
+    :func:`~realquad.relations.system.index_calculus` (local processes, a
+    Dask cluster, a resumable relation file).
     """
+    found = index_calculus(order, progress, seed, workers, scheduler, relations_file)
     D = order.discriminant
-    if D > 0 or order.conductor != 1:
-        raise DomainError(
-            f"the sub-exponential method for D < 0 takes fields (fundamental discriminants), not D = {D}"
-        )
-    if -D < MIN_DISCRIMINANT:
-        raise DomainError(
-            f"the sub-exponential method starts at |D| = 10¹⁰; D = {D} is the exact method's"
-        )
-    w = unit_group(order).roots_of_unity
-    bound = generating_bound(D)
-    fb = factor_base(D, bound)
-    params = sieve_parameters(D, bound)
-    lo, hi = _interval(D, w)
-    if workers is None and scheduler is None:
-        workers = 1 if -D < PARALLEL_FROM else (os.cpu_count() or 1)
-    with contextlib.ExitStack() as stack:
-        store = (
-            stack.enter_context(RelationStore(relations_file, D, bound)) if relations_file else None
-        )
-        executor = stack.enter_context(make_executor(workers, scheduler))
-        collector = Collector(fb, params, seed, store)
-        found, columns = _quotient(fb, collector, lo, hi, executor, workers or 4, progress)
-    relations = collector.relations
-    for rel in random.Random(seed).sample(relations, min(10, len(relations))):
-        if not check_relation(D, rel):
-            raise ArithmeticError(f"internal check failed: a relation of {D} does not hold: {rel}")
-    h = found.order
-    exponent = found.invariants[-1] if found.invariants else 1  # every class's order divides it
-    forms = [_form_of(D, columns, g, exponent) for g in found.generators]
-    for F, d in zip(forms, found.invariants, strict=True):
-        if not F.power(d).reduced() == Form.identity(D).reduced():
-            raise ArithmeticError(f"internal check failed: {F} does not have order dividing {d}")
-    smith = diagonal_smith(list(found.invariants))
+    if D < 0:
+        for rel in random.Random(seed).sample(found.relations, min(10, len(found.relations))):
+            if not check_relation(D, rel):
+                raise ArithmeticError(
+                    f"internal check failed: a relation of {D} does not hold: {rel}"
+                )
+    wide = found.quotient
+    columns = found.matrix.columns
+    exponent = wide.invariants[-1] if wide.invariants else 1  # every class's order divides it
+    forms = [_form_of(D, columns, g, exponent) for g in wide.generators]
+    if D < 0:
+        for F, d in zip(forms, wide.invariants, strict=True):
+            if not F.power(d).reduced() == Form.identity(D).reduced():
+                raise ArithmeticError(
+                    f"internal check failed: {F} does not have order dividing {d}"
+                )
     raw: list[Triple] = [(F.a, F.b, F.c) for F in forms]
-    method = METHOD.format(n=fb.size, bound=bound)
-    locate = _Locator(D, fb, found, columns)
-    return ClassGroup.definite(
-        order, h, list(found.invariants), forms, smith, raw, method, "GRH", w, locate=locate
+    locate = _Locator(found)
+    if D < 0:
+        method = METHOD.format(n=found.factor_base.size, bound=found.factor_base.bound)
+        smith = diagonal_smith(list(wide.invariants))
+        return ClassGroup.definite(
+            order,
+            wide.order,
+            list(wide.invariants),
+            forms,
+            smith,
+            raw,
+            method,
+            "GRH",
+            2,
+            locate=locate,
+        )
+    unit = unit_from_relations(found)
+    narrow = found.narrow
+    assert narrow is not None
+    if narrow is wide:
+        narrow_forms = list(forms)
+    else:
+        negative = Form.identity(D)
+        negative = Form._raw(-negative.a, negative.b, -negative.c)
+        narrow_forms = [_form_of(D, columns, g, 2 * exponent, negative) for g in narrow.generators]
+    return ClassGroup(
+        order=order,
+        class_number=wide.order,
+        narrow_class_number=narrow.order,
+        invariants=list(wide.invariants),
+        narrow_invariants=list(narrow.invariants),
+        generators=forms,
+        narrow_generators=narrow_forms,
+        unit_norm=unit.norm,
+        method=METHOD_REAL.format(n=found.factor_base.size, bound=found.factor_base.bound),
+        proof="GRH",
+        unit=unit,
+        _raw_generators=raw,
+        _narrow_smith=diagonal_smith(list(narrow.invariants)),
+        _wide_smith=diagonal_smith(list(wide.invariants)),
+        _locate=locate,
     )

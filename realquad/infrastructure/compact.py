@@ -75,6 +75,31 @@ class CompactRepresentation:
         out._check_norm()
         return out
 
+    @classmethod
+    def from_power_product(
+        cls, D: int, terms: list[tuple[QuadraticNumber, int]]
+    ) -> CompactRepresentation:
+        """The positive number ``|∏ α^e|``, one chain per term (exponents of any size and sign).
+
+        A negative exponent is stored as the inverse raised to ``−e``, so every
+        power is positive (as the compact files promise). The caller vouches for the norm (a unit from a vanishing combination of
+        relations has ``|N| = 1`` by construction); checking it here would
+        factor every norm against every other.
+
+        >>> from realquad.core.numbers import QuadraticNumber
+        >>> phi = QuadraticNumber(1, 1, 2, 5)
+        >>> eps = CompactRepresentation.from_power_product(5, [(phi**3, 2), (phi, -5)])
+        >>> eps.expand(), eps.norm, eps.size
+        ((1, 1), -1, 2)
+        """
+        chains = tuple(
+            Chain(((alpha, 1),), e) if e > 0 else Chain(((alpha.inverse(), 1),), -e)
+            for alpha, e in terms
+            if e
+        )
+        raw = cls(D, chains, 1, 1)
+        return cls(D, chains, raw._raw_sign(), 1)
+
     def to_dict(self) -> JSONObject:
         """The JSON shape of a compact representation (``docs/json.md``, *CompactRepresentation*).
 

@@ -1,0 +1,74 @@
+"""``realquad unit --method subexp`` and ``classgroup --method subexp`` on real fields.
+
+References: the continued fraction's unit and regulator (unconditional) and
+the cycle method's class groups; the compact file checked with the evaluator
+printed in docs/pell.md.
+"""
+
+from __future__ import annotations
+
+from realquad.classgroup import class_group
+from realquad.units import fundamental_unit, regulator
+from realquad.units import subexp as units_subexp
+from tests.cli.support import run, run_json
+from tests.equations.test_pell import _evaluator_from_the_docs
+
+#: Q(√(10¹⁰ + 19)): h = 1, h⁺ = 2, R = 147160.386… (the cycle method and the continued fraction)
+D = 4 * (10**10 + 19)
+
+
+def test_unit_and_group_agree_with_the_unconditional_methods(capsys) -> None:  # type: ignore[no-untyped-def]
+    data = run_json(
+        capsys, "unit", "--disc", str(D), "--method", "subexp", "--digits", "40", "--max-digits", "0"
+    )
+    reference = fundamental_unit(D, method="cfrac")
+    assert data["regulator"]["value"] == str(regulator(D, 40, method="cfrac"))
+    assert data["norm"] == reference.norm and data["proof"] == "GRH"
+    assert data["number"]["x"] == reference.x
+    group = run_json(capsys, "classgroup", "--disc", str(D), "--method", "subexp")
+    exact = class_group(D, method="exact")
+    assert (group["class_number"], group["narrow_class_number"]) == (1, 2)
+    assert group["narrow_invariants"] == exact.narrow_invariants
+    assert group["proof"] == "GRH" and group["method"].startswith("index calculus")
+
+
+def test_a_power_product_is_summarised_and_written(capsys, tmp_path, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    # a unit kept as a product of relation generators: one line on screen, every factor in the file
+    # (a field whose unit, about 10⁹ digits, is written in compact form even with --output)
+    monkeypatch.setattr(units_subexp, "INFRASTRUCTURE_LIMIT", 0)
+    path = tmp_path / "unit.txt"
+    large = 1000000000000000009  # prime ≡ 1 (mod 4)
+    code, out, err = run(
+        capsys,
+        "unit",
+        "--disc",
+        str(large),
+        "--method",
+        "subexp",
+        "--compact",
+        "--max-digits",
+        "10",
+        "--output",
+        str(path),
+    )
+    assert code == 0, err
+    assert "too many to print" in out and len(out.splitlines()) < 12
+    text = path.read_text()
+    m = 998244353
+    x, y = _evaluator_from_the_docs()(text, m)
+    n = int(next(line.split()[1] for line in text.splitlines() if line.startswith("n ")))
+    assert (x * x - large * y * y - n) % m == 0 and n in (4, -4)
+
+
+def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
+    cases = [
+        (["unit", "61", "--workers", "2"], "--method subexp"),
+        (["unit", "61", "--method", "subexp"], "10¹⁰"),
+        (["unit", "--disc", str(9 * D), "--method", "subexp"], "fields"),
+        (["unit", "--disc", str(D), "--method", "subexp", "--workers", "0"], "--workers"),
+    ]
+    for args, needle in cases:
+        code, out, err = run(capsys, *args)
+        assert code == 2 and out == "", args
+        assert err.startswith("realquad: error:") and needle in err, (args, err)
+        assert len(err.strip().splitlines()) == 1
