@@ -62,6 +62,7 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
 from realquad.errors import InputError
+from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
 CLASS_GROUP_METHODS = ("auto", "exact", "bsgs", "subexp")
@@ -101,7 +102,7 @@ def choose_class_group_method(
         return "bsgs" if -D < AUTO_SUBEXP_IMAGINARY else "subexp"
     if method != "auto":
         return method
-    if D >= AUTO_SUBEXP_REAL and order.conductor == 1:
+    if AUTO_SUBEXP_REAL <= D <= MAX_SUBEXP and order.conductor == 1:
         return "subexp"
     limit = exact.DEFAULT_MAX_FORMS if max_forms is None else max_forms
     within_reach = D <= 4 * limit * limit

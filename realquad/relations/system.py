@@ -49,7 +49,7 @@ from realquad.core.lfunction import class_number_interval, generating_bound, hR_
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import DomainError
+from realquad.errors import DomainError, TooLargeError
 from realquad.relations.collect import Collector, sieve_parameters
 from realquad.relations.factor_base import FactorBase, factor_base
 from realquad.relations.regulator import (
@@ -63,6 +63,10 @@ from realquad.relations.store import RelationStore
 
 #: Fields from this ``|D|`` on (smaller ones are the exact method's; the sieve needs room).
 MIN_DISCRIMINANT = 10**10
+
+#: Largest ``|D|`` the method is started for (100 digits: the published frontier; 80 digits take
+#: hours on two cores, docs/performance.md).
+MAX_DISCRIMINANT = 10**100
 
 #: ``|D|`` from which the sieving runs on every core by default (below, starting processes costs more).
 PARALLEL_FROM = 10**50
@@ -89,7 +93,12 @@ def relation_matrix(fb: FactorBase, relations: list[Relation], need: int) -> Rel
     base and number at least ``need`` and half the factor base again, only
     they go to the linear algebra: every one that meets a prime no earlier one
     met, then others up to that number (fewer rows, faster elimination).
+    A relation whose exponents repeat an earlier one's, or their negatives,
+    is left out: it adds nothing to the lattice, and for ``D > 0`` the unit
+    of the pair is often ``±1`` (small fields meet the same generator from
+    many polynomials), which would crowd out the kernel's other vectors.
     """
+    relations = _distinct(relations)
     ramified = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if r]
     rows = [{fb.index[p]: 2} for p in ramified]
     sources: list[Source] = list(ramified)
@@ -115,6 +124,19 @@ def relation_matrix(fb: FactorBase, relations: list[Relation], need: int) -> Rel
             rows.append({index[p]: e for p, e in rel.exponents.items()})
             sources.append(rel)
     return RelationMatrix(rows, columns, sources)
+
+
+def _distinct(relations: list[Relation]) -> list[Relation]:
+    seen: set[tuple[tuple[int, int], ...]] = set()
+    out = []
+    for rel in relations:
+        key = tuple(rel.exponents.items())
+        if key[0][1] < 0:
+            key = tuple((p, -e) for p, e in key)
+        if key not in seen:
+            seen.add(key)
+            out.append(rel)
+    return out
 
 
 def _missing(fb: FactorBase, collector: Collector, need: int) -> int:
@@ -172,10 +194,24 @@ class _Generators:
         return (a * x + b) * x + (b * b - D) // (4 * a) < 0
 
 
-def _check_order(D: int) -> None:
+def check_reach(D: int) -> None:
+    """Refuse, before starting, a discriminant below or beyond the method's range.
+
+    >>> check_reach(10**40 + 121)
+    >>> try:
+    ...     check_reach(10**101 + 1)
+    ... except TooLargeError as exc:
+    ...     print(str(exc)[:50])
+    D has 102 digits: beyond reach of the sub-exponent
+    """
     if abs(D) < MIN_DISCRIMINANT:
         raise DomainError(
             f"the sub-exponential method starts at |D| = 10¹⁰; D = {D} is the exact method's"
+        )
+    if abs(D) > MAX_DISCRIMINANT:
+        raise TooLargeError(
+            f"D has {len(str(abs(D)))} digits: beyond reach of the sub-exponential method "
+            "(at most 100 digits; 80 take hours)"
         )
 
 
@@ -195,11 +231,11 @@ def index_calculus(
     comes, and a run stopped at any moment resumes from the file.
     """
     D = order.discriminant
+    check_reach(D)
     if order.conductor != 1:
         raise DomainError(
             f"the sub-exponential method takes fields (fundamental discriminants), not D = {D}"
         )
-    _check_order(D)
     bound = generating_bound(D)
     fb = factor_base(D, bound)
     params = sieve_parameters(D, bound)
@@ -271,8 +307,9 @@ def _real(
             functools.partial(_missing, fb, collector, need), executor, workers, progress
         )
         matrix = relation_matrix(fb, collector.relations, need)
+        count = min(4, attempt) * KERNEL_VECTORS  # more vectors when the first were not enough
         found, kernel = lattice_quotient_and_kernel(
-            matrix.rows, len(matrix.columns), KERNEL_VECTORS, attempt
+            matrix.rows, len(matrix.columns), count, attempt
         )
         unit = None
         if found is not None and kernel:

@@ -52,6 +52,7 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
 from realquad.errors import InputError
+from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
 from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
@@ -98,7 +99,7 @@ def choose_method(order: Order, method: str = "auto", limit: int | None = None) 
     if check_method(method, METHODS) != "auto":
         return method
     D = order.discriminant
-    if D >= AUTO_SUBEXP and order.conductor == 1:
+    if AUTO_SUBEXP <= D <= MAX_SUBEXP and order.conductor == 1:
         return "subexp"
     if limit is None:
         limit = _regulator_limit(D)

@@ -19,7 +19,16 @@ D = 4 * (10**10 + 19)
 
 def test_unit_and_group_agree_with_the_unconditional_methods(capsys) -> None:  # type: ignore[no-untyped-def]
     data = run_json(
-        capsys, "unit", "--disc", str(D), "--method", "subexp", "--digits", "40", "--max-digits", "0"
+        capsys,
+        "unit",
+        "--disc",
+        str(D),
+        "--method",
+        "subexp",
+        "--digits",
+        "40",
+        "--max-digits",
+        "0",
     )
     reference = fundamental_unit(D, method="cfrac")
     assert data["regulator"]["value"] == str(regulator(D, 40, method="cfrac"))
