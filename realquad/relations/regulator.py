@@ -194,7 +194,7 @@ def unit_from_kernel(
         bound = mpmath.mpf(error) / scale
     norm = -1 if sum(e for i, e in exponents.items() if negative[i]) % 2 else 1
     for c in kernel:
-        m = int(mpmath.nint(_value(generators, c, unit_bits) / mpmath.mpf(value)))
+        m = int(gmpy2.f_div(2 * _value(generators, c, unit_bits) + value, 2 * value))  # exact
         n = -1 if sum(e for i, e in c.items() if negative[i]) % 2 else 1
         if n != norm**m:
             raise ArithmeticError(

@@ -223,6 +223,11 @@ def decompose_prime(
     principal = group.is_narrowly_principal(F)
     if principal and D < 0:  # G is the principal form: it represents p at M⁻¹(1, 0)
         x, y = M[3], -M[2]
+    elif principal and not group.lists_classes:  # index calculus: one test gives the generator
+        x, y, compact = _principal_representation(group, F)
+        return PrimeDecomposition(
+            p, kind, False, field_kind, ideals, classes, wide, principal, G, x, y, compact
+        )
     elif principal:
         cycle = _cycle if _cycle is not None else _PrincipalCycle(D)
         N = matrix_multiply(cycle.matrix(G), matrix_inverse(M))  # (1, b₀, c₀)·N = F
@@ -234,14 +239,14 @@ def decompose_prime(
 
 def group_for_primes(order: Order) -> ClassGroup:
     """The class group the classes of prime ideals refer to: exact within the cycle method's reach,
-    else (fields only, under GRH) baby-step giant-step for D > 0, whose classes are located by
-    principal ideal tests, and index calculus for D < 0, whose classes are located by relations."""
+    else (fields only, under GRH) index calculus, whose classes are located by relations (a
+    principal prime ideal of a real field gets its generator from one principal ideal test)."""
     try:
         return class_group(order, method="exact")
     except TooLargeError:
         if order.conductor != 1:
             raise
-        return class_group(order, method="bsgs" if order.discriminant > 0 else "subexp")
+        return class_group(order, method="subexp")
 
 
 def _by_tests(

@@ -136,7 +136,7 @@ def test_split_command_beyond_the_exact_method(capsys: pytest.CaptureFixture[str
 
     data = run_json(capsys, "split", "--disc", "10000000000000061", "--primes-up-to", "12")
     _validate("split", data)
-    assert data["proof"] == "GRH" and "principal ideal tests" in data["method"]
+    assert data["proof"] == "GRH" and "by relations through them" in data["method"]
     for prime in data["primes"]:
         if prime["represented_by_principal"] and prime["compact"] is not None:
             assert prime["x"] is None and prime["compact"]["norm"] == prime["p"]
