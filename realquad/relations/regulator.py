@@ -196,7 +196,7 @@ def unit_from_kernel(
     for c in kernel:
         m = int(gmpy2.f_div(2 * _value(generators, c, unit_bits) + value, 2 * value))  # exact
         n = -1 if sum(e for i, e in c.items() if negative[i]) % 2 else 1
-        if n != norm**m:
+        if n != (norm if m % 2 else 1):  # N(ε*)^m, read from the parity (m may be huge, < 0)
             raise ArithmeticError(
                 "internal check failed: a unit from the relations has a norm that is not a "
                 "power of the fundamental unit's"
