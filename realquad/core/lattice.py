@@ -185,11 +185,13 @@ def lattice_quotient_and_kernel(
     seed: int = 1,
     progress: Progress | None = None,
     quotient: bool = True,
+    kernel_if_finite: bool = False,
 ) -> tuple[LatticeQuotient | None, list[dict[int, int]]]:
     """:func:`lattice_quotient` and :func:`lattice_kernel` from one elimination.
 
     The dense core's basis (rows independent modulo a prime) serves both; with
-    ``quotient=False`` the first answer is ``None`` and only the kernel is computed.
+    ``quotient=False`` the first answer is ``None`` and only the kernel is computed;
+    with ``kernel_if_finite`` the kernel is ``[]`` when the quotient is infinite.
 
     >>> Q, kernel = lattice_quotient_and_kernel([{0: 2}, {0: 4}, {0: 1, 1: 1}], 2)
     >>> Q.invariants, kernel
@@ -204,6 +206,8 @@ def lattice_quotient_and_kernel(
     full = len(clean) >= n and len({j for r in clean for j in r}) == n
     core = _Core.of(elimination)
     found = _quotient(elimination, n, core) if quotient and full else None
+    if kernel_if_finite and found is None:
+        return None, []
     vectors = [_canonical(c) for c in sorted(trivial, key=_weight)[:count]]
     want = count - len(vectors)
     small = _smallest(elimination.steps, elimination.zero, want)

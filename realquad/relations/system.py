@@ -309,7 +309,7 @@ def _real(
         matrix = relation_matrix(fb, collector.relations, need)
         count = min(4, attempt) * KERNEL_VECTORS  # more vectors when the first were not enough
         found, kernel = lattice_quotient_and_kernel(
-            matrix.rows, len(matrix.columns), count, attempt
+            matrix.rows, len(matrix.columns), count, attempt, kernel_if_finite=True
         )
         unit = None
         if found is not None and kernel:
@@ -340,7 +340,7 @@ def _real(
                     negative,
                 )
         need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.size)) + max(
-            10, fb.size // 20
+            10, fb.size // 10
         )
 
 
