@@ -192,3 +192,17 @@ def test_dispatch_and_refusals():
         fundamental_unit(-(10**12 + 11), method="subexp")
     assert MIN_DISCRIMINANT == 10**10
     assert field(10**10 + 19).discriminant == 4 * (10**10 + 19)
+
+
+def test_repeated_generators_do_not_crowd_out_the_units():
+    # D = 13800466732: the sieve meets the same generators from many polynomials; before repeated
+    # relations were left out, every kernel vector gave the unit ±1 and the search never ended
+    order = Order.of(13800466732)
+    S = class_group_subexp(order, seed=708)
+    E = class_group(order.discriminant, method="exact")
+    assert (S.invariants, S.narrow_invariants, S.unit_norm) == (
+        E.invariants,
+        E.narrow_invariants,
+        E.unit_norm,
+    )
+    assert str(S.regulator)[:20] == str(regulator(order.discriminant, 30, method="cfrac"))[:20]
