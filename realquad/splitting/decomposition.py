@@ -224,9 +224,9 @@ def decompose_prime(
     if principal and D < 0:  # G is the principal form: it represents p at M⁻¹(1, 0)
         x, y = M[3], -M[2]
     elif principal and not group.lists_classes:  # index calculus: one test gives the generator
-        x, y, compact = _principal_representation(group, F)
+        gx, gy, compact = _principal_representation(group, F)
         return PrimeDecomposition(
-            p, kind, False, field_kind, ideals, classes, wide, principal, G, x, y, compact
+            p, kind, False, field_kind, ideals, classes, wide, principal, G, gx, gy, compact
         )
     elif principal:
         cycle = _cycle if _cycle is not None else _PrincipalCycle(D)
