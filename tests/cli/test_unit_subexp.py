@@ -7,11 +7,17 @@ printed in docs/pell.md.
 
 from __future__ import annotations
 
+import sqlite3
+
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
 from realquad.classgroup import class_group
 from realquad.units import fundamental_unit, regulator
 from realquad.units import subexp as units_subexp
-from tests.cli.support import run, run_json
+from tests.cli.support import interrupted, run, run_json
 from tests.equations.test_pell import _evaluator_from_the_docs
+from tests.markers import HEAVY
 
 #: Q(√(10¹⁰ + 19)): h = 1, h⁺ = 2, R = 147160.386… (the cycle method and the continued fraction)
 D = 4 * (10**10 + 19)
@@ -81,3 +87,51 @@ def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
         assert code == 2 and out == "", args
         assert err.startswith("realquad: error:") and needle in err, (args, err)
         assert len(err.strip().splitlines()) == 1
+
+
+@HEAVY
+@settings(suppress_health_check=[HealthCheck.function_scoped_fixture], max_examples=20)
+@given(
+    st.one_of(st.text(max_size=12), st.integers(10**10, 10**13).map(str)),
+    st.one_of(st.none(), st.text(max_size=4), st.integers(-3, 3).map(str)),
+    st.sampled_from([None, "", "nowhere:1", "tcp://"]),
+)
+def test_fuzz_subexp_options(capsys, text: str, workers: str | None, scheduler: str | None) -> None:  # type: ignore[no-untyped-def]
+    args = ["unit", "--disc", text, "--method", "subexp", "--json"]
+    if workers is not None:
+        args += ["--workers", workers]
+    if scheduler is not None:
+        args += ["--scheduler", scheduler]
+    code, _, err = run(capsys, *args)
+    assert code in (0, 2)
+    assert "Traceback" not in err
+    if code == 2:
+        assert err.startswith("realquad: error:") and len(err.strip().splitlines()) == 1
+
+
+@HEAVY
+def test_relation_file_resumes_with_the_same_unit(capsys, tmp_path) -> None:  # type: ignore[no-untyped-def]
+    path = str(tmp_path / "rel.sqlite")
+    args = ["unit", "--disc", "100000000000000000129", "--method", "subexp", "--relations", path]
+    first = run_json(capsys, *args)
+    again = run_json(capsys, *args)
+    assert first["regulator"]["value"] == again["regulator"]["value"]
+    assert (
+        first["regulator"]["value"][:12] == "19323786743."
+    )  # baby-step giant-step, docs/classgroup.md
+
+
+@HEAVY
+def test_ctrl_c_during_the_sieve_of_a_real_field(tmp_path) -> None:
+    """SIGINT while a 55-digit real field is sieved: status 130, nothing on stdout, relations kept."""
+    path = tmp_path / "rel.sqlite"
+    D = "10000000000000000000000000000000000000000000000000000021"  # prime ≡ 1 (mod 4)
+    code, out, err = interrupted(
+        ["unit", "--disc", D, "--method", "subexp", "--relations", str(path), "--json"],
+        after=6.0,
+    )
+    assert code == 130, (code, err)
+    assert out == "" and err.strip().splitlines()[-1] == "realquad: interrupted"
+    assert "Traceback" not in err
+    with sqlite3.connect(path) as db:
+        assert db.execute("SELECT count(*) FROM families").fetchone()[0] > 0
