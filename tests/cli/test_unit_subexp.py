@@ -90,7 +90,7 @@ def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
 
 
 @HEAVY
-@settings(suppress_health_check=[HealthCheck.function_scoped_fixture], max_examples=20)
+@settings(suppress_health_check=[HealthCheck.function_scoped_fixture], max_examples=12)
 @given(
     st.one_of(st.text(max_size=12), st.integers(10**10, 10**13).map(str)),
     st.one_of(st.none(), st.text(max_size=4), st.integers(-3, 3).map(str)),
