@@ -61,3 +61,25 @@ def parse_parallel(workers: str | None, scheduler: str | None) -> tuple[int | No
     if count is not None and scheduler is not None:
         raise InputError("give --workers or --scheduler, not both")
     return count, scheduler
+
+
+def relations_option(f: Decorated) -> Decorated:
+    """``--relations FILE``: the resumable relation file of ``--method subexp``."""
+    return click.option(
+        "--relations",
+        "relations_file",
+        type=str,
+        default=None,
+        metavar="FILE",
+        help="With --method subexp: keep the relations in this file; a run stopped at any moment "
+        "resumes from it.",
+    )(f)
+
+
+def refuse_sieve_options(chosen: str, relations_file: str | None, *parallel: object) -> None:
+    """Refuse ``--relations``, ``--workers`` or ``--scheduler`` when the chosen method is not subexp."""
+    if chosen != "subexp" and (relations_file is not None or any(x is not None for x in parallel)):
+        raise InputError(
+            "--relations, --workers and --scheduler belong to the sieve of --method subexp "
+            f"(this order takes the {chosen} method)"
+        )

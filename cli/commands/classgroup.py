@@ -7,7 +7,12 @@ from typing import Any
 import click
 from realquad_cli.orders import order_arguments, order_from_options
 from realquad_cli.output import Command, emit, json_option
-from realquad_cli.parallel import parallel_options, parse_parallel
+from realquad_cli.parallel import (
+    parallel_options,
+    parse_parallel,
+    refuse_sieve_options,
+    relations_option,
+)
 from realquad_cli.progress import ProgressLine
 
 from realquad.classgroup import (
@@ -131,15 +136,7 @@ def _form_lines(lines: list[str], payload: dict[str, Any]) -> None:
     "|D| = 10¹⁰ on, under GRH; for D > 0 with the regulator); auto: by size. For D < 0, exact "
     "lists the reduced definite forms and bsgs uses the class number formula.",
 )
-@click.option(
-    "--relations",
-    "relations_file",
-    type=str,
-    default=None,
-    metavar="FILE",
-    help="With --method subexp: keep the relations in this file; a run stopped at any moment "
-    "resumes from it.",
-)
+@relations_option
 @parallel_options("sieving")
 @json_option
 def command(
@@ -166,13 +163,7 @@ def command(
     if with_forms:
         method = "exact"
     count, scheduler = parse_parallel(workers, scheduler)
-    parallel = relations_file is not None or count is not None or scheduler is not None
-    chosen = choose_class_group_method(order, method)
-    if parallel and chosen != "subexp":
-        raise InputError(
-            "--relations, --workers and --scheduler belong to the sieve of --method subexp "
-            f"(this order takes the {chosen} method)"
-        )
+    refuse_sieve_options(choose_class_group_method(order, method), relations_file, count, scheduler)
     # small groups take the lean kernel, which reports nothing; beyond 10¹¹ the full table reports
     progress = ProgressLine() if abs(order.discriminant) > 10**11 else None
     G = class_group(

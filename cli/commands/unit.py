@@ -15,7 +15,12 @@ from realquad_cli.output import (
     size_options,
     write_atomically,
 )
-from realquad_cli.parallel import parallel_options, parse_parallel
+from realquad_cli.parallel import (
+    parallel_options,
+    parse_parallel,
+    refuse_sieve_options,
+    relations_option,
+)
 from realquad_cli.progress import ProgressLine
 
 from realquad.core.orders import Order
@@ -56,15 +61,7 @@ from realquad.units import (
     is_flag=True,
     help="Also print the unit in compact form (a short product of small numbers).",
 )
-@click.option(
-    "--relations",
-    "relations_file",
-    type=str,
-    default=None,
-    metavar="FILE",
-    help="With --method subexp: keep the relations in this file; a run stopped at any moment "
-    "resumes from it.",
-)
+@relations_option
 @parallel_options("sieving")
 @json_option
 @size_options
@@ -99,11 +96,7 @@ def command(
     if compact and chosen == "cfrac":
         method = chosen = "bsgs"
     count, scheduler = parse_parallel(workers, scheduler)
-    if (relations_file, count, scheduler) != (None, None, None) and chosen != "subexp":
-        raise InputError(
-            "--relations, --workers and --scheduler belong to the sieve of --method subexp "
-            f"(this order takes the {chosen} method)"
-        )
+    refuse_sieve_options(chosen, relations_file, count, scheduler)
     with ProgressLine() as progress:
         eps = fundamental_unit(
             order,

@@ -61,8 +61,8 @@ from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
-from realquad.errors import InputError
 from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
+from realquad.relations.system import refuse_sieve_options
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
 CLASS_GROUP_METHODS = ("auto", "exact", "bsgs", "subexp")
@@ -140,11 +140,7 @@ def class_group(
     chosen = choose_class_group_method(order, method, max_forms)
     if chosen == "subexp":
         return class_group_subexp(order, progress, 1, workers, scheduler, relations_file)
-    if workers is not None or scheduler is not None or relations_file is not None:
-        raise InputError(
-            "workers, a scheduler and a relation file belong to the sieve of method='subexp' "
-            f"(this order takes the {chosen} method)"
-        )
+    refuse_sieve_options(chosen, workers, scheduler, relations_file)
     if order.discriminant < 0 and chosen == "bsgs":
         return class_group_imaginary_bsgs(order)
     if order.discriminant < 0:

@@ -64,7 +64,8 @@ from realquad.relations.smooth import Relation, sign_of
 ZERO = 0.2
 
 
-def _a_primes(fb: FactorBase, a: int) -> list[int]:
+def a_primes(fb: FactorBase, a: int) -> list[int]:
+    """The primes of ``a`` (a product of distinct factor-base primes), by trial division."""
     out, rest = [], a
     for p in fb.primes:
         if rest % p == 0:
@@ -80,19 +81,17 @@ def _a_primes(fb: FactorBase, a: int) -> list[int]:
 
 
 def relation_generator(
-    fb: FactorBase, relation: Relation, a_primes: list[int] | None = None
+    fb: FactorBase, relation: Relation, known_primes: list[int] | None = None
 ) -> tuple[QuadraticNumber, bool]:
     """``(ρ, N(ρ) < 0)`` with ``∏ P_p^{r_p} = (ρ)`` for a relation of a real field (module notes).
 
-    ``a_primes``, the primes of ``relation.a``, are found by trial division
-    when not given. Raises ``ArithmeticError`` if the exponents rebuilt from
+    ``known_primes``, the primes of ``relation.a``, are found by
+    :func:`a_primes` when not given. Raises ``ArithmeticError`` if the exponents rebuilt from
     ``(a, b, x)`` are not the relation's.
     """
     D, a, b, x = fb.discriminant, relation.a, relation.b, relation.x
-    primes = _a_primes(fb, a) if a_primes is None else a_primes
-    c = (b * b - D) // (4 * a)
-    n = (a * x + b) * x + c
-    B = -(2 * a * x + b)
+    primes = a_primes(fb, a) if known_primes is None else known_primes
+    n, B = relation.value(D), relation.B
     rest = gmpy2.mpz(abs(n))
     rebuilt: dict[int, int] = {}
     M = 1

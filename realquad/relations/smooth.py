@@ -46,6 +46,15 @@ class Relation:
     x: int
     large: int = 1
 
+    @property
+    def B(self) -> int:
+        """``−(2ax + b)``: the middle coefficient of ``(f(x, 1), B, ·)``."""
+        return -(2 * self.a * self.x + self.b)
+
+    def value(self, D: int) -> int:
+        """``n = f(x, 1) = ax² + bx + c`` for the form ``(a, b, c)`` of discriminant ``D``."""
+        return (self.a * self.x + self.b) * self.x + (self.b * self.b - D) // (4 * self.a)
+
 
 def sign_of(B: int, p: int, bp: int, D: int) -> int:
     """``+1`` when ``(p^e, B, ·)`` is a power of ``P_p = (p, b_p, ·)``, ``−1`` for its inverse.

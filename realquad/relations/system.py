@@ -39,6 +39,7 @@ import contextlib
 import functools
 import os
 from collections import Counter
+from collections.abc import Iterator
 from dataclasses import dataclass, field
 
 import mpmath
@@ -49,11 +50,12 @@ from realquad.core.lfunction import class_number_interval, generating_bound, hR_
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
-from realquad.errors import DomainError, TooLargeError
+from realquad.errors import DomainError, InputError, TooLargeError
 from realquad.relations.collect import Collector, sieve_parameters
 from realquad.relations.factor_base import FactorBase, factor_base
 from realquad.relations.regulator import (
     KernelUnit,
+    a_primes,
     ramified_generator,
     relation_generator,
     unit_from_kernel,
@@ -181,8 +183,7 @@ class _Generators:
             else:
                 primes = self.a_primes.get(source.a)
                 if primes is None:
-                    primes = [p for p in self.fb.primes if source.a % p == 0]
-                    self.a_primes[source.a] = primes
+                    primes = self.a_primes[source.a] = a_primes(self.fb, source.a)
                 self.known[key] = relation_generator(self.fb, source, primes)
         return self.known[key]
 
@@ -190,8 +191,16 @@ class _Generators:
         """Whether the generator's norm is negative: the sign of ``n = f(x, 1)``."""
         if isinstance(source, int):
             return False
-        D, a, b, x = self.fb.discriminant, source.a, source.b, source.x
-        return (a * x + b) * x + (b * b - D) // (4 * a) < 0
+        return source.value(self.fb.discriminant) < 0
+
+
+def refuse_sieve_options(chosen: str, *options: object) -> None:
+    """Refuse workers, a scheduler or a relation file given to a method other than index calculus."""
+    if any(x is not None for x in options):
+        raise InputError(
+            "workers, a scheduler and a relation file belong to the sieve of method='subexp' "
+            f"(this order takes the {chosen} method)"
+        )
 
 
 def check_reach(D: int) -> None:
@@ -252,6 +261,25 @@ def index_calculus(
         return _real(order, fb, collector, executor, workers or 4, progress)
 
 
+def _matrices(
+    fb: FactorBase,
+    collector: Collector,
+    executor: InProcessExecutor,
+    workers: int,
+    progress: Progress | None,
+    need: int,
+    step: int,
+) -> Iterator[RelationMatrix]:
+    """The relation matrix after each round of sieving; each round wants ``step`` more rows."""
+    while True:
+        collector.collect(
+            functools.partial(_missing, fb, collector, need), executor, workers, progress
+        )
+        matrix = relation_matrix(fb, collector.relations, need)
+        yield matrix
+        need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.size)) + step
+
+
 def _imaginary(
     order: Order,
     fb: FactorBase,
@@ -267,11 +295,8 @@ def _imaginary(
     if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
     need = fb.size + max(20, fb.size // 20)
-    while True:
-        collector.collect(
-            functools.partial(_missing, fb, collector, need), executor, workers, progress
-        )
-        matrix = relation_matrix(fb, collector.relations, need)
+    step = max(10, fb.size // 20)
+    for matrix in _matrices(fb, collector, executor, workers, progress, need, step):
         found = lattice_quotient(matrix.rows, len(matrix.columns))
         if found is not None and found.order <= hi:
             if found.order < lo:
@@ -280,9 +305,7 @@ def _imaginary(
                     f"class number interval [{lo}, {hi}] (GRH?)"
                 )
             return IndexCalculus(order, fb, matrix, found, collector.relations)
-        need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.size)) + max(
-            10, fb.size // 20
-        )
+    raise AssertionError("unreachable: the rounds never end")  # pragma: no cover
 
 
 def _real(
@@ -300,13 +323,9 @@ def _real(
         raise ArithmeticError(f"internal check failed: the h·R interval {interval} is too wide")
     gens = _Generators(fb)
     need = fb.size + max(20 + KERNEL_VECTORS, fb.size // 20)
-    attempt = 0
-    while True:
-        attempt += 1
-        collector.collect(
-            functools.partial(_missing, fb, collector, need), executor, workers, progress
-        )
-        matrix = relation_matrix(fb, collector.relations, need)
+    step = max(10, fb.size // 10)
+    rounds = _matrices(fb, collector, executor, workers, progress, need, step)
+    for attempt, matrix in enumerate(rounds, start=1):
         count = min(4, attempt) * KERNEL_VECTORS  # more vectors when the first were not enough
         found, kernel = lattice_quotient_and_kernel(
             matrix.rows, len(matrix.columns), count, attempt, kernel_if_finite=True
@@ -339,9 +358,7 @@ def _real(
                     generators,
                     negative,
                 )
-        need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.size)) + max(
-            10, fb.size // 10
-        )
+    raise AssertionError("unreachable: the rounds never end")  # pragma: no cover
 
 
 def _unit(

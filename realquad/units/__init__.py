@@ -51,8 +51,8 @@ from realquad.core.lfunction import estimated_period
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
-from realquad.errors import InputError
 from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
+from realquad.relations.system import refuse_sieve_options
 from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
@@ -134,18 +134,10 @@ def fundamental_unit(
     chosen = choose_method(order, method, UNIT_PERIOD_LIMIT)
     if chosen == "subexp":
         return fundamental_unit_subexp(order, progress, 1, workers, scheduler, relations_file)
-    _no_sieve(chosen, workers, scheduler, relations_file)
+    refuse_sieve_options(chosen, workers, scheduler, relations_file)
     if chosen == "cfrac":
         return fundamental_unit_cfrac(order, max_period)
     return fundamental_unit_bsgs(order, progress)
-
-
-def _no_sieve(chosen: str, *options: object) -> None:
-    if any(x is not None for x in options):
-        raise InputError(
-            "workers, a scheduler and a relation file belong to the sieve of method='subexp' "
-            f"(this order takes the {chosen} method)"
-        )
 
 
 def regulator(
@@ -172,7 +164,7 @@ def regulator(
     chosen = choose_method(order, method)
     if chosen == "subexp":
         return regulator_subexp(order, digits, progress, 1, workers, scheduler, relations_file)
-    _no_sieve(chosen, workers, scheduler, relations_file)
+    refuse_sieve_options(chosen, workers, scheduler, relations_file)
     if chosen == "cfrac":
         return regulator_cfrac(order, digits, max_period)
     return regulator_bsgs(order, digits, progress)

@@ -74,8 +74,7 @@ def _denominator(found: IndexCalculus) -> int:
         source = found.matrix.sources[i]
         if isinstance(source, int):
             continue
-        B = -(2 * source.a * source.x + source.b)
-        total += k * (1 if (B + 1) // 2 % 2 == 0 else 2)
+        total += k * (1 if (source.B + 1) // 2 % 2 == 0 else 2)
     return 1 if total % 3 == 0 else 2
 
 
