@@ -61,6 +61,8 @@ static PyMethodDef methods[] = {
      "Every class of D < 0 (one reduced form each) reached from 1 by the candidates, or None."},
     {"definite_class_relations", (PyCFunction)(void (*)(void))k_definite_class_relations, METH_FASTCALL,
      "(h, generators, relations) of the class table of D < 0, or None."},
+    {"definite_class_number", (PyCFunction)(void (*)(void))k_definite_class_number, METH_FASTCALL,
+     "The class number of a fundamental D < 0 by counting its reduced forms."},
     /* infrastructure: the baby-step table and the giant-step search */
     {"infrastructure_table_new", (PyCFunction)(void (*)(void))k_infrastructure_table_new, METH_FASTCALL,
      "An empty baby-step table (open addressing) for D < 2^106."},

@@ -7,7 +7,7 @@
 /* Kronecker symbols                                                   */
 /* ------------------------------------------------------------------ */
 
-static int
+int
 kronecker_i64(int64_t a, int64_t n)
 {
     int k = 1, v;

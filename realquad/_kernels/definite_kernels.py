@@ -25,6 +25,8 @@ from __future__ import annotations
 
 import math
 
+from gmpy2 import kronecker
+
 from realquad._kernels.form_kernels import form_compose
 from realquad._kernels.prime_form_kernels import prime_form_b
 
@@ -220,3 +222,73 @@ def definite_class_relations(
         return None
     _, representatives, _, generators, relations = table
     return len(representatives), generators, relations
+
+
+#: Largest ``|D|`` the count of reduced forms takes (its table has ``√(|D|/3)`` entries).
+COUNT_LIMIT = 10**14
+
+
+def definite_class_number(D: int, primes: list[int]) -> int:
+    """``h(D)`` for a fundamental ``D < 0``: the number of its reduced forms, counted without
+    building them; ``primes`` must be every prime up to ``√(|D|/3)``.
+
+    For ``a < √|D|/2`` every ``b ∈ (−a, a]`` with ``b² ≡ D (mod 4a)`` gives a reduced form
+    (its ``c`` exceeds ``a``), and their number ``N(a)`` is multiplicative: the product over
+    ``p^k ‖ a`` of ``1 + (D/p)`` when ``p ∤ D`` and of ``[k = 1]`` when ``p | D`` (``D``
+    fundamental). A sieve over the primes gives every ``N(a)``. The forms with
+    ``√|D|/2 < a ≤ √(|D|/3)`` (a few per cent of them) are found one by one: ``b`` runs over
+    the square roots of ``D`` modulo the largest prime factor of ``a``.
+
+    >>> definite_class_number(-23, [2]), definite_class_number(-3299, [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31])
+    (3, 27)
+    """
+    n = -D
+    if D >= 0 or n > COUNT_LIMIT:
+        raise ValueError("the count of reduced forms takes -10^14 <= D < 0")
+    amax = math.isqrt(n // 3)
+    if amax >= 2 and (not primes or primes[-1] ** 2 < amax):
+        raise ValueError("the primes must be every prime up to sqrt(|D|/3)")
+    counts = [1] * (amax + 1)
+    for p in primes:
+        if p > amax:
+            break
+        if D % p == 0:
+            for a in range(p * p, amax + 1, p * p):
+                counts[a] = 0
+        else:
+            factor = 1 + kronecker(D, p)
+            for a in range(p, amax + 1, p):
+                counts[a] *= factor
+    total = 0
+    for a in range(1, amax + 1):
+        if counts[a]:
+            total += counts[a] if 4 * a * a < n else _count_band(D, a, primes)
+    return total
+
+
+def _count_band(D: int, a: int, primes: list[int]) -> int:
+    """The reduced forms ``(a, b, c)`` of ``D`` for one ``a ≥ √|D|/2`` (see above)."""
+    rest, largest = a, 1
+    for p in primes:
+        if p * p > rest:
+            break
+        while rest % p == 0:
+            largest, rest = p, rest // p
+    if rest > 1:
+        largest = rest
+    if largest <= 2:
+        step, roots = 2, {D % 2}
+    else:
+        b = prime_form_b(D, largest)
+        if b < 0:
+            return 0
+        step, roots = largest, {b % largest, -b % largest}
+    count = 0
+    for root in roots:
+        for b in range(-a + (root + a) % step, a + 1, step):
+            if b == -a or (b - D) % 2 or (b * b - D) % (4 * a):
+                continue
+            c = (b * b - D) // (4 * a)
+            if c > a or (c == a and b >= 0):
+                count += 1
+    return count

@@ -378,6 +378,7 @@ KERNEL(k_principal_regulator);
 KERNEL(k_convergent_leaves);
 /* character_kernels.c */
 KERNEL(k_kronecker_symbols);
+KERNEL_PRIVATE int kronecker_i64(int64_t a, int64_t n);
 /* form_kernels.c */
 KERNEL(k_form_rho_b);
 KERNEL(k_form_is_reduced);
@@ -407,6 +408,7 @@ KERNEL(k_definite_compose_reduce);
 KERNEL(k_definite_class_candidates);
 KERNEL(k_definite_class_table);
 KERNEL(k_definite_class_relations);
+KERNEL(k_definite_class_number);
 /* survey_kernels.c */
 KERNEL(k_survey_numbers);
 /* infrastructure_kernels.c */

@@ -16,8 +16,10 @@ columns are empty.
   ``p^e``, ``e ≥ 2``, walked alone
   (:func:`~realquad.classgroup.imaginary.class_invariants_from_class_number`).
 * *Field by field*: for the fields the series do not give (``D ≡ 1 (mod 8)``
-  with 3, 5, 7 split, about one in 24), and for every field when the batch is not used, the whole class group by
-  its reduced forms (:mod:`realquad.classgroup.imaginary`).
+  with 3, 5, 7 split, about one in 24), and for every field when the batch is
+  not used, ``h`` by counting the reduced forms without building them
+  (:func:`~realquad.classgroup.imaginary.count_reduced_forms`, about
+  ``√|D|`` word operations), then the structure as above.
 
 >>> rows = imaginary_fields([-1, -3, -5, -14, -23])
 >>> [(r.discriminant, r.class_number, r.class_group, r.roots_of_unity) for r in rows]
@@ -41,29 +43,26 @@ import json
 from collections.abc import Sequence
 from dataclasses import replace
 
-from realquad.classgroup.imaginary import (
-    METHOD as FORMS_METHOD,
-)
-from realquad.classgroup.imaginary import (
-    class_invariants_from_class_number,
-    class_relations_imaginary,
-)
+from realquad.classgroup.imaginary import COUNT_METHOD, class_invariants_from_class_number
+from realquad.classgroup.imaginary import count_reduced_forms
 from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
 from realquad.core.integers import isqrt
-from realquad.core.linalg import triangular_invariants
 from realquad.core.orders import Order, fundamental_discriminant_of
 from realquad.core.primes import primes_below
 from realquad.survey.compute import FieldRecord
 from realquad.survey.ranges import Chunk
-from realquad.units import unit_group
 
 #: The method of a row whose class number came from the batch.
 METHOD_BATCH = (
     f"class number: {THETA_METHOD}; structure: the Sylow subgroups of the reduced forms, h known"
 )
 #: The method of a row computed alone.
-METHOD_ALONE = f"class number and structure: {FORMS_METHOD}"
+METHOD_ALONE = (
+    f"class number: {COUNT_METHOD}; structure: the Sylow subgroups of the reduced forms, h known"
+)
+#: ``w`` of the two fields with more roots of unity than ``±1`` (:func:`realquad.units.unit_group`).
+ROOTS_OF_UNITY = {-3: 6, -4: 4}
 
 
 def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[FieldRecord]:
@@ -76,18 +75,18 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
         return []
     primes = primes_below(isqrt(-4 * min(ds) // 3) + 2)
     known = list(class_numbers) or [0] * len(ds)
+    texts: dict[tuple[int, ...], str] = {}  # few distinct groups: their JSON once each
     rows = []
     for d, h in zip(ds, known, strict=True):
         D = fundamental_discriminant_of(d)
         order = Order.from_conductor(D)  # D is fundamental: the range sieved it
-        if h:
-            invariants = class_invariants_from_class_number(order, h, primes)
-            method = METHOD_BATCH
-        else:
-            h, _, relations = class_relations_imaginary(order, primes=primes)
-            invariants = triangular_invariants(relations)
-            method = METHOD_ALONE
-        text = json.dumps(invariants)
+        method = METHOD_BATCH
+        if not h:
+            h, method = count_reduced_forms(order, primes), METHOD_ALONE
+        invariants = tuple(class_invariants_from_class_number(order, h, primes))
+        text = texts.get(invariants)
+        if text is None:
+            text = texts[invariants] = json.dumps(list(invariants))
         rows.append(
             FieldRecord(
                 d=d,
@@ -96,7 +95,7 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
                 narrow_class_number=h,
                 class_group=text,
                 narrow_class_group=text,
-                roots_of_unity=unit_group(order).roots_of_unity,
+                roots_of_unity=ROOTS_OF_UNITY.get(D, 2),
                 unit_norm=None,
                 regulator=None,
                 period_length=None,

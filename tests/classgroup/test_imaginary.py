@@ -11,7 +11,11 @@ from hypothesis import strategies as st
 from sympy import factorint
 
 from realquad.classgroup import choose_class_group_method, class_group
-from realquad.classgroup.imaginary import MAX_DISCRIMINANT, class_group_imaginary
+from realquad.classgroup.imaginary import (
+    MAX_DISCRIMINANT,
+    class_group_imaginary,
+    count_reduced_forms,
+)
 from realquad.core.forms import Form, prime_form
 from realquad.core.orders import Order, field
 from realquad.errors import DomainError, TooLargeError
@@ -321,3 +325,17 @@ def test_isqrt_bound_covers_every_reduced_form():
     # the generator bound √(|D|/3) is the largest a of a reduced form (brute force)
     for D in _discriminants(3000)[::7]:
         assert max(a for a, _, _ in brute_reduced_forms(D)) <= isqrt(-D // 3)
+
+
+def test_oeis_a006641_by_counting_reduced_forms():
+    # OEIS A006641 (every listed term) through the count that builds no form
+    terms = OEIS["A006641"]["terms"]
+    discs = [-n for n in range(3, 2000) if is_fundamental(-n)][: len(terms)]
+    assert [count_reduced_forms(Order(D)) for D in discs] == terms
+
+
+@given(st.integers(3, 10**10))
+def test_counting_reduced_forms_agrees_with_the_class_walk(n):
+    # the count against the walk of the whole group (independent: compositions of forms)
+    D = next(-m for m in range(n, n + 1000) if is_fundamental(-m))
+    assert count_reduced_forms(Order(D)) == class_group(D).class_number

@@ -122,3 +122,34 @@ def test_progress_hears_the_class_count():
     candidates = call_kernel("definite_class_candidates", D, f, primes_below(isqrt(-D // 3) + 2))
     table = call_kernel("definite_class_table", D, candidates, 10**6, heard.append)
     assert heard and heard[0] == 1000 and len(table[1]) >= heard[-1]
+
+
+def _fundamental_near(n: int) -> int:
+    """A fundamental discriminant −|D| ≤ −n (sympy's factorint decides squarefreeness)."""
+    from sympy import factorint
+
+    while True:
+        D = -n
+        m = D if D % 4 == 1 else D // 4
+        if D % 4 in (0, 1) and (D % 4 == 1 or m % 4 in (2, 3)):
+            if all(e == 1 for e in factorint(-m).values()):
+                return D
+        n += 1
+
+
+@needs_compiled
+@given(st.integers(3, 10**9))
+@example(3)
+@example(4)
+@example(2**31 - 1)
+def test_class_number_count_compiled_equals_twin(n):
+    D = _fundamental_near(n)
+    primes = primes_below(isqrt(-D // 3) + 2)
+    _same("definite_class_number", D, primes)
+
+
+def test_class_number_count_refuses_beyond_its_reach():
+    with pytest.raises(ValueError):
+        call_kernel("definite_class_number", -(10**14 + 3), [2, 3])
+    with pytest.raises(ValueError):  # the primes must cover √(|D|/3)
+        call_kernel("definite_class_number", -(10**6 + 3), [2, 3])
