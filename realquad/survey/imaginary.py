@@ -43,8 +43,11 @@ import json
 from collections.abc import Sequence
 from dataclasses import replace
 
-from realquad.classgroup.imaginary import COUNT_METHOD, class_invariants_from_class_number
-from realquad.classgroup.imaginary import count_reduced_forms
+from realquad.classgroup.imaginary import (
+    COUNT_METHOD,
+    class_invariants_from_class_number,
+    count_reduced_forms,
+)
 from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
 from realquad.core.integers import isqrt
