@@ -65,6 +65,7 @@ from typing import TYPE_CHECKING
 if TYPE_CHECKING:  # numpy is imported where it is used: it costs 0.1 s of every start-up
     import numpy as np
 
+from realquad.core.executors import InProcessExecutor
 from realquad.core.primes import kronecker
 from realquad.errors import TooLargeError
 
@@ -130,10 +131,51 @@ def binary_theta(a: int, b: int, c: int, n_max: int) -> np.ndarray:
     >>> binary_theta(1, 1, 1, 12).tolist()   # OEIS A004016: 6·Σ_{d|n} (d/3)
     [1, 6, 0, 6, 6, 0, 0, 12, 0, 6, 0, 0, 6]
     """
+    return _binary_by_residue((a, b, c), n_max, 1)[0]
+
+
+#: Values of the binary form counted per :func:`numpy.bincount` call (memory: 8 bytes each).
+_BATCH = 1 << 23
+
+
+def _binary_by_residue(
+    form: tuple[int, int, int], n_max: int, modulus: int, residues: tuple[int, ...] = (0,)
+) -> dict[int, np.ndarray]:
+    """For each ``s`` in ``residues``: the number of ``(x, y)`` with ``ax² + bxy + cy² = s + modulus·k``,
+    ``k = 0 … (n_max − s) // modulus``.
+
+    The values are listed row by row (``y`` fixed, ``x`` between the roots);
+    their residue depends only on ``x`` and ``y`` modulo ``modulus``, so only
+    the residue classes of ``x`` that give a wanted ``s`` are listed, and
+    counted in batches.
+    """
     import numpy as np
 
+    a, b, c = form
     disc = 4 * a * c - b * b
-    counts = np.zeros(n_max + 1, dtype=np.int64)
+    sizes = {s: (n_max - s) // modulus + 1 for s in residues}
+    counts = {s: np.zeros(max(size, 0), dtype=np.int64) for s, size in sizes.items()}
+    pending: dict[int, list[np.ndarray]] = {s: [] for s in residues}
+    held = 0
+
+    def flush() -> None:
+        nonlocal held
+        for s, parts in pending.items():
+            if parts and sizes[s] > 0:
+                places = np.concatenate(parts)
+                counts[s] += np.bincount(places, minlength=sizes[s])[: sizes[s]]
+            parts.clear()
+        held = 0
+
+    wanted = set(residues)
+    classes = [  # y mod modulus → [(x mod modulus, s)]
+        [
+            (rx, (a * rx * rx + b * rx * ry + c * ry * ry) % modulus)
+            for rx in range(modulus)
+            if (a * rx * rx + b * rx * ry + c * ry * ry) % modulus in wanted
+        ]
+        for ry in range(modulus)
+    ]
     y_max = int(np.sqrt(4 * a * n_max / disc)) + 1
     for y in range(-y_max, y_max + 1):
         # a x² + b y x + (c y² − n) ≤ 0: x between the roots
@@ -142,50 +184,92 @@ def binary_theta(a: int, b: int, c: int, n_max: int) -> np.ndarray:
             continue
         half = np.sqrt((4 * a * n_max - rest) / (4.0 * a * a))
         centre = -b * y / (2.0 * a)
-        xs = np.arange(int(np.floor(centre - half)) - 1, int(np.ceil(centre + half)) + 2)
-        values = a * xs * xs + b * y * xs + c * y * y
-        np.add.at(counts, values[(values >= 0) & (values <= n_max)], 1)
+        lo, hi = int(np.floor(centre - half)) - 1, int(np.ceil(centre + half)) + 1
+        for rx, s in classes[y % modulus]:
+            xs = np.arange(lo + (rx - lo) % modulus, hi + 1, modulus, dtype=np.int64)
+            values = a * xs * xs + b * y * xs + c * y * y
+            values = values[(values >= 0) & (values <= n_max)]
+            pending[s].append(values // modulus if modulus > 1 else values)
+            held += values.size
+        if held >= _BATCH:
+            flush()
+    flush()
     return counts
 
 
 def _ternary_counts(form: tuple[int, int, int], q: int, n_max: int) -> np.ndarray:
-    """The counts of ``ax² + bxy + cy² + qz²`` up to ``n_max`` (one product by FFT)."""
+    """The counts of ``ax² + bxy + cy² + qz²`` for every ``0 ≤ n ≤ n_max`` (one product by FFT)."""
+    return _ternary_residue_counts(form, q, n_max, 0, 1)
+
+
+def _ternary_residue_counts(
+    form: tuple[int, int, int], q: int, n_max: int, residue: int, modulus: int = 8
+) -> np.ndarray:
+    """The counts of ``Q = ax² + bxy + cy² + qz²`` at ``n = residue + modulus·k ≤ n_max``.
+
+    Split by residues: ``Q(x, y, z) ≡ residue`` exactly when the binary value is
+    ``≡ s`` and ``qz² ≡ t`` with ``s + t ≡ residue``; each pair is one product of
+    series ``modulus`` times shorter than the whole one (``qz² mod 8`` takes
+    three values), summed before the one inverse transform.
+    """
     import numpy as np
 
-    size = _transform_length(2 * n_max + 1)
-    binary = binary_theta(*form, n_max).astype(float)
-    sparse = np.zeros(n_max + 1)
-    zs = np.arange(1, int(np.sqrt(n_max / q)) + 2, dtype=np.int64)
-    sparse[0] = 1
-    sparse[q * zs[q * zs * zs <= n_max] ** 2] = 2
-    product = np.fft.rfft(binary, size)
-    del binary
-    product *= np.fft.rfft(sparse, size)
-    return _rounded(np.fft.irfft(product, size)[: n_max + 1]).astype(np.int64)
+    size = (n_max - residue) // modulus + 1
+    if size <= 0:
+        return np.zeros(0, dtype=np.int64)
+    length = _transform_length(2 * size + 1)
+    zs = np.arange(0, int(np.sqrt(n_max / q)) + 2, dtype=np.int64)
+    z_values = q * zs * zs
+    z_values = z_values[z_values <= n_max]
+    pairs = {}  # t → (s, carry)
+    for t in sorted({int(v % modulus) for v in z_values}):
+        s = (residue - t) % modulus
+        pairs[t] = (s, (s + t - residue) // modulus)
+    binaries = _binary_by_residue(
+        form, n_max, modulus, tuple(sorted({s for s, _ in pairs.values()}))
+    )
+    total = None
+    for t, (s, carry) in pairs.items():
+        sparse = np.zeros(size)
+        chosen = z_values[z_values % modulus == t]
+        places = chosen // modulus + carry
+        keep = places < size
+        np.add.at(sparse, places[keep], np.where(chosen[keep] == 0, 1.0, 2.0))  # ±z; √n_max entries
+        product = np.fft.rfft(binaries[s].astype(float), length)
+        product *= np.fft.rfft(sparse, length)
+        total = product if total is None else total + product
+    assert total is not None
+    return _rounded(np.fft.irfft(total, length)[:size]).astype(np.int64)
 
 
 @dataclass(frozen=True)
 class ThetaCounts:
-    """The theta series up to ``n_max``: ``r₃`` and the counts of the forms ``Q_q``."""
+    """The theta series up to ``n_max``: ``r₃`` to ``n_max/4`` (for ``D = −4m``) and at
+    ``m ≡ 3 (mod 8)``, and the counts of the forms ``Q_q`` at ``m ≡ 7 (mod 8)``."""
 
     n_max: int
     three_squares: np.ndarray
+    three_squares_3: np.ndarray
     ternary: tuple[np.ndarray, ...]
 
+    def ternary_count(self, index: int, m: int) -> int:
+        """The count of ``TERNARY_FORMS[index]`` at ``m ≡ 7 (mod 8)``."""
+        return int(self.ternary[index][m // 8])
+
     def class_number(self, D: int) -> int | None:
-        """``h(D)`` for a fundamental ``-n_max·4 ≤ D < 0`` (``|D| ≤ n_max`` when ``D`` is odd),
-        or ``None`` when ``D ≡ 1 (mod 8)`` and 3, 5, 7 all split in ``Q(√D)``."""
+        """``h(D)`` for a fundamental ``-n_max ≤ D < 0``, or ``None`` when ``D ≡ 1 (mod 8)``
+        and 3, 5, 7 all split in ``Q(√D)``."""
         if D == -3 or D == -4:
             return 1
         if D % 8 == 1:
-            for (q, _, k), counts in zip(TERNARY_FORMS, self.ternary, strict=True):
+            for index, (q, _, k) in enumerate(TERNARY_FORMS):
                 symbol = kronecker(D, q)
                 if symbol != 1:
-                    return _quotient(D, int(counts[-D]), k * (1 - symbol))
+                    return _quotient(D, self.ternary_count(index, -D), k * (1 - symbol))
             return None
         if D % 4 == 0:
             return _quotient(D, int(self.three_squares[-D // 4]), 12)
-        return _quotient(D, int(self.three_squares[-D]), 24)
+        return _quotient(D, int(self.three_squares_3[-D // 8]), 24)
 
 
 def _quotient(D: int, value: int, parts: int) -> int:
@@ -196,13 +280,30 @@ def _quotient(D: int, value: int, parts: int) -> int:
     return value // parts
 
 
-def theta_counts(n_max: int) -> ThetaCounts:
-    """``r₃`` and the counts of ``Q₃``, ``Q₅``, ``Q₇`` for ``0 ≤ n ≤ n_max``."""
+def theta_counts(n_max: int, executor: InProcessExecutor | None = None) -> ThetaCounts:
+    """``r₃`` and the counts of ``Q₃``, ``Q₅``, ``Q₇`` that the class numbers to ``|D| = n_max`` need.
+
+    The five series are independent pieces of work: ``executor`` (local
+    processes or a cluster, :mod:`realquad.core.executors`) computes them side
+    by side; by default this process, one after the other.
+    """
+    if n_max < 0 or n_max > MAX_TERMS:
+        three_square_counts(n_max)  # the same refusal
+    pieces = [(1, (1, 0, 1), n_max // 4, 0, 1), (1, (1, 0, 1), n_max, 3, 8)]
+    pieces += [(q, form, n_max, 7, 8) for q, form, _ in TERNARY_FORMS]
+    found = {
+        piece: series
+        for piece, series, _ in (executor or InProcessExecutor()).map_unordered(pieces, _series)
+    }
     return ThetaCounts(
-        n_max,
-        three_square_counts(n_max),
-        tuple(_ternary_counts(form, q, n_max) for q, form, _ in TERNARY_FORMS),
+        n_max, *(found[piece] for piece in pieces[:2]), tuple(found[p] for p in pieces[2:])
     )
+
+
+def _series(piece: tuple[int, tuple[int, int, int], int, int, int]) -> np.ndarray:
+    """One series of :func:`theta_counts`: ``(q, form, n_max, residue, modulus)``."""
+    q, form, n_max, residue, modulus = piece
+    return _ternary_residue_counts(form, q, n_max, residue, modulus)
 
 
 def theta_class_numbers(D_min: int, D_max: int = -3) -> dict[int, int]:

@@ -50,6 +50,7 @@ from realquad.classgroup.imaginary import (
 )
 from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
+from realquad.core.executors import InProcessExecutor
 from realquad.core.integers import isqrt
 from realquad.core.orders import Order, fundamental_discriminant_of
 from realquad.core.primes import primes_below
@@ -115,7 +116,9 @@ def imaginary_chunk(chunk: Chunk) -> list[FieldRecord]:
     return imaginary_fields(chunk.radicands(), chunk.class_numbers)
 
 
-def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
+def with_class_numbers(
+    chunks: list[Chunk], executor: InProcessExecutor | None = None
+) -> list[Chunk]:
     """The imaginary ``chunks`` with the class numbers the batch proves attached.
 
     One series up to the largest ``|D|`` of the chunks serves them all. It
@@ -123,6 +126,8 @@ def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
     (at least one in :data:`BATCH_SHARE`; a full range holds about 3 in 10);
     a few fields far out, or more than
     :data:`~realquad.classgroup.theta.MAX_TERMS` terms, go field by field.
+    ``executor`` computes the series side by side (see
+    :func:`~realquad.classgroup.theta.theta_counts`).
     """
     if not chunks:
         return chunks
@@ -131,7 +136,7 @@ def with_class_numbers(chunks: list[Chunk]) -> list[Chunk]:
     fields = sum(len(ds) for ds in radicands)
     if not batch_pays(largest, fields):
         return chunks
-    counts = theta_counts(largest)
+    counts = theta_counts(largest, executor)
     return [
         replace(
             chunk,

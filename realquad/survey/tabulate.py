@@ -99,7 +99,7 @@ def tabulate(
                     progress, f"survey: class numbers to |D| = {largest:,} from theta series first"
                 )
             begun = time.perf_counter()
-            todo = with_class_numbers(todo)
+            todo = with_class_numbers(todo, executor)
             if loud:
                 note(progress, f"survey: theta series done in {time.perf_counter() - begun:.1f} s")
         store.begin_run(survey_range)
