@@ -521,7 +521,7 @@ k_definite_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nar
      * the walk then runs in the subgroup of power-th powers (with power = h/p^e and
      * target = p^e, the p-Sylow subgroup). */
     int64_t D, conductor, max_forms, target = 0, power = 1, *primes;
-    Py_ssize_t len, start = 0, block = 8;
+    Py_ssize_t len, start = 0, block = 2;
     vec_t cand = {0};
     walk_t w = {{0}};
     dtable_t t = {0};

@@ -166,7 +166,7 @@ def count_reduced_forms(order: Order, primes: list[int] | None = None) -> int:
 
 
 def class_invariants_from_class_number(
-    order: Order, class_number: int, primes: list[int] | None = None
+    order: Order, class_number: int, primes: list[int] | None = None, two_rank: int | None = None
 ) -> list[int]:
     """The invariants ``d₁ | d₂ | …`` of ``Cl(D)`` when ``h`` is known (proven by other means).
 
@@ -178,12 +178,19 @@ def class_invariants_from_class_number(
     about ``Σ p^e`` compositions over the ``p^e ‖ h`` with ``e ≥ 2``, and a
     few powers, against ``h`` compositions for the whole group. ``primes``
     (every prime up to at least ``√(|D|/3)``; larger ones are ignored) saves
-    the sieve when many discriminants are done in a row.
+    the sieve when many discriminants are done in a row. ``two_rank``, when
+    given, is the number of even invariants (for a field, ``t − 1`` with ``t``
+    the number of primes dividing ``D``: Gauss's genus theory); with ``2^e ‖ h``
+    it fixes the 2-Sylow subgroup without a walk unless ``2 ≤ two_rank ≤ e − 2``
+    (``e`` factors ``≥ 2`` with one of them larger can be split in more than
+    one way).
 
     >>> class_invariants_from_class_number(Order(-4 * 5 * 3 * 7), 8)
     [2, 2, 2]
     >>> class_invariants_from_class_number(Order(-3299), 27)   # Cl(−3299) ≅ Z/3 × Z/9
     [3, 9]
+    >>> class_invariants_from_class_number(Order(-4 * 5 * 3 * 7), 8, two_rank=3)  # 4 primes: 2-rank 3
+    [2, 2, 2]
     """
     D = order.discriminant
     _check_reach(D)
@@ -191,12 +198,17 @@ def class_invariants_from_class_number(
     powers: dict[int, list[int]] = {}
     for p, e in _prime_powers(class_number):
         q = p**e
-        if e == 1:
-            powers[p] = [p]
+        known = _sylow_without_walk(p, e, two_rank)
+        if known is not None:
+            powers[p] = known
             continue
-        found = call_kernel(
-            "definite_class_relations", D, order.conductor, primes, q, q, class_number // q
-        )
+        found = None
+        for some in (primes[:_FIRST_PRIMES], primes):  # the first few primes nearly always do
+            found = call_kernel(
+                "definite_class_relations", D, order.conductor, some, q, q, class_number // q
+            )
+            if (found is not None and found[0] == q) or len(some) == len(primes):
+                break
         if found is None or found[0] != q:
             raise ArithmeticError(
                 f"internal check failed: the {p}-Sylow subgroup of Cl({D}) does not have {q} classes"
@@ -204,6 +216,44 @@ def class_invariants_from_class_number(
         _, generators, relations = found
         powers[p] = triangular_invariants(relations)
     return invariants_from_primary(powers)
+
+
+def _sylow_without_walk(p: int, e: int, two_rank: int | None) -> list[int] | None:
+    """The cyclic factors of the ``p``-Sylow subgroup of order ``p^e`` when ``e`` (and the
+    2-rank) fix them, else ``None``."""
+    if e == 1:
+        return [p]
+    if p == 2 and two_rank is not None and not 2 <= two_rank <= e - 2:
+        if not 1 <= two_rank <= e:
+            raise ArithmeticError(f"internal check failed: 2-rank {two_rank} with 2^{e} ‖ h")
+        return [2] * (two_rank - 1) + [2 ** (e - two_rank + 1)]
+    return None
+
+
+@lru_cache(maxsize=65536)
+def invariants_without_walk(class_number: int, two_rank: int) -> tuple[int, ...] | None:
+    """The invariants of ``Cl`` when ``h`` and the 2-rank alone fix them (every odd ``p``
+    divides ``h`` once and the 2-Sylow subgroup is fixed as in
+    :func:`class_invariants_from_class_number`), else ``None``.
+
+    >>> invariants_without_walk(12, 1), invariants_without_walk(24, 2), invariants_without_walk(9, 0)
+    ((12,), (2, 12), None)
+    """
+    powers: dict[int, list[int]] = {}
+    for p, e in _prime_powers(class_number):
+        known = _sylow_without_walk(p, e, two_rank)
+        if known is None:
+            return None
+        powers[p] = known
+    if 2 not in powers and two_rank != 0:
+        raise ArithmeticError(
+            f"internal check failed: 2-rank {two_rank} with h = {class_number} odd"
+        )
+    return tuple(invariants_from_primary(powers))
+
+
+#: Primes handed to a Sylow walk first (converting all of them costs more than the walk).
+_FIRST_PRIMES = 64
 
 
 @lru_cache(maxsize=65536)

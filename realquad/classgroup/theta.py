@@ -296,7 +296,7 @@ def theta_counts(n_max: int, executor: InProcessExecutor | None = None) -> Theta
         for piece, series, _ in (executor or InProcessExecutor()).map_unordered(pieces, _series)
     }
     return ThetaCounts(
-        n_max, *(found[piece] for piece in pieces[:2]), tuple(found[p] for p in pieces[2:])
+        n_max, found[pieces[0]], found[pieces[1]], tuple(found[p] for p in pieces[2:])
     )
 
 

@@ -41,8 +41,8 @@ class Work(Protocol):
     def label(self) -> str: ...
 
 
-WorkFunction = Callable[[Any], list[Any]]
-Finished = tuple[Any, list[Any], float]
+WorkFunction = Callable[[Any], Any]
+Finished = tuple[Any, Any, float]
 
 
 @dataclass(frozen=True)

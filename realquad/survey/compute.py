@@ -54,7 +54,7 @@ from collections import Counter
 from dataclasses import asdict, dataclass
 from functools import lru_cache
 from math import isqrt
-from typing import Any
+from typing import Any, Protocol, runtime_checkable
 
 import gmpy2
 
@@ -92,6 +92,22 @@ Numbers = tuple[int, int, int, int, int, Walk | None]
 
 #: Fallbacks in this process: ``"class group"`` and ``"unit"`` rows that took the slow route.
 FALLBACKS: Counter[str] = Counter()
+
+
+@runtime_checkable
+class RowColumns(Protocol):
+    """Rows sent in columns (:class:`realquad.survey.imaginary.ImaginaryRows`): what the store
+    needs to insert them without building a :class:`FieldRecord` per row."""
+
+    def __len__(self) -> int: ...
+
+    def methods(self) -> set[str]:
+        """The methods of the rows."""
+        ...
+
+    def store_values(self, method_ids: dict[str, int], chunk: int) -> list[tuple[object, ...]]:
+        """One tuple per row: the store's columns, the method's id and ``chunk``."""
+        ...
 
 
 @dataclass(frozen=True)

@@ -41,12 +41,14 @@ from __future__ import annotations
 
 import json
 from collections.abc import Sequence
-from dataclasses import replace
+from dataclasses import dataclass, replace
+from typing import overload
 
 from realquad.classgroup.imaginary import (
     COUNT_METHOD,
     class_invariants_from_class_number,
     count_reduced_forms,
+    invariants_without_walk,
 )
 from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
@@ -65,6 +67,8 @@ METHOD_BATCH = (
 METHOD_ALONE = (
     f"class number: {COUNT_METHOD}; structure: the Sylow subgroups of the reduced forms, h known"
 )
+#: The methods of the rows (:attr:`ImaginaryRows.method` indexes them).
+METHODS = (METHOD_BATCH, METHOD_ALONE)
 #: ``w`` of the two fields with more roots of unity than ``±1`` (:func:`realquad.units.unit_group`).
 ROOTS_OF_UNITY = {-3: 6, -4: 4}
 
@@ -75,45 +79,154 @@ def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[F
     ``class_numbers`` (as in :attr:`Chunk.class_numbers`): ``h`` of each field
     where the batch proved it, ``0`` where it did not; empty: none known.
     """
+    return list(imaginary_rows(ds, class_numbers))
+
+
+def imaginary_rows(ds: list[int], class_numbers: Sequence[int] = ()) -> ImaginaryRows:
+    """The rows of :func:`imaginary_fields` in columns (what a survey's workers send)."""
     if not ds:
-        return []
+        return ImaginaryRows((), (), (), (), ())
     primes = primes_below(isqrt(-4 * min(ds) // 3) + 2)
     known = list(class_numbers) or [0] * len(ds)
+    prime_counts = _prime_counts([-d for d in ds], primes)
     texts: dict[tuple[int, ...], str] = {}  # few distinct groups: their JSON once each
-    rows = []
-    for d, h in zip(ds, known, strict=True):
+    discriminants, hs, groups, methods = [], [], [], []
+    for d, h, t in zip(ds, known, prime_counts, strict=True):
         D = fundamental_discriminant_of(d)
         order = Order.from_conductor(D)  # D is fundamental: the range sieved it
-        method = METHOD_BATCH
+        method = 0
         if not h:
-            h, method = count_reduced_forms(order, primes), METHOD_ALONE
-        invariants = tuple(class_invariants_from_class_number(order, h, primes))
+            h, method = count_reduced_forms(order, primes), 1
+        # genus theory: t primes divide D, t = ω(d) and 2 when d ≡ 3 (mod 4)
+        two_rank = t + (D % 2 == 0 and d % 2 != 0) - 1
+        invariants = invariants_without_walk(h, two_rank) or tuple(
+            class_invariants_from_class_number(order, h, primes, two_rank)
+        )
         text = texts.get(invariants)
         if text is None:
             text = texts[invariants] = json.dumps(list(invariants))
-        rows.append(
-            FieldRecord(
-                d=d,
-                discriminant=D,
-                class_number=h,
-                narrow_class_number=h,
-                class_group=text,
-                narrow_class_group=text,
-                roots_of_unity=ROOTS_OF_UNITY.get(D, 2),
-                unit_norm=None,
-                regulator=None,
-                period_length=None,
-                unit_digits=None,
-                method=method,
-                proof="unconditional",
-            )
+        discriminants.append(D)
+        hs.append(h)
+        groups.append(text)
+        methods.append(method)
+    return ImaginaryRows(tuple(ds), tuple(discriminants), tuple(hs), tuple(groups), tuple(methods))
+
+
+@dataclass(frozen=True)
+class ImaginaryRows(Sequence[FieldRecord]):  # a RowColumns (survey.compute)
+    """The rows of imaginary fields in columns: a survey sends millions of them from its
+    workers to the store (about 1 µs a row, against 6 µs as :class:`FieldRecord` objects).
+
+    Indexing gives :class:`FieldRecord` objects; ``method`` indexes :data:`METHODS`.
+    """
+
+    d: tuple[int, ...]
+    discriminant: tuple[int, ...]
+    class_number: tuple[int, ...]
+    class_group: tuple[str, ...]
+    method: tuple[int, ...]
+
+    def __len__(self) -> int:
+        return len(self.d)
+
+    @overload
+    def __getitem__(self, index: int) -> FieldRecord: ...
+
+    @overload
+    def __getitem__(self, index: slice) -> list[FieldRecord]: ...
+
+    def __getitem__(self, index: int | slice) -> FieldRecord | list[FieldRecord]:
+        if isinstance(index, slice):
+            return [self[i] for i in range(*index.indices(len(self)))]
+        D, h, text = self.discriminant[index], self.class_number[index], self.class_group[index]
+        return FieldRecord(
+            d=self.d[index],
+            discriminant=D,
+            class_number=h,
+            narrow_class_number=h,
+            class_group=text,
+            narrow_class_group=text,
+            roots_of_unity=ROOTS_OF_UNITY.get(D, 2),
+            unit_norm=None,
+            regulator=None,
+            period_length=None,
+            unit_digits=None,
+            method=METHODS[self.method[index]],
+            proof="unconditional",
         )
-    return rows
+
+    def methods(self) -> set[str]:
+        """The methods of the rows."""
+        return {METHODS[i] for i in set(self.method)}
+
+    def store_values(self, method_ids: dict[str, int], chunk: int) -> list[tuple[object, ...]]:
+        """The rows as the store inserts them: the columns of :class:`FieldRecord` but ``method``
+        in their order, then the method's id and ``chunk``."""
+        ids = [method_ids.get(m, 0) for m in METHODS]
+        return [
+            (
+                d,
+                D,
+                h,
+                h,
+                text,
+                text,
+                ROOTS_OF_UNITY.get(D, 2),
+                None,
+                None,
+                None,
+                None,
+                "unconditional",
+                ids[m],
+                chunk,
+            )  # fmt: skip
+            for d, D, h, text, m in zip(
+                self.d, self.discriminant, self.class_number, self.class_group, self.method
+            )
+        ]
 
 
-def imaginary_chunk(chunk: Chunk) -> list[FieldRecord]:
+#: Numbers farther apart than this are sieved in separate segments.
+_SEGMENT_GAP = 1 << 16
+
+
+def _prime_counts(ns: list[int], primes: list[int]) -> list[int]:
+    """The number of distinct prime factors of each ``n`` in ``ns`` (positive, squarefree;
+    ``primes`` reach ``√max(ns)``), by a sieve over the segments of nearby ``n``.
+
+    >>> _prime_counts([1, 2, 30, 1001, 10**6 + 1, 3 * 10**6 + 3], primes_below(2000))
+    [0, 1, 3, 3, 2, 3]
+    """
+    import numpy as np
+
+    if not ns:
+        return []
+    order = sorted(range(len(ns)), key=ns.__getitem__)
+    counts = [0] * len(ns)
+    start = 0
+    while start < len(order):
+        stop = start + 1
+        while stop < len(order) and ns[order[stop]] - ns[order[stop - 1]] <= _SEGMENT_GAP:
+            stop += 1
+        lo, hi = ns[order[start]], ns[order[stop - 1]]
+        rest = np.arange(lo, hi + 1, dtype=np.int64)
+        found = np.zeros(hi - lo + 1, dtype=np.int64)
+        for p in primes:
+            if p * p > hi:
+                break
+            first = (-lo) % p
+            found[first::p] += 1
+            rest[first::p] //= p  # squarefree: p once
+        found += rest > 1
+        for i in order[start:stop]:
+            counts[i] = int(found[ns[i] - lo])
+        start = stop
+    return counts
+
+
+def imaginary_chunk(chunk: Chunk) -> ImaginaryRows:
     """The rows of every field of an imaginary chunk (with its batch class numbers, if any)."""
-    return imaginary_fields(chunk.radicands(), chunk.class_numbers)
+    return imaginary_rows(chunk.radicands(), chunk.class_numbers)
 
 
 def with_class_numbers(

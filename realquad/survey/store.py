@@ -76,7 +76,7 @@ from typing import Any
 from realquad._version import __version__
 from realquad.errors import InputError
 from realquad.survey import dbfile
-from realquad.survey.compute import FieldRecord
+from realquad.survey.compute import FieldRecord, RowColumns
 from realquad.survey.conditions import (
     invariant_factors,
     parse_decimal,
@@ -532,9 +532,12 @@ class SurveyStore:
                 return True
         return False
 
-    def save_chunk(self, chunk: Chunk, rows: Iterable[FieldRecord], seconds: float) -> int:
+    def save_chunk(
+        self, chunk: Chunk, rows: Iterable[FieldRecord] | RowColumns, seconds: float
+    ) -> int:
         """Write the rows of ``chunk`` and mark it complete, in one transaction; return the row count."""
-        rows = list(rows)
+        if not isinstance(rows, RowColumns):
+            rows = list(rows)
         c = self.connection
         c.execute("BEGIN IMMEDIATE")
         try:
@@ -545,13 +548,16 @@ class SurveyStore:
                 "INSERT INTO chunks (kind, lo, hi, fields, seconds, finished) VALUES (?, ?, ?, ?, ?, ?)",
                 (chunk.kind, chunk.lo, chunk.hi, len(rows), seconds, _utc_now()),
             )
-            chunk_id = cursor.lastrowid
+            chunk_id = int(cursor.lastrowid or 0)
             if self._run_range is not None:
                 self._record_range(self._run_range)
-            method_ids = self._method_ids({r.method for r in rows})
-            c.executemany(
-                _INSERT_FIELDS, [(*_VALUES(r), method_ids[r.method], chunk_id) for r in rows]
-            )
+            if isinstance(rows, RowColumns):  # sent in columns
+                method_ids = self._method_ids(rows.methods())
+                values = rows.store_values(method_ids, chunk_id)
+            else:
+                method_ids = self._method_ids({r.method for r in rows})
+                values = [(*_VALUES(r), method_ids[r.method], chunk_id) for r in rows]
+            c.executemany(_INSERT_FIELDS, values)
             c.execute("COMMIT")
         except BaseException:
             if c.in_transaction:

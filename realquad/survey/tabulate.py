@@ -69,7 +69,7 @@ def tabulate(
     executor: InProcessExecutor | None = None,
     chunk_size: int = DEFAULT_CHUNK_SIZE,
     progress: Mode = "quiet",
-    chunk_function: Callable[[Chunk], list[Any]] | None = None,
+    chunk_function: Callable[[Chunk], Any] | None = None,
 ) -> SurveyOutcome:
     """Compute the missing chunks of ``survey_range`` into ``store``.
 
