@@ -96,8 +96,8 @@ FALLBACKS: Counter[str] = Counter()
 
 @runtime_checkable
 class RowColumns(Protocol):
-    """Rows sent in columns (:class:`realquad.survey.imaginary.ImaginaryRows`): what the store
-    needs to insert them without building a :class:`FieldRecord` per row."""
+    """Rows of imaginary fields sent in columns (:class:`realquad.survey.imaginary.ImaginaryRows`):
+    what the store needs to insert them without building a :class:`FieldRecord` per row."""
 
     def __len__(self) -> int: ...
 
@@ -106,7 +106,8 @@ class RowColumns(Protocol):
         ...
 
     def store_values(self, method_ids: dict[str, int], chunk: int) -> list[tuple[object, ...]]:
-        """One tuple per row: the store's columns, the method's id and ``chunk``."""
+        """One tuple per row: ``(d, D, h, structure, w, method id, chunk)`` (``h⁺ = h``,
+        ``Cl⁺ = Cl``, no unit, unconditional)."""
         ...
 
 

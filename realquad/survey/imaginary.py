@@ -160,26 +160,10 @@ class ImaginaryRows(Sequence[FieldRecord]):  # a RowColumns (survey.compute)
         return {METHODS[i] for i in set(self.method)}
 
     def store_values(self, method_ids: dict[str, int], chunk: int) -> list[tuple[object, ...]]:
-        """The rows as the store inserts them: the columns of :class:`FieldRecord` but ``method``
-        in their order, then the method's id and ``chunk``."""
+        """The rows as the store inserts them: ``(d, D, h, structure, w, method id, chunk)``."""
         ids = [method_ids.get(m, 0) for m in METHODS]
         return [
-            (
-                d,
-                D,
-                h,
-                h,
-                text,
-                text,
-                ROOTS_OF_UNITY.get(D, 2),
-                None,
-                None,
-                None,
-                None,
-                "unconditional",
-                ids[m],
-                chunk,
-            )  # fmt: skip
+            (d, D, h, text, ROOTS_OF_UNITY.get(D, 2), ids[m], chunk)
             for d, D, h, text, m in zip(
                 self.d, self.discriminant, self.class_number, self.class_group, self.method
             )

@@ -16,6 +16,7 @@ from realquad.survey.imaginary import (
     METHOD_ALONE,
     METHOD_BATCH,
     imaginary_fields,
+    imaginary_rows,
     with_class_numbers,
 )
 from realquad.survey.ranges import Chunk, SurveyRange
@@ -237,3 +238,19 @@ def test_the_plot_of_a_store_with_both_signs(
     status, out, _ = _cli(capsys, "survey", "report", "--db", db, "--plot", str(picture))
     assert status == 0 and f"plot written to {picture}" in out
     assert picture.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_rows_sent_in_columns_are_stored_as_the_records(tmp_path: Path) -> None:
+    # the columns route (what workers send) and the FieldRecord route store the same rows
+    chunk = with_class_numbers([Chunk("D", -3000, -1)])[0]
+    columns = imaginary_rows(chunk.radicands(), chunk.class_numbers)
+    assert list(columns) == imaginary_fields(chunk.radicands(), chunk.class_numbers)
+    assert columns[1:3] == [columns[1], columns[2]] and len(columns) == len(chunk.radicands())
+    stored = []
+    for name, rows in (("columns", columns), ("records", list(columns))):
+        path = str(tmp_path / f"{name}.sqlite")
+        with SurveyStore.open_for_writing(path) as store:
+            assert store.save_chunk(chunk, rows, 1.0) == len(columns)
+        with SurveyStore.open_for_reading(path) as store:
+            stored.append(list(store.rows(sort="d")))
+    assert stored[0] == stored[1] and len(stored[0]) == len(columns)
