@@ -595,41 +595,83 @@ fail:
 /* Largest |D| the count takes: its table has sqrt(|D|/3) entries (23 MB at the limit). */
 #define COUNT_LIMIT ((int64_t)100000000000000LL)
 
-/* The reduced forms (a, b, c) with 4a^2 >= |D| (Im tau <= 1): b runs over the two residue
- * classes mod P (the largest prime factor of a) of the square roots of D, then every
- * condition is checked exactly. */
+/* x^-1 mod p for gcd(x, p) = 1, 0 < x < p (extended Euclid). */
 static int64_t
-count_band(int64_t D, int64_t a, const int64_t *primes, Py_ssize_t len)
+inverse_mod(int64_t x, int64_t p)
 {
-    int64_t rest = a, P = 1, r, roots[2], nroots, k, count = 0;
-    Py_ssize_t i;
-    for (i = 0; i < len && primes[i] * primes[i] <= rest; i++)
-        while (rest % primes[i] == 0)
-            P = primes[i], rest /= primes[i];
-    if (rest > 1)
-        P = rest;
-    if (P == 1 || P == 2) {
-        roots[0] = floormod64(D, 2), nroots = 1, P = 2;
-    } else {
-        r = prime_b(D, P);
+    int64_t r0 = p, r1 = x, s0 = 0, s1 = 1;
+    while (r1 != 0) {
+        int64_t q = r0 / r1, t = r0 - q * r1;
+        r0 = r1, r1 = t;
+        t = s0 - q * s1, s0 = s1, s1 = t;
+    }
+    return floormod64(s0, p);
+}
+
+/* The reduced forms (a, b, c) with 4a^2 >= |D| (Im tau <= 1). With a = 2^k * m, m odd, the
+ * candidates b (mod 2^(k+1) * M, M the product of the odd primes of a) are combined by the
+ * Chinese remainder theorem from the square roots of D modulo each odd prime and the
+ * residues mod T = 2^(k+1) with b^2 = D (mod 2^(k+2)); each is then checked exactly. At
+ * most 2^7 odd roots: the odd primes of a <= 5.8 * 10^6 number at most 7. largest[n] is the
+ * largest prime factor of n (from the sieve). */
+static int64_t
+count_band(int64_t D, int64_t a, const uint32_t *largest)
+{
+    int64_t rest = a, M = 1, T = 2, roots[256], twos[2], ntwos, nroots = 1, count = 0, k, j;
+    roots[0] = 0;
+    while (rest % 2 == 0)
+        rest /= 2, T *= 2;
+    if (T == 2) { /* a odd: b = D (mod 2) */
+        twos[0] = floormod64(D, 2), ntwos = 1;
+    } else if (D & 1) { /* D = 1 (mod 8): b = +-x, x^2 = D (mod 2T) */
+        int64_t x = 1, e;
+        for (e = 8; e < 2 * T; e *= 2)
+            if (((uint64_t)(x * x - D)) & (uint64_t)(2 * e - 1))
+                x += e / 2;
+        twos[0] = x % T, twos[1] = T - x % T, ntwos = 2;
+    } else { /* D = 0 (mod 4), T = 4: b = D/2 (mod 4) */
+        twos[0] = floormod64(D / 2, 4), ntwos = 1;
+    }
+    while (rest > 1) {
+        int64_t p = largest[rest], r, inv, n0 = nroots;
+        if (p == 0) {
+            PyErr_SetString(PyExc_ValueError, "the primes must be every prime up to sqrt(|D|/3)");
+            return -1;
+        }
+        while (rest % p == 0)
+            rest /= p;
+        r = prime_b(D, p);
         if (r < 0)
             return r < -1 ? -1 : 0;
-        r %= P;
-        roots[0] = r, roots[1] = (P - r) % P, nroots = roots[1] == r ? 1 : 2;
-    }
-    for (k = 0; k < nroots; k++) {
-        int64_t b;
-        for (b = -a + floormod64(roots[k] + a, P); b <= a; b += P) {
-            int64_t m, c;
-            if (b == -a || ((b - D) & 1))
-                continue;
-            m = b * b - D;
-            if (m % (4 * a))
-                continue;
-            c = m / (4 * a);
-            if (c > a || (c == a && b >= 0))
-                count++;
+        r %= p;
+        inv = inverse_mod(M % p, p);
+        for (k = 0; k < n0; k++) {
+            int64_t x = roots[k], t = floormod64((r - x) % p * inv, p);
+            roots[k] = x + M * t;
+            if (r != 0) {
+                t = floormod64((p - r - x) % p * inv, p);
+                roots[nroots++] = x + M * t;
+            }
         }
+        M *= p;
+    }
+    {
+        int64_t inv = T > 1 ? inverse_mod(M % T, T) : 0, step = M * T;
+        for (k = 0; k < nroots; k++)
+            for (j = 0; j < ntwos; j++) {
+                int64_t x = roots[k] + M * floormod64((twos[j] - roots[k]) % T * inv, T), b;
+                for (b = -a + floormod64(x + a, step); b <= a; b += step) {
+                    int64_t m, c;
+                    if (b == -a)
+                        continue;
+                    m = b * b - D;
+                    if (m % (4 * a))
+                        continue;
+                    c = m / (4 * a);
+                    if (c > a || (c == a && b >= 0))
+                        count++;
+                }
+            }
     }
     return count;
 }
@@ -644,7 +686,7 @@ k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
      * must be every prime up to sqrt(|D|/3) (only their squares' reach is checked). */
     int64_t D, n, amax, total = 0, a, *primes;
     Py_ssize_t len, i;
-    uint32_t *N;
+    uint32_t *N, *largest;
     if (check_nargs(nargs, 2, "definite_class_number") < 0 || definite_args(args[0], &D) < 0)
         return NULL;
     n = -D;
@@ -665,22 +707,21 @@ k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         return NULL;
     }
     N = PyMem_Malloc((size_t)(amax + 1) * sizeof(uint32_t));
-    if (N == NULL) {
-        PyMem_Free(primes);
+    largest = PyMem_Calloc((size_t)(amax + 1), sizeof(uint32_t));
+    if (N == NULL || largest == NULL) {
+        PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
         return PyErr_NoMemory();
     }
     for (a = 0; a <= amax; a++)
         N[a] = 1;
     for (i = 0; i < len && primes[i] <= amax; i++) {
-        int64_t p = primes[i];
-        if (D % p == 0) {
-            for (a = p * p; a <= amax; a += p * p)
-                N[a] = 0;
-        } else if (kronecker_i64(D, p) < 0) {
-            for (a = p; a <= amax; a += p)
-                N[a] = 0;
-        } else {
-            for (a = p; a <= amax; a += p)
+        int64_t p = primes[i], j;
+        int symbol = D % p == 0 ? 0 : kronecker_i64(D, p);
+        for (a = p, j = 1; a <= amax; a += p, j++) {
+            largest[a] = (uint32_t)p;
+            if (symbol < 0 || (symbol == 0 && j % p == 0))
+                N[a] = 0; /* (D/p) = -1, or p^2 | a with p | D */
+            else if (symbol > 0)
                 N[a] <<= 1;
         }
     }
@@ -690,14 +731,14 @@ k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         if (4 * a * a < n) {
             total += N[a];
         } else {
-            int64_t band = count_band(D, a, primes, len);
+            int64_t band = count_band(D, a, largest);
             if (band < 0) {
-                PyMem_Free(N), PyMem_Free(primes);
+                PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
                 return NULL;
             }
             total += band;
         }
     }
-    PyMem_Free(N), PyMem_Free(primes);
+    PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
     return PyLong_FromLongLong((long long)total);
 }

@@ -237,7 +237,7 @@ def definite_class_number(D: int, primes: list[int]) -> int:
     ``p^k ‖ a`` of ``1 + (D/p)`` when ``p ∤ D`` and of ``[k = 1]`` when ``p | D`` (``D``
     fundamental). A sieve over the primes gives every ``N(a)``. The forms with
     ``√|D|/2 < a ≤ √(|D|/3)`` (a few per cent of them) are found one by one: ``b`` runs over
-    the square roots of ``D`` modulo the largest prime factor of ``a``.
+    the square roots of ``D`` modulo the odd primes of ``a`` (Chinese remainders).
 
     >>> definite_class_number(-23, [2]), definite_class_number(-3299, [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31])
     (3, 27)
@@ -267,26 +267,32 @@ def definite_class_number(D: int, primes: list[int]) -> int:
 
 
 def _count_band(D: int, a: int, primes: list[int]) -> int:
-    """The reduced forms ``(a, b, c)`` of ``D`` for one ``a ≥ √|D|/2`` (see above)."""
-    rest, largest = a, 1
-    for p in primes:
-        if p * p > rest:
+    """The reduced forms ``(a, b, c)`` of ``D`` for one ``a ≥ √|D|/2``: with ``a = 2^k·m``, the
+    square roots of ``D`` modulo the odd primes of ``a`` and the ``b mod 2^(k+1)`` with
+    ``b² ≡ D (mod 2^(k+2))``, combined by Chinese remainders, give every candidate."""
+    rest, modulus, roots, two = a, 1, [0], 2
+    while rest % 2 == 0:
+        rest, two = rest // 2, two * 2
+    twos = [y for y in range(two) if (y * y - D) % (2 * two) == 0]
+    for p in [*primes, a]:
+        if rest == 1:
             break
+        if p * p > rest:
+            p = rest
+        if rest % p:
+            continue
         while rest % p == 0:
-            largest, rest = p, rest // p
-    if rest > 1:
-        largest = rest
-    if largest <= 2:
-        step, roots = 2, {D % 2}
-    else:
-        b = prime_form_b(D, largest)
-        if b < 0:
+            rest //= p
+        r = prime_form_b(D, p)
+        if r < 0:
             return 0
-        step, roots = largest, {b % largest, -b % largest}
-    count = 0
-    for root in roots:
-        for b in range(-a + (root + a) % step, a + 1, step):
-            if b == -a or (b - D) % 2 or (b * b - D) % (4 * a):
+        inverse = pow(modulus, -1, p)
+        roots = [x + modulus * ((s - x) * inverse % p) for x in roots for s in {r % p, -r % p}]
+        modulus *= p
+    inverse, step, count = pow(modulus, -1, two), modulus * two, 0
+    for x in [x + modulus * ((y - x) * inverse % two) for x in roots for y in twos]:
+        for b in range(-a + (x + a) % step, a + 1, step):
+            if b == -a or (b * b - D) % (4 * a):
                 continue
             c = (b * b - D) // (4 * a)
             if c > a or (c == a and b >= 0):
