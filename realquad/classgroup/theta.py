@@ -244,12 +244,12 @@ def _ternary_residue_counts(
 
 @dataclass(frozen=True)
 class ThetaCounts:
-    """The theta series up to ``n_max``: ``r₃`` to ``n_max/4`` (for ``D = −4m``) and at
-    ``m ≡ 3 (mod 8)``, and the counts of the forms ``Q_q`` at ``m ≡ 7 (mod 8)``."""
+    """The theta series up to ``n_max``: ``r₃`` at ``m ≡ 1, 2, 5, 6 (mod 8)`` to ``n_max/4``
+    (for ``D = −4m``) and at ``m ≡ 3 (mod 8)`` to ``n_max``, and the counts of the forms
+    ``Q_q`` at ``m ≡ 7 (mod 8)``; ``three_squares[r][k]`` is ``r₃(8k + r)``."""
 
     n_max: int
-    three_squares: np.ndarray
-    three_squares_3: np.ndarray
+    three_squares: dict[int, np.ndarray]
     ternary: tuple[np.ndarray, ...]
 
     def ternary_count(self, index: int, m: int) -> int:
@@ -267,9 +267,8 @@ class ThetaCounts:
                 if symbol != 1:
                     return _quotient(D, self.ternary_count(index, -D), k * (1 - symbol))
             return None
-        if D % 4 == 0:
-            return _quotient(D, int(self.three_squares[-D // 4]), 12)
-        return _quotient(D, int(self.three_squares_3[-D // 8]), 24)
+        m, parts = (-D // 4, 12) if D % 4 == 0 else (-D, 24)
+        return _quotient(D, int(self.three_squares[m % 8][m // 8]), parts)
 
 
 def _quotient(D: int, value: int, parts: int) -> int:
@@ -283,27 +282,34 @@ def _quotient(D: int, value: int, parts: int) -> int:
 def theta_counts(n_max: int, executor: InProcessExecutor | None = None) -> ThetaCounts:
     """``r₃`` and the counts of ``Q₃``, ``Q₅``, ``Q₇`` that the class numbers to ``|D| = n_max`` need.
 
-    The five series are independent pieces of work: ``executor`` (local
-    processes or a cluster, :mod:`realquad.core.executors`) computes them side
-    by side; by default this process, one after the other.
+    The eight series (one per residue class needed) are independent pieces of
+    work: ``executor`` (local processes or a cluster,
+    :mod:`realquad.core.executors`) computes them side by side, the longest
+    first; by default this process, one after the other.
     """
     if n_max < 0 or n_max > MAX_TERMS:
         three_square_counts(n_max)  # the same refusal
-    pieces = [(1, (1, 0, 1), n_max // 4, 0, 1), (1, (1, 0, 1), n_max, 3, 8)]
-    pieces += [(q, form, n_max, 7, 8) for q, form, _ in TERNARY_FORMS]
+    pieces = [(q, form, n_max, 7) for q, form, _ in TERNARY_FORMS]
+    pieces.append((1, (1, 0, 1), n_max, 3))
+    pieces += [(1, (1, 0, 1), n_max // 4, r) for r in (1, 2, 5, 6)]
     found = {
         piece: series
         for piece, series, _ in (executor or InProcessExecutor()).map_unordered(pieces, _series)
     }
     return ThetaCounts(
-        n_max, found[pieces[0]], found[pieces[1]], tuple(found[p] for p in pieces[2:])
+        n_max,
+        {piece[3]: found[piece] for piece in pieces[3:]},
+        tuple(found[piece] for piece in pieces[:3]),
     )
 
 
-def _series(piece: tuple[int, tuple[int, int, int], int, int, int]) -> np.ndarray:
-    """One series of :func:`theta_counts`: ``(q, form, n_max, residue, modulus)``."""
-    q, form, n_max, residue, modulus = piece
-    return _ternary_residue_counts(form, q, n_max, residue, modulus)
+def _series(piece: tuple[int, tuple[int, int, int], int, int]) -> np.ndarray:
+    """One series of :func:`theta_counts`: ``(q, form, n_max, residue)``, modulo 8, as ``int32``
+    (the counts are below ``2³¹``; half the bytes to send back)."""
+    import numpy as np
+
+    q, form, n_max, residue = piece
+    return _ternary_residue_counts(form, q, n_max, residue).astype(np.int32)
 
 
 def theta_class_numbers(D_min: int, D_max: int = -3) -> dict[int, int]:

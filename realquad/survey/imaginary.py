@@ -93,15 +93,15 @@ def imaginary_rows(ds: list[int], class_numbers: Sequence[int] = ()) -> Imaginar
     discriminants, hs, groups, methods = [], [], [], []
     for d, h, t in zip(ds, known, prime_counts, strict=True):
         D = fundamental_discriminant_of(d)
-        order = Order.from_conductor(D)  # D is fundamental: the range sieved it
         method = 0
         if not h:
-            h, method = count_reduced_forms(order, primes), 1
+            h, method = count_reduced_forms(Order.from_conductor(D), primes), 1
         # genus theory: t primes divide D, t = ω(d) and 2 when d ≡ 3 (mod 4)
         two_rank = t + (D % 2 == 0 and d % 2 != 0) - 1
-        invariants = invariants_without_walk(h, two_rank) or tuple(
-            class_invariants_from_class_number(order, h, primes, two_rank)
-        )
+        invariants = invariants_without_walk(h, two_rank)
+        if invariants is None:  # D is fundamental: the range sieved it
+            order = Order.from_conductor(D)
+            invariants = tuple(class_invariants_from_class_number(order, h, primes, two_rank))
         text = texts.get(invariants)
         if text is None:
             text = texts[invariants] = json.dumps(list(invariants))

@@ -69,6 +69,7 @@ import os
 import sqlite3
 import time
 from collections.abc import Iterable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, fields
 from decimal import Decimal
 from typing import Any
@@ -142,8 +143,15 @@ _FIELDS_TABLE = """CREATE TABLE {name} (
                       AND period_length IS NOT NULL AND unit_digits IS NOT NULL))
 )"""
 
+#: The index on ``h`` (queries by class number). A run of a million fields or more drops it
+#: while it writes (its random inserts cost more than the rows) and builds it again at the end;
+#: opening a store for writing builds it if a killed run left it missing.
+_CLASS_NUMBER_INDEX = "CREATE INDEX IF NOT EXISTS fields_class_number ON fields (class_number)"
+#: Fields a run computes from which it drops the index on ``h`` while it writes.
+BULK_FIELDS = 10**6
+
 #: The index and the view over ``fields``.
-_FIELDS_EXTRAS = f"""CREATE INDEX fields_class_number ON fields (class_number);
+_FIELDS_EXTRAS = f"""{_CLASS_NUMBER_INDEX};
 CREATE VIEW field_rows AS
     SELECT {", ".join("methods.method" if c == "method" else "fields." + c for c in COLUMNS)}
     FROM fields JOIN methods ON methods.id = fields.method_id"""
@@ -476,6 +484,7 @@ class SurveyStore:
             # up to 256 MB of pages in memory: the indexes of a survey of millions of
             # fields stay cached instead of being read back for every chunk
             connection.execute("PRAGMA cache_size = -262144")
+            connection.execute(_CLASS_NUMBER_INDEX)
         except BaseException as exc:
             if connection is not None:
                 connection.close()
@@ -523,6 +532,14 @@ class SurveyStore:
                 lock.release(remove=remove)
 
     # -- chunks -----------------------------------------------------------------
+
+    @contextmanager
+    def bulk_writes(self) -> Iterator[None]:
+        """Write many chunks without the index on ``h``, built again at the end; after an
+        interrupt or a kill, by the next :meth:`open_for_writing` (so Ctrl-C stops at once)."""
+        self.connection.execute("DROP INDEX IF EXISTS fields_class_number")
+        yield
+        self.connection.execute(_CLASS_NUMBER_INDEX)
 
     def is_done(self, chunk: Chunk) -> bool:
         """Whether completed chunks of the same kind cover ``chunk`` (whatever their size)."""

@@ -19,6 +19,7 @@ same call again resumes.
 
 from __future__ import annotations
 
+import contextlib
 import time
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -34,7 +35,7 @@ from realquad.survey.imaginary import (
 )
 from realquad.survey.progress import Mode, SurveyProgress, note
 from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, Chunk, SurveyRange
-from realquad.survey.store import SurveyStore
+from realquad.survey.store import BULK_FIELDS, SurveyStore
 
 
 @dataclass
@@ -107,12 +108,16 @@ def tabulate(
         outcome.skipped_chunks = len(chunks) - len(todo)
         outcome.skipped_fields = outcome.total_fields - sum(counts[c] for c in todo)
         start = time.perf_counter()
+        bulk = sum(counts[c] for c in todo) >= BULK_FIELDS
         with SurveyProgress(outcome.total_fields, progress, done=outcome.skipped_fields) as bar:
             try:
-                for chunk, rows, seconds in executor.map_unordered(todo, chunk_function):
-                    outcome.computed_fields += store.save_chunk(chunk, rows, seconds)
-                    outcome.computed_chunks += 1
-                    bar.advance(len(rows))
+                with store.bulk_writes() if bulk else contextlib.nullcontext():
+                    for chunk, rows, seconds in executor.map_unordered(todo, chunk_function):
+                        outcome.computed_fields += store.save_chunk(chunk, rows, seconds)
+                        outcome.computed_chunks += 1
+                        bar.advance(len(rows))
+                    if bulk:
+                        note(progress, "survey: indexing the class numbers")
             except KeyboardInterrupt:
                 raise SurveyInterrupted(outcome) from None
             finally:

@@ -254,3 +254,33 @@ def test_rows_sent_in_columns_are_stored_as_the_records(tmp_path: Path) -> None:
         with SurveyStore.open_for_reading(path) as store:
             stored.append(list(store.rows(sort="d")))
     assert stored[0] == stored[1] and len(stored[0]) == len(columns)
+
+
+def test_a_large_run_builds_the_class_number_index_at_the_end(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # a run of BULK_FIELDS fields or more writes without the index on h and builds it at the
+    # end; a run stopped before the end leaves it to the next run that opens the store
+    import importlib
+
+    monkeypatch.setattr(importlib.import_module("realquad.survey.tabulate"), "BULK_FIELDS", 100)
+    path = str(tmp_path / "bulk.sqlite")
+
+    def has_index() -> bool:
+        with sqlite3.connect(path) as connection:
+            names = connection.execute("SELECT name FROM sqlite_master WHERE type = 'index'")
+            return "fields_class_number" in {name for (name,) in names}
+
+    with SurveyStore.open_for_writing(path) as store:
+        tabulate(SurveyRange("d", -2000, -1), store, chunk_size=500)
+    assert has_index()
+    with SurveyStore.open_for_writing(path) as store:
+        with pytest.raises(KeyboardInterrupt):
+            with store.bulk_writes():
+                raise KeyboardInterrupt
+    assert not has_index()
+    with SurveyStore.open_for_writing(path):
+        pass
+    assert has_index()
+    with SurveyStore.open_for_reading(path) as store:
+        assert len(list(store.rows(RowFilter(class_number=1)))) == 9  # Heegner–Baker–Stark
