@@ -21,7 +21,12 @@ from realquad.survey.compute import FieldRecord
 from realquad.survey.conditions import parse_decimal, parse_group, parse_p_rank
 from realquad.survey.plots import check_plot_path, plot_report
 from realquad.survey.progress import choose_mode
-from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, SurveyRange
+from realquad.survey.ranges import (
+    DEFAULT_CHUNK_SIZE,
+    DEFAULT_IMAGINARY_CHUNK_SIZE,
+    SurveyRange,
+    default_chunk_size,
+)
 from realquad.survey.stats import ImaginaryReport, missing_json, missing_text, survey_report
 from realquad.survey.store import COLUMNS, RowFilter, SurveyStore
 from realquad.survey.tabulate import SurveyInterrupted, tabulate
@@ -108,7 +113,8 @@ def command() -> None:
     type=str,
     default=None,
     metavar="N",
-    help=f"Width of a chunk of d (default {DEFAULT_CHUNK_SIZE}).",
+    help=f"Width of a chunk of d (default {DEFAULT_CHUNK_SIZE}; "
+    f"{DEFAULT_IMAGINARY_CHUNK_SIZE} for imaginary fields).",
 )
 @json_option
 def run_command(
@@ -136,7 +142,7 @@ def run_command(
         if hi < 0:
             raise InputError("give --d-min N (the most negative d of a survey of imaginary fields)")
         lo = 2
-    size = _bound(chunk_size, "--chunk-size", DEFAULT_CHUNK_SIZE)
+    size = _bound(chunk_size, "--chunk-size", default_chunk_size(hi < 0))
     count, scheduler = parse_parallel(workers, scheduler)
     assert lo is not None and size is not None
     survey_range = SurveyRange("D" if discriminants else "d", lo, hi)

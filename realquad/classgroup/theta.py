@@ -246,19 +246,23 @@ def _ternary_residue_counts(
 class ThetaCounts:
     """The theta series up to ``n_max``: ``r₃`` at ``m ≡ 1, 2, 5, 6 (mod 8)`` to ``n_max/4``
     (for ``D = −4m``) and at ``m ≡ 3 (mod 8)`` to ``n_max``, and the counts of the forms
-    ``Q_q`` at ``m ≡ 7 (mod 8)``; ``three_squares[r][k]`` is ``r₃(8k + r)``."""
+    ``Q_q`` at ``m ≡ 7 (mod 8)``; ``three_squares[r][k − start]`` is ``r₃(8k + r)``, with
+    ``start`` :attr:`odd_start` for ``r = 3`` and the ternary forms and :attr:`even_start`
+    for the others (0 for the whole series; a :meth:`window` keeps a slice)."""
 
     n_max: int
     three_squares: dict[int, np.ndarray]
     ternary: tuple[np.ndarray, ...]
+    odd_start: int = 0
+    even_start: int = 0
 
     def ternary_count(self, index: int, m: int) -> int:
         """The count of ``TERNARY_FORMS[index]`` at ``m ≡ 7 (mod 8)``."""
-        return int(self.ternary[index][m // 8])
+        return int(self.ternary[index][m // 8 - self.odd_start])
 
     def class_number(self, D: int) -> int | None:
-        """``h(D)`` for a fundamental ``-n_max ≤ D < 0``, or ``None`` when ``D ≡ 1 (mod 8)``
-        and 3, 5, 7 all split in ``Q(√D)``."""
+        """``h(D)`` for a fundamental ``-n_max ≤ D < 0`` (in the window), or ``None`` when
+        ``D ≡ 1 (mod 8)`` and 3, 5, 7 all split in ``Q(√D)``."""
         if D == -3 or D == -4:
             return 1
         if D % 8 == 1:
@@ -267,8 +271,33 @@ class ThetaCounts:
                 if symbol != 1:
                     return _quotient(D, self.ternary_count(index, -D), k * (1 - symbol))
             return None
-        m, parts = (-D // 4, 12) if D % 4 == 0 else (-D, 24)
-        return _quotient(D, int(self.three_squares[m % 8][m // 8]), parts)
+        if D % 4 == 0:
+            m, parts, start = -D // 4, 12, self.even_start
+        else:
+            m, parts, start = -D, 24, self.odd_start
+        return _quotient(D, int(self.three_squares[m % 8][m // 8 - start]), parts)
+
+    def window(self, odd: tuple[int, int], even: tuple[int, int]) -> ThetaCounts:
+        """The counts for odd ``|D|`` in ``odd`` and ``|D|/4`` in ``even`` (closed intervals)
+        alone: what one chunk of a survey needs, a few kilobytes to send to a worker.
+
+        >>> whole = theta_counts(1000)
+        >>> part = whole.window((900, 1000), (225, 250))
+        >>> [part.class_number(D) for D in (-971, -947, -932, -904)] == [
+        ...     whole.class_number(D) for D in (-971, -947, -932, -904)]
+        True
+        """
+        (o_lo, o_hi), (e_lo, e_hi) = odd, even
+        o_lo, o_hi, e_lo, e_hi = o_lo // 8, o_hi // 8 + 1, e_lo // 8, e_hi // 8 + 1
+        odd_cut = slice(o_lo - self.odd_start, o_hi - self.odd_start)
+        even_cut = slice(e_lo - self.even_start, e_hi - self.even_start)
+        return ThetaCounts(
+            self.n_max,
+            {r: a[odd_cut if r == 3 else even_cut].copy() for r, a in self.three_squares.items()},
+            tuple(a[odd_cut].copy() for a in self.ternary),
+            o_lo,
+            e_lo,
+        )
 
 
 def _quotient(D: int, value: int, parts: int) -> int:

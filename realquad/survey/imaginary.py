@@ -27,7 +27,7 @@ columns are empty.
 >>> rows[2].unit_norm, rows[2].regulator, rows[2].proof
 (None, None, 'unconditional')
 >>> chunk = with_class_numbers([Chunk("d", -320, -1)])[0]
->>> known = dict(zip(chunk.radicands(), chunk.class_numbers))
+>>> known = dict(zip(chunk.radicands(), chunk_class_numbers(chunk)))
 >>> known[-314], known[-313], known[-311]   # 3, 5 and 7 split in Q(√−311): 0, field by field
 (26, 8, 0)
 
@@ -76,7 +76,7 @@ ROOTS_OF_UNITY = {-3: 6, -4: 4}
 def imaginary_fields(ds: list[int], class_numbers: Sequence[int] = ()) -> list[FieldRecord]:
     """The survey rows of ``Q(√d)`` for the squarefree ``d < 0`` in ``ds``, in order.
 
-    ``class_numbers`` (as in :attr:`Chunk.class_numbers`): ``h`` of each field
+    ``class_numbers`` (as :func:`chunk_class_numbers` gives them): ``h`` of each field
     where the batch proved it, ``0`` where it did not; empty: none known.
     """
     return list(imaginary_rows(ds, class_numbers))
@@ -210,11 +210,11 @@ def _prime_counts(ns: list[int], primes: list[int]) -> list[int]:
 
 def imaginary_chunk(chunk: Chunk) -> ImaginaryRows:
     """The rows of every field of an imaginary chunk (with its batch class numbers, if any)."""
-    return imaginary_rows(chunk.radicands(), chunk.class_numbers)
+    return imaginary_rows(chunk.radicands(), chunk_class_numbers(chunk))
 
 
 def with_class_numbers(
-    chunks: list[Chunk], executor: InProcessExecutor | None = None
+    chunks: list[Chunk], executor: InProcessExecutor | None = None, fields: int | None = None
 ) -> list[Chunk]:
     """The imaginary ``chunks`` with the class numbers the batch proves attached.
 
@@ -224,25 +224,36 @@ def with_class_numbers(
     a few fields far out, or more than
     :data:`~realquad.classgroup.theta.MAX_TERMS` terms, go field by field.
     ``executor`` computes the series side by side (see
-    :func:`~realquad.classgroup.theta.theta_counts`).
+    :func:`~realquad.classgroup.theta.theta_counts`); ``fields`` is the
+    number of fields of the chunks if the caller knows it. Each chunk gets
+    the slice of the series it needs (:attr:`Chunk.theta`); its worker reads
+    the class numbers (:func:`chunk_class_numbers`).
     """
     if not chunks:
         return chunks
-    radicands = [chunk.radicands() for chunk in chunks]
     largest = largest_discriminant(chunks)
-    fields = sum(len(ds) for ds in radicands)
+    if fields is None:
+        fields = sum(len(chunk.radicands()) for chunk in chunks)
     if not batch_pays(largest, fields):
         return chunks
     counts = theta_counts(largest, executor)
-    return [
-        replace(
-            chunk,
-            class_numbers=tuple(
-                counts.class_number(fundamental_discriminant_of(d)) or 0 for d in ds
-            ),
-        )
-        for chunk, ds in zip(chunks, radicands, strict=True)
-    ]
+    return [replace(chunk, theta=counts.window(*_theta_range(chunk))) for chunk in chunks]
+
+
+def _theta_range(chunk: Chunk) -> tuple[tuple[int, int], tuple[int, int]]:
+    """The odd ``|D|`` and the ``|D|/4`` of the fields of an imaginary chunk (intervals)."""
+    odd = (-chunk.hi, -chunk.lo)
+    return odd, (odd if chunk.kind == "d" else (-chunk.hi // 4, -chunk.lo // 4))
+
+
+def chunk_class_numbers(chunk: Chunk) -> tuple[int, ...]:
+    """The class numbers the batch proved for the fields of ``chunk`` (in the order of its
+    radicands, ``0`` where it gives none), read from its slice of the theta series; empty
+    when the batch was not used."""
+    if chunk.class_numbers or chunk.theta is None:
+        return chunk.class_numbers
+    theta = chunk.theta
+    return tuple(theta.class_number(fundamental_discriminant_of(d)) or 0 for d in chunk.radicands())
 
 
 #: The batch is used when the fields to compute are at least ``1/BATCH_SHARE`` of ``max |D|``.

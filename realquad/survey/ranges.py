@@ -27,7 +27,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 from realquad.core.integers import isqrt
 from realquad.core.orders import fundamental_discriminant_of
@@ -36,8 +36,16 @@ from realquad.errors import InputError
 
 Kind = Literal["d", "D"]
 
-#: Default width of a chunk (in ``d`` or in ``D``).
+#: Default width of a chunk (in ``d`` or in ``D``) of real fields.
 DEFAULT_CHUNK_SIZE = 2000
+#: Default width of a chunk of imaginary fields (each takes microseconds: one store
+#: transaction for thousands of them).
+DEFAULT_IMAGINARY_CHUNK_SIZE = 20_000
+
+
+def default_chunk_size(imaginary: bool) -> int:
+    """The default chunk width of a range of real or imaginary fields."""
+    return DEFAULT_IMAGINARY_CHUNK_SIZE if imaginary else DEFAULT_CHUNK_SIZE
 
 
 def squarefree_in(lo: int, hi: int) -> list[int]:
@@ -52,6 +60,21 @@ def squarefree_in(lo: int, hi: int) -> list[int]:
         if first <= hi:
             marks[first - lo :: q] = bytearray(len(range(first, hi + 1, q)))
     return [lo + i for i, keep in enumerate(marks) if keep]
+
+
+def _squarefree_count(lo: int, hi: int, residues: tuple[int, ...] = (0, 1, 2, 3)) -> int:
+    """The number of squarefree ``n`` with ``max(lo, 2) ≤ n ≤ hi`` and ``n mod 4`` in
+    ``residues``: the sieve of :func:`squarefree_in` without the list."""
+    lo = max(lo, 2)
+    if hi < lo:
+        return 0
+    marks = bytearray([1]) * (hi - lo + 1)
+    for p in primes_below(isqrt(hi) + 1):
+        q = p * p
+        first = -(-lo // q) * q
+        if first <= hi:
+            marks[first - lo :: q] = bytearray(len(range(first, hi + 1, q)))
+    return sum(marks[(r - lo) % 4 :: 4].count(1) for r in residues)
 
 
 def negative_radicands_in(lo: int, hi: int) -> list[int]:
@@ -79,13 +102,15 @@ class Chunk:
     ``class_numbers`` (not part of the chunk's identity) may carry, for an
     imaginary chunk, the class numbers of its fields in the order of
     :meth:`radicands` as the run's batch method proved them, ``0`` where it
-    gives none (see :mod:`realquad.survey.imaginary`).
+    gives none; ``theta`` (neither) the batch's theta series cut to the chunk,
+    from which the worker reads them (see :mod:`realquad.survey.imaginary`).
     """
 
     kind: Kind
     lo: int
     hi: int
     class_numbers: tuple[int, ...] = field(default=(), compare=False, repr=False)
+    theta: Any = field(default=None, compare=False, repr=False)
 
     @property
     def label(self) -> str:
@@ -99,6 +124,26 @@ class Chunk:
         if self.kind == "d":
             return squarefree_in(self.lo, self.hi)
         return [D if D % 4 == 1 else D // 4 for D in fundamental_discriminants_in(self.lo, self.hi)]
+
+    def size(self) -> int:
+        """The number of fields in this chunk, ``len(self.radicands())``, without listing them.
+
+        >>> [Chunk(k, lo, hi).size() for k, lo, hi in (("D", -24, -3), ("d", 2, 30), ("D", 5, 60))]
+        [10, 18, 18]
+        """
+        lo, hi = self.lo, self.hi
+        if hi < 0:
+            if self.kind == "d":  # |d| squarefree in [-hi, -lo], 1 included
+                return _squarefree_count(-hi, -lo) + (hi == -1)
+            hi = min(hi, -3)  # D = d ≡ 1 (mod 4): |d| ≡ 3; D = 4d, d ≡ 2, 3: |d| ≡ 2, 1
+            even_lo, even_hi = -(-lo // 4), min(hi // 4, -1)
+            odd = _squarefree_count(-hi, -lo, (3,)) if hi >= lo else 0
+            if even_hi < even_lo:
+                return odd
+            return odd + _squarefree_count(-even_hi, -even_lo, (1, 2)) + (even_hi == -1)
+        if self.kind == "d":
+            return _squarefree_count(lo, hi)
+        return _squarefree_count(lo, hi, (1,)) + _squarefree_count(-(-lo // 4), hi // 4, (2, 3))
 
     def _negative_radicands(self) -> list[int]:
         if self.kind == "d":

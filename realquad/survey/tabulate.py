@@ -34,7 +34,7 @@ from realquad.survey.imaginary import (
     with_class_numbers,
 )
 from realquad.survey.progress import Mode, SurveyProgress, note
-from realquad.survey.ranges import DEFAULT_CHUNK_SIZE, Chunk, SurveyRange
+from realquad.survey.ranges import Chunk, SurveyRange, default_chunk_size
 from realquad.survey.store import BULK_FIELDS, SurveyStore
 
 
@@ -68,7 +68,7 @@ def tabulate(
     survey_range: SurveyRange,
     store: SurveyStore,
     executor: InProcessExecutor | None = None,
-    chunk_size: int = DEFAULT_CHUNK_SIZE,
+    chunk_size: int | None = None,
     progress: Mode = "quiet",
     chunk_function: Callable[[Chunk], Any] | None = None,
 ) -> SurveyOutcome:
@@ -88,8 +88,8 @@ def tabulate(
     if chunk_function is None:
         chunk_function = imaginary_chunk if survey_range.imaginary else survey_chunk
     try:
-        chunks = list(survey_range.chunks(chunk_size))
-        counts = {c: len(c.radicands()) for c in chunks}
+        chunks = list(survey_range.chunks(chunk_size or default_chunk_size(survey_range.imaginary)))
+        counts = {c: c.size() for c in chunks}
         todo = [c for c in chunks if not store.is_done(c)]
         if survey_range.imaginary and chunk_function is imaginary_chunk and todo:
             largest = largest_discriminant(todo)
@@ -100,7 +100,7 @@ def tabulate(
                     progress, f"survey: class numbers to |D| = {largest:,} from theta series first"
                 )
             begun = time.perf_counter()
-            todo = with_class_numbers(todo, executor)
+            todo = with_class_numbers(todo, executor, sum(counts[c] for c in todo))
             if loud:
                 note(progress, f"survey: theta series done in {time.perf_counter() - begun:.1f} s")
         store.begin_run(survey_range)

@@ -15,6 +15,7 @@ from realquad.errors import InputError
 from realquad.survey.imaginary import (
     METHOD_ALONE,
     METHOD_BATCH,
+    chunk_class_numbers,
     imaginary_fields,
     imaginary_rows,
     with_class_numbers,
@@ -51,9 +52,9 @@ def test_rows_against_the_full_walk_and_both_routes_agree() -> None:
     ds = [d for d in range(-2500, 0) if all(d % (k * k) for k in range(2, 50))]
     chunk = with_class_numbers([Chunk("d", -2500, -1)])[0]
     assert chunk.radicands() == ds
-    batch = imaginary_fields(ds, chunk.class_numbers)
+    batch = imaginary_fields(ds, chunk_class_numbers(chunk))
     alone = imaginary_fields(ds)
-    for a, b, known in zip(batch, alone, chunk.class_numbers, strict=True):
+    for a, b, known in zip(batch, alone, chunk_class_numbers(chunk), strict=True):
         D = a.discriminant
         G = class_group_imaginary(Order(D))
         assert (a.class_number, json.loads(a.class_group)) == (G.class_number, list(G.invariants))
@@ -243,8 +244,8 @@ def test_the_plot_of_a_store_with_both_signs(
 def test_rows_sent_in_columns_are_stored_as_the_records(tmp_path: Path) -> None:
     # the columns route (what workers send) and the FieldRecord route store the same rows
     chunk = with_class_numbers([Chunk("D", -3000, -1)])[0]
-    columns = imaginary_rows(chunk.radicands(), chunk.class_numbers)
-    assert list(columns) == imaginary_fields(chunk.radicands(), chunk.class_numbers)
+    columns = imaginary_rows(chunk.radicands(), chunk_class_numbers(chunk))
+    assert list(columns) == imaginary_fields(chunk.radicands(), chunk_class_numbers(chunk))
     assert columns[1:3] == [columns[1], columns[2]] and len(columns) == len(chunk.radicands())
     stored = []
     for name, rows in (("columns", columns), ("records", list(columns))):

@@ -76,3 +76,14 @@ def test_discriminant_chunks_give_the_fields_of_their_discriminants() -> None:
 def test_empty_ranges_are_refused(lo: int, hi: int) -> None:
     with pytest.raises(InputError, match="empty range"):
         SurveyRange("d", lo, hi)
+
+
+@given(st.sampled_from("dD"), st.integers(-(10**5), 10**5), st.integers(0, 3000))
+def test_chunk_size_counts_the_radicands(kind, lo, width):
+    # the count without the list equals the length of the list (the sieve twice)
+    hi = lo + width
+    if lo < 0:
+        hi = min(hi, -1)
+    elif lo < 2:
+        return
+    assert Chunk(kind, lo, hi).size() == len(Chunk(kind, lo, hi).radicands())
