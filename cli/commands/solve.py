@@ -77,8 +77,14 @@ def _compact_text(i: int, fam: CompactOrbitFamily, sizer: Sizer) -> str:
     element, _ = _unit_texts(fam)
     return (
         f"  {i}. {element} in compact form ({plural(fam.generator.size, 'factor')}), "
-        f"x of about {fam.digits():,} digits"
+        f"x of {_about(fam.digits_exact())}{fam.digits():,} digits"
     )
+
+
+def _about(exact: bool) -> str:
+    """``about `` before a digit count the logarithms leave ±1 (never in practice: see
+    :meth:`CompactOrbitFamily.digits`)."""
+    return "" if exact else "about "
 
 
 def _shared_automorph(fam: CompactOrbitFamily) -> list[str]:
@@ -86,7 +92,8 @@ def _shared_automorph(fam: CompactOrbitFamily) -> list[str]:
     _, unit = _unit_texts(fam)
     return [
         f"automorph of every family: multiplication by the least unit {unit} of norm 1, in "
-        f"compact form ({plural(fam.unit.size, 'factor')}), t of about {fam.unit_digits():,} "
+        f"compact form ({plural(fam.unit.size, 'factor')}), t of "
+        f"{_about(fam.unit_digits_exact())}{fam.unit_digits():,} "
         "digits; the families hold the mirror images −(x, y) too"
     ]
 
@@ -96,7 +103,8 @@ def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
         lines = [_compact_text(i, fam, sizer)]
         if k is not None and fam.digits(k) > MAX_MEMBER_DIGITS:
             lines.append(
-                f"     member k = {k}: about {fam.digits(k):,} digits, left in compact form"
+                f"     member k = {k}: {_about(fam.digits_exact(k))}{fam.digits(k):,} digits, "
+                "left in compact form"
             )
         elif k is not None:
             mx, my = (sizer.text(v) for v in fam.solution(k))
@@ -137,7 +145,13 @@ def _family_text(i: int, fam: Family, k: int | None, sizer: Sizer) -> list[str]:
 def _member(fam: Family, k: int) -> dict[str, Any]:
     """The JSON shape of the ``k``-th member (``docs/json.md``, *Member*)."""
     if isinstance(fam, CompactOrbitFamily) and fam.digits(k) > MAX_MEMBER_DIGITS:
-        return {"k": k, "x": None, "y": None, "digits": fam.digits(k)}
+        return {
+            "k": k,
+            "x": None,
+            "y": None,
+            "digits": fam.digits(k),
+            "digits_exact": fam.digits_exact(k),
+        }
     return {"k": k, **point_dict(fam.solution(k))}
 
 
@@ -236,7 +250,7 @@ def solution_latex(
         shown = [
             point((m["x"], m["y"]), max_digits)
             if m["x"] is not None
-            else text(f"about {m['digits']} digits (compact)")
+            else text(f"{_about(m['digits_exact'])}{m['digits']} digits (compact)")
             for m in members
         ]
         rows.append(f"k = {integer(members[0]['k'])}:\\quad " + ",\\ ".join(shown))

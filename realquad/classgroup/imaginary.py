@@ -214,7 +214,7 @@ def class_invariants_from_class_number(
                 f"internal check failed: the {p}-Sylow subgroup of Cl({D}) does not have {q} classes"
             )
         _, generators, relations = found
-        powers[p] = triangular_invariants(relations)
+        powers[p] = list(_sylow_invariants(tuple(map(tuple, relations))))
     return invariants_from_primary(powers)
 
 
@@ -250,6 +250,12 @@ def invariants_without_walk(class_number: int, two_rank: int) -> tuple[int, ...]
             f"internal check failed: 2-rank {two_rank} with h = {class_number} odd"
         )
     return tuple(invariants_from_primary(powers))
+
+
+@lru_cache(maxsize=65536)
+def _sylow_invariants(relations: tuple[tuple[int, ...], ...]) -> tuple[int, ...]:
+    """:func:`triangular_invariants` of a Sylow walk's relations (few shapes recur: cached)."""
+    return tuple(triangular_invariants([list(row) for row in relations]))
 
 
 #: Primes handed to a Sylow walk first (converting all of them costs more than the walk).

@@ -467,17 +467,66 @@ class CompactOrbitFamily:
 
     def digits(self, k: int = 0) -> int:
         """How many decimal digits ``x`` of the member ``α εᵏ`` has: exactly for a fundamental
-        solution written out, else from the logarithms (about, ±1)."""
+        solution written out or when its logarithm decides it (:meth:`digits_exact`), else
+        about (±1)."""
+        return self._x_digits(k)[0]
+
+    def digits_exact(self, k: int = 0) -> bool:
+        """Whether :meth:`digits` is exact for the member ``α εᵏ``."""
+        return self._x_digits(k)[1]
+
+    def _x_digits(self, k: int) -> tuple[int, bool]:
+        """``(digits of x, exact)`` for the member ``β = α εᵏ``.
+
+        With ``β = ax + y(b + √D)/2`` (``D = b² − 4ac``; ``4d``, ``a = 1``,
+        ``b = 0`` for ``x² − dy² = n``): ``2a√D·x = β(√D − b) + β'(√D + b)``, so
+        when ``|β| > |β'|``, ``log|x| = log|β| + log|√D − b| − log(2a√D) +
+        log(1 + ρ)`` with ``|ρ| = |β'/β|·|√D + b|/|√D − b|`` (the other way round
+        when ``|β'| > |β|``), and ``|log(1 + ρ)| ≤ 2|ρ|`` for ``|ρ| ≤ 1/2``. The
+        count ``⌊log₁₀|x|⌋ + 1`` is exact when the interval of ``log₁₀|x|`` holds
+        no integer; else the member is written out when it is small enough.
+        """
         if k == 0 and self.fundamental is not None:
-            return decimal_digits(self.fundamental[0])
-        with mpmath.workdps(_LOG_DIGITS + 20):
-            top = max(self._logs(k))
-            return max(1, int(mpmath.floor((top - mpmath.log(2)) / mpmath.log(10))) + 1)
+            return decimal_digits(self.fundamental[0]), True
+        a, b = self.a, self.b
+        D = 4 * self.d if (a, b) == (1, 0) else self.d
+        big, small = self._logs(k)
+        with mpmath.workdps(_LOG_DIGITS + len(str(int(abs(big)))) + 20):
+            root = mpmath.sqrt(D)
+            if big >= small:
+                top, near, far = big, root - b, root + b
+            else:
+                top, near, far = small, root + b, root - b
+            rho = mpmath.exp(-abs(big - small)) * abs(far / near)
+            error = (1 + abs(k)) * mpmath.mpf(10) ** (-_LOG_DIGITS) + 2 * rho
+            value = (top + mpmath.log(abs(near)) - mpmath.log(2 * a * root)) / mpmath.log(10)
+            low, high = value - error / mpmath.log(10), value + error / mpmath.log(10)
+            estimate = max(1, int(mpmath.floor(value)) + 1)
+            if rho <= 0.5 and mpmath.floor(low) == mpmath.floor(high):
+                return max(1, int(mpmath.floor(value)) + 1), True
+        if estimate <= MAX_MEMBER_DIGITS:
+            return decimal_digits(expand_point(self.member(k), a, b)[0]), True
+        return estimate, False
 
     def unit_digits(self) -> int:
-        """About how many decimal digits ``t`` of the unit ``ε = t + u√d`` has."""
-        with mpmath.workdps(_LOG_DIGITS + 20):
-            return max(1, int(mpmath.floor((self.log_unit - mpmath.log(2)) / mpmath.log(10))) + 1)
+        """How many decimal digits ``t`` of the unit has, ``ε = t + u√d`` (for a form,
+        ``(t + u√D)/2``): ``t = (ε + ε⁻¹)/2`` (for a form ``ε + ε⁻¹``), so ``log t = log ε −
+        log 2 + log(1 + ε⁻²)`` (without ``log 2``); exact unless ``log₁₀ t`` is within the
+        error of its logarithm of an integer (:meth:`unit_digits_exact`)."""
+        return self._t_digits()[0]
+
+    def unit_digits_exact(self) -> bool:
+        """Whether :meth:`unit_digits` is exact."""
+        return self._t_digits()[1]
+
+    def _t_digits(self) -> tuple[int, bool]:
+        with mpmath.workdps(_LOG_DIGITS + len(str(int(self.log_unit))) + 20):
+            correction = mpmath.exp(-2 * self.log_unit)  # log(1 + ε⁻²) ∈ [0, ε⁻²]
+            half = mpmath.log(2) if (self.a, self.b) == (1, 0) else 0
+            value = (self.log_unit - half + correction / 2) / mpmath.log(10)
+            error = (mpmath.mpf(10) ** (-_LOG_DIGITS) + correction) / mpmath.log(10)
+            exact = mpmath.floor(value - error) == mpmath.floor(value + error)
+            return max(1, int(mpmath.floor(value)) + 1), bool(exact)
 
     def member(self, k: int) -> CompactRepresentation:
         """``α εᵏ`` in compact form."""
@@ -564,9 +613,11 @@ class CompactOrbitFamily:
             "kind": self.kind,
             "fundamental": None if self.fundamental is None else point_dict(self.fundamental),
             "digits": self.digits(),
+            "digits_exact": self.digits_exact(),
             "compact": self.generator.to_dict(),
             "unit_compact": self.unit.to_dict(),
             "unit_digits": self.unit_digits(),
+            "unit_digits_exact": self.unit_digits_exact(),
             "mirrored": True,
         }
 

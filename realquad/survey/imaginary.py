@@ -210,7 +210,8 @@ def _prime_counts(ns: list[int], primes: list[int]) -> list[int]:
 
 def imaginary_chunk(chunk: Chunk) -> ImaginaryRows:
     """The rows of every field of an imaginary chunk (with its batch class numbers, if any)."""
-    return imaginary_rows(chunk.radicands(), chunk_class_numbers(chunk))
+    ds = chunk.radicands()
+    return imaginary_rows(ds, chunk_class_numbers(chunk, ds))
 
 
 def with_class_numbers(
@@ -246,14 +247,14 @@ def _theta_range(chunk: Chunk) -> tuple[tuple[int, int], tuple[int, int]]:
     return odd, (odd if chunk.kind == "d" else (-chunk.hi // 4, -chunk.lo // 4))
 
 
-def chunk_class_numbers(chunk: Chunk) -> tuple[int, ...]:
+def chunk_class_numbers(chunk: Chunk, radicands: list[int] | None = None) -> tuple[int, ...]:
     """The class numbers the batch proved for the fields of ``chunk`` (in the order of its
     radicands, ``0`` where it gives none), read from its slice of the theta series; empty
-    when the batch was not used."""
+    when the batch was not used. ``radicands``: the chunk's, when the caller has them."""
     if chunk.class_numbers or chunk.theta is None:
         return chunk.class_numbers
-    theta = chunk.theta
-    return tuple(theta.class_number(fundamental_discriminant_of(d)) or 0 for d in chunk.radicands())
+    ds = chunk.radicands() if radicands is None else radicands
+    return tuple(chunk.theta.class_numbers([fundamental_discriminant_of(d) for d in ds]))
 
 
 #: The batch is used when the fields to compute are at least ``1/BATCH_SHARE`` of ``max |D|``.

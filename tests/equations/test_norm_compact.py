@@ -275,3 +275,23 @@ def test_a_form_beyond_the_continued_fraction() -> None:
             x, y = fam.residues(p)
             assert (a * x * x + b * x * y + c * y * y - n) % p == 0
             assert fam.member(-2).norm == a * n
+
+
+@pytest.mark.parametrize(
+    ("form", "n"),
+    [((1, 0, -(10**6 + 3)), -2), ((1, 0, -61), 3), ((3, 5, -7), -9), ((2, 3, -40), -35)],
+)
+def test_digit_counts_of_members_are_exact(form: tuple[int, int, int], n: int) -> None:
+    # the count from logarithms against the members written out (decimal digits of |x|)
+    from realquad.equations.families import expand_point
+    from realquad.equations.norm_compact import form_families_infrastructure
+
+    families, _, _ = form_families_infrastructure(*form, n)
+    assert families
+    for fam in families:
+        for k in range(-4, 5):
+            x, _ = expand_point(fam.member(k), fam.a, fam.b)
+            assert fam.digits(k) == len(str(abs(x))) and fam.digits_exact(k), (form, n, k)
+        u = fam.unit.expand()[0]  # ε = (u + v√D)/2: t = u/2 for x² − dy² (D = 4d), else u
+        t = u // 2 if (fam.a, fam.b) == (1, 0) else u
+        assert fam.unit_digits() == len(str(t)) and fam.unit_digits_exact()
