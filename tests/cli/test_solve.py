@@ -210,9 +210,10 @@ def test_compact_families_json_and_text(capsys):
     for fam in data["families"]:
         assert fam["compact"]["norm"] == 1 - d and fam["unit_compact"]["norm"] == 1
         assert fam["member"]["x"] is None and fam["member"]["digits"] > 10**11
+        assert fam["member"]["digits_exact"] and fam["unit_digits_exact"]
     code, out, _ = run(capsys, "solve", f"x^2 - {d}y^2 = 5")
     assert code == 0
-    assert "in compact form" in out and "t of about" in out
+    assert "in compact form" in out and "digits" in out and "about" not in out  # counts exact
 
 
 def test_refusal_beyond_reach_is_one_line_and_quick(capsys):
