@@ -33,14 +33,21 @@ The small fields: ``r₃(1) = 6`` (``D = −4``, ``w = 4``, ``h = 1``),
 ``r₃(3) = 8`` (``D = −3``, ``w = 6``, ``h = 1``).
 
 **Method.** Each ternary form is a binary form plus ``qz²`` (``x² + y² + z²``
-with ``q = 1``): the binary form's series by listing its values, then one
-product with ``θ(q^q)`` by the fast Fourier transform in binary64 (of a
-length ``2^a·3^b·5^c`` just above ``2N``); every coefficient is rounded to the nearest integer and the
-computation is refused if any lies farther than ``1/4`` from one — the
-values are integers below ``10⁷`` and the transforms' errors are of the order
-``10⁻¹⁰``, so the rounding is exact; the result is unconditional. The work
-is ``O(N log N)`` for all ``N`` coefficients at once, against about ``√|D|``
-compositions per field for the reduced forms.
+with ``q = 1``), and only some residue classes mod 8 are needed (``r₃`` at
+``m ≡ 3`` to ``N`` and at ``m ≡ 1, 2, 5, 6`` to ``N/4``; the ``Q_q`` at
+``m ≡ 7``). A value is ``≡ r`` when the binary value is ``≡ s`` and
+``qz² ≡ t`` with ``s + t ≡ r``: ``qz² mod 8`` takes three values, so each
+class is the sum of three products of series eight times shorter — the
+binary form's values listed for the residue classes of ``x`` that give
+``s`` (they depend only on ``x, y mod 8``), the ``qz²`` placed directly —
+by the fast Fourier transform in binary64 (lengths ``2^a·3^b·5^c``), summed
+before one inverse transform. Every coefficient is rounded to the nearest
+integer and the computation is refused if any lies farther than ``1/4`` from
+one — the values are integers below ``10⁷`` and the transforms' errors are
+of the order ``10⁻¹⁰``, so the rounding is exact; the result is
+unconditional. The work is ``O(N log N)`` for all ``N`` coefficients at once
+(eight independent pieces, for a survey's workers), against about ``√|D|``
+operations per field for the reduced forms.
 
 >>> h = theta_class_numbers(-100)
 >>> [h[D] for D in (-3, -4, -8, -11, -19, -20, -23, -24, -35, -84)]
