@@ -48,18 +48,23 @@ def default_chunk_size(imaginary: bool) -> int:
     return DEFAULT_IMAGINARY_CHUNK_SIZE if imaginary else DEFAULT_CHUNK_SIZE
 
 
-def squarefree_in(lo: int, hi: int) -> list[int]:
-    """The squarefree integers ``d`` with ``max(lo, 2) ≤ d ≤ hi``, by a segmented sieve."""
-    lo = max(lo, 2)
-    if hi < lo:
-        return []
+def _squarefree_marks(lo: int, hi: int) -> bytearray:
+    """``marks[n − lo]`` is 1 when ``n`` is squarefree (``2 ≤ lo ≤ n ≤ hi``): a segmented sieve."""
     marks = bytearray([1]) * (hi - lo + 1)
     for p in primes_below(isqrt(hi) + 1):
         q = p * p
         first = -(-lo // q) * q
         if first <= hi:
             marks[first - lo :: q] = bytearray(len(range(first, hi + 1, q)))
-    return [lo + i for i, keep in enumerate(marks) if keep]
+    return marks
+
+
+def squarefree_in(lo: int, hi: int) -> list[int]:
+    """The squarefree integers ``d`` with ``max(lo, 2) ≤ d ≤ hi``, by a segmented sieve."""
+    lo = max(lo, 2)
+    if hi < lo:
+        return []
+    return [lo + i for i, keep in enumerate(_squarefree_marks(lo, hi)) if keep]
 
 
 def _squarefree_count(lo: int, hi: int, residues: tuple[int, ...] = (0, 1, 2, 3)) -> int:
@@ -68,12 +73,7 @@ def _squarefree_count(lo: int, hi: int, residues: tuple[int, ...] = (0, 1, 2, 3)
     lo = max(lo, 2)
     if hi < lo:
         return 0
-    marks = bytearray([1]) * (hi - lo + 1)
-    for p in primes_below(isqrt(hi) + 1):
-        q = p * p
-        first = -(-lo // q) * q
-        if first <= hi:
-            marks[first - lo :: q] = bytearray(len(range(first, hi + 1, q)))
+    marks = _squarefree_marks(lo, hi)
     return sum(marks[(r - lo) % 4 :: 4].count(1) for r in residues)
 
 

@@ -59,3 +59,20 @@ def interrupted(args: list[str], after: float = 3.0) -> tuple[int, str, str]:
     proc.send_signal(signal.SIGINT)
     out, err = proc.communicate(timeout=60)
     return proc.returncode, out, err
+
+
+def check_subexp_options(
+    capsys: Any, command: str, text: str, workers: str | None, scheduler: str | None
+) -> None:
+    """``command --disc TEXT --method subexp`` with any ``--workers`` and ``--scheduler``:
+    an answer, or one ``realquad: error:`` line and status 2, never a traceback."""
+    args = [command, "--disc", text, "--method", "subexp", "--json"]
+    if workers is not None:
+        args += ["--workers", workers]
+    if scheduler is not None:
+        args += ["--scheduler", scheduler]
+    code, _, err = run(capsys, *args)
+    assert code in (0, 2)
+    assert "Traceback" not in err
+    if code == 2:
+        assert err.startswith("realquad: error:") and len(err.strip().splitlines()) == 1

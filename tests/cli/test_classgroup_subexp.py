@@ -7,7 +7,7 @@ from hypothesis import strategies as st
 
 from realquad.classgroup.imaginary import class_group_imaginary
 from realquad.core.orders import Order
-from tests.cli.support import interrupted, run, run_json
+from tests.cli.support import check_subexp_options, interrupted, run, run_json
 from tests.markers import HEAVY
 
 #: −p for the least prime p ≡ 3 (mod 4) above 10⁴⁵ (a field; Order needs no factoring).
@@ -73,16 +73,7 @@ def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
     st.sampled_from([None, "", "nowhere:1", "tcp://"]),
 )
 def test_fuzz_subexp_options(capsys, text: str, workers: str | None, scheduler: str | None) -> None:  # type: ignore[no-untyped-def]
-    args = ["classgroup", "--disc", text, "--method", "subexp", "--json"]
-    if workers is not None:
-        args += ["--workers", workers]
-    if scheduler is not None:
-        args += ["--scheduler", scheduler]
-    code, _, err = run(capsys, *args)
-    assert code in (0, 2)
-    assert "Traceback" not in err
-    if code == 2:
-        assert err.startswith("realquad: error:") and len(err.strip().splitlines()) == 1
+    check_subexp_options(capsys, "classgroup", text, workers, scheduler)
 
 
 @HEAVY

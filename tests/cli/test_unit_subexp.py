@@ -15,7 +15,7 @@ from hypothesis import strategies as st
 from realquad.classgroup import class_group
 from realquad.units import fundamental_unit, regulator
 from realquad.units import subexp as units_subexp
-from tests.cli.support import interrupted, run, run_json
+from tests.cli.support import check_subexp_options, interrupted, run, run_json
 from tests.equations.test_pell import _evaluator_from_the_docs
 from tests.markers import HEAVY
 
@@ -97,16 +97,7 @@ def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
     st.sampled_from([None, "", "nowhere:1", "tcp://"]),
 )
 def test_fuzz_subexp_options(capsys, text: str, workers: str | None, scheduler: str | None) -> None:  # type: ignore[no-untyped-def]
-    args = ["unit", "--disc", text, "--method", "subexp", "--json"]
-    if workers is not None:
-        args += ["--workers", workers]
-    if scheduler is not None:
-        args += ["--scheduler", scheduler]
-    code, _, err = run(capsys, *args)
-    assert code in (0, 2)
-    assert "Traceback" not in err
-    if code == 2:
-        assert err.startswith("realquad: error:") and len(err.strip().splitlines()) == 1
+    check_subexp_options(capsys, "unit", text, workers, scheduler)
 
 
 @HEAVY
