@@ -74,7 +74,6 @@ if TYPE_CHECKING:  # numpy is imported where it is used: it costs 0.1 s of every
     import numpy as np
 
 from realquad.core.executors import InProcessExecutor
-from realquad.core.primes import kronecker
 from realquad.errors import TooLargeError
 
 #: Largest ``N = |D|`` (for ``D = −4m``: ``m``) the series is computed to (memory: about 80·N bytes).
@@ -273,22 +272,7 @@ class ThetaCounts:
     def class_number(self, D: int) -> int | None:
         """``h(D)`` for a fundamental ``-n_max ≤ D < 0`` (in the window), or ``None`` when
         ``D ≡ 1 (mod 8)`` and 3, 5, 7 all split in ``Q(√D)``."""
-        if D == -3 or D == -4:
-            return 1
-        if D % 8 == 1:
-            for index, (q, _, k) in enumerate(TERNARY_FORMS):
-                symbol = kronecker(D, q)
-                if symbol != 1:
-                    return _quotient(D, self.ternary_count(index, -D), k * (1 - symbol))
-            return None
-        if D % 4 == 0:
-            m, parts, start = -D // 4, 12, self.even_start
-        else:
-            m, parts, start = -D, 24, self.odd_start
-        import numpy as np
-
-        value = _entries(self.three_squares[m % 8], np.array([m // 8 - start]))[0]
-        return _quotient(D, int(value), parts)
+        return self.class_numbers([D])[0] or None
 
     def class_numbers(self, discriminants: Sequence[int]) -> list[int]:
         """:meth:`class_number` of each fundamental ``D`` (``0`` for ``None``), computed on arrays
@@ -362,14 +346,6 @@ def _entries(array: np.ndarray, places: np.ndarray) -> np.ndarray:
     return array[places]
 
 
-def _quotient(D: int, value: int, parts: int) -> int:
-    if value % parts or value == 0:
-        raise ArithmeticError(
-            f"internal check failed: the theta series give no class number for {D}"
-        )
-    return value // parts
-
-
 def theta_counts(n_max: int, executor: InProcessExecutor | None = None) -> ThetaCounts:
     """``r₃`` and the counts of ``Q₃``, ``Q₅``, ``Q₇`` that the class numbers to ``|D| = n_max`` need.
 
@@ -413,14 +389,12 @@ def theta_class_numbers(D_min: int, D_max: int = -3) -> dict[int, int]:
         return {}
     counts = theta_counts(-D_min)
     squarefree = _squarefree_flags(-D_min)
-    found: dict[int, int] = {}
+    fields = []
     for D in range(D_max, D_min - 1, -1):
         m = -D if D % 4 else -D // 4
         if (D % 4 == 1 or (D % 4 == 0 and m % 4 in (1, 2))) and squarefree[m]:
-            h = counts.class_number(D)
-            if h is not None:
-                found[D] = h
-    return found
+            fields.append(D)
+    return {D: h for D, h in zip(fields, counts.class_numbers(fields), strict=True) if h}
 
 
 def _squarefree_flags(n_max: int) -> np.ndarray:
