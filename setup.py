@@ -70,6 +70,7 @@ KERNEL_SOURCES = (
     "prime_form_kernels",
     "class_kernels",
     "definite_kernels",
+    "definite_structure_kernels",
     "survey_kernels",
     "infrastructure_kernels",
     "sieve_kernels",
@@ -78,7 +79,7 @@ KERNEL_SOURCES = (
 KERNELS = Extension(
     "realquad._kernels._ckernels",
     sources=[f"realquad/_kernels/{name}.c" for name in KERNEL_SOURCES],
-    depends=["realquad/_kernels/kernels.h"],
+    depends=["realquad/_kernels/kernels.h", "realquad/_kernels/definite.h"],
     extra_compile_args=[]
     if sys.platform == "win32"
     else ["-O2", "-fno-fast-math", "-ffp-contract=off"],

@@ -39,6 +39,7 @@ TWINS = (
     "prime_form_kernels",
     "class_kernels",
     "definite_kernels",
+    "definite_structure_kernels",
     "survey_kernels",
     "infrastructure_kernels",
     "sieve_kernels",

@@ -63,6 +63,8 @@ static PyMethodDef methods[] = {
      "(h, generators, relations) of the class table of D < 0, or None."},
     {"definite_class_number", (PyCFunction)(void (*)(void))k_definite_class_number, METH_FASTCALL,
      "The class number of a fundamental D < 0 by counting its reduced forms."},
+    {"definite_structures", (PyCFunction)(void (*)(void))k_definite_structures, METH_FASTCALL,
+     "The invariants of the class groups of many D < 0 whose class numbers are known (0: counted)."},
     /* infrastructure: the baby-step table and the giant-step search */
     {"infrastructure_table_new", (PyCFunction)(void (*)(void))k_infrastructure_table_new, METH_FASTCALL,
      "An empty baby-step table (open addressing) for D < 2^106."},

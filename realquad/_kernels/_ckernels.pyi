@@ -56,6 +56,14 @@ def definite_class_relations(
     D: int, conductor: int, primes: list[int], max_forms: int, target: int = 0, power: int = 1
 ) -> tuple[int, list[tuple[int, int, int]], list[list[int]]] | None: ...
 def definite_class_number(D: int, primes: list[int]) -> int: ...
+def definite_structures(
+    Ds: list[int],
+    class_numbers: list[int],
+    two_ranks: list[int],
+    conductor: int,
+    primes: list[int],
+    first: int,
+) -> tuple[list[int], list[tuple[int, ...]]]: ...
 
 # infrastructure: the baby-step table (a capsule) and the giant-step search
 def infrastructure_table_new(D: int, r: int, sq: float, capacity: int) -> object: ...

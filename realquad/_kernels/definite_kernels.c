@@ -9,7 +9,7 @@
  * every reduced form has a <= sqrt(|D|/3) < 2^31, so a form is one word of
  * hash key and every composite of two reduced forms fits in int64.
  */
-#include "kernels.h"
+#include "definite.h"
 
 /* Reduce the positive definite (a, b, c) of discriminant D in place; -1 (OverflowError) when a
    value leaves int64 or the form is not positive definite. */
@@ -108,29 +108,8 @@ definite_args(PyObject *D_obj, int64_t *D)
     return 0;
 }
 
-/* A growable array of int64 values. */
-typedef struct {
-    int64_t *v;
-    int64_t n, cap;
-} vec_t;
-
-static int
-vec_push(vec_t *s, int64_t x)
-{
-    if (s->n == s->cap) {
-        int64_t cap = s->cap ? 2 * s->cap : 64, *g = (int64_t *)PyMem_Realloc(s->v, (size_t)cap * sizeof(int64_t));
-        if (g == NULL) {
-            PyErr_NoMemory();
-            return -1;
-        }
-        s->v = g, s->cap = cap;
-    }
-    s->v[s->n++] = x;
-    return 0;
-}
-
 /* definite_class_candidates of the twin into a vec_t of triples; -1 on error. */
-static int
+int
 definite_candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, vec_t *out)
 {
     Py_ssize_t i;
@@ -173,98 +152,11 @@ definite_candidates(int64_t D, int64_t conductor, const int64_t *primes, Py_ssiz
     return 0;
 }
 
-/* Open addressing (a, b) -> class; a >= 1, so key 0 marks an empty slot. */
-typedef struct {
-    uint64_t *keys;
-    int32_t *cls;
-    size_t mask, used;
-} dtable_t;
-
-static inline uint64_t
-dkey(int64_t a, int64_t b)
-{
-    return ((uint64_t)a << 32) | (uint64_t)(uint32_t)(b + ((int64_t)1 << 31));
-}
-
-static inline size_t
-dslot(const dtable_t *t, uint64_t key)
-{
-    size_t i = (size_t)((key * 0x9E3779B97F4A7C15ULL) >> 20) & t->mask;
-    while (t->keys[i] != 0 && t->keys[i] != key)
-        i = (i + 1) & t->mask;
-    return i;
-}
-
-static int
-dtable_init(dtable_t *t, size_t n)
-{
-    t->keys = (uint64_t *)PyMem_Calloc(n, sizeof(uint64_t));
-    t->cls = (int32_t *)PyMem_Malloc(n * sizeof(int32_t));
-    t->mask = n - 1, t->used = 0;
-    if (t->keys == NULL || t->cls == NULL) {
-        PyMem_Free(t->keys), PyMem_Free(t->cls);
-        t->keys = NULL, t->cls = NULL;
-        PyErr_NoMemory();
-        return -1;
-    }
-    return 0;
-}
-
-static void
-dtable_free(dtable_t *t)
-{
-    PyMem_Free(t->keys), PyMem_Free(t->cls);
-    t->keys = NULL, t->cls = NULL;
-}
-
-static int64_t
-dtable_get(const dtable_t *t, int64_t a, int64_t b)
-{
-    size_t i = dslot(t, dkey(a, b));
-    return t->keys[i] ? (int64_t)t->cls[i] : -1;
-}
-
-static int
-dtable_put(dtable_t *t, int64_t a, int64_t b, int64_t cls)
-{
-    size_t i;
-    if (2 * (t->used + 1) > t->mask + 1) {
-        dtable_t fresh;
-        size_t j;
-        if (dtable_init(&fresh, 2 * (t->mask + 1)) < 0)
-            return -1;
-        for (j = 0; j <= t->mask; j++)
-            if (t->keys[j]) {
-                size_t k = dslot(&fresh, t->keys[j]);
-                fresh.keys[k] = t->keys[j], fresh.cls[k] = t->cls[j];
-            }
-        fresh.used = t->used;
-        dtable_free(t);
-        *t = fresh;
-    }
-    i = dslot(t, dkey(a, b));
-    if (!t->keys[i])
-        t->used++;
-    t->keys[i] = dkey(a, b), t->cls[i] = (int32_t)cls;
-    return 0;
-}
-
 /*
  * The walk of definite_class_table: reps holds (a, b, c) per class; class i's vector has
  * vlen[i] entries starting at voff[i] in vdata. Returns 1 when done, 0 beyond max_forms,
  * -1 on error; relations are appended to the Python list rels.
  */
-typedef struct {
-    vec_t reps, vdata, voff, vlen, gens;
-} walk_t;
-
-static void
-walk_free(walk_t *w)
-{
-    PyMem_Free(w->reps.v), PyMem_Free(w->vdata.v), PyMem_Free(w->voff.v), PyMem_Free(w->vlen.v);
-    PyMem_Free(w->gens.v);
-}
-
 static int
 add_class(walk_t *w, dtable_t *t, int64_t a, int64_t b, int64_t c, int64_t from, int64_t gi, int64_t j)
 {
@@ -282,7 +174,7 @@ add_class(walk_t *w, dtable_t *t, int64_t a, int64_t b, int64_t c, int64_t from,
 
 static int
 definite_walk(int64_t D, const int64_t *cand, int64_t ncand, int64_t max_forms, PyObject *progress, walk_t *w,
-              dtable_t *t, PyObject *rels, int64_t target)
+              dtable_t *t, PyObject *rels, vec_t *crels, int64_t target)
 {
     int64_t i, gi, n, j, h, hit, a, b, c, xa, xb, xc, b0 = floormod64(D, 2);
     if (w->reps.n == 0 && (dtable_init(t, 1 << 12) < 0 || add_class(w, t, 1, b0, (b0 - D) / 4, -1, -1, 0) < 0))
@@ -300,6 +192,13 @@ definite_walk(int64_t D, const int64_t *cand, int64_t ncand, int64_t max_forms, 
         xa = ga, xb = gb, xc = gc, j = 1;
         for (;;) {
             hit = dtable_get(t, xa, xb);
+            if (hit >= 0 && rels == NULL) { /* the relation row, flattened into crels */
+                int64_t off = w->voff.v[hit], len = w->vlen.v[hit], k;
+                for (k = 0; k <= gi; k++)
+                    if (vec_push(crels, k < len ? -w->vdata.v[off + k] : (k == gi ? j : 0)) < 0)
+                        return -1;
+                break;
+            }
             if (hit >= 0) {
                 int64_t off = w->voff.v[hit], len = w->vlen.v[hit], k;
                 PyObject *rel = PyList_New((Py_ssize_t)(gi + 1));
@@ -450,7 +349,7 @@ k_definite_class_table(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     rels = PyList_New(0);
     if (rels == NULL)
         goto fail;
-    rc = definite_walk(D, cand.v, cand.n / 3, max_forms, progress, &w, &t, rels, 0);
+    rc = definite_walk(D, cand.v, cand.n / 3, max_forms, progress, &w, &t, rels, NULL, 0);
     if (rc < 0)
         goto fail;
     if (rc == 0) {
@@ -511,22 +410,52 @@ definite_power(int64_t *a, int64_t *b, int64_t *c, int64_t n, int64_t D)
     return 0;
 }
 
+int
+definite_relation_walk(int64_t D, int64_t conductor, const int64_t *primes, Py_ssize_t len, int64_t max_forms,
+                       int64_t target, int64_t power, walk_t *w, dtable_t *t, PyObject *rels, vec_t *crels)
+{
+    /* With target > 0 the candidates are made a block of primes at a time and the walk stops
+     * once it has target classes; the output is the same as the full walk cut at that point. */
+    Py_ssize_t start = 0, block = target > 0 ? 2 : len;
+    vec_t cand = {0};
+    int rc = 1;
+    while (start < len || (start == 0 && len == 0)) {
+        Py_ssize_t stop = start + block < len ? start + block : len;
+        cand.n = 0;
+        if (definite_candidates(D, conductor, primes + start, stop - start, &cand) < 0) {
+            rc = -1;
+            break;
+        }
+        if (power > 1) {
+            int64_t k;
+            for (k = 0; k < cand.n && rc > 0; k += 3)
+                if (definite_power(&cand.v[k], &cand.v[k + 1], &cand.v[k + 2], power, D) < 0)
+                    rc = -1;
+            if (rc < 0)
+                break;
+        }
+        rc = definite_walk(D, cand.v, cand.n / 3, max_forms, Py_None, w, t, rels, crels, target);
+        if (rc <= 0 || (target > 0 && w->reps.n / 3 >= target) || stop >= len)
+            break;
+        start = stop, block *= 2;
+    }
+    PyMem_Free(cand.v);
+    return rc;
+}
+
 PyObject *
 k_definite_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
 {
-    /* With a fifth argument target > 0 (the class number, known by other means), the
-     * candidates are made a block of primes at a time and the walk stops once it has
-     * target classes; the output is the same as the full walk cut at that point.
-     * With a sixth argument power > 1 every candidate is first raised to that power:
-     * the walk then runs in the subgroup of power-th powers (with power = h/p^e and
-     * target = p^e, the p-Sylow subgroup). */
+    /* With a fifth argument target > 0 (the class number, known by other means), the walk
+     * stops once it has target classes (definite_relation_walk). With a sixth argument
+     * power > 1 every candidate is first raised to that power: the walk then runs in the
+     * subgroup of power-th powers (with power = h/p^e and target = p^e, the p-Sylow subgroup). */
     int64_t D, conductor, max_forms, target = 0, power = 1, *primes;
-    Py_ssize_t len, start = 0, block = 2;
-    vec_t cand = {0};
+    Py_ssize_t len;
     walk_t w = {{0}};
     dtable_t t = {0};
     PyObject *rels = NULL, *gens;
-    int rc = 1;
+    int rc;
     if (nargs != 4 && nargs != 5 && check_nargs(nargs, 6, "definite_class_relations") < 0)
         return NULL;
     if (definite_args(args[0], &D) < 0 || get_i64(args[1], &conductor, "conductor") < 0 ||
@@ -544,34 +473,13 @@ k_definite_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nar
         PyMem_Free(primes);
         return NULL;
     }
-    if (target <= 0)
-        block = len;
-    while (start < len || (start == 0 && len == 0)) {
-        Py_ssize_t stop = start + block < len ? start + block : len;
-        cand.n = 0;
-        if (definite_candidates(D, conductor, primes + start, stop - start, &cand) < 0) {
-            PyMem_Free(primes);
-            goto fail;
-        }
-        if (power > 1) {
-            int64_t k;
-            for (k = 0; k < cand.n; k += 3)
-                if (definite_power(&cand.v[k], &cand.v[k + 1], &cand.v[k + 2], power, D) < 0) {
-                    PyMem_Free(primes);
-                    goto fail;
-                }
-        }
-        rc = definite_walk(D, cand.v, cand.n / 3, max_forms, Py_None, &w, &t, rels, target);
-        if (rc <= 0 || (target > 0 && w.reps.n / 3 >= target) || stop >= len)
-            break;
-        start = stop, block *= 2;
-    }
+    rc = definite_relation_walk(D, conductor, primes, len, max_forms, target, power, &w, &t, rels, NULL);
     PyMem_Free(primes);
     if (rc < 0)
         goto fail;
     if (rc == 0) {
         Py_DECREF(rels);
-        PyMem_Free(cand.v), walk_free(&w), dtable_free(&t);
+        walk_free(&w), dtable_free(&t);
         Py_RETURN_NONE;
     }
     gens = triple_list(&w.gens);
@@ -579,12 +487,12 @@ k_definite_class_relations(PyObject *self, PyObject *const *args, Py_ssize_t nar
         goto fail;
     {
         long long h = (long long)(w.reps.n / 3);
-        PyMem_Free(cand.v), walk_free(&w), dtable_free(&t);
+        walk_free(&w), dtable_free(&t);
         return Py_BuildValue("(LNN)", h, gens, rels);
     }
 fail:
     Py_XDECREF(rels);
-    PyMem_Free(cand.v), walk_free(&w), dtable_free(&t);
+    walk_free(&w), dtable_free(&t);
     return NULL;
 }
 
@@ -592,8 +500,8 @@ fail:
 /* The class number of a fundamental D < 0 by counting reduced forms   */
 /* ------------------------------------------------------------------ */
 
-/* Largest |D| the count takes: its table has sqrt(|D|/3) entries (23 MB at the limit). */
-#define COUNT_LIMIT ((int64_t)100000000000000LL)
+/* COUNT_LIMIT (definite.h): the largest |D| the count takes; its table has sqrt(|D|/3)
+   entries (23 MB at the limit). */
 
 /* x^-1 mod p for gcd(x, p) = 1, 0 < x < p (extended Euclid). */
 static int64_t
@@ -676,44 +584,33 @@ count_band(int64_t D, int64_t a, const uint32_t *largest)
     return count;
 }
 
-PyObject *
-k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+int64_t
+definite_amax(int64_t D)
+{
+    int64_t n = -D, amax = (int64_t)isqrt_u64((uint64_t)(n / 3));
+    while (3 * (amax + 1) * (amax + 1) <= n)
+        amax++;
+    while (amax > 0 && 3 * amax * amax > n)
+        amax--;
+    return amax;
+}
+
+int64_t
+definite_count(int64_t D, const int64_t *primes, Py_ssize_t len, uint32_t *N, uint32_t *largest)
 {
     /* h(D) for a fundamental D < 0: the number of reduced forms. For a < sqrt(|D|)/2 every
      * b in (-a, a] with b^2 = D (mod 4a) gives one (c > a), and their number N(a) is
      * multiplicative: prod over p^k || a of 1 + (D/p) if p does not divide D, [k = 1] if
      * it does (D fundamental). The rest, a up to sqrt(|D|/3), by count_band. The primes
      * must be every prime up to sqrt(|D|/3) (only their squares' reach is checked). */
-    int64_t D, n, amax, total = 0, a, *primes;
-    Py_ssize_t len, i;
-    uint32_t *N, *largest;
-    if (check_nargs(nargs, 2, "definite_class_number") < 0 || definite_args(args[0], &D) < 0)
-        return NULL;
-    n = -D;
-    if (n > COUNT_LIMIT) {
-        PyErr_SetString(PyExc_OverflowError, "the count of reduced forms takes |D| <= 10^14");
-        return NULL;
-    }
-    amax = (int64_t)isqrt_u64((uint64_t)(n / 3));
-    while (3 * (amax + 1) * (amax + 1) <= n)
-        amax++;
-    while (amax > 0 && 3 * amax * amax > n)
-        amax--;
-    if (prime_array(args[1], &primes, &len) < 0)
-        return NULL;
+    int64_t n = -D, amax = definite_amax(D), total = 0, a;
+    Py_ssize_t i;
     if (amax >= 2 && (len == 0 || primes[len - 1] * primes[len - 1] < amax)) {
-        PyMem_Free(primes);
         PyErr_SetString(PyExc_ValueError, "the primes must be every prime up to sqrt(|D|/3)");
-        return NULL;
-    }
-    N = PyMem_Malloc((size_t)(amax + 1) * sizeof(uint32_t));
-    largest = PyMem_Calloc((size_t)(amax + 1), sizeof(uint32_t));
-    if (N == NULL || largest == NULL) {
-        PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
-        return PyErr_NoMemory();
+        return -1;
     }
     for (a = 0; a <= amax; a++)
-        N[a] = 1;
+        N[a] = 1, largest[a] = 0;
     for (i = 0; i < len && primes[i] <= amax; i++) {
         int64_t p = primes[i], j;
         int symbol = D % p == 0 ? 0 : kronecker_i64(D, p);
@@ -732,13 +629,36 @@ k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
             total += N[a];
         } else {
             int64_t band = count_band(D, a, largest);
-            if (band < 0) {
-                PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
-                return NULL;
-            }
+            if (band < 0)
+                return -1;
             total += band;
         }
     }
+    return total;
+}
+
+PyObject *
+k_definite_class_number(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
+{
+    int64_t D, amax, total, *primes;
+    Py_ssize_t len;
+    uint32_t *N, *largest;
+    if (check_nargs(nargs, 2, "definite_class_number") < 0 || definite_args(args[0], &D) < 0)
+        return NULL;
+    if (-D > COUNT_LIMIT) {
+        PyErr_SetString(PyExc_OverflowError, "the count of reduced forms takes |D| <= 10^14");
+        return NULL;
+    }
+    if (prime_array(args[1], &primes, &len) < 0)
+        return NULL;
+    amax = definite_amax(D);
+    N = PyMem_Malloc((size_t)(amax + 1) * sizeof(uint32_t));
+    largest = PyMem_Malloc((size_t)(amax + 1) * sizeof(uint32_t));
+    if (N == NULL || largest == NULL) {
+        PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
+        return PyErr_NoMemory();
+    }
+    total = definite_count(D, primes, len, N, largest);
     PyMem_Free(N), PyMem_Free(largest), PyMem_Free(primes);
-    return PyLong_FromLongLong((long long)total);
+    return total < 0 ? NULL : PyLong_FromLongLong((long long)total);
 }

@@ -31,7 +31,9 @@
  * prime_form_kernels.c (prime forms, square roots mod p, class candidates);
  * class_kernels.c (class numbers, relations and table: cycles of reduced
  * forms in a hash table); definite_kernels.c (positive definite forms: reduction,
- * composition, the class group of D < 0 by one reduced form per class); survey_kernels.c (survey_numbers: many fields per
+ * composition, the class group of D < 0 by one reduced form per class; shares definite.h
+ * with definite_structure_kernels.c, the structures of many class groups whose orders are
+ * known); survey_kernels.c (survey_numbers: many fields per
  * call); infrastructure_kernels.c (baby and giant steps, the baby-step table
  * and the giant-step search); sieve_kernels.c (sieve_family: a family of
  * sieve polynomials, the hot loop of the relation search); _ckernels.c (the
@@ -409,6 +411,7 @@ KERNEL(k_definite_class_candidates);
 KERNEL(k_definite_class_table);
 KERNEL(k_definite_class_relations);
 KERNEL(k_definite_class_number);
+KERNEL(k_definite_structures);
 /* survey_kernels.c */
 KERNEL(k_survey_numbers);
 /* infrastructure_kernels.c */

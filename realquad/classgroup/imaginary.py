@@ -38,19 +38,14 @@ D. A. Cox, *Primes of the Form x² + ny²*, Wiley 1989, §2–3 and §7.
 
 from __future__ import annotations
 
-from functools import lru_cache, partial
+from functools import partial
 
 from realquad._backend import call_kernel
 from realquad.classgroup.group import ClassGroup, ClassTable, Triple, forms_from_vectors
 from realquad.core.integers import isqrt
-from realquad.core.linalg import (
-    SmithForm,
-    invariants_from_primary,
-    smith_normal_form,
-    triangular_invariants,
-)
+from realquad.core.linalg import SmithForm, smith_normal_form
 from realquad.core.orders import Order
-from realquad.core.primes import factorize, primes_below
+from realquad.core.primes import primes_below
 from realquad.core.progress import Progress
 from realquad.errors import TooLargeError
 from realquad.units import unit_group
@@ -193,79 +188,43 @@ def class_invariants_from_class_number(
     [2, 2, 2]
     """
     D = order.discriminant
+    if class_number < 1:
+        raise ValueError("a class number is a positive integer")
     _check_reach(D)
     primes = _generator_primes(D) if primes is None else primes
-    powers: dict[int, list[int]] = {}
-    for p, e in _prime_powers(class_number):
-        q = p**e
-        known = _sylow_without_walk(p, e, two_rank)
-        if known is not None:
-            powers[p] = known
-            continue
-        found = None
-        for some in (primes[:_FIRST_PRIMES], primes):  # the first few primes nearly always do
-            found = call_kernel(
-                "definite_class_relations", D, order.conductor, some, q, q, class_number // q
-            )
-            if (found is not None and found[0] == q) or len(some) == len(primes):
-                break
-        if found is None or found[0] != q:
-            raise ArithmeticError(
-                f"internal check failed: the {p}-Sylow subgroup of Cl({D}) does not have {q} classes"
-            )
-        _, generators, relations = found
-        powers[p] = list(_sylow_invariants(tuple(map(tuple, relations))))
-    return invariants_from_primary(powers)
+    rank = -1 if two_rank is None else two_rank
+    _, (invariants,) = structures_of_discriminants(
+        [D], [class_number], [rank], primes, order.conductor
+    )
+    return list(invariants)
 
 
-def _sylow_without_walk(p: int, e: int, two_rank: int | None) -> list[int] | None:
-    """The cyclic factors of the ``p``-Sylow subgroup of order ``p^e`` when ``e`` (and the
-    2-rank) fix them, else ``None``."""
-    if e == 1:
-        return [p]
-    if p == 2 and two_rank is not None and not 2 <= two_rank <= e - 2:
-        if not 1 <= two_rank <= e:
-            raise ArithmeticError(f"internal check failed: 2-rank {two_rank} with 2^{e} ‖ h")
-        return [2] * (two_rank - 1) + [2 ** (e - two_rank + 1)]
-    return None
+def structures_of_discriminants(
+    Ds: list[int],
+    class_numbers: list[int],
+    two_ranks: list[int],
+    primes: list[int],
+    conductor: int = 1,
+) -> tuple[list[int], list[tuple[int, ...]]]:
+    """``(h, invariants)`` of ``Cl(D)`` for many ``D`` of orders of one ``conductor`` in one
+    compiled call (kernel ``definite_structures``, twin in ``definite_structure_kernels.py``):
+    each ``h`` given, or ``0`` for a maximal order, whose ``h`` is then counted
+    (:func:`count_reduced_forms`); the structure as in
+    :func:`class_invariants_from_class_number`, ``two_ranks`` ``−1`` where not known.
 
-
-@lru_cache(maxsize=65536)
-def invariants_without_walk(class_number: int, two_rank: int) -> tuple[int, ...] | None:
-    """The invariants of ``Cl`` when ``h`` and the 2-rank alone fix them (every odd ``p``
-    divides ``h`` once and the 2-Sylow subgroup is fixed as in
-    :func:`class_invariants_from_class_number`), else ``None``.
-
-    >>> invariants_without_walk(12, 1), invariants_without_walk(24, 2), invariants_without_walk(9, 0)
-    ((12,), (2, 12), None)
+    >>> structures_of_discriminants([-3299, -420, -23], [27, 8, 0], [0, 3, -1], primes_below(40))
+    ([27, 8, 3], [(3, 9), (2, 2, 2), (3,)])
     """
-    powers: dict[int, list[int]] = {}
-    for p, e in _prime_powers(class_number):
-        known = _sylow_without_walk(p, e, two_rank)
-        if known is None:
-            return None
-        powers[p] = known
-    if 2 not in powers and two_rank != 0:
-        raise ArithmeticError(
-            f"internal check failed: 2-rank {two_rank} with h = {class_number} odd"
-        )
-    return tuple(invariants_from_primary(powers))
-
-
-@lru_cache(maxsize=65536)
-def _sylow_invariants(relations: tuple[tuple[int, ...], ...]) -> tuple[int, ...]:
-    """:func:`triangular_invariants` of a Sylow walk's relations (few shapes recur: cached)."""
-    return tuple(triangular_invariants([list(row) for row in relations]))
+    for D in Ds:
+        _check_reach(D)
+    hs, groups = call_kernel(
+        "definite_structures", Ds, class_numbers, two_ranks, conductor, primes, _FIRST_PRIMES
+    )
+    return hs, groups
 
 
 #: Primes handed to a Sylow walk first (converting all of them costs more than the walk).
 _FIRST_PRIMES = 64
-
-
-@lru_cache(maxsize=65536)
-def _prime_powers(n: int) -> tuple[tuple[int, int], ...]:
-    """``factorize(n)`` as pairs (class numbers repeat: cached)."""
-    return tuple(factorize(n).items())
 
 
 def class_group_imaginary(

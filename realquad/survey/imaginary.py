@@ -42,19 +42,18 @@ from __future__ import annotations
 import json
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
+from functools import lru_cache
 from typing import overload
 
 from realquad.classgroup.imaginary import (
     COUNT_METHOD,
-    class_invariants_from_class_number,
-    count_reduced_forms,
-    invariants_without_walk,
+    structures_of_discriminants,
 )
 from realquad.classgroup.theta import MAX_TERMS, theta_counts
 from realquad.classgroup.theta import METHOD as THETA_METHOD
 from realquad.core.executors import InProcessExecutor
 from realquad.core.integers import isqrt
-from realquad.core.orders import Order, fundamental_discriminant_of
+from realquad.core.orders import fundamental_discriminant_of
 from realquad.core.primes import primes_below
 from realquad.survey.compute import FieldRecord
 from realquad.survey.ranges import Chunk
@@ -88,28 +87,26 @@ def imaginary_rows(ds: list[int], class_numbers: Sequence[int] = ()) -> Imaginar
         return ImaginaryRows((), (), (), (), ())
     primes = primes_below(isqrt(-4 * min(ds) // 3) + 2)
     known = list(class_numbers) or [0] * len(ds)
-    prime_counts = _prime_counts([-d for d in ds], primes)
-    texts: dict[tuple[int, ...], str] = {}  # few distinct groups: their JSON once each
-    discriminants, hs, groups, methods = [], [], [], []
-    for d, h, t in zip(ds, known, prime_counts, strict=True):
-        D = fundamental_discriminant_of(d)
-        method = 0
-        if not h:
-            h, method = count_reduced_forms(Order.from_conductor(D), primes), 1
-        # genus theory: t primes divide D, t = ω(d) and 2 when d ≡ 3 (mod 4)
-        two_rank = t + (D % 2 == 0 and d % 2 != 0) - 1
-        invariants = invariants_without_walk(h, two_rank)
-        if invariants is None:  # D is fundamental: the range sieved it
-            order = Order.from_conductor(D)
-            invariants = tuple(class_invariants_from_class_number(order, h, primes, two_rank))
-        text = texts.get(invariants)
-        if text is None:
-            text = texts[invariants] = json.dumps(list(invariants))
-        discriminants.append(D)
-        hs.append(h)
-        groups.append(text)
-        methods.append(method)
-    return ImaginaryRows(tuple(ds), tuple(discriminants), tuple(hs), tuple(groups), tuple(methods))
+    discriminants = [d if d % 4 == 1 else 4 * d for d in ds]  # the range sieved d squarefree
+    # genus theory: the 2-rank is t − 1, t = ω(d), and one more when d ≡ 3 (mod 4)
+    two_ranks = [
+        t + (d % 4 == 3) - 1
+        for d, t in zip(ds, _prime_counts([-d for d in ds], primes), strict=True)
+    ]
+    hs, structures = structures_of_discriminants(discriminants, known, two_ranks, primes)
+    return ImaginaryRows(
+        tuple(ds),
+        tuple(discriminants),
+        tuple(hs),
+        tuple(map(_text, structures)),
+        tuple(0 if h else 1 for h in known),
+    )
+
+
+@lru_cache(maxsize=65536)
+def _text(invariants: tuple[int, ...]) -> str:
+    """The JSON of a structure (few distinct ones: each written once)."""
+    return json.dumps(list(invariants))
 
 
 @dataclass(frozen=True)
