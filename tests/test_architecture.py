@@ -52,7 +52,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"form_kernels", "cfrac_kernels", "character_kernels"},
         {"prime_form_kernels", "infrastructure_kernels"},
         {"class_kernels", "definite_kernels"},
-        {"survey_kernels", "sieve_kernels"},
+        {"survey_kernels", "sieve_kernels", "definite_structure_kernels"},
     ],
     "realquad.core": [
         {"results", "progress", "integers", "linalg", "tokens", "executors", "modular_linalg"},
@@ -63,7 +63,7 @@ LEVELS: dict[str, list[set[str]]] = {
     ],
     "realquad.cfrac": [{"parser"}, {"expansion"}, {"approximations"}],
     "realquad.infrastructure": [
-        {"ideals"},
+        {"ideals", "residues"},
         {"distances"},
         {"table", "compact"},
         {"regulator_search"},

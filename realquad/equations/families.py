@@ -27,7 +27,6 @@ how they were found (``method``) and how sure the answer is (``proof``).
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from fractions import Fraction
@@ -39,7 +38,7 @@ import mpmath
 from realquad.core.integers import isqrt
 from realquad.core.linalg import matrix_multiply
 from realquad.core.results import JSONObject, Proof
-from realquad.errors import DomainError, InputError, TooLargeError
+from realquad.errors import InputError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.latex import (
     MAX_DIGITS,
@@ -547,16 +546,17 @@ class CompactOrbitFamily:
         return expand_point(self.member(k), self.a, self.b)
 
     def residues(self, m: int) -> Point:
-        """``(x mod m, y mod m)`` for the fundamental solution, from the compact form.
-
-        Needs ``m`` prime to 2 and to the factors' denominators (else :class:`DomainError`).
-        """
+        """``(x mod m, y mod m)`` for the fundamental solution, from the compact form (any
+        ``m``: :meth:`CompactRepresentation.coordinates_modulo`)."""
         if self.fundamental is not None:
             return self.fundamental[0] % m, self.fundamental[1] % m
-        s, t = self.generator.modulo(m)  # α ≡ s + t√D = (2s + 2t√D)/2: u ≡ 2s, v ≡ 2t
-        if math.gcd(self.a, m) != 1:
-            raise DomainError(f"the modulus {m} shares a factor with a = {self.a}")
-        return (s - self.b * t) * pow(self.a, -1, m) % m, 2 * t % m
+        # α = (u + v√D)/2 = a·x + y(b + √D)/2: y = v and x = (u − bv)/(2a)
+        M = 2 * abs(self.a) * m
+        u, v = self.generator.coordinates_modulo(M)
+        X = (u - self.b * v) % M
+        if X % (2 * abs(self.a)):
+            raise ArithmeticError("internal check failed: the solution is not integral")
+        return X // (2 * self.a) % m, v % m
 
     def bounded(self, B: int) -> list[Point]:
         """Every member with ``|x|, |y| ≤ B``, sorted; only members that can lie in the box are expanded.

@@ -232,10 +232,9 @@ class PellSolution(Display):
     def residues(self, m: int) -> tuple[int, int]:
         """``(x mod m, y mod m)`` for the least solution, without expanding a compact one.
 
-        A compact solution is reduced factor by factor modulo ``m``
-        (:meth:`CompactRepresentation.modulo`), which needs ``m`` prime to 2
-        and to the factors' denominators; another ``m`` is refused with a
-        :class:`DomainError` naming the common factor.
+        A compact solution is reduced factor by factor modulo ``m`` (any ``m``:
+        the primes it shares with 2 and the factors' denominators ``p``-adically,
+        :meth:`CompactRepresentation.coordinates_modulo`).
 
         >>> pell(61).residues(1000)
         (49, 980)
@@ -244,10 +243,14 @@ class PellSolution(Display):
         if self.x is not None and self.y is not None:
             return self.x % m, self.y % m
         assert self.compact is not None and self._unit is not None
-        a, b = self.compact.modulo(m)
+        # x + y√d = s·(u + v√D)/2 with D = k²d (s = 2 for N = ±4): x = su/2, y = skv/2
+        u, v = self.compact.coordinates_modulo(2 * m)
         scale = 1 if abs(self.norm) == 1 else 2
         k = isqrt(self.compact.discriminant // self.d)
-        return scale * a % m, scale * k * b % m
+        X, Y = scale * u % (2 * m), scale * k * v % (2 * m)
+        if X % 2 or Y % 2:
+            raise ArithmeticError("internal check failed: the solution is not integral")
+        return X // 2, Y // 2
 
     def leading_digits(self, count: int) -> tuple[str, str] | None:
         """The first ``count`` decimal digits of ``x`` and of ``y``, from the regulator.

@@ -39,6 +39,7 @@ from realquad.core.numbers import QuadraticNumber
 from realquad.core.results import JSONObject
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.distances import Factors, log_of_product
+from realquad.infrastructure.residues import coordinates_modulo
 from realquad.latex import MAX_DIGITS, factor, power, product
 
 
@@ -255,34 +256,39 @@ class CompactRepresentation:
             self.discriminant, chains, self.sign ** (k % 2), self.absolute_norm ** abs(k)
         )
 
-    def modulo(self, m: int) -> tuple[int, int]:
-        """``(x mod m, y mod m)`` with ``ε ≡ x + y√D`` in ``(Z/mZ)[√D]``.
+    def coordinates_modulo(self, m: int) -> tuple[int, int]:
+        """``(u mod m, v mod m)`` with ``β = (u + v√D)/2``, for any modulus ``m ≥ 1``.
 
-        Needs every denominator (and 2) invertible modulo ``m``; raises
-        :class:`DomainError` otherwise.
+        The part of ``m`` prime to 2 and to the denominators directly, the
+        rest ``p``-adically (:mod:`realquad.infrastructure.residues`).
+        """
+        return coordinates_modulo(
+            self.discriminant,
+            [([alpha for alpha, _ in chain.factors], chain.power) for chain in self.chains],
+            self.sign,
+            m,
+        )
+
+    def modulo(self, m: int) -> tuple[int, int]:
+        """``(x mod m, y mod m)`` with ``β = x + y√D``, for any modulus ``m ≥ 2``.
+
+        An even ``m`` needs ``x`` and ``y`` integers (``u`` and ``v`` of
+        :meth:`coordinates_modulo` even); a number with half-integer ``x, y``
+        modulo an even ``m`` raises :class:`DomainError`.
         """
         if m < 2:
             raise DomainError("modulus must be at least 2")
-        D = self.discriminant % m
-        x, y = 1, 0
-        for chain in self.chains:
-            cx, cy = 1, 0
-            for alpha, e in chain.factors:
-                z = int(alpha.c)
-                if math.gcd(z, m) != 1:
-                    raise DomainError(
-                        f"modulus {m} shares a factor ({math.gcd(z, m)}) with a denominator ({z}) "
-                        "of the compact representation; reduce modulo a number prime to it"
-                    )
-                inv = pow(z, -1, m)
-                ax, ay = int(alpha.x) * inv % m, int(alpha.y) * inv % m
-                px, py = _power_mod(ax, ay, e, D, m)
-                cx, cy = (cx * px + D * cy * py) % m, (cx * py + cy * px) % m
-            if chain.power < 0:
-                cx, cy = _inverse_mod(cx, cy, D, m)
-            px, py = _power_mod(cx, cy, abs(chain.power), D, m)
-            x, y = (x * px + D * y * py) % m, (x * py + y * px) % m
-        return (self.sign * x) % m, (self.sign * y) % m
+        if m % 2:
+            u, v = self.coordinates_modulo(m)
+            half = (m + 1) // 2
+            return u * half % m, v * half % m
+        u, v = self.coordinates_modulo(2 * m)
+        if u % 2 or v % 2:
+            raise DomainError(
+                f"the number is (u + v√{self.discriminant})/2 with u, v odd: x + y√D has "
+                f"half-integer x, y, which an even modulus ({m}) cannot reduce"
+            )
+        return u // 2 % m, v // 2 % m
 
     def expand(self, max_digits: int = 0) -> tuple[int, int]:
         """Exact ``(u, v)`` with ``ε = (u + v√D)/2``.
@@ -308,24 +314,6 @@ class CompactRepresentation:
         if u % total.c or v % total.c:
             raise ArithmeticError("internal error: expanded unit is not in the order")
         return int(u // total.c), int(v // total.c)
-
-
-def _power_mod(x: int, y: int, e: int, D: int, m: int) -> tuple[int, int]:
-    rx, ry = 1, 0
-    while e:
-        if e & 1:
-            rx, ry = (rx * x + D * ry * y) % m, (rx * y + ry * x) % m
-        x, y = (x * x + D * y * y) % m, (2 * x * y) % m
-        e >>= 1
-    return rx, ry
-
-
-def _inverse_mod(x: int, y: int, D: int, m: int) -> tuple[int, int]:
-    n = (x * x - D * y * y) % m
-    if math.gcd(n, m) != 1:
-        raise DomainError(f"the unit is not invertible modulo {m}")
-    inv = pow(n, -1, m)
-    return x * inv % m, -y * inv % m
 
 
 def coprime_base(numbers: list[int]) -> list[int]:

@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 
 from realquad import InputError, pell
 from realquad.core.integers import is_square
-from realquad.errors import DomainError
+from realquad.core.primes import factorize
 
 
 def test_oeis_a002350_a002349(oeis):
@@ -277,11 +277,35 @@ def test_residues_and_leading_digits_of_compact_solutions(monkeypatch: pytest.Mo
 
 
 @giant_steps_compiled
-def test_residues_refuse_a_modulus_sharing_a_denominator(monkeypatch: pytest.MonkeyPatch) -> None:
-    compact = _forced_compact(1000003, 1, monkeypatch)
-    with pytest.raises(DomainError, match="shares a factor"):
-        compact.residues(2**20)
-    assert pell(1000003).residues(2**20) == (pell(1000003).x % 2**20, pell(1000003).y % 2**20)
+def test_residues_for_moduli_sharing_the_denominators(monkeypatch: pytest.MonkeyPatch) -> None:
+    # moduli with the primes of 2 and of the compact factors' denominators (reduced p-adically),
+    # against the continued fraction's expanded solution reduced by Python itself
+    rng = random.Random(20261203)
+    checked = 0
+    for d in [1000003, *rng.sample(range(2, 10**6), 8)]:
+        for n in (1, -1, 4, -4):
+            full = pell(d, n)
+            if not full.solvable or full.x is None:
+                continue
+            compact = _forced_compact(d, n, monkeypatch)
+            assert compact.compact is not None
+            primes = {
+                p
+                for chain in compact.compact.chains
+                for a, _ in chain.factors
+                for p in factorize(int(a.c))
+            }
+            moduli = [
+                2**20,
+                10**9,
+                3**15,
+                2 * 3 * 5 * 7 * 11 * 13,
+                *(p**6 for p in sorted(primes)[:6]),
+            ]
+            for m in moduli:
+                assert compact.residues(m) == (full.x % m, full.y % m), (d, n, m)
+            checked += 1
+    assert checked >= 10
 
 
 @giant_steps_compiled

@@ -10,6 +10,7 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
+from realquad.core.primes import factorize
 from realquad.errors import DomainError, TooLargeError
 from realquad.infrastructure.compact import CompactRepresentation, abs_product_is_one, coprime_base
 from realquad.infrastructure.regulator_search import search_regulator
@@ -111,10 +112,54 @@ def test_compact_size_is_logarithmic() -> None:
     assert all(abs(a.c) < 10**25 for chain in eps.chains for a, _ in chain.factors)
 
 
-def test_modulus_sharing_a_denominator_is_refused() -> None:
-    eps = compact_unit(4 * (10**9 + 7))
-    with pytest.raises(DomainError):
-        eps.modulo(2)
+@given(st.integers(2, 10**5), st.integers(1, 10**6))
+def test_any_modulus_against_sympy_pell(d: int, m: int) -> None:
+    # sympy's diop_DN: the least solution (x, y) of x² − dy² = −1 (else +1), which is the
+    # fundamental unit x + y√d of Z[√d], D = 4d; as (u + v√D)/2: u = 2x, v = y
+    from sympy.solvers.diophantine.diophantine import diop_DN
+
+    if gmpy2.is_square(d):
+        return
+    x, y = (diop_DN(d, -1) or diop_DN(d, 1))[0]
+    eps = compact_unit(4 * d)
+    denominators = {int(a.c) for chain in eps.chains for a, _ in chain.factors}
+    for q in (m, 2**40, 10**12, *(c**3 for c in sorted(denominators)[:4])):
+        assert eps.coordinates_modulo(q) == (2 * x % q, y % q)
+        # ε = x + (y/2)√D: modulo() needs y/2 reducible modulo q
+        if q > 1 and q % 2:
+            assert eps.modulo(q) == (x % q, y * pow(2, -1, q) % q)
+        elif q > 1 and y % 2 == 0:
+            assert eps.modulo(q) == (x % q, y // 2 % q)
+        elif q > 1:
+            with pytest.raises(DomainError, match="half-integer"):
+                eps.modulo(q)
+
+
+def test_moduli_sharing_the_denominators_against_the_expansion() -> None:
+    # every modulus up to 300 and the powers of the denominators' primes, against the
+    # expanded unit and its powers (negative ones included)
+    for D in (5, 8, 13, 4 * 61, 4 * 94, 1009, 8 * 1019, 9 * 4 * 61, 4 * 46, 4 * 199, 10**6 + 1):
+        eps = compact_unit(D)
+        primes = sorted(
+            {p for chain in eps.chains for a, _ in chain.factors for p in factorize(int(a.c))}
+        )
+        for k in (1, -2, 3):
+            beta = eps.power(k)
+            u, v = beta.expand()
+            for m in [*range(1, 301), *(p**e for p in primes[:5] for e in (5, 17))]:
+                assert beta.coordinates_modulo(m) == (u % m, v % m), (D, k, m)
+
+
+def test_even_modulus_of_half_integer_coordinates_is_refused() -> None:
+    phi = compact_unit(5)  # (1 + √5)/2: x + y√5 with x = y = 1/2
+    with pytest.raises(DomainError, match="half-integer"):
+        phi.modulo(2)
+    assert phi.coordinates_modulo(2) == (1, 1)
+    eps = compact_unit(4 * 61)  # 29718 + 3805√61 (cfrac; = (59436 + 3805√244)/2)
+    with pytest.raises(DomainError, match="half-integer"):
+        eps.modulo(2**30)
+    assert eps.coordinates_modulo(2**30) == (59436, 3805)
+    assert eps.modulo(3**19) == (29718, 3805 * pow(2, -1, 3**19) % 3**19)
 
 
 @given(st.lists(st.integers(1, 10**6), min_size=1, max_size=8))
