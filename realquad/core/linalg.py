@@ -165,35 +165,6 @@ def invariants_from_primary(powers: dict[int, list[int]]) -> list[int]:
     return list(reversed(factors))
 
 
-def triangular_invariants(relations: list[list[int]]) -> list[int]:
-    """The invariants ``d₁ | d₂ | …`` of ``Z^n`` modulo the rows of a lower-triangular relation matrix.
-
-    Row ``i`` has length ``i + 1`` and a positive last entry (as the class
-    group walks give them). Up to three generators take the determinantal
-    divisors (``d₁ = g₁``, ``d₂ = g₂/g₁``, ``d₃ = det/g₂`` with ``gₖ`` the gcd
-    of the ``k × k`` minors; for two, ``Z²/⟨(a, 0), (b, c)⟩ ≅ Z/g × Z/(ac/g)``
-    with ``g = gcd(a, b, c)``), more go through :func:`smith_normal_form`.
-
-    >>> triangular_invariants([[4], [2, 2]]), triangular_invariants([[2], [0, 3]])
-    ([2, 4], [6])
-    >>> rows = [[2], [1, 2], [0, 0, 3]]
-    >>> triangular_invariants(rows), smith_normal_form(rows, 3).invariants
-    ([12], [12])
-    """
-    if len(relations) == 1:
-        return [relations[0][0]] if relations[0][0] > 1 else []
-    if len(relations) == 2:
-        (a,), (b, c) = relations
-        g = gcd(gcd(a, b), c)
-        return [d for d in (g, a * c // g) if d > 1]
-    if len(relations) == 3:  # determinantal divisors: gcd of the entries, of the 2×2 minors
-        (a,), (b, c), (d, e, f) = relations
-        g1 = gcd(a, b, c, d, e, f)
-        g2 = gcd(a * c, a * e, a * f, b * e - c * d, b * f, c * f)
-        return [x for x in (g1, g2 // g1, a * c * f // g2) if x > 1]
-    return smith_normal_form(relations, len(relations)).invariants if relations else []
-
-
 def smith_normal_form(relations: list[list[int]], n: int) -> SmithForm:
     """The Smith normal form of the relations (rows of length ``≤ n``, padded with zeros).
 

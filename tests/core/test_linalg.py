@@ -1,4 +1,4 @@
-"""Invariants of triangular relation matrices against sympy's Smith normal form."""
+"""Invariant factors from primary parts against sympy's Smith normal form."""
 
 from __future__ import annotations
 
@@ -7,24 +7,7 @@ from hypothesis import strategies as st
 from sympy import Matrix
 from sympy.matrices.normalforms import invariant_factors as sympy_invariants
 
-from realquad.core.linalg import invariants_from_primary, triangular_invariants
-
-
-@st.composite
-def triangular(draw: st.DrawFn) -> list[list[int]]:
-    n = draw(st.integers(1, 4))
-    return [
-        [draw(st.integers(-20, 20)) for _ in range(i)] + [draw(st.integers(1, 40))]
-        for i in range(n)
-    ]
-
-
-@given(triangular())
-def test_triangular_invariants_equal_sympy(rows: list[list[int]]) -> None:
-    n = len(rows)
-    full = Matrix([row + [0] * (n - len(row)) for row in rows])
-    expected = [abs(int(x)) for x in sympy_invariants(full) if abs(int(x)) > 1]  # sympy
-    assert triangular_invariants(rows) == expected
+from realquad.core.linalg import invariants_from_primary
 
 
 @given(st.dictionaries(st.sampled_from([2, 3, 5, 7]), st.lists(st.integers(0, 4), max_size=4)))

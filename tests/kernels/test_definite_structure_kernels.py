@@ -71,6 +71,37 @@ def test_orders_of_conductor_above_one(n, f, first):
     assert got == [tuple(G.invariants)]
 
 
+@st.composite
+def sylow_relations(draw):
+    """``(p, e, rows)``: lower-triangular relations with diagonal ``p^{eᵢ}``, a ``p``-group of
+    order ``p^e``, ``e = Σ eᵢ``."""
+    p = draw(st.sampled_from([2, 3, 5, 7]))
+    exponents = draw(st.lists(st.integers(0, 4), min_size=1, max_size=4))
+    rows = [
+        [draw(st.integers(-50, 50)) for _ in range(i)] + [p**k] for i, k in enumerate(exponents)
+    ]
+    return p, sum(exponents), rows
+
+
+@given(sylow_relations())
+def test_sylow_smith_form_modulo_p_to_the_e_equals_sympy(case):
+    # the elimination modulo p^e (the twin of the kernel's) against sympy's invariant factors
+    from sympy import Matrix
+    from sympy.matrices.normalforms import invariant_factors
+
+    from realquad._kernels.definite_structure_kernels import _sylow_factors
+
+    p, e, rows = case
+    g, q = len(rows), p**e
+    full = [row + [0] * (g - len(row)) for row in rows]
+    expected = sorted(abs(int(x)) for x in invariant_factors(Matrix(full)) if abs(int(x)) > 1)
+    if e == 0:
+        assert expected == []
+        return
+    got = _sylow_factors([[v % q for v in row] for row in full], p, e, q)
+    assert got is not None and sorted(got) == expected
+
+
 def test_every_small_field_against_the_whole_walk():
     # every fundamental −3000 ≤ D < 0, h counted, 2-rank from genus theory
     Ds = sorted({_fundamental_near(n) for n in range(3, 3001)}, reverse=True)
