@@ -12,7 +12,11 @@ height: this is the compact representation of Buchmann, Thiel and Williams.
 Decisions (which way to step) use binary64 distances; only the exact
 multipliers decide the result, so rounding can never make the answer wrong —
 at worst the walk ends one step away from the ideal a perfect walk would
-reach.
+reach. Binary64 distances drift by about ``10⁻¹⁶`` of the target at each of
+the ``log₂ x`` doublings, so beyond ``x ≈ 10¹²`` the walk may end too far
+from the ideal sought for a short search to find it; with ``digits`` the
+walk carries its distance in ``mpmath`` instead, every step's logarithm taken
+from its exact multiplier, and ends within a step or two of ``x`` at any size.
 
 >>> from realquad.infrastructure.ideals import Cycle
 >>> cyc = Cycle(4 * 4000003)
@@ -111,26 +115,85 @@ class _Walker:
         self.ideal = (a4, b4)
 
 
+class _PreciseWalker(_Walker):
+    """A :class:`_Walker` whose distance is an ``mpmath`` number at ``dps`` digits, each move's
+    logarithm taken from its exact multiplier (so the walk's drift stays below a step)."""
+
+    def __init__(self, cycle: Cycle, dps: int) -> None:
+        super().__init__(cycle, exact=True)
+        self.dps = dps
+        self.distance = mpmath.mpf(0)  # type: ignore[assignment]
+
+    def _log(self, number: QuadraticNumber) -> mpmath.mpf:
+        return number.log_abs_mpf(self.dps)
+
+    def _theta(self, a1: int, b1: int) -> QuadraticNumber:
+        return QuadraticNumber(b1, 1, 2 * a1, self.cycle.discriminant)
+
+    def forward(self) -> None:
+        a1, b1 = self.cycle.rho(*self.ideal)
+        theta = self._theta(a1, b1)
+        with mpmath.workdps(self.dps):
+            self.distance += self._log(theta)
+        self.mu = self.mu * theta
+        self.ideal = (a1, b1)
+
+    def backward(self) -> None:
+        a1, b1 = self.ideal
+        theta = self._theta(a1, b1)
+        with mpmath.workdps(self.dps):
+            self.distance -= self._log(theta)
+        self.mu = self.mu / theta
+        self.ideal = self.cycle.rho_inverse(a1, b1)
+
+    def next_distance(self) -> float:
+        with mpmath.workdps(self.dps):
+            return self.distance + self._log(self._theta(*self.cycle.rho(*self.ideal)))
+
+    def square(self) -> None:
+        c = self.cycle
+        a, b = self.ideal
+        d, a3, b3 = c.multiply(a, b, a, b)
+        a4, b4, mu = c.reduce_exact(a3, b3)
+        self.mu = QuadraticNumber(a * a, 0, d * a3, c.discriminant) * mu
+        with mpmath.workdps(self.dps):
+            self.distance = 2 * self.distance + self._log(self.mu)
+        self.ideal = (a4, b4)
+
+
 def bottom_radius(cycle: Cycle) -> float:
     """Distances up to this are reached by baby steps alone."""
     return max(8.0, 2.0 * math.log(cycle.discriminant))
 
 
-def walk_to(cycle: Cycle, x: float, exact: bool = False) -> NearIdeal:
+def walk_to(
+    cycle: Cycle, x: float | mpmath.mpf, exact: bool = False, digits: int | None = None
+) -> NearIdeal:
     """The reduced principal lattice with the largest distance ``≤ x`` (``x ≥ 0``).
 
     With ``exact=True`` the relative generator comes as factors
-    ``[(γ₀, 2^k), (α₁, 2^{k−1}), …, (α_k, 1)]``.
+    ``[(γ₀, 2^k), (α₁, 2^{k−1}), …, (α_k, 1)]``. With ``digits`` (and ``exact``) the
+    distances are carried to that many significant digits (module notes); ``x`` may then
+    be an ``mpmath`` number, and the distance returned is one.
     """
     if not x >= 0:
         raise ValueError("target distance must be non-negative")
+    if digits is not None and not exact:
+        raise ValueError("a walk with precise distances is exact")
+    if digits is not None:
+        with mpmath.workdps(digits):  # the targets x/2^i to the walk's precision
+            return _walk(cycle, mpmath.mpf(x), exact, digits)
+    return _walk(cycle, x, exact, None)
+
+
+def _walk(cycle: Cycle, x: float | mpmath.mpf, exact: bool, digits: int | None) -> NearIdeal:
     T = bottom_radius(cycle)
     k = 0
     t = x
     while t > T:
         t /= 2
         k += 1
-    w = _Walker(cycle, exact)
+    w = _Walker(cycle, exact) if digits is None else _PreciseWalker(cycle, digits)
     w.adjust(t)
     factors: Factors = []
     if exact:
@@ -158,12 +221,15 @@ def principal_near(cycle: Cycle, x: float, window: float) -> list[float]:
     return found
 
 
-def exact_principal_at(cycle: Cycle, x: float, steps: int | None = None) -> Factors:
-    """Factors of a unit ``γ`` with ``O = γ·O`` at distance close to ``x`` (a float estimate).
+def exact_principal_at(
+    cycle: Cycle, x: float | mpmath.mpf, steps: int | None = None, digits: int | None = None
+) -> Factors:
+    """Factors of a unit ``γ`` with ``O = γ·O`` at distance close to ``x`` (an estimate;
+    with ``digits``, one good to that many digits, the walk's distances as precise).
 
     Raises ``ArithmeticError`` if ``O`` is not within ``steps`` baby steps of ``x``.
     """
-    return exact_ideal_at(cycle, x, cycle.principal, steps)
+    return exact_ideal_at(cycle, x, cycle.principal, steps, digits)
 
 
 def search_radius(x: float) -> int:
@@ -177,19 +243,28 @@ def search_radius(x: float) -> int:
     return 64 + int(6e-12 * x)
 
 
+#: Baby steps either way a walk with precise distances searches (it ends within one or two).
+PRECISE_RADIUS = 64
+
+
 def exact_ideal_at(
-    cycle: Cycle, x: float, target: ReducedIdeal, steps: int | None = None
+    cycle: Cycle,
+    x: float | mpmath.mpf,
+    target: ReducedIdeal,
+    steps: int | None = None,
+    digits: int | None = None,
 ) -> Factors:
     """Factors of ``γ`` with ``L_target = γ·O``, for a reduced principal ``target`` near distance ``x``.
 
     Walks to ``x`` exactly and searches up to ``steps`` baby steps either way
     for ``target`` (default :func:`search_radius`), by float steps first, then
     repeats the steps needed with exact multipliers; raises ``ArithmeticError``
-    if it is not there.
+    if it is not there. With ``digits`` the walk's distances are precise (module
+    notes) and the default search is :data:`PRECISE_RADIUS` steps.
     """
     if steps is None:
-        steps = search_radius(x)
-    near = walk_to(cycle, max(0.0, x), exact=True)
+        steps = search_radius(float(x)) if digits is None else PRECISE_RADIUS
+    near = walk_to(cycle, max(0, x), exact=True, digits=digits)
     assert near.factors is not None
     for direction in ("forward", "backward"):
         w = _Walker(cycle, exact=False)

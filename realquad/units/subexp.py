@@ -10,11 +10,13 @@ end), ``ε* = ε``: ``proof: "GRH"``. Sub-exponential in ``log D`` where the
 infrastructure's baby-step giant-step needs about ``D^{1/4}`` steps.
 
 The unit is exact: ``ε = ∏ ρ_i^{k_i}`` over the generators ``ρ_i`` of a few
-thousand relations, ``k_i`` of a few dozen bits. Its logarithm (any precision),
-norm and residues modulo ``m`` come from that product. When ``R`` is below
-:data:`INFRASTRUCTURE_LIMIT` the doubling walk of the infrastructure reaches
-``O`` at distance ``R`` and gives the unit in the compact representation of
-Buchmann, Thiel and Williams instead (``O(log R)`` numbers of small height).
+thousand relations, ``k_i`` of a few dozen bits. Its logarithm (any precision)
+comes from that product. The doubling walk of the infrastructure to distance
+``R`` then reaches ``O`` and gives the unit in the compact representation of
+Buchmann, Thiel and Williams (``O(log R)`` numbers of small height), checked
+against the product's logarithm: with binary64 distances below
+:data:`INFRASTRUCTURE_LIMIT`, beyond it with distances carried to the digits
+``R`` needs (:mod:`realquad.infrastructure.distances`).
 
 >>> u = fundamental_unit_subexp(Order(4 * (10**10 + 19)))
 >>> u.norm, u.proof, str(u.regulator(15))
@@ -41,8 +43,8 @@ METHOD = (
     "certified by the analytic class number formula"
 )
 
-#: Largest ``R`` for which the unit is rewritten in the infrastructure's compact form (the
-#: doubling walk's binary64 distances are good to about ``10⁻¹²·R``).
+#: Largest ``R`` whose doubling walk uses binary64 distances (good to about ``10⁻¹²·R``);
+#: beyond, the walk carries ``mpmath`` distances.
 INFRASTRUCTURE_LIMIT = 10**12
 
 #: Largest unit (decimal digits) :meth:`Unit.expand` writes out.
@@ -87,16 +89,35 @@ def unit_from_relations(found: IndexCalculus) -> Unit:
     product = CompactRepresentation.from_power_product(
         D, [(found.generators[i], k) for i, k in sorted(unit.exponents.items())]
     )
-    compact = product
-    if unit.log < INFRASTRUCTURE_LIMIT:
-        walked = CompactRepresentation.from_factors(
-            D, exact_principal_at(Cycle(D), float(unit.log))
+    # the doubling walk to distance R reaches O, and its factors are the unit in
+    # Buchmann–Thiel–Williams form: with binary64 distances up to INFRASTRUCTURE_LIMIT,
+    # beyond with distances carried to the digits R needs
+    digits = None if unit.log < INFRASTRUCTURE_LIMIT else len(str(int(unit.log))) + 20
+    x = float(unit.log) if digits is None else unit.log
+    try:
+        factors = exact_principal_at(Cycle(D), x, digits=digits)
+    except ArithmeticError:  # O not within the search: the product stays the representation
+        return _unit(found, method, product, product)
+    walked = CompactRepresentation.from_factors(D, factors)
+    size = len(str(int(unit.log)))
+    with mpmath.workdps(size + 30):
+        gap = abs(walked.log(size + 15)[0] - unit.log)
+    if gap > 1e-6 * (1 + (unit.log if digits is None else 0)):
+        raise ArithmeticError(
+            "internal check failed: the infrastructure's unit is not the relations' unit"
         )
-        if abs(walked.log(20)[0] - unit.log) > 1e-6 * (1 + unit.log):
-            raise ArithmeticError(
-                "internal check failed: the infrastructure's unit is not the relations' unit"
-            )
-        compact = walked
+    return _unit(found, method, product, walked)
+
+
+def _unit(
+    found: IndexCalculus,
+    method: str,
+    product: CompactRepresentation,
+    compact: CompactRepresentation,
+) -> Unit:
+    """The :class:`Unit`: logarithms from the product of generators, the rest from ``compact``."""
+    unit = found.unit
+    assert unit is not None
 
     def regulator_to(digits: int) -> Regulator:
         with mpmath.workdps(digits + 10):

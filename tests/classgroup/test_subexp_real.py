@@ -125,10 +125,14 @@ def test_odd_discriminants_decide_the_denominator_without_expanding():
             break
 
 
+def _no_walk(*args, **kwargs):
+    raise ArithmeticError("O not near")
+
+
 def test_a_unit_kept_as_a_power_product(monkeypatch):
-    # beyond the infrastructure's reach the unit stays a product of relation generators:
-    # its norm, logarithm and residues agree with the continued fraction's expanded unit
-    monkeypatch.setattr(units_subexp, "INFRASTRUCTURE_LIMIT", 0)
+    # when the walk cannot reach O the unit stays a product of relation generators: its
+    # norm, logarithm and residues agree with the continued fraction's expanded unit
+    monkeypatch.setattr(units_subexp, "exact_principal_at", _no_walk)
     D = 4 * (10**10 + 19)
     u = fundamental_unit(D, method="subexp")
     v = fundamental_unit(D, method="cfrac")
@@ -136,15 +140,36 @@ def test_a_unit_kept_as_a_power_product(monkeypatch):
     assert form.size > 50 and form.norm == v.norm == u.norm
     assert mpmath.almosteq(u.regulator(40).value, v.regulator(40).value, 1e-35)
     assert u.digits_from_regulator() == (v.digits, True)
-    for m in (10**9 + 7, 998_244_353):
-        try:
-            x, y = form.modulo(m)
-        except DomainError:
-            continue  # m divides a generator's denominator
-        ex = v.expand()
-        inv = pow(int(ex.c), -1, m)
-        # ε = (u + v√D)/2 on the discriminant's √D: x + y√D with D = 4d
-        assert (x, 2 * y % m) == (int(ex.x) * inv % m, int(ex.y) * inv % m)
+    ex = v.expand()  # (x + y√d)/c; as (U + V√D)/2 with D = 4d: U = 2x/c, V = y/c
+    for m in (10**9 + 7, 998_244_353, 2**64, 10**12):
+        U, V = 2 * int(ex.x) // int(ex.c), int(ex.y) // int(ex.c)
+        assert form.coordinates_modulo(m) == (U % m, V % m)
+
+
+def test_precise_walk_at_a_small_regulator(monkeypatch):
+    # the walk with mpmath distances (forced below its threshold) gives the continued
+    # fraction's unit in compact form
+    monkeypatch.setattr(units_subexp, "INFRASTRUCTURE_LIMIT", 0)
+    D = 4 * (10**10 + 19)
+    form = fundamental_unit(D, method="subexp").compact()
+    ex = fundamental_unit(D, method="cfrac").expand()
+    assert form.size < 50
+    assert form.expand() == (2 * int(ex.x) // int(ex.c), int(ex.y) // int(ex.c))
+
+
+@pytest.mark.parametrize("k", [30])
+def test_units_beyond_10_to_the_12_in_compact_form(k):
+    # R ≈ 1.3·10¹⁵: the walk with mpmath distances; the unit agrees with the baby-step
+    # giant-step search's (an independent unconditional computation) modulo several moduli
+    D = _field_above(10**k + 7).discriminant
+    u = fundamental_unit(D, method="subexp")
+    v = fundamental_unit(D, method="bsgs")
+    form, other = u.compact(), v.compact()
+    assert form.size < 80 and form.norm == u.norm == v.norm
+    assert mpmath.almosteq(u.regulator(30).value, v.regulator(30).value, 1e-25)
+    assert u.regulator(20).value > 10**12
+    for m in (10**9 + 7, 2**61 - 1, 2**40, 3**25 * 5**10):
+        assert form.coordinates_modulo(m) == other.coordinates_modulo(m)
 
 
 @HEAVY
