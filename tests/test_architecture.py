@@ -99,6 +99,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"pell", "norm_compact"},
         {"norm"},
         {"binary"},
+        {"conics_compact"},
         {"conics"},
     ],
     "realquad.survey": [

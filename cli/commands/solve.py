@@ -21,6 +21,7 @@ from realquad_cli.progress import ElapsedTicker
 
 from realquad.core.integers import as_integer
 from realquad.equations.conics import solve_quadratic
+from realquad.equations.conics_compact import CompactConicFamily
 from realquad.equations.families import (
     MAX_MEMBER_DIGITS,
     CompactOrbitFamily,
@@ -62,8 +63,10 @@ def polynomial_text(coefficients: tuple[int, ...], var: str = "t") -> str:
 
 def _unit_texts(fam: CompactOrbitFamily) -> tuple[str, str]:
     """How the family's fundamental solution and its unit are written: ``x + y√d`` or, for a
-    form, ``ax + y(b + √D)/2``; ``t + u√d`` or ``(t + u√D)/2``."""
+    form, ``ax + y(b + √D)/2``, or for a conic ``P + Q√Δ``; ``t + u√d`` or ``(t + u√D)/2``."""
     d = fam.d
+    if isinstance(fam, CompactConicFamily):
+        return f"P + Q√{d}", f"t + u√{d}"
     if (fam.a, fam.b) == (1, 0):
         return f"x + y√{d}", f"t + u√{d}"
     return f"{fam.a}x + y({fam.b} + √{d})/2", f"(t + u√{d})/2"
@@ -90,6 +93,17 @@ def _about(exact: bool) -> str:
 def _shared_automorph(fam: CompactOrbitFamily) -> list[str]:
     """The automorph every compact family of one equation shares, said once."""
     _, unit = _unit_texts(fam)
+    if isinstance(fam, CompactConicFamily):
+        S, (s0, s1) = fam.matrix, fam.shift
+        sign = "−" if fam.unit.value_sign < 0 else ""
+        return [
+            f"with P = {terms_text([(S[0], 'x'), (S[1], 'y'), (s0, '')])}, "
+            f"Q = {terms_text([(S[2], 'x'), (S[3], 'y'), (s1, '')])}: P² − {fam.d}Q² = {fam.n}",
+            f"automorph of every family: multiplication of P + Q√{fam.d} by {sign}η, "
+            f"η = {unit} a unit of norm 1 in compact form ({plural(fam.unit.size, 'factor')}), "
+            f"t of {_about(fam.unit_digits_exact())}{fam.unit_digits():,} digits"
+            + ("; the families hold the mirror images 2C − (x, y) too" if fam.mirrored else ""),
+        ]
     return [
         f"automorph of every family: multiplication by the least unit {unit} of norm 1, in "
         f"compact form ({plural(fam.unit.size, 'factor')}), t of "

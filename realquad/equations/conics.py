@@ -47,9 +47,16 @@ from realquad.equations.binary import (
     solve_transformed,
     swap_solutions,
 )
+from realquad.equations.conics_compact import compact_conic_families
 from realquad.equations.families import Family, ParabolaFamily, QuadraticSolutions
-from realquad.equations.norm import solve_norm_equation
+from realquad.equations.norm import choose_norm_method, solve_norm_equation
 from realquad.errors import DomainError, TooLargeError
+
+#: The method of a hyperbolic conic beyond the continued fraction.
+METHOD_INFRASTRUCTURE = (
+    "P² − ΔQ² = K by principal ideal tests in the infrastructure, the integral members and "
+    "the least integral automorph found on residues; every number in compact form"
+)
 
 #: Most residues the parabolic case examines.
 MAX_RESIDUES = 2_000_000
@@ -153,6 +160,15 @@ def _parabolic(a: int, b: int, c: int, d: int, e: int, f: int) -> QuadraticSolut
     return QuadraticSolutions(coefficients, not fams, fams, [], method)
 
 
+def _by_infrastructure(Delta: int) -> bool:
+    """Whether ``P² − ΔQ² = K`` goes to the infrastructure (a refusal is left to the
+    continued fraction's path, which says why)."""
+    try:
+        return choose_norm_method(Delta) == "infrastructure"
+    except TooLargeError:
+        return False
+
+
 def solve_quadratic(a: int, b: int, c: int, d: int, e: int, f: int) -> QuadraticSolutions:
     """Every integer solution of ``a x² + b xy + c y² + d x + e y + f = 0``.
 
@@ -184,4 +200,10 @@ def solve_quadratic(a: int, b: int, c: int, d: int, e: int, f: int) -> Quadratic
     K = (2 * a * e - b * d) ** 2 + Delta * (4 * a * f - d * d)
     S = (0, Delta, 2 * a, b)
     s0 = (b * d - 2 * a * e, d)
+    if K and Delta > 0 and not is_square(Delta) and _by_infrastructure(Delta):
+        families = compact_conic_families(S, s0, Delta, K)
+        found: list[Family] = list(families)
+        return QuadraticSolutions(
+            coefficients, not found, found, [], METHOD_INFRASTRUCTURE, "unconditional"
+        )
     return solve_transformed(coefficients, S, s0, Delta, K)

@@ -137,7 +137,7 @@ def sort_points(points: set[Point] | list[Point]) -> list[Point]:
     return sorted(set(points), key=_sort_key)
 
 
-def _check_bound(B: int) -> int:
+def check_bound(B: int) -> int:
     if isinstance(B, bool) or not isinstance(B, int) or B < 0:
         raise InputError(f"the bound must be a non-negative integer, got {B!r}")
     return B
@@ -279,7 +279,7 @@ class OrbitFamily:
 
     def bounded(self, B: int) -> list[Point]:
         """Every member with ``|x|, |y| ≤ B``, sorted (generated from the orbit, no box scan)."""
-        B = _check_bound(B)
+        B = check_bound(B)
         out: set[Point] = set()
         starts = [self.fundamental]
         if self.reflection:
@@ -333,7 +333,7 @@ class LineFamily:
         return (self.point[0] + k * self.direction[0], self.point[1] + k * self.direction[1])
 
     def bounded(self, B: int) -> list[Point]:
-        B = _check_bound(B)
+        B = check_bound(B)
         big = Fraction(10) ** 9999
         lo, hi = _interval(-big, big, self.point[0], self.direction[0], B)
         lo, hi = _interval(lo, hi, self.point[1], self.direction[1], B)
@@ -386,7 +386,7 @@ class ParabolaFamily:
         return (x2 * k * k + x1 * k + x0, y2 * k * k + y1 * k + y0)
 
     def bounded(self, B: int) -> list[Point]:
-        B = _check_bound(B)
+        B = check_bound(B)
         c2, c1, c0 = self.x_polynomial if self.x_polynomial[0] else self.y_polynomial
         if c2 == 0:  # pragma: no cover - constructed only with a quadratic coordinate
             raise InputError("not a parabola")
@@ -477,35 +477,47 @@ class CompactOrbitFamily:
     def _x_digits(self, k: int) -> tuple[int, bool]:
         """``(digits of x, exact)`` for the member ``β = α εᵏ``.
 
-        With ``β = ax + y(b + √D)/2`` (``D = b² − 4ac``; ``4d``, ``a = 1``,
-        ``b = 0`` for ``x² − dy² = n``): ``2a√D·x = β(√D − b) + β'(√D + b)``, so
-        when ``|β| > |β'|``, ``log|x| = log|β| + log|√D − b| − log(2a√D) +
-        log(1 + ρ)`` with ``|ρ| = |β'/β|·|√D + b|/|√D − b|`` (the other way round
-        when ``|β'| > |β|``), and ``|log(1 + ρ)| ≤ 2|ρ|`` for ``|ρ| ≤ 1/2``. The
+        With ``x = c₁β + c₂β' + c₀`` (:meth:`_linear_form`; for ``β = ax + y(b +
+        √D)/2``, ``2a√D·x = β(√D − b) + β'(√D + b)``), when ``|β| > |β'|``,
+        ``log|x| = log|β| + log|c₁| + log(1 + ρ)`` with ``|ρ| ≤ (|β'/β|·|c₂| +
+        |c₀/β|)/|c₁|`` (the other way round when ``|β'| > |β|``), and
+        ``|log(1 + ρ)| ≤ 2|ρ|`` for ``|ρ| ≤ 1/2``. The
         count ``⌊log₁₀|x|⌋ + 1`` is exact when the interval of ``log₁₀|x|`` holds
         no integer; else the member is written out when it is small enough.
         """
         if k == 0 and self.fundamental is not None:
             return decimal_digits(self.fundamental[0]), True
-        a, b = self.a, self.b
-        D = 4 * self.d if (a, b) == (1, 0) else self.d
         big, small = self._logs(k)
         with mpmath.workdps(_LOG_DIGITS + len(str(int(abs(big)))) + 20):
-            root = mpmath.sqrt(D)
+            c1, c2, c0 = self._linear_form()
             if big >= small:
-                top, near, far = big, root - b, root + b
+                top, near, far = big, c1, c2
             else:
-                top, near, far = small, root + b, root - b
-            rho = mpmath.exp(-abs(big - small)) * abs(far / near)
+                top, near, far = small, c2, c1
+            rho = (mpmath.exp(-abs(big - small)) * abs(far) + abs(c0) * mpmath.exp(-top)) / abs(
+                near
+            )
             error = (1 + abs(k)) * mpmath.mpf(10) ** (-_LOG_DIGITS) + 2 * rho
-            value = (top + mpmath.log(abs(near)) - mpmath.log(2 * a * root)) / mpmath.log(10)
+            value = (top + mpmath.log(abs(near))) / mpmath.log(10)
             low, high = value - error / mpmath.log(10), value + error / mpmath.log(10)
             estimate = max(1, int(mpmath.floor(value)) + 1)
             if rho <= 0.5 and mpmath.floor(low) == mpmath.floor(high):
-                return max(1, int(mpmath.floor(value)) + 1), True
+                return estimate, True
         if estimate <= MAX_MEMBER_DIGITS:
-            return decimal_digits(expand_point(self.member(k), a, b)[0]), True
+            return decimal_digits(self._point(self.member(k))[0]), True
         return estimate, False
+
+    def _linear_form(self) -> tuple[mpmath.mpf, mpmath.mpf, mpmath.mpf]:
+        """``(c₁, c₂, c₀)`` with ``x = c₁β + c₂β' + c₀`` for a member ``β`` (at the working
+        precision): ``2a√D·x = β(√D − b) + β'(√D + b)``."""
+        a, b = self.a, self.b
+        D = 4 * self.d if (a, b) == (1, 0) else self.d
+        root = mpmath.sqrt(D)
+        return (root - b) / (2 * a * root), (root + b) / (2 * a * root), mpmath.mpf(0)
+
+    def _point(self, member: CompactRepresentation) -> Point:
+        """``(x, y)`` of a member, written out."""
+        return expand_point(member, self.a, self.b)
 
     def unit_digits(self) -> int:
         """How many decimal digits ``t`` of the unit has, ``ε = t + u√d`` (for a form,
@@ -543,7 +555,7 @@ class CompactOrbitFamily:
                 f"member k = {k} of the family has about {size:,} digits, more than "
                 f"{MAX_MEMBER_DIGITS:,}; it stays in compact form"
             )
-        return expand_point(self.member(k), self.a, self.b)
+        return self._point(self.member(k))
 
     def residues(self, m: int) -> Point:
         """``(x mod m, y mod m)`` for the fundamental solution, from the compact form (any
@@ -566,7 +578,7 @@ class CompactOrbitFamily:
         ``e^L > B√D + √|N(α)|`` lies outside; ``L`` grows with ``|k|`` on
         either side of ``k = 0`` (the fundamental solution is balanced).
         """
-        B = _check_bound(B)
+        B = check_bound(B)
         with mpmath.workdps(_LOG_DIGITS + 20):
             D, norm = self.generator.discriminant, self.generator.absolute_norm
             limit = mpmath.log(B * mpmath.sqrt(D) + isqrt(norm) + 2)
@@ -643,7 +655,7 @@ class QuadraticSolutions(Display):
 
     def bounded(self, B: int) -> list[Point]:
         """Every solution with ``|x|, |y| ≤ B``, sorted by ``max(|x|, |y|)``, then ``x``, ``y``."""
-        B = _check_bound(B)
+        B = check_bound(B)
         out = {p for p in self.solutions if abs(p[0]) <= B and abs(p[1]) <= B}
         for fam in self.families:
             out.update(fam.bounded(B))
