@@ -19,6 +19,7 @@ from collections.abc import Callable
 from typing import Any
 
 from realquad.core.primes import kronecker
+from realquad.equations.conics import solve_quadratic
 from realquad.equations.norm import _cycle_leaves, _principal_cycle, pell_units, solve_norm_equation
 
 LARGE = [(10**12 + 1234567, -1), (10**12 + 3 * 10**6, -1), (10**12 + 39, -1), (10**12 + 39, 1)]
@@ -101,6 +102,17 @@ def workloads() -> list[dict[str, Any]]:
             "target": "≤ 60 s (issue 16)",
         }
     ]
+    out.append(
+        {
+            "name": "norm equations: conic x² − (10²⁴ + 49)y² + 2x + 3y + 1 = 0 with its "
+            "families (infrastructure)",
+            "run": lambda: len(solve_quadratic(1, 0, -HUGE_D, 2, 3, 1).families),
+            "reference": None,
+            "reference_name": None,
+            "repeat": 3,
+            "target": "issue 16: conics at every size",
+        }
+    )
     for d, sign in LARGE:
         n = sign * twelve_prime_n(d)
         out.append(
