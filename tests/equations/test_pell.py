@@ -11,6 +11,7 @@ from hypothesis import strategies as st
 
 from realquad import InputError, pell
 from realquad.core.integers import is_square
+from realquad.core.orders import Order
 from realquad.core.primes import factorize
 
 
@@ -369,3 +370,39 @@ def test_compact_file_at_10_to_the_30_checks_modulo_primes() -> None:
     for m in (10**9 + 7, 2**61 - 1):
         x, y = evaluate(text, m)
         assert (x * x - d * y * y + 1) % m == 0 and (x, y) == solution.residues(m)
+
+
+#: OEIS A003814, numbers d such that x² − dy² = −1 is solvable, the terms 2 … 197 (from memory;
+#: the test checks them against the parity of the period of √d computed here as well).
+A003814 = [2, 5, 10, 13, 17, 26, 29, 37, 41, 50, 53, 58, 61, 65, 73, 74, 82, 85, 89, 97, 101]
+A003814 += [106, 109, 113, 122, 125, 130, 137, 145, 149, 157, 170, 173, 181, 185, 193, 197]
+
+
+def _odd_period(d: int) -> bool:
+    """Whether the continued fraction of √d has an odd period (a loop written here)."""
+    a0 = math.isqrt(d)
+    m, q, a, n = 0, 1, a0, 0
+    while True:
+        m = a * q - m
+        q = (d - m * m) // q
+        a = (a0 + m) // q
+        n += 1
+        if a == 2 * a0:
+            return n % 2 == 1
+
+
+@giant_steps_compiled
+def test_oeis_a003814_by_both_paths() -> None:
+    # x² − dy² = −1 solvable for d < 200: the continued fraction's answer, the infrastructure's
+    # (the unit's norm, never expanded) and the period parity all give OEIS A003814
+    nonsquares = [d for d in range(2, 200) if not is_square(d)]
+    assert [d for d in nonsquares if _odd_period(d)] == A003814
+    assert [d for d in nonsquares if pell(d, -1).solvable] == A003814
+    from realquad.units import fundamental_unit
+
+    # the infrastructure's decision, as pell takes it beyond the continued fraction: the norm
+    # of the fundamental unit of Z[√d] found by baby-step giant-step
+    by_search = [d for d in nonsquares if fundamental_unit(Order(4 * d), "bsgs").norm == -1]
+    assert by_search == A003814
+    forced = pell(61, -1, max_period=5)  # period 11 > 5: the infrastructure decides
+    assert forced.method == "infrastructure baby-step giant-step" and forced.solvable
