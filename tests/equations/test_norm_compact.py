@@ -95,8 +95,9 @@ def test_infrastructure_matches_the_continued_fraction() -> None:
 
 @giant_steps_compiled
 @pytest.mark.slow
-def test_infrastructure_matches_the_continued_fraction_thousands() -> None:
-    for d, n in random_cases(random.Random(16), 2000):
+@pytest.mark.parametrize("part", range(4))  # 2000 cases in four parts: the test workers share them
+def test_infrastructure_matches_the_continued_fraction_thousands(part: int) -> None:
+    for d, n in random_cases(random.Random(16), 2000)[part::4]:
         assert fundamentals(d, n, "infrastructure") == fundamentals(d, n, "cfrac"), (d, n)
 
 
@@ -251,8 +252,9 @@ def test_forms_by_the_infrastructure_match_the_continued_fraction() -> None:
 
 @giant_steps_compiled
 @pytest.mark.slow
-def test_forms_by_the_infrastructure_match_the_continued_fraction_many() -> None:
-    for a, b, c, n in random_forms(random.Random(17), 1000):
+@pytest.mark.parametrize("part", range(4))  # 1000 forms in four parts, as above
+def test_forms_by_the_infrastructure_match_the_continued_fraction_many(part: int) -> None:
+    for a, b, c, n in random_forms(random.Random(17), 1000)[part::4]:
         cf, infrastructure = form_fundamentals_both_ways(a, b, c, n)
         assert cf == infrastructure, (a, b, c, n)
 
