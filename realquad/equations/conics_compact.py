@@ -204,14 +204,14 @@ def compact_conic_families(S: Matrix, s0: Point, D: int, K: int) -> list[Compact
         g, h = eta_D.power(p // 2).coordinates_modulo(N)
         M2, t2 = sub.induced(-g, -h, D)
         if is_integral(M2 + t2):
-            step = CompactRepresentation(half.discriminant, half.chains, -half.sign, 1)
+            step = -half
             log_step = log_step / 2
     span = lcm(r, p) // r
     kept: list[tuple[CompactRepresentation, mpmath.mpf]] = []
     with mpmath.workdps(LOG_DIGITS + 20):
         for family in classes:
             for sign in (1, -1):
-                beta = family.generator if sign == 1 else _negated(family.generator)
+                beta = family.generator if sign == 1 else -family.generator
                 for j in range(span):
                     member = beta if j == 0 else beta * eps.power(j)
                     if _integral_back(member, sub):
@@ -273,12 +273,6 @@ def _over_4d(number: CompactRepresentation, D: int) -> CompactRepresentation:
     return CompactRepresentation(4 * D, chains, number.sign, number.absolute_norm)
 
 
-def _negated(number: CompactRepresentation) -> CompactRepresentation:
-    return CompactRepresentation(
-        number.discriminant, number.chains, -number.sign, number.absolute_norm
-    )
-
-
 def _integral_back(member: CompactRepresentation, sub: Substitution) -> bool:
     """Whether the member's ``(x, y)`` is integral (a test modulo ``|det S|``)."""
     S, (s0, s1), det = sub.S, sub.s0, sub.det
@@ -309,7 +303,7 @@ def _balanced(
         candidates = []
         for k, log in near:
             rep = member if k == 0 else member * step.power(k)
-            for candidate in (rep, _negated(rep)) if mirrored else (rep,):
+            for candidate in (rep, -rep) if mirrored else (rep,):
                 P, Q = small_point(candidate, K)
                 xy = sub.back(P, Q)
                 assert xy is not None

@@ -157,17 +157,11 @@ def _nagell_member(
                 key = (0, 0, False, sx * sign < 0, 0)
                 point = None
             if sign < 0:
-                alpha = _negated(alpha)
+                alpha = -alpha
             if best is None or key < best[0]:
                 best = (key, alpha, log_alpha, point)
         assert best is not None
         return best[1], best[2], best[3]
-
-
-def _negated(number: CompactRepresentation) -> CompactRepresentation:
-    return CompactRepresentation(
-        number.discriminant, number.chains, -number.sign, number.absolute_norm
-    )
 
 
 def _nagell_key(v: Point, a: int, b: int) -> tuple[int, int, bool, bool, int]:

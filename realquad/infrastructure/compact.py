@@ -247,6 +247,10 @@ class CompactRepresentation:
             self.absolute_norm * other.absolute_norm,
         )
 
+    def __neg__(self) -> CompactRepresentation:
+        """``−β``: the same chains, the sign flipped."""
+        return CompactRepresentation(self.discriminant, self.chains, -self.sign, self.absolute_norm)
+
     def power(self, k: int) -> CompactRepresentation:
         """``ε^k`` (``k`` any integer), still compact."""
         if k < 0 and self.absolute_norm != 1:
