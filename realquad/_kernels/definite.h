@@ -135,6 +135,8 @@ KERNEL_PRIVATE int definite_relation_walk(int64_t D, int64_t conductor, const in
 #define COUNT_LIMIT ((int64_t)100000000000000LL)
 KERNEL_PRIVATE int64_t definite_count(int64_t D, const int64_t *primes, Py_ssize_t len, uint32_t *N,
                                       uint32_t *largest);
+/* x^-1 mod p for gcd(x, p) = 1, 0 < x < p (extended Euclid). */
+KERNEL_PRIVATE int64_t inverse_mod(int64_t x, int64_t p);
 /* floor(sqrt(|D|/3)): the largest first coefficient of a reduced form of D < 0. */
 KERNEL_PRIVATE int64_t definite_amax(int64_t D);
 

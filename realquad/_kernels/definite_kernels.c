@@ -504,7 +504,7 @@ fail:
    entries (23 MB at the limit). */
 
 /* x^-1 mod p for gcd(x, p) = 1, 0 < x < p (extended Euclid). */
-static int64_t
+int64_t
 inverse_mod(int64_t x, int64_t p)
 {
     int64_t r0 = p, r1 = x, s0 = 0, s1 = 1;

@@ -16,19 +16,6 @@
 
 #define MAX_PARTS 64
 
-/* x^-1 mod q for x prime to q (extended Euclid). */
-static int64_t
-unit_inverse(int64_t x, int64_t q)
-{
-    int64_t r0 = q, r1 = floormod64(x, q), s0 = 0, s1 = 1;
-    while (r1 != 0) {
-        int64_t k = r0 / r1, t = r0 - k * r1;
-        r0 = r1, r1 = t;
-        t = s0 - k * s1, s0 = s1, s1 = t;
-    }
-    return floormod64(s0, q);
-}
-
 /* The p-adic valuation of 0 < x < q = p^e (e when x = 0). */
 static int
 valuation(int64_t x, int64_t p, int e)
@@ -74,7 +61,7 @@ sylow_factors(int64_t *m, int64_t g, int64_t p, int e, int64_t q, int64_t *out)
         for (i = 0; i < best; i++)
             pk *= p;
         pivot = m[k * g + k];
-        inverse = unit_inverse(pivot / pk, q);
+        inverse = inverse_mod(floormod64(pivot / pk, q), q);
         for (j = k; j < g; j++) /* the pivot row times a unit: the pivot is p^best */
             m[k * g + j] = (int64_t)((i128)m[k * g + j] * inverse % q);
         for (i = k + 1; i < g; i++) { /* clear the pivot column below it */
