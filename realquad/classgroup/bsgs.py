@@ -80,16 +80,15 @@ from __future__ import annotations
 
 import bisect
 import math
-from collections.abc import Callable
 from dataclasses import dataclass, field
 from functools import partial
-from typing import TypeVar
 
 import gmpy2
 
 from realquad._backend import call_kernel
 from realquad.classgroup.group import ClassGroup, forms_from_vectors
 from realquad.core.forms import prime_form_coefficients
+from realquad.core.integers import times_power
 from realquad.core.lfunction import HRInterval, bach_bound, estimate_hR, hR_interval
 from realquad.core.linalg import SmithForm, smith_normal_form
 from realquad.core.orders import Order
@@ -325,19 +324,6 @@ def _signed_multiply(
 
 Signed = tuple[int, int, int]  # (a, b, σ): a reduced ideal and the sign of its multiplier
 
-_T = TypeVar("_T")
-
-
-def _times_power(total: _T, x: _T, e: int, times: Callable[[_T, _T], _T]) -> _T:
-    """``total·x^e`` (``e ≥ 0``) by square-and-multiply, with the product ``times``."""
-    while e:
-        if e & 1:
-            total = times(total, x)
-        e >>= 1
-        if e:
-            x = times(x, x)
-    return total
-
 
 def _signed_times(cycle: Cycle, x: Signed, y: Signed) -> Signed:
     """``L_z = μ·L_x·L_y``: the product of two signed elements (signs multiply)."""
@@ -357,7 +343,7 @@ def _signed_product(cycle: Cycle, ideals: list[ReducedIdeal], exponents: list[in
         if e == 0:
             continue
         base: Signed = (ideal[0], ideal[1] if e > 0 else cycle.conjugate(*ideal), 1)
-        total = _times_power(total, base, abs(e), partial(_signed_times, cycle))
+        total = times_power(total, base, abs(e), partial(_signed_times, cycle))
     return total
 
 
@@ -568,7 +554,7 @@ def _times(cycle: Cycle, x: ReducedIdeal, y: ReducedIdeal) -> ReducedIdeal:
 
 
 def _power(cycle: Cycle, x: ReducedIdeal, e: int) -> ReducedIdeal:
-    return _times_power(cycle.principal, x, e, partial(_times, cycle))
+    return times_power(cycle.principal, x, e, partial(_times, cycle))
 
 
 def _add_coset(classes: _Classes, m: int, n: int, power: ReducedIdeal, k: int) -> None:

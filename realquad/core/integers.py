@@ -11,6 +11,8 @@ and anything else is refused with one clear :class:`~realquad.errors.InputError`
 from __future__ import annotations
 
 import re
+from collections.abc import Callable
+from typing import TypeVar
 
 import gmpy2
 
@@ -76,3 +78,21 @@ def is_square(n: int) -> bool:
 def isqrt(n: int) -> int:
     """Floor of the square root of ``n ≥ 0``."""
     return int(gmpy2.isqrt(n))
+
+
+_T = TypeVar("_T")
+
+
+def times_power(total: _T, x: _T, e: int, times: Callable[[_T, _T], _T]) -> _T:
+    """``total·x^e`` (``e ≥ 0``) by square-and-multiply, with the product ``times``.
+
+    >>> times_power(3, 2, 10, lambda a, b: a * b)
+    3072
+    """
+    while e:
+        if e & 1:
+            total = times(total, x)
+        e >>= 1
+        if e:
+            x = times(x, x)
+    return total

@@ -44,6 +44,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
+from realquad.core.integers import times_power
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.primes import factorize, square_root_mod_prime, valuation
 from realquad.errors import DomainError
@@ -113,13 +114,12 @@ def _prime_to_denominators(
 
 
 def _power(x: int, y: int, e: int, d: int, m: int) -> tuple[int, int]:
-    rx, ry = 1, 0
-    while e:
-        if e & 1:
-            rx, ry = (rx * x + d * ry * y) % m, (rx * y + ry * x) % m
-        x, y = (x * x + d * y * y) % m, 2 * x * y % m
-        e >>= 1
-    return rx, ry
+    """``(x + y√d)^e`` modulo ``m``."""
+
+    def times(f: tuple[int, int], g: tuple[int, int]) -> tuple[int, int]:
+        return (f[0] * g[0] + d * f[1] * g[1]) % m, (f[0] * g[1] + f[1] * g[0]) % m
+
+    return times_power((1, 0), (x, y), e, times)
 
 
 # -- D a square in Q_p: two embeddings ---------------------------------------------------------
@@ -280,14 +280,7 @@ def _nonsplit_value(
     def power(f: Element, e: int) -> Element:
         if e < 0:
             f, e = inverse(f), -e
-        result: Element = (0, 1, 0, P)
-        while e:
-            if e & 1:
-                result = mul(result, f)
-            e >>= 1
-            if e:
-                f = mul(f, f)
-        return result
+        return times_power((0, 1, 0, P), f, e, mul)
 
     total: Element = (0, sign, 0, P)
     for alphas, e in chains:
