@@ -121,7 +121,8 @@ class _Locator:
         self.fb = fb = found.factor_base
         self.D = fb.discriminant
         self.index = {p: j for j, p in enumerate(found.matrix.columns)}
-        self.product = gmpy2.mpz(math.prod(fb.primes))
+        self.primes = [(p, bp) for p, bp in zip(fb.primes, fb.b, strict=True) if p in self.index]
+        self.product = gmpy2.mpz(math.prod(p for p, _ in self.primes))
         self.small = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if not r][:30]
 
     def _smooth_exponents(self, a: int, b: int) -> dict[int, int] | None:
@@ -134,7 +135,7 @@ class _Locator:
         if rest != 1:
             return None
         out: dict[int, int] = {}
-        for p, bp in zip(self.fb.primes, self.fb.b, strict=True):
+        for p, bp in self.primes:
             if a % p == 0:
                 _, e = gmpy2.remove(a, p)
                 out[p] = out.get(p, 0) + sign_of(b, p, bp, self.D) * int(e)

@@ -32,6 +32,7 @@ from dataclasses import dataclass
 
 from realquad._backend import call_kernel
 from realquad.core.executors import InProcessExecutor
+from realquad.core.lfunction import generating_bound
 from realquad.core.progress import Progress
 from realquad.relations.factor_base import FactorBase, factor_base
 from realquad.relations.families import Family, family, sieve_inputs
@@ -51,6 +52,25 @@ class SieveParameters:
     factors: int
     small: int
     batch: int = 64
+
+
+def factor_base_bound(D: int) -> int:
+    """The factor base's bound: the generating bound ``4 log² |D|``, times a factor growing with ``D``.
+
+    Beyond about 50 digits a larger factor base gives more relations a second
+    per column (more values are smooth); its price is the linear algebra,
+    whose elimination runs in Python. Measured (docs/performance.md): twice
+    the bound at 60 and 70 digits was as fast as or faster than once, four
+    times slower at 70. The factor: ``(digits − 45)/7.5`` between 1 and 2.
+
+    >>> factor_base_bound(-(10**30 + 3)) == generating_bound(-(10**30 + 3))
+    True
+    >>> factor_base_bound(-(10**70 + 3)) // generating_bound(-(10**70 + 3))
+    2
+    """
+    digits = math.log10(abs(D))
+    factor = min(2.0, max(1.0, (digits - 45) / 7.5))
+    return int(generating_bound(D) * factor)
 
 
 def sieve_parameters(D: int, bound: int) -> SieveParameters:
@@ -157,59 +177,60 @@ class Collector:
         self.rng = random.Random(seed)
         self.counts: Counter[int] = Counter()  # usable relations touching each prime
         self.relations: list[Relation] = []
-        self._lonely: dict[int, Relation] = {}  # large primes met once, with their relation
-        self._paired: set[int] = set()  # large primes met at least twice
+        self.absent: list[int] = []  # primes the relation matrix has no row for yet (see system.py)
         self.used: set[int] = set()
         self.store = store
         if store is not None:
             self.used = store.families()
             self._keep(store.relations())
         self.pool = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if p > 30 and not r]
+        self.waiting = [p for p in self.pool if p <= fb.generating]  # primes that must be met
+        self._must = set(self.waiting)
         self.logs = sieve_logs(fb, params)
         self._batches = 0
         self._gained = 0  # rows gained by collect() so far, and the most wanted at once
         self._goal = 0
 
     def _keep(self, relations: list[Relation]) -> None:
-        """Keep relations; count the primes of those usable: full ones, and large primes met twice."""
+        """Keep relations and count the primes they meet."""
         self.relations += relations
         for rel in relations:
-            if rel.large != 1:
-                first = self._lonely.pop(rel.large, None)
-                if first is None and rel.large not in self._paired:
-                    self._lonely[rel.large] = rel
-                    continue
-                self._paired.add(rel.large)
-                if first is not None:
-                    self.counts.update(first.exponents.keys())
             self.counts.update(rel.exponents.keys())
 
+    def want(self, primes: list[int]) -> None:
+        """Primes with no row in the relation matrix yet: the next leading coefficients take them."""
+        self.absent = [p for p in primes if p in self._must]
+
     def uncovered(self) -> list[int]:
-        """Factor-base primes no usable relation touches yet (they must all be reached)."""
-        return [p for p in self.fb.primes if not self.counts[p]]
+        """Primes up to the generating bound no relation touches yet (they must all be reached)."""
+        return [p for p in self.fb.primes[: self.fb.generating_count] if not self.counts[p]]
 
     def choose_a(self) -> list[int]:
         """The primes of the next ``a``: one no relation has met yet, the rest near the balancing size.
 
         One new prime per family: any relation of the family then expresses
         its class by the others (two new primes would need two relations).
+        The others are drawn from a window around the size that leaves the
+        same share of ``log a`` to each, and the last one makes the product
+        nearest the target; a product more than a tenth of ``log a`` off the
+        target (or twice the logarithm of the least prime) is drawn again (the values, and so the yield, depend on it).
         """
         P = self.params
         pool = self.pool
+        tolerance = max(0.1 * P.log_a, 2 * math.log(pool[0]))  # small D: the least primes are far
         for attempt in range(400):
             spread = 1 + attempt // 25  # wider choices while the near ones are used up
             chosen: list[int] = []
             log_left = P.log_a
-            waiting = [p for p in pool if not self.counts[p] and p not in self.used]
+            waiting = [p for p in self.absent or self.waiting if not self.counts[p]] or self.absent
             for p in self.rng.sample(waiting, min(1, len(waiting))):
                 if math.log(p) < log_left - math.log(pool[0]):
                     chosen.append(p)
                     log_left -= math.log(p)
             rest = max(1, P.factors - len(chosen))
             while rest > 1:
-                size = math.exp(log_left / rest)
-                i = bisect.bisect_left(pool, size)
-                width = max(40, len(pool) // 8) * spread
+                i = bisect.bisect_left(pool, math.exp(log_left / rest))
+                width = max(8, i // 4) * spread
                 lo, hi = max(0, i - width), min(len(pool), i + width)
                 p = pool[self.rng.randrange(lo, hi)] if hi > lo else pool[-1]
                 if p not in chosen:
@@ -217,12 +238,13 @@ class Collector:
                     log_left -= math.log(p)
                     rest -= 1
             i = bisect.bisect_left(pool, math.exp(log_left))
-            near = pool[max(0, i - 2 * spread) : i + 2 * spread]
-            p = near[self.rng.randrange(len(near))] if near else pool[-1]
-            if p not in chosen:
-                chosen.append(p)
+            near = [p for p in pool[max(0, i - 2 * spread) : i + 2 * spread] if p not in chosen]
+            if near:
+                chosen.append(near[self.rng.randrange(len(near))])
             a = math.prod(chosen)
-            if a not in self.used and len(chosen) >= 2:
+            if abs(math.log(a) - P.log_a) > tolerance * spread or len(chosen) < 2:
+                continue
+            if a not in self.used:
                 self.used.add(a)
                 return sorted(chosen)
         raise ArithmeticError("internal check failed: no new leading coefficient for the sieve")
@@ -247,8 +269,10 @@ class Collector:
     ) -> None:
         """Sieve batches of families on ``executor`` until ``missing()`` (rows still wanted) is 0.
 
-        Each round sends ``2·workers`` batches, sized from the rows gained per
-        family so far so that a round ends near the goal instead of far past it.
+        Each round sends at least ``2·workers`` batches, as many families as the
+        rows gained per family so far say will end near the goal instead of far
+        past it (at most ``2·workers·32`` families a round: ``missing()`` builds
+        the relation matrix, which costs when rounds are short).
         ``progress`` hears, after each round, the rows gained against the rows
         wanted (a relation with a large prime met once is no row yet).
         """
@@ -259,9 +283,10 @@ class Collector:
         short = missing()
         self._goal = max(self._goal, self._gained + short)
         while short > 0:
-            most = parts * per_batch
+            most = parts * max(per_batch, 32)  # a round of a few seconds at most: missing() costs
             want = parts if rate <= 0 else max(parts, min(most, math.ceil(1.2 * short / rate)))
-            sizes = [want // parts + (k < want % parts) for k in range(parts)]
+            count = max(parts, math.ceil(want / per_batch))
+            sizes = [want // count + (k < want % count) for k in range(count)]
             batches = []
             for size in filter(None, sizes):
                 self._batches += 1

@@ -8,17 +8,22 @@ written with exponent ``−1``. Relations are exponent vectors on these classes.
 The bound: the prime ideals of norm up to ``4 log² |D|`` generate the class
 group under GRH (:func:`realquad.core.lfunction.generating_bound`); the
 factor base reaches at least that far, so that once the relations have full
-rank their quotient is the whole class group.
+rank their quotient is the whole class group. Beyond that bound it may reach
+further (more smooth values for the sieve); those primes are columns only
+where relations meet them, as large primes are.
 
 >>> fb = factor_base(-4 * 5, 12)
 >>> fb.primes, fb.b, fb.ramified
 ([2, 3, 5, 7], [2, 2, 0, 6], [True, False, True, False])
 >>> fb.index[7], fb.is_complete, factor_base(-20, 40).is_complete   # 4 log² 20 = 35.9
 (3, False, True)
+>>> factor_base(-20, 100).generating_count       # 2, 3, 5, 7, 23, 29 of the primes ≤ 35
+6
 """
 
 from __future__ import annotations
 
+import bisect
 import math
 from dataclasses import dataclass, field
 
@@ -43,6 +48,11 @@ class FactorBase:
     @property
     def size(self) -> int:
         return len(self.primes)
+
+    @property
+    def generating_count(self) -> int:
+        """How many primes of the factor base are at most ``generating`` (each must be a column)."""
+        return bisect.bisect_right(self.primes, self.generating)
 
     @property
     def is_complete(self) -> bool:

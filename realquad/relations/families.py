@@ -27,6 +27,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 from realquad.relations.factor_base import FactorBase
 
@@ -87,24 +88,54 @@ def sieve_inputs(fb: FactorBase, fam: Family) -> tuple[list[int], list[int], lis
     root for ``p | D``; ``−1`` (left out) for ``p = 2`` and ``p | a``, whose
     powers the caller divides out itself. Changing ``b`` by ``+2B_l`` moves
     each root by ``−B_l·a⁻¹`` (the kernel's step ``+(l + 1)``).
+
+    Computed for all primes at once in ``numpy`` words (primes below ``2³¹``:
+    products of two residues below ``2⁶²``): residues of the big integers
+    ``a``, ``b``, ``B_l`` by Horner's rule on their 30-bit digits, ``a⁻¹`` as
+    ``a^(p−2)`` (Fermat), one square-and-multiply for every prime together.
+
+    >>> from realquad.relations.factor_base import factor_base
+    >>> fb = factor_base(-(10**20 + 3), 200)
+    >>> r1, r2, shifts = sieve_inputs(fb, family(fb, [113, 151]))
+    >>> fb.primes[:4], r1[:4], r2[:4], shifts[0][:4]
+    ([7, 13, 19, 41], [5, 1, 4, 38], [6, 12, 16, 23], [5, 0, 12, 22])
     """
-    a, b0 = fam.a, fam.bs[0]
-    in_a = set(fam.a_primes)
-    roots1: list[int] = []
-    roots2: list[int] = []
-    shifts: list[list[int]] = [[] for _ in fam.B]
-    for p, bp in zip(fb.primes, fb.b, strict=True):
-        if p == 2 or p in in_a:
-            roots1.append(-1)
-            roots2.append(-1)
-            for row in shifts:
-                row.append(0)
-            continue
-        ainv = pow(a % p, -1, p)
-        half = ainv * ((p + 1) // 2) % p  # (2a)⁻¹
-        t = bp % p
-        roots1.append((t - b0) * half % p)
-        roots2.append((-t - b0) * half % p)
-        for row, Bl in zip(shifts, fam.B, strict=True):
-            row.append(Bl % p * ainv % p)
-    return roots1, roots2, shifts
+    import numpy as np
+
+    if fb.primes and fb.primes[-1] >= 2**31:
+        raise OverflowError("sieve_inputs takes primes below 2^31")
+    p = np.array(fb.primes, dtype=np.int64)
+    left_out = (p == 2) | np.isin(p, fam.a_primes)
+    q = np.where(left_out, 3, p)  # any odd modulus where the answer is thrown away
+
+    def residue(n: int) -> Any:
+        digits = []
+        n = abs(n)
+        while n:
+            digits.append(n & (2**30 - 1))
+            n >>= 30
+        r = np.zeros_like(q)
+        for d in reversed(digits):
+            r = ((r << 30) + d) % q
+        return r
+
+    def signed(n: int) -> Any:
+        r = residue(n)
+        return (q - r) % q if n < 0 else r
+
+    a = residue(fam.a)
+    ainv = np.ones_like(q)  # a^(q − 2) mod q, the bits of every exponent together
+    e = q - 2
+    base = a.copy()
+    while e.any():
+        odd = (e & 1).astype(bool)
+        ainv = np.where(odd, ainv * base % q, ainv)
+        base = base * base % q
+        e >>= 1
+    half = ainv * ((q + 1) // 2) % q  # (2a)⁻¹
+    t = np.array(fb.b, dtype=np.int64) % q
+    b0 = signed(fam.bs[0])
+    roots1 = np.where(left_out, -1, (t - b0) % q * half % q)
+    roots2 = np.where(left_out, -1, (-t - b0) % q * half % q)
+    shifts = [np.where(left_out, 0, residue(Bl) * ainv % q).tolist() for Bl in fam.B]
+    return roots1.tolist(), roots2.tolist(), shifts

@@ -2,10 +2,12 @@
 
 The classes of the prime ideals of norm up to ``4 log² |D|`` generate the
 class group under GRH (:func:`realquad.core.lfunction.generating_bound`);
-they are the factor base. Relations come from the sieve
-(:mod:`~realquad.relations.collect`); the matrix (:func:`relation_matrix`)
-has a column per factor-base prime and per large prime met twice, a row per
-relation and one ``P_p² = (p)`` per ramified prime. ``Z^n`` modulo its rows
+the factor base holds them and, from about 40 digits on, primes up to a few
+times further (:func:`~realquad.relations.collect.factor_base_bound`).
+Relations come from the sieve (:mod:`~realquad.relations.collect`); the
+matrix (:func:`relation_matrix`) has a column per prime up to the generating
+bound and per prime beyond it that two relations meet, a row per relation
+whose primes are all columns, and one ``P_p² = (p)`` per ramified prime. ``Z^n`` modulo its rows
 (:func:`realquad.core.lattice.lattice_quotient`) has order ``h* = k·h`` once
 the rows have full rank.
 
@@ -46,12 +48,12 @@ import mpmath
 
 from realquad.core.executors import InProcessExecutor, make_executor
 from realquad.core.lattice import LatticeQuotient, lattice_quotient, lattice_quotient_and_kernel
-from realquad.core.lfunction import class_number_interval, generating_bound, hR_interval
+from realquad.core.lfunction import class_number_interval, hR_interval
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.errors import DomainError, InputError, TooLargeError
-from realquad.relations.collect import Collector, sieve_parameters
+from realquad.relations.collect import Collector, factor_base_bound, sieve_parameters
 from realquad.relations.factor_base import FactorBase, factor_base
 from realquad.relations.regulator import (
     KernelUnit,
@@ -89,23 +91,24 @@ class RelationMatrix:
 
 
 def relation_matrix(fb: FactorBase, relations: list[Relation], need: int) -> RelationMatrix:
-    """The rows for the linear algebra: the factor base's columns, then the large primes met twice.
+    """The rows for the linear algebra: the columns of the primes up to the generating bound, then
+    the primes beyond it (the factor base's and the large ones) that two relations or more meet.
 
-    When the relations without a large prime meet every prime of the factor
-    base and number at least ``need`` and half the factor base again, only
-    they go to the linear algebra: every one that meets a prime no earlier one
-    met, then others up to that number (fewer rows, faster elimination).
-    A relation whose exponents repeat an earlier one's, or their negatives,
-    is left out: it adds nothing to the lattice, and for ``D > 0`` the unit
-    of the pair is often ``±1`` (small fields meet the same generator from
-    many polynomials), which would crowd out the kernel's other vectors.
+    A relation goes in when each of its primes is a column. When the
+    relations on the first columns alone meet every one of them and number at
+    least ``need`` and half as many again as those columns, only they go to
+    the linear algebra: every one that meets a prime no earlier one met, then
+    others up to that number (fewer rows, faster elimination). A relation
+    whose exponents repeat an earlier one's, or their negatives, is left out:
+    it adds nothing to the lattice, and for ``D > 0`` the unit of the pair is
+    often ``±1`` (small fields meet the same generator from many
+    polynomials), which would crowd out the kernel's other vectors.
     """
     relations = _distinct(relations)
+    g, first = fb.generating, fb.generating_count
     ramified = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if r]
-    rows = [{fb.index[p]: 2} for p in ramified]
-    sources: list[Source] = list(ramified)
-    full = [rel for rel in relations if rel.large == 1]
-    limit = max(need, fb.size + fb.size // 2) + 50
+    full = [rel for rel in relations if max(rel.exponents) <= g]
+    limit = max(need, first + first // 2) + 50
     if len(full) >= limit:
         met: set[int] = set()
         chosen = []
@@ -113,18 +116,27 @@ def relation_matrix(fb: FactorBase, relations: list[Relation], need: int) -> Rel
             if not met.issuperset(rel.exponents):
                 met.update(rel.exponents)
                 chosen.append(rel)
-        if len(met) == fb.size:
+        if len(met) == first:
             kept = {id(rel) for rel in chosen}
             chosen += [rel for rel in full if id(rel) not in kept][: max(0, limit - len(chosen))]
+            low = [p for p in ramified if p <= g]
+            rows = [{fb.index[p]: 2} for p in low]
             rows += [{fb.index[p]: e for p, e in rel.exponents.items()} for rel in chosen]
-            return RelationMatrix(rows, list(fb.primes), [*sources, *chosen])
-    large = Counter(r.large for r in relations if r.large != 1)
-    columns = list(fb.primes) + sorted(q for q, k in large.items() if k >= 2)
+            return RelationMatrix(rows, fb.primes[:first], [*low, *chosen])
+    partial = [rel for rel in relations if max(rel.exponents) > g]
+    while True:  # a prime beyond the bound that one kept relation meets takes it out, and so on
+        beyond = Counter(p for rel in partial for p in rel.exponents if p > g)
+        fewer = [rel for rel in partial if all(beyond[p] >= 2 for p in rel.exponents if p > g)]
+        if len(fewer) == len(partial):
+            break
+        partial = fewer
+    columns = fb.primes[:first] + sorted(beyond)
     index = {p: j for j, p in enumerate(columns)}
-    for rel in relations:
-        if rel.large == 1 or large[rel.large] >= 2:
-            rows.append({index[p]: e for p, e in rel.exponents.items()})
-            sources.append(rel)
+    sources: list[Source] = [p for p in ramified if p in index]
+    rows = [{index[p]: 2} for p in sources]
+    for rel in full + partial:
+        rows.append({index[p]: e for p, e in rel.exponents.items()})
+        sources.append(rel)
     return RelationMatrix(rows, columns, sources)
 
 
@@ -142,9 +154,16 @@ def _distinct(relations: list[Relation]) -> list[Relation]:
 
 
 def _missing(fb: FactorBase, collector: Collector, need: int) -> int:
-    """Rows still wanted: ``need`` beyond the large-prime columns, and one per prime not yet met."""
+    """Rows still wanted: ``need`` beyond the large-prime columns, and one per prime not yet met.
+
+    The primes up to the generating bound that no row of the matrix meets go
+    to the collector, whose next leading coefficients take them.
+    """
     m = relation_matrix(fb, collector.relations, need)
-    return max(need + len(m.columns) - fb.size - len(m.rows), len(collector.uncovered()))
+    met = {j for row in m.rows for j in row}
+    absent = [p for j, p in enumerate(m.columns[: fb.generating_count]) if j not in met]
+    collector.want(absent)
+    return max(need + len(m.columns) - fb.generating_count - len(m.rows), len(absent))
 
 
 @dataclass
@@ -245,7 +264,7 @@ def index_calculus(
         raise DomainError(
             f"the sub-exponential method takes fields (fundamental discriminants), not D = {D}"
         )
-    bound = generating_bound(D)
+    bound = factor_base_bound(D)
     fb = factor_base(D, bound)
     params = sieve_parameters(D, bound)
     if workers is None and scheduler is None:
@@ -277,7 +296,7 @@ def _matrices(
         )
         matrix = relation_matrix(fb, collector.relations, need)
         yield matrix
-        need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.size)) + step
+        need = max(need, len(matrix.rows) - (len(matrix.columns) - fb.generating_count)) + step
 
 
 def _imaginary(
@@ -294,8 +313,9 @@ def _imaginary(
     lo, hi = class_number_interval(D, w, 10**5 if -D < 10**30 else 10**6).integers()
     if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
-    need = fb.size + max(20, fb.size // 20)
-    step = max(10, fb.size // 20)
+    first = fb.generating_count
+    need = first + max(20, first // 20)
+    step = max(10, first // 20)
     for matrix in _matrices(fb, collector, executor, workers, progress, need, step):
         found = lattice_quotient(matrix.rows, len(matrix.columns))
         if found is not None and found.order <= hi:
@@ -322,8 +342,9 @@ def _real(
     if interval.upper >= 2 * interval.lower:  # pragma: no cover - far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the h·R interval {interval} is too wide")
     gens = _Generators(fb)
-    need = fb.size + max(20 + KERNEL_VECTORS, fb.size // 20)
-    step = max(10, fb.size // 10)
+    first = fb.generating_count
+    need = first + max(20 + KERNEL_VECTORS, first // 20)
+    step = max(10, first // 10)
     rounds = _matrices(fb, collector, executor, workers, progress, need, step)
     for attempt, matrix in enumerate(rounds, start=1):
         count = min(4, attempt) * KERNEL_VECTORS  # more vectors when the first were not enough
