@@ -132,8 +132,9 @@ def relation_matrix(fb: FactorBase, relations: list[Relation], need: int) -> Rel
         partial = fewer
     columns = fb.primes[:first] + sorted(beyond)
     index = {p: j for j, p in enumerate(columns)}
-    sources: list[Source] = [p for p in ramified if p in index]
-    rows = [{index[p]: 2} for p in sources]
+    low = [p for p in ramified if p in index]
+    rows = [{index[p]: 2} for p in low]
+    sources: list[Source] = list(low)
     for rel in full + partial:
         rows.append({index[p]: e for p, e in rel.exponents.items()})
         sources.append(rel)
