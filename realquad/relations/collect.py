@@ -175,7 +175,7 @@ class Collector:
         self.fb = fb
         self.params = params
         self.rng = random.Random(seed)
-        self.counts: Counter[int] = Counter()  # usable relations touching each prime
+        self.counts: Counter[int] = Counter()  # relations meeting each prime
         self.relations: list[Relation] = []
         self.absent: list[int] = []  # primes the relation matrix has no row for yet (see system.py)
         self.used: set[int] = set()
@@ -201,19 +201,18 @@ class Collector:
         """Primes with no row in the relation matrix yet: the next leading coefficients take them."""
         self.absent = [p for p in primes if p in self._must]
 
-    def uncovered(self) -> list[int]:
-        """Primes up to the generating bound no relation touches yet (they must all be reached)."""
-        return [p for p in self.fb.primes[: self.fb.generating_count] if not self.counts[p]]
-
     def choose_a(self) -> list[int]:
-        """The primes of the next ``a``: one no relation has met yet, the rest near the balancing size.
+        """The primes of the next ``a``: one the relation matrix still lacks, the rest near the balancing size.
 
-        One new prime per family: any relation of the family then expresses
-        its class by the others (two new primes would need two relations).
-        The others are drawn from a window around the size that leaves the
-        same share of ``log a`` to each, and the last one makes the product
-        nearest the target; a product more than a tenth of ``log a`` off the
-        target (or twice the logarithm of the least prime) is drawn again (the values, and so the yield, depend on it).
+        One such prime per family (one no relation meets, if there is one;
+        before the first matrix, any prime up to the generating bound no
+        relation meets): any relation of the family then expresses its class by
+        the others (two new primes would need two relations). The others are
+        drawn from a window around the size that leaves the same share of
+        ``log a`` to each, and the last one makes the product nearest the
+        target; a product more than a tenth of ``log a`` off the target (or
+        twice the logarithm of the least prime) is drawn again: the values, and
+        so the yield, depend on it.
         """
         P = self.params
         pool = self.pool

@@ -2,8 +2,8 @@
 
 The classes of the prime ideals of norm up to ``4 log² |D|`` generate the
 class group under GRH (:func:`realquad.core.lfunction.generating_bound`);
-the factor base holds them and, from about 40 digits on, primes up to a few
-times further (:func:`~realquad.relations.collect.factor_base_bound`).
+the factor base holds them and, from about 50 digits on, primes up to twice
+as far (:func:`~realquad.relations.collect.factor_base_bound`).
 Relations come from the sieve (:mod:`~realquad.relations.collect`); the
 matrix (:func:`relation_matrix`) has a column per prime up to the generating
 bound and per prime beyond it that two relations meet, a row per relation
