@@ -56,6 +56,7 @@ LEVELS: dict[str, list[set[str]]] = {
     ],
     "realquad.core": [
         {"results", "progress", "integers", "linalg", "tokens", "executors", "modular_linalg"},
+        {"elimination"},
         {"primes", "lattice"},
         {"orders", "numbers"},
         {"forms", "lfunction"},

@@ -15,13 +15,9 @@ vector per invariant generating that cyclic factor, and the coordinate map
 >>> lattice_quotient([{0: 1, 1: 1}], 2) is None         # rank 1 < 2: infinite
 True
 
-**Method.** (1) *Structured Gaussian elimination* (LaMacchia and Odlyzko 1990): a
-column with an entry ``±1`` is eliminated with the sparsest such row as pivot (the
-row expresses the column through the others, which ``coordinates`` replays);
-columns are taken lightest first (singletons cost nothing), a pivot whose
-Markowitz cost ``(column weight − 1)(row weight − 1)`` (Markowitz 1957) passes
-``COST_LIMIT`` or that would make an entry pass ``2¹⁶`` waits, and the elimination
-stops when a quarter of the active part is filled. These row operations are
+**Method.** (1) *Structured Gaussian elimination*
+(:mod:`realquad.core.elimination`: pivots ``±1``, lightest columns first, a
+Markowitz cost limit, stopping at a quarter filled). Its row operations are
 unimodular, so the remaining *core* (``k`` columns, ``m ≥ k`` rows) has the same
 group. (2) On the core, ``k`` rows ``B`` independent modulo a word prime ``p`` are
 chosen; ``G' = Z^k/row(B)`` has order ``|det B|``. For a random integer matrix
@@ -57,6 +53,18 @@ the kernel of the rows they use. Failing that, ``Λ = N/δ`` exactly, a basis fr
 a Hermite form of ``{y : y·N ≡ 0 mod δ}`` and LLL. About 300-bit entries for
 ``s = 8`` and ``|det B| ≈ 2²⁵⁰⁰``.
 
+**Membership.** :func:`lattice_solve` writes a vector ``t ∈ L`` on the rows:
+``t`` is reduced by the pivot rows in the order they were taken (each
+pivot's ``±1`` clears ``t``'s entry in its column), which leaves ``v`` on the
+core's columns; the kernel of ``B ∪ {v} ∪ E`` for a batch ``E`` of other core
+rows (as above) has coefficients on ``v`` that generate ``t_v·Z``, ``t_v`` the
+order of ``v`` modulo the lattice of ``B ∪ E``; extended gcds combine its
+basis into a vector with coefficient ``−1`` on ``v`` when ``t_v = 1``. Random
+batches of 7, 15 and 31 rows generate the core's lattice with high
+probability, then all the rows are taken, and ``t_v > 1`` with all of them
+proves ``t ∉ L``. Replaying the elimination rewrites the answer on the
+original rows, and it is checked.
+
 References: B. A. LaMacchia and A. M. Odlyzko, "Solving large sparse linear
 systems over finite fields", CRYPTO '90, LNCS 537 (1991); H. M. Markowitz,
 "The elimination form of the inverse and its application to linear
@@ -70,16 +78,16 @@ rational coefficients", *Math. Ann.* 261 (1982).
 
 from __future__ import annotations
 
-import heapq
+import dataclasses
 import math
 import random
-import time
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
 
 import gmpy2
 
+from realquad.core.elimination import Elimination, eliminate, normalised_rows, replay
 from realquad.core.linalg import smith_normal_form
 from realquad.core.modular_linalg import (
     SingularModP,
@@ -152,10 +160,10 @@ def lattice_quotient(
     """
     if n < 0:
         raise InputError(f"the number of columns must be ≥ 0, not {n}")
-    clean, _, _ = _normalised(rows, n)
+    clean, _, _ = normalised_rows(rows, n)
     if len({j for r in clean for j in r}) < n or len(clean) < n:
         return None
-    elimination = _eliminate(clean, n, progress)
+    elimination = eliminate(clean, n, progress)
     return _quotient(elimination, n, _Core.of(elimination))
 
 
@@ -201,8 +209,8 @@ def lattice_quotient_and_kernel(
         raise InputError(f"the number of columns must be ≥ 0, not {n}")
     if count < 0:
         raise InputError(f"the number of kernel vectors must be ≥ 0, not {count}")
-    clean, origin, trivial = _normalised(rows, n)
-    elimination = _eliminate(clean, n, progress)
+    clean, origin, trivial = normalised_rows(rows, n)
+    elimination = eliminate(clean, n, progress)
     full = len(clean) >= n and len({j for r in clean for j in r}) == n
     core = _Core.of(elimination)
     found = _quotient(elimination, n, core) if quotient and full else None
@@ -216,53 +224,11 @@ def lattice_quotient_and_kernel(
     if want > 0 and len(core.rows) > (len(core.basis.chosen) if core.basis else 0):
         found_in_core = _core_kernel(core, want, random.Random(seed))
         dense = [{core.index[i]: x for i, x in y.items()} for y in found_in_core]
-    for vector in small + _replay(elimination.steps, dense):
+    for vector in small + replay(elimination.steps, dense):
         c = _canonical({origin[i]: x for i, x in vector.items()})
         if c and _vanishes(c, rows):
             vectors.append(c)
     return found, vectors
-
-
-def _normalised(
-    rows: Sequence[Mapping[int, int]], n: int
-) -> tuple[list[dict[int, int]], list[int], list[dict[int, int]]]:
-    """The nonzero rows without zero entries, each once up to sign; checks the column range.
-
-    Also the original index of each row kept, and the kernel vectors of the rows
-    left out: ``{i: 1}`` for a zero row, ``{i: 1, j: ∓1}`` for a repeat of row ``j``.
-    """
-    seen: dict[tuple[tuple[int, int], ...], int] = {}
-    out: list[dict[int, int]] = []
-    origin: list[int] = []
-    trivial: list[dict[int, int]] = []
-    for i, row in enumerate(rows):
-        clean = {}
-        for j, x in row.items():
-            j, x = int(j), int(x)
-            if not 0 <= j < n:
-                raise InputError(f"column {j} is outside 0 … {n - 1}")
-            if x:
-                clean[j] = x
-        if not clean:
-            trivial.append({i: 1})
-            continue
-        key = tuple(sorted(clean.items()))
-        sign = 1
-        if key[0][1] < 0:
-            key, sign = tuple((j, -x) for j, x in key), -1
-        if key in seen:
-            first = seen[key]
-            trivial.append({i: 1, origin[first]: -sign * _sign_of(out[first])})
-        else:
-            seen[key] = len(out)
-            out.append(clean)
-            origin.append(i)
-    return out, origin, trivial
-
-
-def _sign_of(row: Mapping[int, int]) -> int:
-    """The sign of the entry in the smallest column."""
-    return 1 if row[min(row)] > 0 else -1
 
 
 def _canonical(vector: Mapping[int, int]) -> dict[int, int]:
@@ -275,111 +241,6 @@ def _canonical(vector: Mapping[int, int]) -> dict[int, int]:
 def _weight(row: Mapping[int, int]) -> tuple[int, int]:
     """``(largest |entry|, number of entries)``: lighter rows and vectors first."""
     return max(abs(x) for x in row.values()), len(row)
-
-
-# -- structured Gaussian elimination ---------------------------------------------------------
-
-#: Entries of at most this size after an elimination step (the core stays cheap to lift).
-ENTRY_LIMIT = 2**16
-#: Largest Markowitz cost of a pivot, and the density of the active part where elimination stops.
-COST_LIMIT = 20_000
-DENSITY_LIMIT = 0.25
-
-
-@dataclass
-class _Elimination:
-    """What structured Gaussian elimination leaves.
-
-    ``log``: (column, pivot row) in order; ``steps``: (pivot row's index, [(row ``i``,
-    factor ``f``), …]) for ``rows[i] −= f·rows[pivot]``; ``rows``: the rows at the
-    end; ``columns``, ``core``: the core's columns and rows (indices); ``zero``:
-    the rows that became zero.
-    """
-
-    log: list[tuple[int, dict[int, int]]]
-    steps: list[tuple[int, list[tuple[int, int]]]]
-    rows: list[dict[int, int]]
-    columns: list[int]
-    core: list[int]
-    zero: list[int]
-
-
-def _eliminate(rows: list[dict[int, int]], n: int, progress: Progress | None) -> _Elimination:
-    """Structured Gaussian elimination with pivots ``±1``."""
-    rows = [dict(r) for r in rows]
-    steps: list[tuple[int, list[tuple[int, int]]]] = []
-    zero: list[int] = []
-    where: list[set[int]] = [set() for _ in range(n)]
-    for i, r in enumerate(rows):
-        for j in r:
-            where[j].add(i)
-    alive = set(range(len(rows)))
-    top = [max(abs(x) for x in r.values()) for r in rows]  # upper bounds on the rows' entries
-    active = [True] * n
-    heap = [(len(where[j]), j) for j in range(n)]
-    heapq.heapify(heap)
-    log: list[tuple[int, dict[int, int]]] = []
-    nonzeros = sum(len(r) for r in rows)
-    clock = time.monotonic()
-    while heap:
-        w, c = heapq.heappop(heap)
-        if not active[c] or len(where[c]) != w:
-            if active[c]:
-                heapq.heappush(heap, (len(where[c]), c))
-            continue
-        columns = n - len(log)
-        if w > 1 and nonzeros > DENSITY_LIMIT * columns * len(alive):
-            break
-        best, size = -1, 0
-        for i in where[c]:
-            row = rows[i]
-            if (row[c] == 1 or row[c] == -1) and (best < 0 or len(row) < size):
-                best, size = i, len(row)
-        if best < 0 or (w - 1) * (size - 1) > COST_LIMIT:
-            continue  # back on the heap when one of its rows changes
-        pivot = rows[best]
-        for i in where[c]:
-            if abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT:
-                top[i] = max(abs(x) for x in rows[i].values())
-        if w > 1 and any(
-            abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT for i in where[c] if i != best
-        ):
-            continue
-        eps = pivot[c]
-        for j in pivot:
-            where[j].discard(best)
-        alive.discard(best)
-        nonzeros -= len(pivot)
-        updates: list[tuple[int, int]] = []
-        steps.append((best, updates))
-        for i in list(where[c]):
-            row = rows[i]
-            f = row[c] * eps
-            updates.append((i, f))
-            before, top[i] = len(row), top[i] + abs(f) * top[best]
-            for j, x in pivot.items():
-                y = row.get(j, 0) - f * x
-                if y:
-                    if j not in row:
-                        where[j].add(i)
-                    row[j] = y
-                else:
-                    row.pop(j, None)
-                    where[j].discard(i)
-            nonzeros += len(row) - before
-            if not row:
-                alive.discard(i)
-                zero.append(i)
-        active[c] = False
-        log.append((c, pivot))
-        for j in pivot:
-            if active[j]:
-                heapq.heappush(heap, (len(where[j]), j))
-        if progress is not None and time.monotonic() - clock > 0.5:
-            clock = time.monotonic()
-            progress("columns eliminated", len(log), n)
-    core_columns = [j for j in range(n) if active[j]]
-    return _Elimination(log, steps, rows, core_columns, sorted(alive), zero)
 
 
 def _smith(H: list[list[int]], N: int) -> tuple[list[int], Any]:
@@ -458,7 +319,7 @@ class _Core:
     found: _Basis | None = None
 
     @classmethod
-    def of(cls, elimination: _Elimination) -> _Core:
+    def of(cls, elimination: Elimination) -> _Core:
         """The core of ``elimination``."""
         index = sorted(elimination.core, key=lambda i: _weight(elimination.rows[i]))
         rows = [elimination.rows[i] for i in index]
@@ -502,7 +363,7 @@ def _core_basis(core: _Core) -> _Basis | None:
     return _Basis(p, [int(i) for i in perm[:k]], inverse, det)
 
 
-def _quotient(elimination: _Elimination, n: int, core: _Core) -> LatticeQuotient | None:
+def _quotient(elimination: Elimination, n: int, core: _Core) -> LatticeQuotient | None:
     """The quotient from the eliminated rows, or ``None`` (rank below ``n``)."""
     k = len(core.columns)
     if k and core.basis is None:
@@ -596,36 +457,8 @@ def _smallest(
     """
     if want <= 0 or not zero:
         return []
-    found = _replay(steps, [{i: 1} for i in zero[: 4 * want + 16]])
+    found = replay(steps, [{i: 1} for i in zero[: 4 * want + 16]])
     return sorted(found, key=_weight)[:want]
-
-
-def _replay(
-    steps: list[tuple[int, list[tuple[int, int]]]], vectors: list[dict[int, int]]
-) -> list[dict[int, int]]:
-    """Combinations of the rows after elimination rewritten on the rows before it.
-
-    A step ``rows[i] −= f·rows[pivot]`` read backwards moves ``−f·y[i]`` onto ``y[pivot]``.
-    """
-    state: dict[int, dict[int, int]] = {}  # row ↦ {vector: coefficient}
-    for v, vector in enumerate(vectors):
-        for i, x in vector.items():
-            state.setdefault(i, {})[v] = x
-    for pivot, updates in reversed(steps):
-        target: dict[int, int] | None = None
-        for i, f in updates:
-            here = state.get(i)
-            if here:
-                if target is None:
-                    target = state.setdefault(pivot, {})
-                for v, x in here.items():
-                    target[v] = target.get(v, 0) - f * x
-    out: list[dict[int, int]] = [{} for _ in vectors]
-    for i, here in state.items():
-        for v, x in here.items():
-            if x:
-                out[v][i] = x
-    return out
 
 
 def _vanishes(vector: Mapping[int, int], rows: Sequence[Mapping[int, int]]) -> bool:
@@ -643,10 +476,40 @@ def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, i
 
     Rows ``B`` independent modulo ``p`` (on as many columns), ``want`` other rows ``E``
     drawn with ``rng``, in batches of ``BATCH``; the kernel of ``B ∪ E`` is
-    ``{(x, y) : x·B + y·E = 0}``, ``x = −y·Λ`` with ``Λ = E·B⁻¹``. A basis comes from
-    :func:`_short_kernel` (few ``p``-adic digits of ``Λ``) or else from ``Λ = N/δ``
-    exactly (Dixon lifting on ``Bᵀ``, :func:`~realquad.core.modular_linalg.kernel_mod`), then LLL-reduced.
+    ``{(x, y) : x·B + y·E = 0}``, ``x = −y·Λ`` with ``Λ = E·B⁻¹`` (:func:`_batch_kernel`).
     """
+    system = _kernel_system(core, rng)
+    if system is None:  # pragma: no cover - core rows are nonzero
+        return []
+    chosen = system.chosen
+    taken = set(chosen)
+    others = [i for i in range(len(core.rows)) if i not in taken]
+    extra = sorted(rng.sample(others, min(want, len(others))))
+    out = []
+    for start in range(0, len(extra), BATCH):
+        batch = extra[start : start + BATCH]
+        V = _batch_kernel(core, system, batch, rng)
+        if V is None:  # pragma: no cover - only with a rank lost modulo p
+            continue
+        for vector in V:
+            out.append({i: int(x) for i, x in zip(chosen + batch, vector, strict=True) if x})
+    return sorted(out, key=_weight)
+
+
+@dataclass
+class _KernelSystem:
+    """Rows ``chosen`` independent modulo ``p`` on the columns ``on``: ``Bᵀ``, ``B⁻ᵀ mod p``, bounds."""
+
+    p: int
+    chosen: list[int]
+    on: list[int]
+    BT: list[list[int]]
+    inverse_t: Any
+    bounds: tuple[int, int]
+
+
+def _kernel_system(core: _Core, rng: random.Random) -> _KernelSystem | None:
+    """The core's basis (or, at lower rank, a rank profile modulo a word prime) for kernels."""
     import numpy as np
 
     rows, columns = core.rows, core.columns
@@ -659,13 +522,10 @@ def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, i
         p = word_prime(rng, core.used)
         A = dense_rows_mod(rows, index, k, p)
         chosen, pivots = rank_profile_mod(A, p)
-        if not chosen:  # pragma: no cover - core rows are nonzero
-            return []
+        if not chosen:
+            return None
         LU, _, _ = lu_mod(np.ascontiguousarray(A[chosen][:, pivots]), p)
         inverse = inverse_mod(LU, p)
-    taken = set(chosen)
-    others = [i for i in range(len(rows)) if i not in taken]
-    extra = sorted(rng.sample(others, min(want, len(others))))
     on = [columns[j] for j in pivots]
     BT = [[rows[i].get(c, 0) for i in chosen] for c in on]
     if core.basis is not None:  # ‖B⁻ᵀ‖∞ = ‖B⁻¹‖₁ ≤ k·‖B⁻¹‖∞
@@ -673,22 +533,30 @@ def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, i
         bounds = (bound, k * norm)
     else:
         bounds = determinant_bound(BT) or (0, 0)
-    inverse_t = np.ascontiguousarray(inverse.T)
-    out = []
-    for start in range(0, len(extra), BATCH):
-        batch = extra[start : start + BATCH]
-        W = [[rows[e].get(c, 0) for e in batch] for c in on]
-        if not any(any(w) for w in W):  # pragma: no cover - only with a rank lost modulo p
-            continue
-        V = _short_kernel(core, chosen, batch, (BT, inverse_t, p, W), bounds, rng)
-        if V is None:
-            nums, delta = dixon_solve(BT, inverse_t, p, W, *bounds)
-            N = np.array([[gmpy2.mpz(x) for x in c] for c in zip(*nums)], dtype=object)
-            Y = kernel_mod(N, delta, rng)
-            V = np.hstack([-(Y @ N) // delta, Y])  # the rows (x | y): x·B + y·E = 0
-        for vector in np.array(lll_gram((V @ V.T).tolist()), dtype=object) @ V:
-            out.append({i: int(x) for i, x in zip(chosen + batch, vector, strict=True) if x})
-    return sorted(out, key=_weight)
+    return _KernelSystem(p, chosen, on, BT, np.ascontiguousarray(inverse.T), bounds)
+
+
+def _batch_kernel(core: _Core, system: _KernelSystem, batch: list[int], rng: random.Random) -> Any:
+    """An LLL-reduced basis (rows ``(x | y)``) of the kernel of the rows ``chosen ∪ batch``.
+
+    From :func:`_short_kernel` (few ``p``-adic digits of ``Λ``) or else from
+    ``Λ = N/δ`` exactly (Dixon lifting on ``Bᵀ``,
+    :func:`~realquad.core.modular_linalg.kernel_mod`); ``None`` when the batch's
+    rows vanish on the basis' columns (a rank lost modulo ``p``).
+    """
+    import numpy as np
+
+    W = [[core.rows[e].get(c, 0) for e in batch] for c in system.on]
+    if not any(any(w) for w in W):
+        return None
+    p, BT, inverse_t, bounds = system.p, system.BT, system.inverse_t, system.bounds
+    V = _short_kernel(core, system.chosen, batch, (BT, inverse_t, p, W), bounds, rng)
+    if V is None:
+        nums, delta = dixon_solve(BT, inverse_t, p, W, *bounds)
+        N = np.array([[gmpy2.mpz(x) for x in c] for c in zip(*nums)], dtype=object)
+        Y = kernel_mod(N, delta, rng)
+        V = np.hstack([-(Y @ N) // delta, Y])  # the rows (x | y): x·B + y·E = 0
+    return np.array(lll_gram((V @ V.T).tolist()), dtype=object) @ V
 
 
 def _short_kernel(
@@ -791,3 +659,112 @@ def _sparse_generators(
             ]
             return generators, images
     raise ArithmeticError("internal check failed: the columns do not generate the group")
+
+
+# -- membership: a vector of L on the rows ------------------------------------------------------
+
+#: Sizes of the random batches of core rows tried before all of them are.
+BATCHES = (7, 15, 31)
+
+
+def lattice_solve(
+    rows: Sequence[Mapping[int, int]],
+    n: int,
+    target: Mapping[int, int],
+    seed: int = 1,
+    quotient: LatticeQuotient | None = None,
+) -> dict[int, int] | None:
+    """``c`` with ``Σ c[i]·rows[i] = target`` (sparse, checked), or ``None`` when there is none.
+
+    ``rows`` and ``target`` map columns ``0 ≤ j < n`` to integers; ``seed``
+    draws the batches of core rows; ``quotient``, when given, must be that of
+    these rows (it refuses a target outside the lattice without solving).
+
+    >>> lattice_solve([{0: 6}, {0: 10}], 1, {0: 2})       # 2·6 − 10 = 2
+    {0: 2, 1: -1}
+    >>> lattice_solve([{0: 6}, {0: 10}], 1, {0: 3}) is None
+    True
+    """
+    if n < 0:
+        raise InputError(f"the number of columns must be ≥ 0, not {n}")
+    goal = {int(j): int(x) for j, x in target.items() if x}
+    for j in goal:
+        if not 0 <= j < n:
+            raise InputError(f"column {j} is outside 0 … {n - 1}")
+    if not goal:
+        return {}
+    if quotient is not None and any(quotient.coordinates(goal)):
+        return None
+    clean, origin, _ = normalised_rows(rows, n)
+    elimination = eliminate(clean, n, None)
+    v = dict(goal)
+    combination: dict[int, int] = {}  # rows after elimination ↦ coefficient
+    for (c, pivot), (best, _) in zip(elimination.log, elimination.steps, strict=True):
+        x = v.get(c)
+        if x:
+            f = x * pivot[c]  # pivot[c] = ±1
+            combination[best] = combination.get(best, 0) + f
+            for j, z in pivot.items():
+                w = v.get(j, 0) - f * z
+                if w:
+                    v[j] = w
+                else:
+                    v.pop(j, None)
+    if v:
+        core = _Core.of(elimination)
+        if not set(v) <= set(core.columns):  # pragma: no cover - pivots clear their columns
+            return None
+        found = _core_solve(core, v, random.Random(seed))
+        if found is None:
+            return None
+        for i, x in found.items():
+            row = core.index[i]
+            combination[row] = combination.get(row, 0) + x
+    rewritten = replay(elimination.steps, [combination])[0]
+    out = {origin[i]: x for i, x in sorted(rewritten.items()) if x}
+    total: dict[int, int] = {}
+    for i, x in out.items():
+        for j, y in rows[i].items():
+            total[int(j)] = total.get(int(j), 0) + x * int(y)
+    if {j: x for j, x in total.items() if x} != goal:
+        raise ArithmeticError("internal check failed: the combination found is not the target")
+    return out
+
+
+def _core_solve(core: _Core, v: dict[int, int], rng: random.Random) -> dict[int, int] | None:
+    """``{core position: coefficient}`` with ``Σ c·core rows = v``, or ``None`` (``v`` not in their span)."""
+    system = _kernel_system(core, rng)
+    if system is None:  # pragma: no cover - core rows are nonzero
+        return None
+    extended = dataclasses.replace(core, rows=[*core.rows, v], searched=True, found=core.basis)
+    target = len(core.rows)
+    taken = set(system.chosen)
+    others = [i for i in range(len(core.rows)) if i not in taken]
+    sizes = [s for s in BATCHES if s < len(others)] + [len(others)]
+    for s in sizes:
+        batch = [target, *sorted(rng.sample(others, s))]
+        V = _batch_kernel(extended, system, batch, rng)
+        if V is None:
+            continue
+        position = len(system.chosen)  # v's coefficient in each row (x | y)
+        g, combined = gmpy2.mpz(0), None
+        for row in V:
+            t = row[position]
+            if not t:
+                continue
+            g2, a, b = gmpy2.gcdext(g, t)
+            combined = row * int(b) if combined is None else combined * int(a) + row * int(b)
+            g = g2
+        if g != 1 or combined is None:
+            continue
+        out: dict[int, int] = {}
+        for i, x in zip(system.chosen + batch, combined, strict=True):
+            if x and i != target:
+                out[i] = out.get(i, 0) - int(x)  # x·B + 1·v + y·E = 0
+        total: dict[int, int] = {}
+        for i, x in out.items():  # all columns: below full rank B sees only its pivots' columns
+            for j, y in core.rows[i].items():
+                total[j] = total.get(j, 0) + x * y
+        if {j: x for j, x in total.items() if x} == v:
+            return out
+    return None
