@@ -77,6 +77,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"store", "regulator"},
         {"collect"},
         {"system"},
+        {"principal"},
     ],
     "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs", "subexp"}],
     "realquad.classgroup": [

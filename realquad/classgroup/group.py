@@ -37,6 +37,7 @@ from realquad.core.linalg import SmithForm
 from realquad.core.orders import Order
 from realquad.core.results import JSONObject, Proof
 from realquad.errors import DomainError
+from realquad.infrastructure.principal import PrincipalityResult, principal_ideal_test
 from realquad.latex import MAX_DIGITS, Display, brief_repr, clauses, group, integer, lines, text
 from realquad.units import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
 
@@ -136,6 +137,10 @@ class ClassGroup(Display):
     roots_of_unity: int = 2
     #: Coordinates of a form's class without a table (index calculus: a relation through it).
     _locate: Callable[[Form, bool], list[int]] | None = dataclass_field(default=None, repr=False)
+    #: The principal ideal test ``(a, b) ↦ result`` from the group's relations (index calculus).
+    _principal: Callable[[int, int], PrincipalityResult] | None = dataclass_field(
+        default=None, repr=False
+    )
 
     @classmethod
     def definite(
@@ -256,6 +261,32 @@ class ClassGroup(Display):
 
     def is_principal(self, form: Form | Ideal) -> bool:
         return not any(self.class_of(form))
+
+    def principal_generator(self, ideal: Form | Ideal) -> PrincipalityResult:
+        """Whether a primitive ideal of a real order is principal, and a generator in compact form.
+
+        A form stands for its ideal ``[a, (−b + √D)/2]``. Groups from index
+        calculus answer from their relations (a principal answer is checked
+        exactly, so unconditional; "not principal" holds under GRH); the
+        others by baby-step giant-step in the infrastructure (unconditional).
+        The result's ``a``, ``b`` name the ideal as ``[a, (b + √D)/2]``.
+        """
+        if self.is_imaginary:
+            raise DomainError(
+                "generators in compact form are for real orders; is_principal() decides for D < 0"
+            )
+        I = Ideal.from_form(ideal) if isinstance(ideal, Form) else ideal
+        if I.discriminant != self.discriminant:
+            raise DomainError(
+                f"{I} is not an ideal of the order of discriminant {self.discriminant}"
+            )
+        if I.scale != 1:
+            raise DomainError(
+                f"{I} is not primitive; {I.scale}·J is principal exactly when J is: test J"
+            )
+        if self._principal is not None:
+            return self._principal(I.a, -I.b)
+        return principal_ideal_test(self.discriminant, I.a, -I.b)
 
     def narrow_classes(self) -> list[list[Form]]:
         """The reduced forms of every narrow class (its cycle; one form for ``D < 0``), principal first."""

@@ -37,10 +37,8 @@ subexponential algorithm for computation of class groups", *J. AMS* 2
 
 from __future__ import annotations
 
-import math
+import functools
 import random
-
-import gmpy2
 
 from realquad.classgroup.group import ClassGroup, Triple, forms_from_vectors
 from realquad.core.forms import Form, prime_form_coefficients
@@ -48,7 +46,8 @@ from realquad.core.linalg import diagonal_smith
 from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.errors import TooLargeError
-from realquad.relations.smooth import Relation, sign_of
+from realquad.relations.principal import ColumnFactoring, principal_ideal_relations
+from realquad.relations.smooth import Relation
 from realquad.relations.system import IndexCalculus, index_calculus
 from realquad.units.subexp import unit_from_relations
 
@@ -104,52 +103,36 @@ class _Locator:
     """The coordinates of a class on the generators: a smooth reduced form in the class's coset.
 
     ``F·∏ P_j^{e_j}`` for random small exponents on a few factor-base primes
-    is reduced to ``(a, b, c)``; when ``|a|`` factors over the factor base,
-    the ideal ``[|a|, (−b + √D)/2] = ∏ P_p^{±e_p}`` (signs from ``b`` modulo
-    ``p``, as in :mod:`realquad.relations.smooth`) writes ``[F]`` on the
-    columns, and the quotient's coordinate map does the rest. For ``D > 0``
-    the narrow class also counts the sign of ``a``: a form with ``a < 0``
-    is, in ``Cl⁺``, its ideal's class times that of the principal ideals with
-    a generator of negative norm (the narrow quotient's last column). The
-    expected number of tries is the inverse of the chance that a number of
-    size ``√|D|`` is smooth over the factor base: hundreds at 40 digits, about
-    10⁵ at 60.
+    is reduced to ``(a, b, c)``; when ``|a|`` factors over the matrix's
+    columns, the ideal ``[|a|, (−b + √D)/2]`` is ``M·∏ P_p^{v_p}``
+    (:class:`~realquad.relations.principal.ColumnFactoring`), which writes
+    ``[F]`` on the columns, and the quotient's coordinate map does the rest.
+    For ``D > 0`` the narrow class also counts the sign of ``a``: a form with
+    ``a < 0`` is, in ``Cl⁺``, its ideal's class times that of the principal
+    ideals with a generator of negative norm (the narrow quotient's last
+    column). The expected number of tries is the inverse of the chance that a
+    number of size ``√|D|`` is smooth over the factor base: hundreds at 40
+    digits, about 10⁵ at 60.
     """
 
     def __init__(self, found: IndexCalculus) -> None:
         self.found = found
-        self.fb = fb = found.factor_base
+        fb = found.factor_base
         self.D = fb.discriminant
+        self.factoring = ColumnFactoring(found)
         self.index = {p: j for j, p in enumerate(found.matrix.columns)}
-        self.primes = [(p, bp) for p, bp in zip(fb.primes, fb.b, strict=True) if p in self.index]
-        self.product = gmpy2.mpz(math.prod(p for p, _ in self.primes))
         self.small = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if not r][:30]
-
-    def _smooth_exponents(self, a: int, b: int) -> dict[int, int] | None:
-        a = abs(a)
-        g = gmpy2.gcd(self.product % a, a)
-        rest = gmpy2.mpz(a)
-        while g > 1:
-            rest //= g
-            g = gmpy2.gcd(rest, g)
-        if rest != 1:
-            return None
-        out: dict[int, int] = {}
-        for p, bp in self.primes:
-            if a % p == 0:
-                _, e = gmpy2.remove(a, p)
-                out[p] = out.get(p, 0) + sign_of(b, p, bp, self.D) * int(e)
-        return out
 
     def __call__(self, F: Form, narrow: bool = False, tries: int = 3_000_000) -> list[int]:
         rng = random.Random(F.a ^ F.b)
         G, shift = F.reduced(), dict[int, int]()
         for _ in range(tries):
-            found = self._smooth_exponents(G.a, G.b)
+            found = self.factoring.exponents(G.a, G.b)
             if found is not None:
+                vector = found[0]
                 for p, e in shift.items():
-                    found[p] = found.get(p, 0) - e
-                vector = {self.index[p]: e for p, e in found.items() if e}
+                    j = self.index[p]
+                    vector[j] = vector.get(j, 0) - e
                 if not narrow or self.found.narrow is None:
                     return self.found.quotient.coordinates(vector)
                 if G.a < 0:
@@ -239,4 +222,5 @@ def class_group_subexp(
         _narrow_smith=diagonal_smith(list(narrow.invariants)),
         _wide_smith=diagonal_smith(list(wide.invariants)),
         _locate=locate,
+        _principal=functools.partial(principal_ideal_relations, found),
     )

@@ -133,7 +133,7 @@ class KernelUnit:
     norm: int
 
 
-def _fixed_logs(numbers: Sequence[QuadraticNumber], bits: int) -> list[gmpy2.mpz]:
+def fixed_logs(numbers: Sequence[QuadraticNumber], bits: int) -> list[gmpy2.mpz]:
     """``round(2^bits·log|ρ|)`` for each ``ρ``, each off by less than one unit."""
     digits = bits // 3 + 12
     scale = mpmath.mpf(2) ** bits
@@ -204,7 +204,7 @@ def unit_from_kernel(
 
 
 def _value(generators: Sequence[QuadraticNumber], c: Mapping[int, int], bits: int) -> gmpy2.mpz:
-    logs = _fixed_logs([generators[i] for i in c], bits)
+    logs = fixed_logs([generators[i] for i in c], bits)
     return sum((v * L for v, L in zip(c.values(), logs, strict=True)), gmpy2.mpz(0))
 
 
@@ -213,7 +213,7 @@ def _euclid(
 ) -> tuple[list[tuple[dict[int, int], gmpy2.mpz, gmpy2.mpz]], int] | None:
     """Euclid on the kernel units' fixed-point logarithms; ``None`` if the error grew too large."""
     support = sorted({i for c in kernel for i in c})
-    logs = dict(zip(support, _fixed_logs([generators[i] for i in support], bits), strict=True))
+    logs = dict(zip(support, fixed_logs([generators[i] for i in support], bits), strict=True))
     one = gmpy2.mpz(1) << bits
     zero = int(ZERO * (1 << 20)) * (one >> 20)
     items = []

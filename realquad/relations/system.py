@@ -187,6 +187,20 @@ class IndexCalculus:
     negative: list[bool] = field(default_factory=list)
 
 
+def row_generator(found: IndexCalculus, i: int) -> QuadraticNumber:
+    """A generator of the principal ideal ``∏ P_p^{r_p}`` of row ``i`` (``D > 0``), kept in
+    ``found.generators``: the relation's (:func:`~realquad.relations.regulator.relation_generator`)
+    or ``p`` for a ramified prime's row ``P_p² = (p)``."""
+    if i not in found.generators:
+        source = found.matrix.sources[i]
+        fb = found.factor_base
+        if isinstance(source, int):
+            found.generators[i] = ramified_generator(fb.discriminant, source)
+        else:
+            found.generators[i] = relation_generator(fb, source)[0]
+    return found.generators[i]
+
+
 class _Generators:
     """Generators of the rows' ideals for ``D > 0``, computed once per relation."""
 
