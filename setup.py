@@ -74,6 +74,7 @@ KERNEL_SOURCES = (
     "survey_kernels",
     "infrastructure_kernels",
     "sieve_kernels",
+    "elimination_kernels",
 )
 
 KERNELS = Extension(

@@ -43,6 +43,7 @@ TWINS = (
     "survey_kernels",
     "infrastructure_kernels",
     "sieve_kernels",
+    "elimination_kernels",
 )
 
 BACKEND = "python"

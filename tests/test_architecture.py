@@ -49,7 +49,7 @@ RANKS: list[tuple[str, ...]] = [
 #: problem, or independent pieces.
 LEVELS: dict[str, list[set[str]]] = {
     "realquad._kernels": [
-        {"form_kernels", "cfrac_kernels", "character_kernels"},
+        {"form_kernels", "cfrac_kernels", "character_kernels", "elimination_kernels"},
         {"prime_form_kernels", "infrastructure_kernels"},
         {"class_kernels", "definite_kernels"},
         {"survey_kernels", "sieve_kernels", "definite_structure_kernels"},

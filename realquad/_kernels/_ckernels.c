@@ -79,6 +79,9 @@ static PyMethodDef methods[] = {
     /* the relation search: sieving a family of polynomials */
     {"sieve_family", (PyCFunction)(void (*)(void))k_sieve_family, METH_FASTCALL,
      "Candidates (k, x, hits) of a family of sieve polynomials: x whose sum of logarithms reaches threshold."},
+    /* the linear algebra of index calculus: structured Gaussian elimination */
+    {"eliminate_rows", (PyCFunction)(void (*)(void))k_eliminate_rows, METH_FASTCALL,
+     "Structured Gaussian elimination of sparse integer rows with pivots +-1 (the twin's, step for step)."},
     {NULL, NULL, 0, NULL},
 };
 

@@ -101,3 +101,16 @@ def sieve_family(
     M: int,
     threshold: int,
 ) -> list[tuple[int, int, list[int]]]: ...
+
+# the linear algebra of index calculus: structured Gaussian elimination
+def eliminate_rows(
+    rows: list[dict[int, int]], n: int, entry_limit: int, cost_limit: int, density: float
+) -> tuple[
+    list[int],
+    list[int],
+    list[list[tuple[int, int]]],
+    list[dict[int, int]],
+    list[int],
+    list[int],
+    list[int],
+]: ...

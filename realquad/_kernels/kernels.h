@@ -36,7 +36,8 @@
  * known); survey_kernels.c (survey_numbers: many fields per
  * call); infrastructure_kernels.c (baby and giant steps, the baby-step table
  * and the giant-step search); sieve_kernels.c (sieve_family: a family of
- * sieve polynomials, the hot loop of the relation search); _ckernels.c (the
+ * sieve polynomials, the hot loop of the relation search); elimination_kernels.c
+ * (eliminate_rows: structured Gaussian elimination of the relation matrix); _ckernels.c (the
  * method table and the module).
  */
 #ifndef REALQUAD_KERNELS_H
@@ -425,6 +426,8 @@ KERNEL(k_infrastructure_table_extend);
 KERNEL(k_infrastructure_giant_search);
 /* sieve_kernels.c */
 KERNEL(k_sieve_family);
+/* elimination_kernels.c */
+KERNEL(k_eliminate_rows);
 
 #undef KERNEL
 

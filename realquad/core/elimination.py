@@ -10,7 +10,9 @@ an entry pass ``ENTRY_LIMIT`` waits, and the elimination stops when a quarter
 of the active part is filled. The row operations are unimodular, so the
 remaining *core* spans, with the pivot rows, the same lattice; they are
 logged, and :func:`replay` rewrites a combination of the rows after
-elimination on the rows before it.
+elimination on the rows before it. The elimination runs in the kernel
+``eliminate_rows`` (``realquad/_kernels/elimination_kernels.c``, with its
+pure twin, the same steps: ties between pivots go to the smaller row index).
 
 >>> rows = [{0: 1, 1: 2}, *({j: 3, j + 1: 1} for j in range(1, 9)), {9: 5}, {0: 2}]
 >>> E = eliminate(rows, 10, None)
@@ -29,11 +31,10 @@ programming", *Management Sci.* 3 (1957).
 
 from __future__ import annotations
 
-import heapq
-import time
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
+from realquad._backend import call_kernel
 from realquad.core.progress import Progress
 from realquad.errors import InputError
 
@@ -108,81 +109,19 @@ class Elimination:
 
 
 def eliminate(rows: list[dict[int, int]], n: int, progress: Progress | None) -> Elimination:
-    """Structured Gaussian elimination with pivots ``±1``."""
-    rows = [dict(r) for r in rows]
-    steps: list[tuple[int, list[tuple[int, int]]]] = []
-    zero: list[int] = []
-    where: list[set[int]] = [set() for _ in range(n)]
-    for i, r in enumerate(rows):
-        for j in r:
-            where[j].add(i)
-    alive = set(range(len(rows)))
-    top = [max(abs(x) for x in r.values()) for r in rows]  # upper bounds on the rows' entries
-    active = [True] * n
-    heap = [(len(where[j]), j) for j in range(n)]
-    heapq.heapify(heap)
-    log: list[tuple[int, dict[int, int]]] = []
-    nonzeros = sum(len(r) for r in rows)
-    clock = time.monotonic()
-    while heap:
-        w, c = heapq.heappop(heap)
-        if not active[c] or len(where[c]) != w:
-            if active[c]:
-                heapq.heappush(heap, (len(where[c]), c))
-            continue
-        columns = n - len(log)
-        if w > 1 and nonzeros > DENSITY_LIMIT * columns * len(alive):
-            break
-        best, size = -1, 0
-        for i in where[c]:
-            row = rows[i]
-            if (row[c] == 1 or row[c] == -1) and (best < 0 or len(row) < size):
-                best, size = i, len(row)
-        if best < 0 or (w - 1) * (size - 1) > COST_LIMIT:
-            continue  # back on the heap when one of its rows changes
-        pivot = rows[best]
-        for i in where[c]:
-            if abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT:
-                top[i] = max(abs(x) for x in rows[i].values())
-        if w > 1 and any(
-            abs(rows[i][c]) * top[best] + top[i] > ENTRY_LIMIT for i in where[c] if i != best
-        ):
-            continue
-        eps = pivot[c]
-        for j in pivot:
-            where[j].discard(best)
-        alive.discard(best)
-        nonzeros -= len(pivot)
-        updates: list[tuple[int, int]] = []
-        steps.append((best, updates))
-        for i in list(where[c]):
-            row = rows[i]
-            f = row[c] * eps
-            updates.append((i, f))
-            before, top[i] = len(row), top[i] + abs(f) * top[best]
-            for j, x in pivot.items():
-                y = row.get(j, 0) - f * x
-                if y:
-                    if j not in row:
-                        where[j].add(i)
-                    row[j] = y
-                else:
-                    row.pop(j, None)
-                    where[j].discard(i)
-            nonzeros += len(row) - before
-            if not row:
-                alive.discard(i)
-                zero.append(i)
-        active[c] = False
-        log.append((c, pivot))
-        for j in pivot:
-            if active[j]:
-                heapq.heappush(heap, (len(where[j]), j))
-        if progress is not None and time.monotonic() - clock > 0.5:
-            clock = time.monotonic()
-            progress("columns eliminated", len(log), n)
-    core_columns = [j for j in range(n) if active[j]]
-    return Elimination(log, steps, rows, core_columns, sorted(alive), zero)
+    """Structured Gaussian elimination with pivots ``±1`` (the kernel ``eliminate_rows``).
+
+    ``rows`` (nonzero entries, as :func:`normalised_rows` leaves them) are not
+    changed; ``progress`` hears ``("columns eliminated", count, n)`` at the end.
+    """
+    columns, pivots, updates, final, core_columns, core_rows, zero = call_kernel(
+        "eliminate_rows", rows, n, ENTRY_LIMIT, COST_LIMIT, DENSITY_LIMIT
+    )
+    if progress is not None:
+        progress("columns eliminated", len(columns), n)
+    log = [(c, final[i]) for c, i in zip(columns, pivots, strict=True)]
+    steps = list(zip(pivots, updates, strict=True))
+    return Elimination(log, steps, final, core_columns, core_rows, zero)
 
 
 def replay(
