@@ -12,11 +12,12 @@
  * are the twin's.
  *
  * Storage: each row is a sorted array of (column, value) pairs, rebuilt by one
- * merge per update (row - f * pivot). The rows of a column are kept as a list
- * that may hold stale entries (rows that lost the column or left the active
- * part, and repeats); the exact count of each column is kept apart, and the
- * list is cleaned (entries checked by binary search in the row) whenever the
- * column is looked at.
+ * merge per update (row - f * pivot), with, for each entry, its position in
+ * the list of its column. A column's list holds exactly the active rows with
+ * an entry there, each with that entry's value (kept equal to the row's by
+ * every merge), so looking at a column is one pass over a contiguous array;
+ * an entry leaves a list by moving the list's last element into its place
+ * (that element's row learns its new position by a binary search).
  *
  * Range (beyond it OverflowError, and the twin runs): n < 2^31 and fewer than
  * 2^31 rows; entries, entry_limit and cost_limit within +-2^62; every entry
@@ -29,39 +30,46 @@
 typedef struct {
     int32_t *col;
     int64_t *val;
+    int32_t *pos; /* the entry's place in the list of its column */
     int32_t len, cap;
 } erow;
 
 typedef struct {
-    int32_t *id;
+    int32_t *rid;
+    int64_t *val;
     int32_t len, cap;
-} idlist;
+} wlist;
 
 typedef struct {
     erow *rows;
-    idlist *where;
-    int32_t *count;
+    wlist *where;
     int64_t *top;
     char *alive, *active;
-    uint32_t *stamp;
     uint64_t *heap;
     Py_ssize_t heap_len, heap_cap;
     int32_t m, n;
 } state;
 
-static int
-push_id(idlist *l, int32_t i)
+/* Append (row i, value v) to list c; its position, or -1 without memory. */
+static int32_t
+wl_push(state *s, int32_t c, int32_t i, int64_t v)
 {
+    wlist *l = &s->where[c];
     if (l->len == l->cap) {
         int32_t cap = l->cap ? 2 * l->cap : 4;
-        int32_t *id = realloc(l->id, (size_t)cap * sizeof(int32_t));
-        if (id == NULL)
+        int32_t *rid = realloc(l->rid, (size_t)cap * sizeof(int32_t));
+        if (rid == NULL)
             return -1;
-        l->id = id;
+        l->rid = rid;
+        int64_t *val = realloc(l->val, (size_t)cap * sizeof(int64_t));
+        if (val == NULL)
+            return -1;
+        l->val = val;
         l->cap = cap;
     }
-    l->id[l->len++] = i;
-    return 0;
+    l->rid[l->len] = i;
+    l->val[l->len] = v;
+    return l->len++;
 }
 
 static int
@@ -125,26 +133,30 @@ find(const erow *r, int32_t c)
     return (lo < r->len && r->col[lo] == c) ? lo : -1;
 }
 
-/* Keep in where[c] the alive rows that hold column c, each once. */
+/* Remove the element at position p of list c; the last one takes its place. */
 static void
-clean(state *s, int32_t c, uint32_t tick)
+wl_remove(state *s, int32_t c, int32_t p)
 {
-    idlist *l = &s->where[c];
-    int32_t k = 0;
-    for (int32_t t = 0; t < l->len; t++) {
-        int32_t i = l->id[t];
-        if (s->alive[i] && s->stamp[i] != tick && find(&s->rows[i], c) >= 0) {
-            s->stamp[i] = tick;
-            l->id[k++] = i;
-        }
+    wlist *l = &s->where[c];
+    int32_t last = --l->len;
+    if (p != last) {
+        int32_t i = l->rid[last];
+        l->rid[p] = i;
+        l->val[p] = l->val[last];
+        erow *r = &s->rows[i];
+        r->pos[find(r, c)] = p;
     }
-    l->len = k;
 }
 
+typedef struct {
+    int32_t i;
+    int64_t x;
+} item;
+
 static int
-cmp_i32(const void *a, const void *b)
+cmp_item(const void *a, const void *b)
 {
-    int32_t x = *(const int32_t *)a, y = *(const int32_t *)b;
+    int32_t x = ((const item *)a)->i, y = ((const item *)b)->i;
     return (x > y) - (x < y);
 }
 
@@ -167,17 +179,18 @@ free_state(state *s)
         for (int32_t i = 0; i < s->m; i++) {
             free(s->rows[i].col);
             free(s->rows[i].val);
+            free(s->rows[i].pos);
         }
     if (s->where)
-        for (int32_t j = 0; j < s->n; j++)
-            free(s->where[j].id);
+        for (int32_t j = 0; j < s->n; j++) {
+            free(s->where[j].rid);
+            free(s->where[j].val);
+        }
     free(s->rows);
     free(s->where);
-    free(s->count);
     free(s->top);
     free(s->alive);
     free(s->active);
-    free(s->stamp);
     free(s->heap);
 }
 
@@ -200,8 +213,9 @@ read_rows(state *s, PyObject *rows)
         erow *r = &s->rows[i];
         r->col = malloc((size_t)(len ? len : 1) * sizeof(int32_t));
         r->val = malloc((size_t)(len ? len : 1) * sizeof(int64_t));
+        r->pos = malloc((size_t)(len ? len : 1) * sizeof(int32_t));
         r->cap = (int32_t)(len ? len : 1);
-        if (tmp == NULL || r->col == NULL || r->val == NULL) {
+        if (tmp == NULL || r->col == NULL || r->val == NULL || r->pos == NULL) {
             free(tmp);
             PyErr_NoMemory();
             return -1;
@@ -246,12 +260,12 @@ read_rows(state *s, PyObject *rows)
         for (Py_ssize_t a = 0; a < k; a++) {
             r->col[a] = tmp[a].col;
             r->val[a] = tmp[a].val;
-            if (push_id(&s->where[tmp[a].col], i) < 0) {
+            r->pos[a] = wl_push(s, tmp[a].col, i, tmp[a].val);
+            if (r->pos[a] < 0) {
                 free(tmp);
                 PyErr_NoMemory();
                 return -1;
             }
-            s->count[tmp[a].col]++;
         }
         r->len = (int32_t)k;
         free(tmp);
@@ -260,17 +274,39 @@ read_rows(state *s, PyObject *rows)
     return 0;
 }
 
-/* row i -= f * pivot (a merge); updates counts, where-lists and nonzeros. -1: no memory or overflow. */
+/* Room for k entries in row r. -1: no memory. */
 static int
-update_row(state *s, int32_t i, const erow *pv, int64_t f, int64_t *nonzeros, int32_t *scratch_col,
-           int64_t *scratch_val)
+row_reserve(erow *r, int32_t k)
+{
+    if (k <= r->cap)
+        return 0;
+    int32_t *col = realloc(r->col, (size_t)k * sizeof(int32_t));
+    if (col == NULL)
+        return -1;
+    r->col = col;
+    int64_t *val = realloc(r->val, (size_t)k * sizeof(int64_t));
+    if (val == NULL)
+        return -1;
+    r->val = val;
+    int32_t *pos = realloc(r->pos, (size_t)k * sizeof(int32_t));
+    if (pos == NULL)
+        return -1;
+    r->pos = pos;
+    r->cap = k;
+    return 0;
+}
+
+/* row i -= f * pivot (a merge); keeps the column lists and nonzeros. -1: no memory or overflow. */
+static int
+update_row(state *s, int32_t i, const erow *pv, int64_t f, int64_t *nonzeros, erow *scratch)
 {
     erow *r = &s->rows[i];
     int32_t a = 0, b = 0, k = 0;
     while (a < r->len || b < pv->len) {
         if (b >= pv->len || (a < r->len && r->col[a] < pv->col[b])) {
-            scratch_col[k] = r->col[a];
-            scratch_val[k++] = r->val[a++];
+            scratch->col[k] = r->col[a];
+            scratch->val[k] = r->val[a];
+            scratch->pos[k++] = r->pos[a++];
         } else if (a >= r->len || pv->col[b] < r->col[a]) {
             i128 y = -(i128)f * pv->val[b];
             if (y > INT64_MAX || y < -INT64_MAX) {
@@ -278,46 +314,40 @@ update_row(state *s, int32_t i, const erow *pv, int64_t f, int64_t *nonzeros, in
                 return -1;
             }
             int32_t j = pv->col[b++];
-            if (push_id(&s->where[j], i) < 0) {
+            int32_t p = wl_push(s, j, i, (int64_t)y);
+            if (p < 0) {
                 PyErr_NoMemory();
                 return -1;
             }
-            s->count[j]++;
-            scratch_col[k] = j;
-            scratch_val[k++] = (int64_t)y;
+            scratch->col[k] = j;
+            scratch->val[k] = (int64_t)y;
+            scratch->pos[k++] = p;
         } else {
             i128 y = (i128)r->val[a] - (i128)f * pv->val[b];
             if (y > INT64_MAX || y < -INT64_MAX) {
                 PyErr_SetString(PyExc_OverflowError, "eliminate_rows: an entry beyond 64 bits");
                 return -1;
             }
+            int32_t j = r->col[a], p = r->pos[a];
             if (y) {
-                scratch_col[k] = r->col[a];
-                scratch_val[k++] = (int64_t)y;
+                s->where[j].val[p] = (int64_t)y;
+                scratch->col[k] = j;
+                scratch->val[k] = (int64_t)y;
+                scratch->pos[k++] = p;
             } else {
-                s->count[r->col[a]]--;
+                wl_remove(s, j, p);
             }
             a++;
             b++;
         }
     }
-    if (k > r->cap) {
-        int32_t *col = realloc(r->col, (size_t)k * sizeof(int32_t));
-        if (col == NULL) {
-            PyErr_NoMemory();
-            return -1;
-        }
-        r->col = col;
-        int64_t *val = realloc(r->val, (size_t)k * sizeof(int64_t));
-        if (val == NULL) {
-            PyErr_NoMemory();
-            return -1;
-        }
-        r->val = val;
-        r->cap = k;
+    if (row_reserve(r, k) < 0) {
+        PyErr_NoMemory();
+        return -1;
     }
-    memcpy(r->col, scratch_col, (size_t)k * sizeof(int32_t));
-    memcpy(r->val, scratch_val, (size_t)k * sizeof(int64_t));
+    memcpy(r->col, scratch->col, (size_t)k * sizeof(int32_t));
+    memcpy(r->val, scratch->val, (size_t)k * sizeof(int64_t));
+    memcpy(r->pos, scratch->pos, (size_t)k * sizeof(int32_t));
     *nonzeros += (int64_t)k - r->len;
     r->len = k;
     return 0;
@@ -463,22 +493,20 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     memset(&s, 0, sizeof s);
     s.m = (int32_t)m;
     s.n = (int32_t)n;
-    ibuf cols = {0}, pivots = {0}, upd_start = {0}, upd_row = {0}, zero = {0}, order = {0};
+    ibuf cols = {0}, pivots = {0}, upd_start = {0}, upd_row = {0}, zero = {0};
+    item *order = NULL;
+    Py_ssize_t order_cap = 0;
     int64_t *upd_f = NULL;
     Py_ssize_t upd_cap = 0;
-    int32_t *scratch_col = NULL;
-    int64_t *scratch_val = NULL;
-    int32_t scratch_cap = 0;
+    erow scratch = {0};
     PyObject *result = NULL;
     size_t mm = (size_t)(m ? m : 1), nn = (size_t)(n ? n : 1);
     s.rows = calloc(mm, sizeof(erow));
-    s.where = calloc(nn, sizeof(idlist));
-    s.count = calloc(nn, sizeof(int32_t));
+    s.where = calloc(nn, sizeof(wlist));
     s.top = calloc(mm, sizeof(int64_t));
     s.alive = calloc(mm, 1);
     s.active = calloc(nn, 1);
-    s.stamp = calloc(mm, sizeof(uint32_t));
-    if (!s.rows || !s.where || !s.count || !s.top || !s.alive || !s.active || !s.stamp) {
+    if (!s.rows || !s.where || !s.top || !s.alive || !s.active) {
         PyErr_NoMemory();
         goto done;
     }
@@ -492,7 +520,7 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
     }
     for (int32_t j = 0; j < s.n; j++) {
         s.active[j] = 1;
-        if (heap_push(&s, KEY(s.count[j], j)) < 0) {
+        if (heap_push(&s, KEY(s.where[j].len, j)) < 0) {
             PyErr_NoMemory();
             goto done;
         }
@@ -501,12 +529,11 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         PyErr_NoMemory();
         goto done;
     }
-    uint32_t tick = 0;
     while (s.heap_len > 0) {
         uint64_t key = heap_pop(&s);
         int32_t w = (int32_t)(key >> 32), c = (int32_t)(key & 0xffffffffu);
-        if (!s.active[c] || s.count[c] != w) {
-            if (s.active[c] && heap_push(&s, KEY(s.count[c], c)) < 0) {
+        if (!s.active[c] || s.where[c].len != w) {
+            if (s.active[c] && heap_push(&s, KEY(s.where[c].len, c)) < 0) {
                 PyErr_NoMemory();
                 goto done;
             }
@@ -515,82 +542,67 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         if (w > 1 &&
             (double)nonzeros > density * (double)(s.n - (int32_t)cols.len) * (double)alive_count)
             break;
-        if (++tick == 0) { /* the stamps wrapped: start them afresh */
-            memset(s.stamp, 0, mm * sizeof(uint32_t));
-            tick = 1;
-        }
-        clean(&s, c, tick);
-        idlist *l = &s.where[c];
-        if (l->len != w) {
-            PyErr_SetString(PyExc_SystemError, "eliminate_rows: a column count went astray");
-            goto done;
-        }
+        const wlist *l = &s.where[c];
         int32_t best = -1, size = 0;
-        for (int32_t t = 0; t < l->len; t++) {
-            int32_t i = l->id[t];
-            const erow *r = &s.rows[i];
-            int64_t x = r->val[find(r, c)];
-            if ((x == 1 || x == -1) &&
-                (best < 0 || r->len < size || (r->len == size && i < best))) {
+        int64_t eps = 0;
+        for (int32_t t = 0; t < w; t++) {
+            int32_t i = l->rid[t];
+            int64_t x = l->val[t];
+            int32_t len = s.rows[i].len;
+            if ((x == 1 || x == -1) && (best < 0 || len < size || (len == size && i < best))) {
                 best = i;
-                size = r->len;
+                size = len;
+                eps = x;
             }
         }
         if (best < 0 || (i128)(w - 1) * (size - 1) > cost)
             continue;
-        const erow *pv = &s.rows[best];
-        for (int32_t t = 0; t < l->len; t++) {
-            int32_t i = l->id[t];
-            int64_t x = s.rows[i].val[find(&s.rows[i], c)];
-            i128 bound = (i128)(x < 0 ? -x : x) * s.top[best] + s.top[i];
-            if (bound > limit)
+        for (int32_t t = 0; t < w; t++) {
+            int32_t i = l->rid[t];
+            int64_t x = l->val[t];
+            if ((i128)(x < 0 ? -x : x) * s.top[best] + s.top[i] > limit)
                 s.top[i] = row_top(&s.rows[i]);
         }
         int blocked = 0;
         if (w > 1)
-            for (int32_t t = 0; t < l->len && !blocked; t++) {
-                int32_t i = l->id[t];
-                if (i == best)
-                    continue;
-                int64_t x = s.rows[i].val[find(&s.rows[i], c)];
-                if ((i128)(x < 0 ? -x : x) * s.top[best] + s.top[i] > limit)
+            for (int32_t t = 0; t < w && !blocked; t++) {
+                int32_t i = l->rid[t];
+                int64_t x = l->val[t];
+                if (i != best && (i128)(x < 0 ? -x : x) * s.top[best] + s.top[i] > limit)
                     blocked = 1;
             }
         if (blocked)
             continue;
-        int64_t eps = pv->val[find(pv, c)];
-        for (int32_t k = 0; k < pv->len; k++)
-            s.count[pv->col[k]]--;
-        s.alive[best] = 0;
-        alive_count--;
-        nonzeros -= pv->len;
-        order.len = 0;
-        for (int32_t t = 0; t < l->len; t++)
-            if (l->id[t] != best && ibuf_push(&order, l->id[t]) < 0) {
+        if (w - 1 > order_cap) {
+            Py_ssize_t cap = w - 1 > 2 * order_cap ? w - 1 : 2 * order_cap;
+            item *o = realloc(order, (size_t)cap * sizeof(item));
+            if (o == NULL) {
                 PyErr_NoMemory();
                 goto done;
             }
-        qsort(order.x, (size_t)order.len, sizeof(int32_t), cmp_i32);
-        for (Py_ssize_t t = 0; t < order.len; t++) {
-            int32_t i = order.x[t];
+            order = o;
+            order_cap = cap;
+        }
+        Py_ssize_t count = 0;
+        for (int32_t t = 0; t < w; t++)
+            if (l->rid[t] != best) {
+                order[count].i = l->rid[t];
+                order[count++].x = l->val[t];
+            }
+        qsort(order, (size_t)count, sizeof(item), cmp_item);
+        const erow *pv = &s.rows[best];
+        for (int32_t k = 0; k < pv->len; k++) /* the pivot leaves the active part */
+            wl_remove(&s, pv->col[k], pv->pos[k]);
+        s.alive[best] = 0;
+        alive_count--;
+        nonzeros -= pv->len;
+        for (Py_ssize_t t = 0; t < count; t++) {
+            int32_t i = order[t].i;
             erow *r = &s.rows[i];
-            int64_t f = r->val[find(r, c)] * eps;
-            int32_t need = r->len + pv->len;
-            if (need > scratch_cap) {
-                int32_t cap = need > 2 * scratch_cap ? need : 2 * scratch_cap;
-                int32_t *sc = realloc(scratch_col, (size_t)cap * sizeof(int32_t));
-                if (sc == NULL) {
-                    PyErr_NoMemory();
-                    goto done;
-                }
-                scratch_col = sc;
-                int64_t *sv = realloc(scratch_val, (size_t)cap * sizeof(int64_t));
-                if (sv == NULL) {
-                    PyErr_NoMemory();
-                    goto done;
-                }
-                scratch_val = sv;
-                scratch_cap = cap;
+            int64_t f = order[t].x * eps;
+            if (row_reserve(&scratch, r->len + pv->len) < 0) {
+                PyErr_NoMemory();
+                goto done;
             }
             if (upd_row.len == upd_cap) {
                 Py_ssize_t cap = upd_cap ? 2 * upd_cap : 256;
@@ -608,7 +620,7 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
                 goto done;
             }
             s.top[i] += (f < 0 ? -f : f) * s.top[best];
-            if (update_row(&s, i, pv, f, &nonzeros, scratch_col, scratch_val) < 0)
+            if (update_row(&s, i, pv, f, &nonzeros, &scratch) < 0)
                 goto done;
             if (r->len == 0) {
                 s.alive[i] = 0;
@@ -627,7 +639,7 @@ k_eliminate_rows(PyObject *self, PyObject *const *args, Py_ssize_t nargs)
         }
         for (int32_t k = 0; k < pv->len; k++) {
             int32_t j = pv->col[k];
-            if (s.active[j] && heap_push(&s, KEY(s.count[j], j)) < 0) {
+            if (s.active[j] && heap_push(&s, KEY(s.where[j].len, j)) < 0) {
                 PyErr_NoMemory();
                 goto done;
             }
@@ -641,9 +653,10 @@ done:
     free(upd_start.x);
     free(upd_row.x);
     free(zero.x);
-    free(order.x);
+    free(order);
     free(upd_f);
-    free(scratch_col);
-    free(scratch_val);
+    free(scratch.col);
+    free(scratch.val);
+    free(scratch.pos);
     return result;
 }

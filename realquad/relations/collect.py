@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import bisect
 import math
+import os
 import random
 from collections import Counter
 from collections.abc import Callable, Iterator
@@ -52,6 +53,7 @@ class SieveParameters:
     factors: int
     small: int
     batch: int = 64
+    double: bool = False  # two large primes per relation (the threshold leaves room for them)
 
 
 def factor_base_bound(D: int) -> int:
@@ -73,6 +75,12 @@ def factor_base_bound(D: int) -> int:
     return int(generating_bound(D) * factor)
 
 
+#: Digits of ``|D|`` from which relations may have two large primes, and the threshold's room
+#: for them (in multiples of one large prime's).
+DOUBLE_FROM = float(os.environ.get("RQ_DOUBLE_FROM", "1000"))
+DOUBLE_SLACK = float(os.environ.get("RQ_DOUBLE_SLACK", "1.6"))
+
+
 def sieve_parameters(D: int, bound: int) -> SieveParameters:
     """Parameters for ``D`` and a factor base up to ``bound`` (tuned on this project's benchmarks).
 
@@ -91,12 +99,14 @@ def sieve_parameters(D: int, bound: int) -> SieveParameters:
         log_a = math.log(math.sqrt(abs(D) / 2) / M)
         typical = math.log2(M * root / (2 * math.sqrt(2)) * 0.5)
     large_bound = 50 * bound
+    double = digits >= DOUBLE_FROM
     scale = min(1.0, 240.0 / (typical + 20))
-    slack = math.log2(large_bound) * 0.9 + 4  # one large prime, and the small primes not sieved
+    # room for the large primes (one, or two), and the small primes not sieved
+    slack = math.log2(large_bound) * 0.9 * (DOUBLE_SLACK if double else 1) + 4
     threshold = max(1, round(scale * (typical - slack)))
     factors = max(2, min(11, round(log_a / math.log(2000))))
     batch = 2 if digits < 30 else 64
-    return SieveParameters(M, large_bound, threshold, scale, log_a, factors, 40, batch)
+    return SieveParameters(M, large_bound, threshold, scale, log_a, factors, 40, batch, double)
 
 
 def sieve_logs(fb: FactorBase, params: SieveParameters) -> list[int]:
@@ -124,7 +134,7 @@ def family_relations(
     )
     out = []
     for k, x, hits in found:
-        rel = relation_at(fb, fam, k, x, params.large_bound, hits)
+        rel = relation_at(fb, fam, k, x, params.large_bound, hits, params.double)
         if rel is not None:
             out.append(rel)
     return out

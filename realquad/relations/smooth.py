@@ -4,7 +4,7 @@ For the form ``f = (a, b, c)`` of a family and an integer ``x``, the value
 ``n = f(x, 1)`` is the first coefficient of ``f·[[x, −1], [1, 0]] =
 (n, B, ·)`` with ``B = −(2ax + b)``, a form properly equivalent to ``f``.
 When ``|n| = ∏ p^{e_p}`` factors over the factor base (and at most one
-large prime), ``(|n|, B, ·)`` is the composition of the ``(p^{e_p}, B, ·)``,
+large prime, or two with the double large-prime variant), ``(|n|, B, ·)`` is the composition of the ``(p^{e_p}, B, ·)``,
 and ``(p^e, B, ·) = P_p^{±e}`` with ``+`` when ``B ≡ b_p`` modulo ``p``
 (modulo 4 for ``p = 2``). With ``[f] = ∏ P_q^{σ_q}`` over ``q | a``
 (:mod:`~realquad.relations.families`) this is the relation
@@ -37,7 +37,8 @@ from realquad.relations.families import Family
 class Relation:
     """``Σ exponents[p]·[P_p] = 0`` in the class group, found at ``x`` on the form ``(a, b, ·)``.
 
-    ``large`` is the one prime beyond the factor base in it (``1``: none).
+    ``large`` is the product of the primes beyond the factor base in it (``1``: none; one
+    or, with the double large-prime variant, two).
     """
 
     exponents: dict[int, int]
@@ -68,14 +69,81 @@ def sign_of(B: int, p: int, bp: int, D: int) -> int:
     return 1 if (B - bp) % modulus == 0 else -1
 
 
+def split_cofactor(n: int, low: int, high: int) -> tuple[int, int] | None:
+    """``(p, q)``, ``p ≤ q``, with ``n = p·q`` for primes ``low < p``, ``q ≤ high``; else ``None``.
+
+    ``n`` is composite and below ``high²`` (the caller checks). Brent's
+    variant of Pollard's rho (R. P. Brent, "An improved Monte Carlo
+    factorization algorithm", *BIT* 20 (1980), 176–184), products of 32
+    differences per gcd, a few starting constants; ``n`` is at most about
+    ``10¹⁵`` here, so a factor comes after some thousands of steps.
+
+    >>> split_cofactor(1000003 * 1000033, 1000, 2 * 10**6)
+    (1000003, 1000033)
+    >>> split_cofactor(1009 * 1000003, 2000, 2 * 10**6) is None      # 1009 ≤ low
+    True
+    """
+    n = gmpy2.mpz(n)
+    if n % 2 == 0:
+        d = gmpy2.mpz(2)
+    else:
+        d = gmpy2.mpz(1)
+        for c in (1, 3, 5, 7, 11):
+            d = _brent(n, c)
+            if 1 < d < n:
+                break
+        else:
+            return None
+    p, q = sorted((int(d), int(n // d)))
+    if p <= low or q > high or not gmpy2.is_prime(p) or not gmpy2.is_prime(q):
+        return None
+    return p, q
+
+
+def _brent(n: gmpy2.mpz, c: int) -> gmpy2.mpz:
+    """A divisor of ``n`` from Brent's cycle search on ``x ↦ x² + c`` (``n`` itself on failure)."""
+    y, r, q, m = gmpy2.mpz(2), 1, gmpy2.mpz(1), 32
+    g = gmpy2.mpz(1)
+    x = ys = y
+    while g == 1:
+        x = y
+        for _ in range(r):
+            y = (y * y + c) % n
+        k = 0
+        while k < r and g == 1:
+            ys = y
+            for _ in range(min(m, r - k)):
+                y = (y * y + c) % n
+                q = q * abs(x - y) % n
+            g = gmpy2.gcd(q, n)
+            k += m
+        r *= 2
+        if r > 1 << 20:  # pragma: no cover - far beyond the cofactors met
+            return n
+    if g == n:
+        while True:
+            ys = (ys * ys + c) % n
+            g = gmpy2.gcd(abs(x - ys), n)
+            if g > 1:
+                return g
+    return g
+
+
 def relation_at(
-    fb: FactorBase, fam: Family, k: int, x: int, large_bound: int, hits: list[int] | None = None
+    fb: FactorBase,
+    fam: Family,
+    k: int,
+    x: int,
+    large_bound: int,
+    hits: list[int] | None = None,
+    double: bool = False,
 ) -> Relation | None:
     """The relation of polynomial ``k`` of ``fam`` at ``x``, or ``None`` if the value is not smooth.
 
     ``hits``: the factor-base indices the sieve reports dividing the value
     (all odd primes not dividing ``a`` are tried when ``None``). At most one
-    prime ``≤ large_bound`` beyond the factor base is allowed.
+    prime ``≤ large_bound`` beyond the factor base is allowed, or with
+    ``double`` two (:func:`split_cofactor`).
     """
     D, a, b = fb.discriminant, fam.a, fam.bs[k]
     c = (b * b - D) // (4 * a)
@@ -96,10 +164,24 @@ def relation_at(
             exponents[p] = sign_of(B, p, fb.b[fb.index[p]], D) * e
     large = 1
     if n != 1:
-        if n > large_bound or n <= fb.bound or not gmpy2.is_prime(n):
+        if n <= fb.bound:
             return None
-        large = int(n)
-        exponents[large] = sign_of(B, large, prime_b(D, large), D)
+        if gmpy2.is_prime(n):
+            if n > large_bound:
+                return None
+            primes = [int(n)]
+        else:
+            if not double or n > large_bound * large_bound:
+                return None
+            pair = split_cofactor(int(n), fb.bound, large_bound)
+            if pair is None:
+                return None
+            primes = list(pair)
+        for p in primes:
+            large *= p
+            exponents[p] = exponents.get(p, 0) + sign_of(B, p, prime_b(D, p), D)
+            if not exponents[p]:  # pragma: no cover - p² with opposite signs cannot occur
+                del exponents[p]
     for q, sigma in zip(fam.a_primes, fam.signs(k, fb), strict=True):
         e = exponents.get(q, 0) - sigma
         if e:
