@@ -6,8 +6,9 @@ them a prime no relation has touched yet, so every column is reached),
 sieves its ``2^(s−1)`` polynomials with the ``sieve_family`` kernel
 (compiled, with its pure twin) and turns the candidates into relations
 (:mod:`~realquad.relations.smooth`). Relations with one large prime are
-kept; two of them sharing that prime combine into a relation on the factor
-base, which the linear algebra does by elimination.
+kept, and from 72 digits those with two (the sieve's threshold leaves room
+for them); the large primes that two relations or more meet become columns,
+and the linear algebra combines their relations by elimination.
 
 The parameters (:func:`sieve_parameters`) depend on the size of ``D`` only,
 and the choices of ``a`` on a seeded generator, so one seed gives one set of
@@ -25,7 +26,6 @@ from __future__ import annotations
 
 import bisect
 import math
-import os
 import random
 from collections import Counter
 from collections.abc import Callable, Iterator
@@ -75,10 +75,12 @@ def factor_base_bound(D: int) -> int:
     return int(generating_bound(D) * factor)
 
 
-#: Digits of ``|D|`` from which relations may have two large primes, and the threshold's room
-#: for them (in multiples of one large prime's).
-DOUBLE_FROM = float(os.environ.get("RQ_DOUBLE_FROM", "1000"))
-DOUBLE_SLACK = float(os.environ.get("RQ_DOUBLE_SLACK", "1.6"))
+#: The threshold's room for the large primes, in bits of one large prime (``log₂`` of the
+#: large-prime bound, times 0.9): once below 55 digits, 1.3 times from there (more values
+#: tried pays off), and from 72 digits 1.6 times, with two large primes allowed
+#: (docs/performance.md: 80 digits in 299 s against 446 s).
+ROOM_FROM, ROOM = 55, 1.3
+DOUBLE_FROM, DOUBLE_ROOM = 72, 1.6
 
 
 def sieve_parameters(D: int, bound: int) -> SieveParameters:
@@ -100,9 +102,9 @@ def sieve_parameters(D: int, bound: int) -> SieveParameters:
         typical = math.log2(M * root / (2 * math.sqrt(2)) * 0.5)
     large_bound = 50 * bound
     double = digits >= DOUBLE_FROM
+    room = DOUBLE_ROOM if double else ROOM if digits >= ROOM_FROM else 1.0
     scale = min(1.0, 240.0 / (typical + 20))
-    # room for the large primes (one, or two), and the small primes not sieved
-    slack = math.log2(large_bound) * 0.9 * (DOUBLE_SLACK if double else 1) + 4
+    slack = math.log2(large_bound) * 0.9 * room + 4  # large primes, small primes not sieved
     threshold = max(1, round(scale * (typical - slack)))
     factors = max(2, min(11, round(log_a / math.log(2000))))
     batch = 2 if digits < 30 else 64

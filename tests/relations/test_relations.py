@@ -141,3 +141,51 @@ def test_compiled_and_pure_collectors_find_the_same_relations():
     logs = Collector(fb, P).logs
     args = (fb.primes, logs, r1, r2, shifts, fam.steps, 4096, P.threshold)
     assert kernels.sieve_family(*args) == pure.sieve_family(*args)
+
+
+@pytest.mark.parametrize("d", [-(10**8) - 7, 10**8 + 41])
+def test_two_large_primes_give_true_relations(d):
+    # every value of a window whose cofactor splits into two primes beyond the factor base,
+    # checked by composition (D < 0) or the exact class group (D > 0); the cofactor's
+    # primes are found again by sympy's factorint
+    from sympy import factorint
+
+    D = _disc(d)
+    fb = factor_base(D, 60)
+    fam = family(fb, odd_split(fb)[-4:-1])
+    doubles = 0
+    for k in range(len(fam.bs)):
+        for x in range(-300, 300):
+            rel = relation_at(fb, fam, k, x, 5000, double=True)
+            if rel is None or rel.large == 1 or len(factorint(rel.large)) == 1:
+                continue
+            doubles += 1
+            p, q = sorted(factorint(rel.large))
+            assert fb.bound < p <= q <= 5000 and p in rel.exponents and q in rel.exponents
+            assert relation_at(fb, fam, k, x, 5000) is None  # one large prime: refused
+            assert holds(D, rel), (D, k, x, rel)
+    assert doubles > 5
+
+
+def test_index_calculus_with_two_large_primes(monkeypatch):
+    # the class group of D = −(10³⁰ + 99) with relations of two large primes allowed
+    # equals the one found without them (and the exact class number of the GRH interval)
+    from realquad.classgroup.subexp import check_relation, class_group_subexp
+    from realquad.core.orders import Order
+    from realquad.relations import collect
+    from realquad.relations.system import index_calculus
+
+    D = -(10**30 + 99)
+    plain = class_group_subexp(Order(D))
+    monkeypatch.setattr(collect, "DOUBLE_FROM", 25)
+    assert collect.sieve_parameters(D, 1000).double
+    found = index_calculus(Order(D))
+    doubles = [r for r in found.relations if r.large > 1 and len(factorint_(r.large)) == 2]
+    assert doubles and all(check_relation(D, r) for r in doubles[:20])
+    assert found.quotient.invariants == plain.invariants
+
+
+def factorint_(n):
+    from sympy import factorint
+
+    return factorint(n)
