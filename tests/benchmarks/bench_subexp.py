@@ -48,7 +48,7 @@ def workloads() -> list[dict[str, Any]]:
                 "repeat": 1,
             }
         )
-    for k in (40, 50, 60, 70):
+    for k in (40, 50, 60, 70, 80):
         D = prime_field(k)
         out.append(
             {
