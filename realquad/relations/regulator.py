@@ -192,8 +192,7 @@ def unit_from_kernel(
         log = mpmath.mpf(value) / scale
         bound = mpmath.mpf(error) / scale
     norm = -1 if sum(e for i, e in exponents.items() if negative[i]) % 2 else 1
-    for c in kernel:
-        m = int(gmpy2.f_div(2 * _value(generators, c, unit_bits) + value, 2 * value))  # exact
+    for c, m in zip(kernel, _powers(generators, kernel, exponents, value, unit_bits), strict=True):
         n = -1 if sum(e for i, e in c.items() if negative[i]) % 2 else 1
         if n != (norm if m % 2 else 1):  # N(ε*)^m, read from the parity (m may be huge, < 0)
             raise ArithmeticError(
@@ -201,6 +200,46 @@ def unit_from_kernel(
                 "power of the fundamental unit's"
             )
     return KernelUnit(exponents, log, bound, norm)
+
+
+def _powers(
+    generators: Sequence[QuadraticNumber],
+    kernel: Sequence[Mapping[int, int]],
+    exponents: Mapping[int, int],
+    value: gmpy2.mpz,
+    bits: int,
+) -> list[int]:
+    """The ``m`` with ``∏ ρ_i^{c_i} = ±ε*^m`` for each kernel vector ``c`` (``ε*``: ``exponents``).
+
+    At ``bits`` bits (``value`` = ``ε*``'s fixed-point logarithm there) ``m``
+    is known to within a few units; the precision is then raised until the
+    errors, ``Σ|c_i| + |m|·Σ|e_i| + 1`` units, are below a tenth of ``log ε*``,
+    where ``m = round(log|∏ ρ_i^{c_i}|/log ε*)`` is exact and the remainder is
+    checked to be that of ``±1`` (kernel vectors' units reach ``|m|`` of
+    hundreds of bits at 80 digits, beyond the precision Euclid needed).
+    """
+    support = sorted({i for c in [*kernel, exponents] for i in c})
+
+    def values(at: int) -> list[gmpy2.mpz]:
+        logs = dict(zip(support, fixed_logs([generators[i] for i in support], at), strict=True))
+        return [
+            sum((v * logs[i] for i, v in c.items()), gmpy2.mpz(0)) for c in [*kernel, exponents]
+        ]
+
+    rough = [abs(int(gmpy2.f_div(v, value))) + 2 for v in values(bits)[:-1]]
+    size_e = sum(abs(e) for e in exponents.values())
+    need = max(sum(abs(v) for v in c.values()) + m * size_e for c, m in zip(kernel, rough))
+    fine = bits + need.bit_length() + 8  # log ε* > 0.48: the errors stay below 2^−8·ε*'s value
+    *units, eps = values(fine)
+    out = []
+    for v in units:
+        m = int(gmpy2.f_div(2 * v + eps, 2 * eps))
+        if 10 * abs(v - m * eps) > eps:
+            raise ArithmeticError(
+                "internal check failed: a unit from the relations is not a power of ε*"
+            )
+        out.append(m)
+    return out
 
 
 def _value(generators: Sequence[QuadraticNumber], c: Mapping[int, int], bits: int) -> gmpy2.mpz:
