@@ -461,14 +461,19 @@ def _smallest(
     return sorted(found, key=_weight)[:want]
 
 
-def _vanishes(vector: Mapping[int, int], rows: Sequence[Mapping[int, int]]) -> bool:
-    """Whether ``Σ vector[i]·rows[i] = 0``, in integers."""
+def _combination(vector: Mapping[int, int], rows: Sequence[Mapping[int, int]]) -> dict[int, int]:
+    """``Σ vector[i]·rows[i]`` in integers, without its zero entries."""
     total: dict[int, int] = {}
     get = total.get
     for i, c in vector.items():
         for j, x in rows[i].items():
-            total[j] = get(j, 0) + c * int(x)
-    return not any(total.values())
+            total[int(j)] = get(int(j), 0) + c * int(x)
+    return {j: x for j, x in total.items() if x}
+
+
+def _vanishes(vector: Mapping[int, int], rows: Sequence[Mapping[int, int]]) -> bool:
+    """Whether ``Σ vector[i]·rows[i] = 0``, in integers."""
+    return not _combination(vector, rows)
 
 
 def _core_kernel(core: _Core, want: int, rng: random.Random) -> list[dict[int, int]]:
@@ -722,11 +727,7 @@ def lattice_solve(
             combination[row] = combination.get(row, 0) + x
     rewritten = replay(elimination.steps, [combination])[0]
     out = {origin[i]: x for i, x in sorted(rewritten.items()) if x}
-    total: dict[int, int] = {}
-    for i, x in out.items():
-        for j, y in rows[i].items():
-            total[int(j)] = total.get(int(j), 0) + x * int(y)
-    if {j: x for j, x in total.items() if x} != goal:
+    if _combination(out, rows) != goal:
         raise ArithmeticError("internal check failed: the combination found is not the target")
     return out
 
@@ -761,10 +762,7 @@ def _core_solve(core: _Core, v: dict[int, int], rng: random.Random) -> dict[int,
         for i, x in zip(system.chosen + batch, combined, strict=True):
             if x and i != target:
                 out[i] = out.get(i, 0) - int(x)  # x·B + 1·v + y·E = 0
-        total: dict[int, int] = {}
-        for i, x in out.items():  # all columns: below full rank B sees only its pivots' columns
-            for j, y in core.rows[i].items():
-                total[j] = total.get(j, 0) + x * y
-        if {j: x for j, x in total.items() if x} == v:
+        # checked on all columns: below full rank, B sees only its pivots' columns
+        if _combination(out, core.rows) == v:
             return out
     return None

@@ -181,7 +181,7 @@ def unit_from_kernel(
         if found is not None:
             break
         bits *= 2  # pragma: no cover - the first precision covers the error growth
-    items, unit_bits = found
+    items, unit_bits, start = found
     if not items:
         return None
     exponents, value, error = items[0]
@@ -192,7 +192,8 @@ def unit_from_kernel(
         log = mpmath.mpf(value) / scale
         bound = mpmath.mpf(error) / scale
     norm = -1 if sum(e for i, e in exponents.items() if negative[i]) % 2 else 1
-    for c, m in zip(kernel, _powers(generators, kernel, exponents, value, unit_bits), strict=True):
+    powers = _powers(generators, kernel, exponents, value, start, unit_bits)
+    for c, m in zip(kernel, powers, strict=True):
         n = -1 if sum(e for i, e in c.items() if negative[i]) % 2 else 1
         if n != (norm if m % 2 else 1):  # N(ε*)^m, read from the parity (m may be huge, < 0)
             raise ArithmeticError(
@@ -207,30 +208,28 @@ def _powers(
     kernel: Sequence[Mapping[int, int]],
     exponents: Mapping[int, int],
     value: gmpy2.mpz,
+    start: Sequence[gmpy2.mpz],
     bits: int,
 ) -> list[int]:
     """The ``m`` with ``∏ ρ_i^{c_i} = ±ε*^m`` for each kernel vector ``c`` (``ε*``: ``exponents``).
 
-    At ``bits`` bits (``value`` = ``ε*``'s fixed-point logarithm there) ``m``
-    is known to within a few units; the precision is then raised until the
-    errors, ``Σ|c_i| + |m|·Σ|e_i| + 1`` units, are below a tenth of ``log ε*``,
-    where ``m = round(log|∏ ρ_i^{c_i}|/log ε*)`` is exact and the remainder is
-    checked to be that of ``±1`` (kernel vectors' units reach ``|m|`` of
-    hundreds of bits at 80 digits, beyond the precision Euclid needed).
+    At Euclid's ``bits`` bits (``value``: ``ε*``'s fixed-point logarithm there,
+    ``start``: the kernel units') ``m`` is known to within a few units; the
+    precision is then raised until the errors, ``Σ|c_i| + |m|·Σ|e_i| + 1``
+    units, are below a tenth of ``log ε*``, where ``m = round(log|∏
+    ρ_i^{c_i}|/log ε*)`` is exact and the remainder is checked to be that of
+    ``±1`` (kernel vectors' units reach ``|m|`` of hundreds of bits at 80
+    digits, beyond the precision Euclid needed).
     """
-    support = sorted({i for c in [*kernel, exponents] for i in c})
-
-    def values(at: int) -> list[gmpy2.mpz]:
-        logs = dict(zip(support, fixed_logs([generators[i] for i in support], at), strict=True))
-        return [
-            sum((v * logs[i] for i, v in c.items()), gmpy2.mpz(0)) for c in [*kernel, exponents]
-        ]
-
-    rough = [abs(int(gmpy2.f_div(v, value))) + 2 for v in values(bits)[:-1]]
+    rough = [abs(int(gmpy2.f_div(v, value))) + 2 for v in start]
     size_e = sum(abs(e) for e in exponents.values())
     need = max(sum(abs(v) for v in c.values()) + m * size_e for c, m in zip(kernel, rough))
-    fine = bits + need.bit_length() + 8  # log ε* > 0.48: the errors stay below 2^−8·ε*'s value
-    *units, eps = values(fine)
+    fine = bits + need.bit_length() + 8  # log ε* > 0.48: the errors stay below 2⁻⁸·ε*'s value
+    support = sorted({i for c in kernel for i in c})  # ε* combines kernel vectors: within it
+    logs = dict(zip(support, fixed_logs([generators[i] for i in support], fine), strict=True))
+    *units, eps = [
+        sum((v * logs[i] for i, v in c.items()), gmpy2.mpz(0)) for c in [*kernel, exponents]
+    ]
     out = []
     for v in units:
         m = int(gmpy2.f_div(2 * v + eps, 2 * eps))
@@ -242,15 +241,13 @@ def _powers(
     return out
 
 
-def _value(generators: Sequence[QuadraticNumber], c: Mapping[int, int], bits: int) -> gmpy2.mpz:
-    logs = fixed_logs([generators[i] for i in c], bits)
-    return sum((v * L for v, L in zip(c.values(), logs, strict=True)), gmpy2.mpz(0))
-
-
 def _euclid(
     generators: Sequence[QuadraticNumber], kernel: Sequence[Mapping[int, int]], bits: int
-) -> tuple[list[tuple[dict[int, int], gmpy2.mpz, gmpy2.mpz]], int] | None:
-    """Euclid on the kernel units' fixed-point logarithms; ``None`` if the error grew too large."""
+) -> tuple[list[tuple[dict[int, int], gmpy2.mpz, gmpy2.mpz]], int, list[gmpy2.mpz]] | None:
+    """Euclid on the kernel units' fixed-point logarithms; ``None`` if the error grew too large.
+
+    Also the kernel units' own fixed-point logarithms at ``bits`` (Euclid's start).
+    """
     support = sorted({i for c in kernel for i in c})
     logs = dict(zip(support, fixed_logs([generators[i] for i in support], bits), strict=True))
     one = gmpy2.mpz(1) << bits
@@ -260,12 +257,13 @@ def _euclid(
         value = sum((v * logs[i] for i, v in c.items()), gmpy2.mpz(0))
         error = sum(abs(v) for v in c.values()) + 1
         items.append((dict(c), value, gmpy2.mpz(error)))
+    start = [value for _, value, _ in items]
     while True:
         if any(error * 20 > one for _, _, error in items):
             return None
         items = [t for t in items if abs(t[1]) > zero]
         if len(items) <= 1:
-            return items, bits
+            return items, bits, start
         items.sort(key=lambda t: abs(t[1]))
         y, yv, ye = items[0]
         rest = [items[0]]

@@ -22,16 +22,9 @@ from sympy.matrices.normalforms import invariant_factors
 from realquad.core.lattice import lattice_quotient, lattice_solve
 from realquad.errors import InputError
 from tests.core.test_lattice import add, class_group_like
+from tests.core.test_lattice_kernel import combination
 
 Row = dict[int, int]
-
-
-def combination(c: Row, rows: list[Row]) -> Row:
-    total: Row = {}
-    for i, x in c.items():
-        for j, y in rows[i].items():
-            total[j] = total.get(j, 0) + x * y
-    return {j: v for j, v in total.items() if v}
 
 
 def sympy_member(rows: list[Row], n: int, target: Row) -> bool:
