@@ -69,7 +69,8 @@ def reach_message(D: int) -> str:
     return (
         f"discriminant {D} is beyond the exact method for imaginary orders (one reduced form per "
         f"class, about √|D| of them; it takes |D| ≤ {MAX_DISCRIMINANT:.0e}); "
-        "baby-step giant-step in the class group under GRH is the method for this size"
+        "under GRH, index calculus (method 'subexp') serves this size, and baby-step giant-step "
+        "fields up to 10³²"
     )
 
 

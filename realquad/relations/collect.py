@@ -151,6 +151,7 @@ class SieveBatch:
     params: SieveParameters
     families: tuple[tuple[int, ...], ...]
     number: int
+    conductor: int = 1
 
     @property
     def label(self) -> str:
@@ -165,7 +166,7 @@ def sieve_batch(batch: SieveBatch) -> list[Relation]:
     key = (batch.discriminant, batch.bound)
     if key not in _FACTOR_BASES:
         _FACTOR_BASES.clear()
-        fb = factor_base(batch.discriminant, batch.bound)
+        fb = factor_base(batch.discriminant, batch.bound, batch.conductor)
         _FACTOR_BASES[key] = fb, sieve_logs(fb, batch.params)
     fb, logs = _FACTOR_BASES[key]
     out = []
@@ -304,7 +305,12 @@ class Collector:
                 families = tuple(tuple(self.choose_a()) for _ in range(size))
                 batches.append(
                     SieveBatch(
-                        self.fb.discriminant, self.fb.bound, self.params, families, self._batches
+                        self.fb.discriminant,
+                        self.fb.bound,
+                        self.params,
+                        families,
+                        self._batches,
+                        self.fb.conductor,
                     )
                 )
             for batch, rels, _ in executor.map_unordered(batches, sieve_batch):

@@ -1,5 +1,7 @@
 """The factor base: one prime ideal above each split or ramified prime up to a bound.
 
+(For an order of conductor ``f > 1``: above each such prime not dividing ``f``.)
+
 Prime ``p`` with ``(D/p) ≠ −1`` contributes the class of the prime form
 ``P_p = (p, b_p, c_p)`` (``0 ≤ b_p ≤ p``, :func:`realquad.core.forms.prime_form`);
 the other prime ideal above a split ``p`` is its inverse ``(p, −b_p, c_p)``,
@@ -44,6 +46,8 @@ class FactorBase:
     index: dict[int, int] = field(repr=False)
     #: ``⌊4 log² |D|⌋``: the factor base is complete (generates Cl under GRH) when ``bound`` reaches it.
     generating: int = 0
+    #: The conductor ``f`` of the order (``D = f²·D₀``); primes dividing it are left out.
+    conductor: int = 1
 
     @property
     def size(self) -> int:
@@ -73,18 +77,27 @@ def prime_b(D: int, p: int) -> int:
     return int(call_kernel("prime_form_b", D, p))
 
 
-def factor_base(D: int, bound: int) -> FactorBase:
-    """The factor base of the field of fundamental discriminant ``D`` up to ``bound`` (module notes)."""
+def factor_base(D: int, bound: int, conductor: int = 1) -> FactorBase:
+    """The factor base of the order of discriminant ``D`` up to ``bound`` (module notes).
+
+    For an order of conductor ``f > 1`` the primes dividing ``f`` are left
+    out: the prime ideals above them are not invertible, and the invertible
+    ideals prime to ``f`` already meet every class (Cox, *Primes of the form
+    x² + ny²*, Corollary 7.17).
+
+    >>> factor_base(-20 * 9, 12, 3).primes      # D = −180 = 3²·(−20): 3 is left out
+    [2, 5, 7]
+    """
     all_primes = primes_below(bound + 1)
     symbols = call_kernel("kronecker_symbols", D, list(all_primes))
     primes: list[int] = []
     bs: list[int] = []
     ramified: list[bool] = []
     for p, chi in zip(all_primes, symbols, strict=True):
-        if chi == -1:
+        if chi == -1 or conductor % p == 0:
             continue
         primes.append(p)
         bs.append(prime_b(D, p))
         ramified.append(chi == 0)
     index = {p: j for j, p in enumerate(primes)}
-    return FactorBase(D, bound, primes, bs, ramified, index, generating_bound(D))
+    return FactorBase(D, bound, primes, bs, ramified, index, generating_bound(D), conductor)

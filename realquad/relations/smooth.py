@@ -148,6 +148,8 @@ def relation_at(
     D, a, b = fb.discriminant, fam.a, fam.bs[k]
     c = (b * b - D) // (4 * a)
     n = gmpy2.mpz(abs((a * x + b) * x + c))
+    if fb.conductor > 1 and gmpy2.gcd(n, fb.conductor) > 1:
+        return None  # an ideal of norm prime to the conductor only factors over the prime ideals
     B = -(2 * a * x + b)
     exponents: dict[int, int] = {}
     in_a = set(fam.a_primes)  # they and 2 are divided out below (the sieve leaves them out)

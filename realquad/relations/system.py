@@ -14,7 +14,15 @@ the rows have full rank.
 * ``D < 0``: relations are added until ``h*`` falls in the GRH-explicit
   interval for ``h = w√|D|·L(1, χ)/(2π)``
   (:func:`~realquad.core.lfunction.class_number_interval`, upper end below
-  twice the lower), where the only multiple of ``h`` is ``h``.
+  twice the lower), where the only multiple of ``h`` is ``h``. For an
+  imaginary order of conductor ``f > 1`` the factor base leaves out the
+  primes dividing ``f``, no relation may have a value sharing a factor with
+  ``f``, the interval is the field's times ``f·∏(1 − (D₀/p)/p)`` over the
+  unit index (:func:`class_number_range`), and no generating bound is
+  assumed: :func:`realquad.classgroup.subexp.check_injective` shows that the
+  quotient's generators are independent, so the factor base's subgroup has
+  ``h*`` classes and ``h* = h``. (Real orders of conductor ``> 1`` are not
+  taken yet.)
 * ``D > 0``: the kernel of the matrix gives units
   (:mod:`~realquad.relations.regulator`) and their gcd ``R* = k'·R``;
   relations are added until ``h*·R*`` falls in the interval for ``h·R =
@@ -39,10 +47,12 @@ from __future__ import annotations
 
 import contextlib
 import functools
+import math
 import os
 from collections import Counter
 from collections.abc import Iterator
 from dataclasses import dataclass, field
+from fractions import Fraction
 
 import mpmath
 
@@ -51,6 +61,7 @@ from realquad.core.lattice import LatticeQuotient, lattice_quotient, lattice_quo
 from realquad.core.lfunction import class_number_interval, hR_interval
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.orders import Order
+from realquad.core.primes import factorize, kronecker
 from realquad.core.progress import Progress
 from realquad.errors import DomainError, InputError, TooLargeError
 from realquad.relations.collect import Collector, factor_base_bound, sieve_parameters
@@ -275,12 +286,14 @@ def index_calculus(
     """
     D = order.discriminant
     check_reach(D)
-    if order.conductor != 1:
+    if order.conductor != 1 and D > 0:
         raise DomainError(
-            f"the sub-exponential method takes fields (fundamental discriminants), not D = {D}"
+            "the sub-exponential method takes real fields and imaginary orders; D = "
+            f"{D} is a real order of conductor {order.conductor} (the exact method takes it "
+            "while its reduced forms are few)"
         )
     bound = factor_base_bound(D)
-    fb = factor_base(D, bound)
+    fb = factor_base(D, bound, order.conductor)
     params = sieve_parameters(D, bound)
     if workers is None and scheduler is None:
         workers = 1 if abs(D) < PARALLEL_FROM else (os.cpu_count() or 1)
@@ -322,10 +335,13 @@ def _imaginary(
     workers: int,
     progress: Progress | None,
 ) -> IndexCalculus:
-    """``h* = h`` once ``h*`` is in the class number interval ``[lo, hi]`` (``hi < 2·lo``)."""
-    D = order.discriminant
-    w = 2  # the roots of unity of an imaginary field of |D| > 4
-    lo, hi = class_number_interval(D, w, 10**5 if -D < 10**30 else 10**6).integers()
+    """``h* = h`` once ``h*`` is in the class number interval ``[lo, hi]`` (``hi < 2·lo``).
+
+    For an order of conductor ``f > 1`` that is ``h* = k·|G|`` with ``G`` the
+    subgroup the factor base generates; ``G = Cl`` is checked by the caller
+    (:func:`realquad.classgroup.subexp.class_group_subexp`).
+    """
+    lo, hi = class_number_range(order)
     if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
     first = fb.generating_count
@@ -341,6 +357,30 @@ def _imaginary(
                 )
             return IndexCalculus(order, fb, matrix, found, collector.relations)
     raise AssertionError("unreachable: the rounds never end")  # pragma: no cover
+
+
+def class_number_range(order: Order) -> tuple[int, int]:
+    """``[lo, hi]`` holding the class number of the imaginary order, under GRH.
+
+    For the field, :func:`~realquad.core.lfunction.class_number_interval`;
+    for the order of conductor ``f``, ``h(O) = h_K·f·∏_{p | f}(1 − (D₀/p)/p)
+    / [O_K^× : O^×]`` (Cox, *Primes of the form x² + ny²*, Theorem 7.24;
+    the unit index is 3 for ``D₀ = −3``, 2 for ``D₀ = −4``, else 1).
+
+    >>> class_number_range(Order(-3 * 7**2))     # h(−147) = 1·7·(1 − 1/7)/3 = 2
+    (2, 2)
+    >>> class_number_range(Order(-4 * 10**2))    # h(−400) = 1·10·(1 − 0/2)(1 − 1/5)/2 = 4
+    (4, 4)
+    """
+    D0, f = order.fundamental_discriminant, order.conductor
+    w = {-3: 6, -4: 4}.get(D0, 2)
+    lo, hi = class_number_interval(D0, w, 10**5 if -D0 < 10**30 else 10**6).integers()
+    if f == 1:
+        return lo, hi
+    factor = Fraction(f, w // 2)
+    for p in factorize(f):
+        factor *= 1 - Fraction(kronecker(D0, p), p)
+    return math.ceil(lo * factor), math.floor(hi * factor)
 
 
 def _real(
