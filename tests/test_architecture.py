@@ -79,7 +79,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"system"},
         {"principal"},
     ],
-    "realquad.units": [{"results", "roots_of_unity"}, {"cfrac", "bsgs", "subexp"}],
+    "realquad.units": [{"results", "roots_of_unity"}, {"orders"}, {"cfrac", "bsgs", "subexp"}],
     "realquad.classgroup": [
         {"genus", "structure", "theta"},
         {"group"},

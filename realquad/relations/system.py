@@ -288,9 +288,10 @@ def index_calculus(
     check_reach(D)
     if order.conductor != 1 and D > 0:
         raise DomainError(
-            "the sub-exponential method takes real fields and imaginary orders; D = "
-            f"{D} is a real order of conductor {order.conductor} (the exact method takes it "
-            "while its reduced forms are few)"
+            "index calculus takes real fields and imaginary orders; D = "
+            f"{D} is a real order of conductor {order.conductor}: its unit and regulator come "
+            "from its field's ('realquad unit'), its class group from the exact method while "
+            "its reduced forms are few"
         )
     bound = factor_base_bound(D)
     fb = factor_base(D, bound, order.conductor)

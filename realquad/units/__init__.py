@@ -5,12 +5,13 @@
 * ``"bsgs"`` — baby-step giant-step in the infrastructure
   (:mod:`realquad.units.bsgs`): unconditional, cost about ``√R`` steps,
   the unit kept in compact form;
-* ``"subexp"`` — index calculus (:mod:`realquad.units.subexp`): fields only,
-  ``proof: "GRH"``, sub-exponential in ``log D``; the unit as a power product
-  of relation generators (compact form when ``R < 10¹²``);
+* ``"subexp"`` — index calculus (:mod:`realquad.units.subexp`),
+  ``proof: "GRH"``, sub-exponential in ``log D``; the unit in compact form.
+  For an order of conductor ``f > 1``, the field's unit (index calculus from
+  ``D₀ = 10¹⁰``, the continued fraction below) and then its least power in
+  the order (:mod:`realquad.units.orders`);
 * ``"auto"`` — the continued fraction while the estimated period is short,
-  the infrastructure beyond, index calculus for fields from
-  :data:`AUTO_SUBEXP` on. The period is estimated through ``R ≤ h·R``,
+  the infrastructure beyond, index calculus from :data:`AUTO_SUBEXP` on. The period is estimated through ``R ≤ h·R``,
   the analytic class number formula's estimate
   (:mod:`realquad.core.lfunction`), divided by Lévy's constant.
 
@@ -52,9 +53,11 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
 from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
-from realquad.relations.system import refuse_sieve_options
+from realquad.relations.system import MIN_DISCRIMINANT as MIN_SUBEXP
+from realquad.relations.system import check_reach, refuse_sieve_options
 from realquad.units.bsgs import fundamental_unit_bsgs, regulator_bsgs
 from realquad.units.cfrac import DEFAULT_MAX_PERIOD, fundamental_unit_cfrac, regulator_cfrac
+from realquad.units.orders import unit_of_order
 from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
 from realquad.units.roots_of_unity import UnitGroup, unit_group
 from realquad.units.subexp import fundamental_unit_subexp, regulator_subexp
@@ -99,7 +102,7 @@ def choose_method(order: Order, method: str = "auto", limit: int | None = None) 
     if check_method(method, METHODS) != "auto":
         return method
     D = order.discriminant
-    if AUTO_SUBEXP <= D <= MAX_SUBEXP and order.conductor == 1:
+    if AUTO_SUBEXP <= D <= MAX_SUBEXP:
         return "subexp"
     if limit is None:
         limit = _regulator_limit(D)
@@ -132,6 +135,17 @@ def fundamental_unit(
     """
     order = Order.of(order).require_real(NO_UNIT_OF_INFINITE_ORDER)
     chosen = choose_method(order, method, UNIT_PERIOD_LIMIT)
+    if chosen == "subexp" and order.conductor != 1:
+        # the field's unit (index calculus when the field is large enough), then its least
+        # power in the order (realquad.units.orders)
+        check_reach(order.discriminant)
+        field = order.maximal_order()
+        if field.discriminant >= MIN_SUBEXP:
+            found = fundamental_unit_subexp(field, progress, 1, workers, scheduler, relations_file)
+        else:
+            refuse_sieve_options("cfrac", workers, scheduler, relations_file)
+            found = fundamental_unit(field, max_period=max_period, progress=progress)
+        return unit_of_order(order, found)
     if chosen == "subexp":
         return fundamental_unit_subexp(order, progress, 1, workers, scheduler, relations_file)
     refuse_sieve_options(chosen, workers, scheduler, relations_file)
@@ -162,6 +176,17 @@ def regulator(
     """
     order = Order.of(order).require_real(NO_UNIT_OF_INFINITE_ORDER)
     chosen = choose_method(order, method)
+    if chosen == "subexp" and order.conductor != 1:
+        unit = fundamental_unit(
+            order,
+            "subexp",
+            max_period=max_period,
+            progress=progress,
+            workers=workers,
+            scheduler=scheduler,
+            relations_file=relations_file,
+        )
+        return unit.regulator(digits)
     if chosen == "subexp":
         return regulator_subexp(order, digits, progress, 1, workers, scheduler, relations_file)
     refuse_sieve_options(chosen, workers, scheduler, relations_file)

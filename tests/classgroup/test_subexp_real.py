@@ -211,8 +211,8 @@ def test_dispatch_and_refusals():
     assert choose_class_group_method(Order.of(10**16 + 61)) == "bsgs"
     with pytest.raises(DomainError, match="10¹⁰"):
         regulator(61, method="subexp")
-    with pytest.raises(DomainError, match="fields"):
-        fundamental_unit(4 * 9 * (10**11 + 3), method="subexp")  # conductor 3
+    with pytest.raises(DomainError, match="real order"):
+        class_group(4 * 9 * (10**11 + 3), method="subexp")  # conductor 3 (units: test_orders)
     with pytest.raises(InputError, match="subexp"):
         regulator(4 * 61, workers=2)
     with pytest.raises(DomainError, match="imaginary"):

@@ -79,11 +79,19 @@ def test_a_power_product_is_summarised_and_written(capsys, tmp_path, monkeypatch
     assert (x * x - large * y * y - n) % m == 0 and n in (4, -4)
 
 
+def test_an_order_of_conductor_3(capsys) -> None:  # type: ignore[no-untyped-def]
+    # the field's unit, then its least power in the order: against the order's continued fraction
+    data = run_json(capsys, "unit", "--disc", str(9 * D), "--method", "subexp", "--digits", "30")
+    reference = fundamental_unit(9 * D, method="cfrac")
+    assert data["regulator"]["value"] == str(regulator(9 * D, 30, method="cfrac"))
+    assert data["norm"] == reference.norm and data["proof"] == "GRH"
+    assert "least power of the field's unit" in data["method"]
+
+
 def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
     cases = [
         (["unit", "61", "--workers", "2"], "--method subexp"),
         (["unit", "61", "--method", "subexp"], "10¹⁰"),
-        (["unit", "--disc", str(9 * D), "--method", "subexp"], "fields"),
         (["unit", "--disc", str(D), "--method", "subexp", "--workers", "0"], "--workers"),
     ]
     for args, needle in cases:
