@@ -84,6 +84,7 @@ LEVELS: dict[str, list[set[str]]] = {
         {"genus", "structure", "theta"},
         {"group"},
         {"exact", "bsgs", "imaginary", "imaginary_bsgs", "subexp"},
+        {"orders"},
     ],
     "realquad.formclasses": [
         {"results"},

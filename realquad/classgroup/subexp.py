@@ -15,7 +15,7 @@ to have the order of its invariant, and a sample of relations checked to be
 principal); for ``D > 0`` the narrow group has one more column, the class of
 the principal ideals with a generator of negative norm (the form
 ``(−1, b₀, −c₀)``), and the unit comes in :attr:`ClassGroup.unit`. The class
-of any form is found by a smooth form in its coset (:class:`_Locator`).
+of any form is found by a smooth form in its coset (:class:`ClassLocator`).
 
 Imaginary orders of conductor ``f > 1`` take the same road over the prime
 ideals prime to ``f``; instead of a generating bound, the generators are
@@ -44,6 +44,7 @@ subexponential algorithm for computation of class groups", *J. AMS* 2
 from __future__ import annotations
 
 import functools
+import math
 import random
 
 from realquad.classgroup.group import ClassGroup, Triple, forms_from_vectors
@@ -52,10 +53,12 @@ from realquad.core.linalg import diagonal_smith
 from realquad.core.orders import Order
 from realquad.core.primes import factorize
 from realquad.core.progress import Progress
+from realquad.core.results import Proof
 from realquad.errors import TooLargeError
 from realquad.relations.principal import ColumnFactoring, principal_ideal_relations
 from realquad.relations.smooth import Relation
 from realquad.relations.system import IndexCalculus, index_calculus
+from realquad.units.results import Unit
 from realquad.units.subexp import unit_from_relations
 
 METHOD = (
@@ -109,7 +112,7 @@ def check_relation(D: int, relation: Relation) -> bool:
     return F.reduced() == Form.identity(D).reduced()
 
 
-class _Locator:
+class ClassLocator:
     """The coordinates of a class on the generators: a smooth reduced form in the class's coset.
 
     ``F·∏ P_j^{e_j}`` for random small exponents on a few factor-base primes
@@ -133,9 +136,26 @@ class _Locator:
         self.index = {p: j for j, p in enumerate(found.matrix.columns)}
         self.small = [p for p, r in zip(fb.primes, fb.ramified, strict=True) if not r][:30]
 
+    def _prime_to_conductor(self, G: Form) -> Form:
+        """For a real order, the first form from ``G`` on along its cycle with ``a`` prime to ``f``.
+
+        Reduction lands far more often than by chance on forms like ``(p², ·, ·)``
+        for ``p | f`` (those have a tiny first coefficient and many are
+        reduced); their ideals do not factor over prime ideals. A step of
+        ``ρ`` (a proper equivalence) leaves them.
+        """
+        f = self.found.order.conductor
+        if f == 1 or self.D < 0:
+            return G
+        for _ in range(64):
+            if math.gcd(G.a, f) == 1:
+                break
+            G = G.rho()[0]
+        return G
+
     def __call__(self, F: Form, narrow: bool = False, tries: int = 3_000_000) -> list[int]:
         rng = random.Random(F.a ^ F.b)
-        G, shift = F.reduced(), dict[int, int]()
+        G, shift = self._prime_to_conductor(F.reduced()), dict[int, int]()
         for _ in range(tries):
             found = self.factoring.exponents(G.a, G.b)
             if found is not None:
@@ -154,7 +174,7 @@ class _Locator:
             G = F
             for p, e in shift.items():
                 G = G.compose(_prime_form(self.D, p).power(e))
-            G = G.reduced()
+            G = self._prime_to_conductor(G.reduced())
         raise TooLargeError(f"no smooth form found in the class of {F} after {tries:,} tries")
 
 
@@ -216,6 +236,23 @@ def class_group_subexp(
     Dask cluster, a resumable relation file).
     """
     found = index_calculus(order, progress, seed, workers, scheduler, relations_file)
+    return group_from_relations(found, seed)
+
+
+def group_from_relations(
+    found: IndexCalculus,
+    seed: int = 1,
+    unit: Unit | None = None,
+    method: str | None = None,
+    proof: Proof = "GRH",
+) -> ClassGroup:
+    """The :class:`ClassGroup` of a finished index calculus (module notes).
+
+    For a real order of conductor ``> 1`` its ``unit`` and the ``method``
+    text come from :mod:`realquad.classgroup.orders` (the relations carry no
+    unit of their own, so principal ideal tests fall back to the infrastructure).
+    """
+    order = found.order
     D = order.discriminant
     if D < 0:
         for rel in random.Random(seed).sample(found.relations, min(10, len(found.relations))):
@@ -234,7 +271,7 @@ def class_group_subexp(
                     f"internal check failed: {F} does not have order dividing {d}"
                 )
     raw: list[Triple] = [(F.a, F.b, F.c) for F in forms]
-    locate = _Locator(found)
+    locate = ClassLocator(found)
     if D < 0:
         method = METHOD.format(n=found.factor_base.size, bound=found.factor_base.bound)
         if order.conductor != 1:
@@ -259,7 +296,11 @@ def class_group_subexp(
             2,
             locate=locate,
         )
-    unit = unit_from_relations(found)
+    principal = None if unit is not None else functools.partial(principal_ideal_relations, found)
+    if unit is None:
+        unit = unit_from_relations(found)
+    if method is None:
+        method = METHOD_REAL.format(n=found.factor_base.size, bound=found.factor_base.bound)
     narrow = found.narrow
     assert narrow is not None
     if narrow is wide:
@@ -277,12 +318,12 @@ def class_group_subexp(
         generators=forms,
         narrow_generators=narrow_forms,
         unit_norm=unit.norm,
-        method=METHOD_REAL.format(n=found.factor_base.size, bound=found.factor_base.bound),
-        proof="GRH",
+        method=method,
+        proof=proof,
         unit=unit,
         _raw_generators=raw,
         _narrow_smith=diagonal_smith(list(narrow.invariants)),
         _wide_smith=diagonal_smith(list(wide.invariants)),
         _locate=locate,
-        _principal=functools.partial(principal_ideal_relations, found),
+        _principal=principal,
     )

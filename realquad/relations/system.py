@@ -276,8 +276,16 @@ def index_calculus(
     workers: int | None = None,
     scheduler: str | None = None,
     relations_file: str | None = None,
+    class_number: int | None = None,
+    unit_norm: int | None = None,
 ) -> IndexCalculus:
     """Relations for the field ``order`` until its class group (and regulator) are certified.
+
+    A real order of conductor ``> 1`` needs its ``class_number`` and the norm
+    of its unit (``unit_norm``), found from its field's
+    (:mod:`realquad.classgroup.orders`): the relations are collected until
+    ``h*`` is that class number, and the caller shows that the factor base
+    generates the class group.
 
     The sieving runs in ``workers`` local processes (default: one below
     ``|D| = 10⁵⁰``, every core beyond) or on the Dask cluster at
@@ -286,12 +294,11 @@ def index_calculus(
     """
     D = order.discriminant
     check_reach(D)
-    if order.conductor != 1 and D > 0:
+    if order.conductor != 1 and D > 0 and (class_number is None or unit_norm is None):
         raise DomainError(
-            "index calculus takes real fields and imaginary orders; D = "
-            f"{D} is a real order of conductor {order.conductor}: its unit and regulator come "
-            "from its field's ('realquad unit'), its class group from the exact method while "
-            "its reduced forms are few"
+            f"index calculus on the real order of discriminant {D} (conductor "
+            f"{order.conductor}) needs its class number and unit norm, found from its field "
+            "by class_group(D, method='subexp') and fundamental_unit(D, method='subexp')"
         )
     bound = factor_base_bound(D)
     fb = factor_base(D, bound, order.conductor)
@@ -306,6 +313,11 @@ def index_calculus(
         collector = Collector(fb, params, seed, store)
         if D < 0:
             return _imaginary(order, fb, collector, executor, workers or 4, progress)
+        if class_number is not None and unit_norm is not None and order.conductor != 1:
+            rounds = _matrices(
+                fb, collector, executor, workers or 4, progress, *_row_targets(fb.generating_count)
+            )
+            return _real_order(order, fb, collector, rounds, class_number, unit_norm)
         return _real(order, fb, collector, executor, workers or 4, progress)
 
 
@@ -435,6 +447,37 @@ def _real(
                     generators,
                     negative,
                 )
+    raise AssertionError("unreachable: the rounds never end")  # pragma: no cover
+
+
+def _row_targets(first: int) -> tuple[int, int]:
+    """Rows wanted for the first matrix, and more for each next one (a class number known)."""
+    return first + max(20, first // 20), max(10, first // 20)
+
+
+def _real_order(
+    order: Order,
+    fb: FactorBase,
+    collector: Collector,
+    rounds: Iterator[RelationMatrix],
+    h: int,
+    unit_norm: int,
+) -> IndexCalculus:
+    """A real order whose class number ``h`` is known: rounds until ``h* = h`` (module notes)."""
+    gens = _Generators(fb)
+    for matrix in rounds:
+        found = lattice_quotient(matrix.rows, len(matrix.columns))
+        if found is None or found.order > h:
+            continue
+        if found.order < h:
+            raise ArithmeticError(
+                f"the factor base of D = {order.discriminant} generates a subgroup of "
+                f"{found.order} classes, not all {h}: the class group is not certified"
+            )
+        negative = [gens.negative(s) for s in matrix.sources]
+        narrow = _narrow_quotient(matrix, negative, h) if unit_norm == 1 else found
+        relations = collector.relations
+        return IndexCalculus(order, fb, matrix, found, relations, None, narrow, {}, negative)
     raise AssertionError("unreachable: the rounds never end")  # pragma: no cover
 
 

@@ -5,6 +5,7 @@ from __future__ import annotations
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from realquad.classgroup import class_group
 from realquad.classgroup.imaginary import class_group_imaginary
 from realquad.core.orders import Order
 from tests.cli.support import check_subexp_options, interrupted, run, run_json
@@ -22,6 +23,16 @@ def test_agrees_with_the_exact_method(capsys) -> None:  # type: ignore[no-untype
         exact = class_group_imaginary(Order(D))
         assert data["class_number"] == exact.class_number
         assert data["invariants"] == exact.invariants
+        assert data["proof"] == "GRH" and data["method"].startswith("index calculus")
+
+
+def test_orders_of_both_signs(capsys) -> None:  # type: ignore[no-untyped-def]
+    # references: the reduced forms (D < 0) and the cycles of reduced forms (D > 0), unconditional
+    for D in (-4 * 9 * (10**10 + 19), 9 * 4 * (10**10 + 19)):
+        data = run_json(capsys, "classgroup", "--disc", str(D), "--method", "subexp")
+        exact = class_group(D, method="exact")
+        assert data["invariants"] == exact.invariants
+        assert data["narrow_invariants"] == exact.narrow_invariants
         assert data["proof"] == "GRH" and data["method"].startswith("index calculus")
 
 
@@ -56,7 +67,6 @@ def test_bad_options(capsys) -> None:  # type: ignore[no-untyped-def]
         ),
         (["classgroup", "--disc", LARGE, "--scheduler", " "], "--scheduler"),
         (["classgroup", "61", "--method", "subexp"], "10¹⁰"),
-        (["classgroup", "--disc", "36000000000000000000036", "--method", "subexp"], "real order"),
     ]
     for args, needle in cases:
         code, out, err = run(capsys, *args)
