@@ -290,8 +290,9 @@ def log_of_product(factors: Factors, digits: int) -> tuple[mpmath.mpf, mpmath.mp
     and the rounding of the weighted sum.
     """
     total_weight = sum(e for _, e in factors)
-    size = sum(e * (2 + abs(float(f.log_abs_mpf(5)))) for f, e in factors)
-    prec = int(digits * 3.33) + max(1, int(size)).bit_length() + 40
+    # in integers: the exponents of a power product reach thousands of bits (80-digit fields)
+    size = sum(abs(e) * (3 + int(abs(float(f.log_abs_mpf(5))))) for f, e in factors)
+    prec = int(digits * 3.33) + max(1, size).bit_length() + 40
     with mpmath.workprec(prec + 20):
         value = mpmath.mpf(0)
         bound = mpmath.mpf(0)

@@ -97,6 +97,18 @@ def test_products_and_powers_stay_consistent() -> None:
     assert (u * half % p, v * half % p) == (x, y)
 
 
+def test_log_of_a_power_with_an_exponent_of_thousands_of_bits() -> None:
+    # the power products of index calculus at 80 digits have exponents beyond binary64's range;
+    # reference: k·R with R from the continued fraction
+    D = 4 * (10**9 + 7)
+    k = 3**2000 + 1
+    huge = compact_unit(D).power(k)
+    value, bound = huge.log(30)
+    with mpmath.workdps(1000):
+        exact = k * regulator_cfrac(D, 1000).value
+        assert abs(value - exact) <= bound + abs(exact) * mpmath.mpf(10) ** -29
+
+
 def test_expansion_refused_beyond_max_digits() -> None:
     eps = compact_unit(4 * (10**12 + 39))
     with pytest.raises(TooLargeError, match="digits"):
