@@ -27,8 +27,9 @@ Real orders (``D > 0``):
   (:mod:`realquad.classgroup.orders`), ``proof: "GRH"``, the regulator and
   unit with the group; sub-exponential in ``log D``;
 * ``"auto"`` — the exact method while the estimated number of reduced forms is
-  small (:data:`AUTO_EXACT_FORMS`), baby-step giant-step beyond, index
-  calculus from :data:`AUTO_SUBEXP_REAL` on
+  small (:data:`AUTO_EXACT_FORMS`), baby-step giant-step beyond (index
+  calculus for orders of conductor > 1), index calculus from
+  :data:`AUTO_SUBEXP_REAL` on
   (:func:`choose_class_group_method`).
 
 Both return the same :class:`~realquad.classgroup.group.ClassGroup`. The
@@ -65,6 +66,7 @@ from realquad.core.orders import Order
 from realquad.core.progress import Progress
 from realquad.core.results import check_method
 from realquad.relations.system import MAX_DISCRIMINANT as MAX_SUBEXP
+from realquad.relations.system import MIN_DISCRIMINANT as MIN_SUBEXP
 from realquad.relations.system import check_reach, refuse_sieve_options
 
 #: The methods of :func:`class_group` (``"auto"`` chooses one of the others).
@@ -115,6 +117,8 @@ def choose_class_group_method(
         return "exact"
     if within_reach and 2 * estimated_period(D, 20_000) <= min(AUTO_EXACT_FORMS, limit):
         return "exact"
+    if order.conductor != 1 and D >= MIN_SUBEXP:  # baby-step giant-step takes fields only
+        return "subexp"
     return "bsgs"
 
 

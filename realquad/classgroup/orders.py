@@ -208,10 +208,8 @@ def _cyclic_generator(D0: int, n0: int, p: int, n: int, rng: random.Random) -> i
     for x in candidates:
         if (x * x + D0 * x + n0) % p == 0:  # N(x + ω) ≡ 0: not a unit
             continue
-        if (
-            _power(D0, n0, p, x, n)[1] != 0
-        ):  # pragma: no cover - every unit's n-th power is rational
-            raise ArithmeticError("internal check failed: (O_K/p)^×/F_p^× is not of order n")
+        if _power(D0, n0, p, x, n)[1] != 0:  # pragma: no cover - the group has order n
+            raise ArithmeticError(f"internal check failed: (O_K/{p})^×/F_{p}^× is not of order {n}")
         if all(_power(D0, n0, p, x, n // q)[1] != 0 for q in primes):
             return x
     raise ArithmeticError(f"no generator of (O_K/{p})^×/F_{p}^× found")  # pragma: no cover

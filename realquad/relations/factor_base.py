@@ -82,8 +82,9 @@ def factor_base(D: int, bound: int, conductor: int = 1) -> FactorBase:
 
     For an order of conductor ``f > 1`` the primes dividing ``f`` are left
     out: the prime ideals above them are not invertible, and the invertible
-    ideals prime to ``f`` already meet every class (Cox, *Primes of the form
-    x² + ny²*, Corollary 7.17).
+    ideals prime to ``f`` already meet every class (D. A. Cox, *Primes of
+    the form x² + ny²*, §7.C: every class holds an ideal of norm prime to
+    any given integer).
 
     >>> factor_base(-20 * 9, 12, 3).primes      # D = −180 = 3²·(−20): 3 is left out
     [2, 5, 7]

@@ -21,8 +21,7 @@ the rows have full rank.
   unit index (:func:`class_number_range`), and no generating bound is
   assumed: :func:`realquad.classgroup.subexp.check_injective` shows that the
   quotient's generators are independent, so the factor base's subgroup has
-  ``h*`` classes and ``h* = h``. (Real orders of conductor ``> 1`` are not
-  taken yet.)
+  ``h*`` classes and ``h* = h``.
 * ``D > 0``: the kernel of the matrix gives units
   (:mod:`~realquad.relations.regulator`) and their gcd ``R* = k'·R``;
   relations are added until ``h*·R*`` falls in the interval for ``h·R =
@@ -31,7 +30,10 @@ the rows have full rank.
   more entry, ``1`` when the relation's generator has negative norm, and
   ``2·e_{n+1}``: the extra generator is the class of the principal ideals
   with a generator of negative norm (trivial in ``Cl⁺`` exactly when the
-  fundamental unit has norm −1).
+  fundamental unit has norm −1). A real order of conductor ``f > 1`` comes
+  with its class number and unit norm, found from its field
+  (:mod:`realquad.classgroup.orders`): relations are added until ``h* =
+  h``, and the caller shows that the factor base generates the group.
 
 Running time ``L(|D|)^{c}`` with ``L(x) = exp(√(log x·log log x))``
 (J. Buchmann, Séminaire de Théorie des Nombres, Paris 1988–89; J. L. Hafner

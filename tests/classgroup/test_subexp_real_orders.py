@@ -142,3 +142,6 @@ def test_lift_and_prime_to():
 
 def test_dispatch():
     assert choose_class_group_method(Order(9 * (10**40 + 121))) == "subexp"
+    # beyond the cycle method an order goes to index calculus (baby-step giant-step takes fields)
+    assert choose_class_group_method(Order(4 * 9 * (10**15 + 37))) == "subexp"
+    assert choose_class_group_method(Order(4 * 9 * (10**12 + 39))) == "exact"
