@@ -43,7 +43,6 @@ subexponential algorithm for computation of class groups", *J. AMS* 2
 
 from __future__ import annotations
 
-import functools
 import math
 import random
 
@@ -55,7 +54,7 @@ from realquad.core.primes import factorize
 from realquad.core.progress import Progress
 from realquad.core.results import Proof
 from realquad.errors import TooLargeError
-from realquad.relations.principal import ColumnFactoring, principal_ideal_relations
+from realquad.relations.principal import ColumnFactoring, PrincipalTest
 from realquad.relations.smooth import Relation
 from realquad.relations.system import IndexCalculus, index_calculus
 from realquad.units.results import Unit
@@ -296,7 +295,7 @@ def group_from_relations(
             2,
             locate=locate,
         )
-    principal = None if unit is not None else functools.partial(principal_ideal_relations, found)
+    principal = None if unit is not None else PrincipalTest(found)
     if unit is None:
         unit = unit_from_relations(found)
     if method is None:

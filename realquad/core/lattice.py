@@ -684,59 +684,94 @@ def lattice_solve(
     ``rows`` and ``target`` map columns ``0 ≤ j < n`` to integers; ``seed``
     draws the batches of core rows; ``quotient``, when given, must be that of
     these rows (it refuses a target outside the lattice without solving).
+    For many targets on the same rows, :class:`LatticeSolver` keeps the work
+    they share.
 
     >>> lattice_solve([{0: 6}, {0: 10}], 1, {0: 2})       # 2·6 − 10 = 2
     {0: 2, 1: -1}
     >>> lattice_solve([{0: 6}, {0: 10}], 1, {0: 3}) is None
     True
     """
+    goal = _goal(n, target)
+    if not goal or (quotient is not None and any(quotient.coordinates(goal))):
+        return {} if not goal else None
+    return LatticeSolver(rows, n, seed).solve(goal)
+
+
+def _goal(n: int, target: Mapping[int, int]) -> dict[int, int]:
     if n < 0:
         raise InputError(f"the number of columns must be ≥ 0, not {n}")
     goal = {int(j): int(x) for j, x in target.items() if x}
     for j in goal:
         if not 0 <= j < n:
             raise InputError(f"column {j} is outside 0 … {n - 1}")
-    if not goal:
-        return {}
-    if quotient is not None and any(quotient.coordinates(goal)):
-        return None
-    clean, origin, _ = normalised_rows(rows, n)
-    elimination = eliminate(clean, n, None)
-    v = dict(goal)
-    combination: dict[int, int] = {}  # rows after elimination ↦ coefficient
-    for (c, pivot), (best, _) in zip(elimination.log, elimination.steps, strict=True):
-        x = v.get(c)
-        if x:
-            f = x * pivot[c]  # pivot[c] = ±1
-            combination[best] = combination.get(best, 0) + f
-            for j, z in pivot.items():
-                w = v.get(j, 0) - f * z
-                if w:
-                    v[j] = w
-                else:
-                    v.pop(j, None)
-    if v:
-        core = _Core.of(elimination)
-        if not set(v) <= set(core.columns):  # pragma: no cover - pivots clear their columns
-            return None
-        found = _core_solve(core, v, random.Random(seed))
-        if found is None:
-            return None
-        for i, x in found.items():
-            row = core.index[i]
-            combination[row] = combination.get(row, 0) + x
-    rewritten = replay(elimination.steps, [combination])[0]
-    out = {origin[i]: x for i, x in sorted(rewritten.items()) if x}
-    if _combination(out, rows) != goal:
-        raise ArithmeticError("internal check failed: the combination found is not the target")
-    return out
+    return goal
 
 
-def _core_solve(core: _Core, v: dict[int, int], rng: random.Random) -> dict[int, int] | None:
+class LatticeSolver:
+    """:func:`lattice_solve` for many targets on the same rows: the structured
+    elimination, and the kernel system of its dense core, are computed once.
+
+    >>> S = LatticeSolver([{0: 6, 1: 1}, {0: 10}], 2)
+    >>> S.solve({0: 2, 1: 2}), S.solve({0: 6, 1: 1}), S.solve({0: 2}) is None
+    ({0: 2, 1: -1}, {0: 1}, True)
+    """
+
+    def __init__(self, rows: Sequence[Mapping[int, int]], n: int, seed: int = 1) -> None:
+        _goal(n, {})
+        self.rows, self.n, self.seed = rows, n, seed
+        clean, self.origin, _ = normalised_rows(rows, n)
+        self.elimination = eliminate(clean, n, None)
+        self._core: tuple[_Core, _KernelSystem | None] | None = None
+
+    def solve(
+        self, target: Mapping[int, int], quotient: LatticeQuotient | None = None
+    ) -> dict[int, int] | None:
+        """``c`` with ``Σ c[i]·rows[i] = target``, or ``None`` (:func:`lattice_solve`)."""
+        goal = _goal(self.n, target)
+        if not goal:
+            return {}
+        if quotient is not None and any(quotient.coordinates(goal)):
+            return None
+        elimination = self.elimination
+        v = dict(goal)
+        combination: dict[int, int] = {}  # rows after elimination ↦ coefficient
+        for (c, pivot), (best, _) in zip(elimination.log, elimination.steps, strict=True):
+            x = v.get(c)
+            if x:
+                f = x * pivot[c]  # pivot[c] = ±1
+                combination[best] = combination.get(best, 0) + f
+                for j, z in pivot.items():
+                    w = v.get(j, 0) - f * z
+                    if w:
+                        v[j] = w
+                    else:
+                        v.pop(j, None)
+        if v:
+            rng = random.Random(self.seed)
+            if self._core is None:
+                core = _Core.of(elimination)
+                self._core = core, _kernel_system(core, rng)
+            core, system = self._core
+            if not set(v) <= set(core.columns):  # pragma: no cover - pivots clear their columns
+                return None
+            found = None if system is None else _core_solve(core, system, v, rng)
+            if found is None:
+                return None
+            for i, x in found.items():
+                row = core.index[i]
+                combination[row] = combination.get(row, 0) + x
+        rewritten = replay(elimination.steps, [combination])[0]
+        out = {self.origin[i]: x for i, x in sorted(rewritten.items()) if x}
+        if _combination(out, self.rows) != goal:
+            raise ArithmeticError("internal check failed: the combination found is not the target")
+        return out
+
+
+def _core_solve(
+    core: _Core, system: _KernelSystem, v: dict[int, int], rng: random.Random
+) -> dict[int, int] | None:
     """``{core position: coefficient}`` with ``Σ c·core rows = v``, or ``None`` (``v`` not in their span)."""
-    system = _kernel_system(core, rng)
-    if system is None:  # pragma: no cover - core rows are nonzero
-        return None
     extended = dataclasses.replace(core, rows=[*core.rows, v], searched=True, found=core.basis)
     target = len(core.rows)
     taken = set(system.chosen)

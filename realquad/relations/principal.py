@@ -48,11 +48,12 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable
 
 import gmpy2
 import mpmath
 
-from realquad.core.lattice import lattice_solve
+from realquad.core.lattice import LatticeSolver, lattice_solve
 from realquad.core.numbers import QuadraticNumber
 from realquad.core.progress import Progress
 from realquad.errors import DomainError, TooLargeError
@@ -116,17 +117,40 @@ class ColumnFactoring:
         return vector, M
 
 
+class PrincipalTest:
+    """:func:`principal_ideal_relations` on one set of relations, the lattice solver kept
+    between calls (its elimination and dense core are the same for every ideal)."""
+
+    def __init__(self, found: IndexCalculus) -> None:
+        self.found = found
+        self._solver: LatticeSolver | None = None
+
+    def solver(self) -> LatticeSolver:
+        if self._solver is None:
+            matrix = self.found.matrix
+            self._solver = LatticeSolver(matrix.rows, len(matrix.columns))
+        return self._solver
+
+    def __call__(
+        self, a: int, b: int, progress: Progress | None = None, max_steps: int = MAX_STEPS
+    ) -> PrincipalityResult:
+        return principal_ideal_relations(self.found, a, b, progress, max_steps, self.solver)
+
+
 def principal_ideal_relations(
     found: IndexCalculus,
     a: int,
     b: int,
     progress: Progress | None = None,
     max_steps: int = MAX_STEPS,
+    solver: Callable[[], LatticeSolver] | None = None,
 ) -> PrincipalityResult:
     """Whether ``[a, (b + √D)/2]`` is principal in the real field of ``found``, with a generator.
 
     ``found``: the certified relations (:func:`~realquad.relations.system.index_calculus`).
     ``progress`` hears ``("baby steps", count, max_steps)`` during a long search.
+    ``solver`` gives the relation lattice's :class:`~realquad.core.lattice.LatticeSolver`
+    (:class:`PrincipalTest` keeps one for many ideals).
     """
     D = found.order.discriminant
     if D < 0 or found.unit is None:
@@ -157,8 +181,11 @@ def principal_ideal_relations(
     vector, M = hit
     if any(found.quotient.coordinates(vector)):
         return PrincipalityResult(D, a, b, False, None, METHOD, "GRH")
-    matrix = found.matrix
-    c = lattice_solve(matrix.rows, len(matrix.columns), vector, quotient=found.quotient)
+    if solver is None:
+        matrix = found.matrix
+        c = lattice_solve(matrix.rows, len(matrix.columns), vector, quotient=found.quotient)
+    else:
+        c = solver().solve(vector)
     if c is None:  # pragma: no cover - the quotient said the vector is in the lattice
         raise ArithmeticError("internal check failed: a vector of the relation lattice unsolved")
     x = _distance(found, c, math.log(M) - math.log(ideal[0]) - distance)

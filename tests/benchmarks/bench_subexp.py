@@ -60,4 +60,19 @@ def workloads() -> list[dict[str, Any]]:
                 "target": TARGETS.get(k, ""),
             }
         )
+    for k, f in ((30, 210), (40, 6), (60, 6)):
+        D = prime_field(k) * f * f  # an order of conductor f: Order.from_conductor skips factoring
+        out.append(
+            {
+                "name": f"subexp: class group of the order D = −{f}²·(p ≈ 10^{k})",
+                "run": (
+                    lambda D=D, f=f: class_group(
+                        Order.from_conductor(D // (f * f), f), method="subexp"
+                    )
+                ),
+                "reference": None,
+                "reference_name": None,
+                "repeat": 1,
+            }
+        )
     return out

@@ -67,4 +67,19 @@ def workloads() -> list[dict[str, Any]]:
                 "target": TARGETS.get(k, ""),
             }
         )
+    for k, f in ((40, 6), (60, 6)):
+        p = prime_field(k)
+        out.append(
+            {
+                "name": f"subexp: class group and regulator of the order D = {f}²·(p ≈ 10^{k})",
+                "run": (
+                    lambda p=p, f=f: (
+                        class_group(Order.from_conductor(p, f), method="subexp").regulator
+                    )
+                ),
+                "reference": (lambda p=p: class_group(Order(p), method="subexp").regulator),
+                "reference_name": "its field alone",
+                "repeat": 1,
+            }
+        )
     return out

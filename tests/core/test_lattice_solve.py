@@ -19,7 +19,7 @@ from hypothesis import strategies as st
 from sympy import Matrix
 from sympy.matrices.normalforms import invariant_factors
 
-from realquad.core.lattice import lattice_quotient, lattice_solve
+from realquad.core.lattice import LatticeSolver, lattice_quotient, lattice_solve
 from realquad.errors import InputError
 from tests.core.test_lattice import add, class_group_like
 from tests.core.test_lattice_kernel import combination
@@ -98,6 +98,25 @@ def test_class_group_like(n: int, moduli: list[int], seed: int) -> None:
             assert combination(found, rows) == {j: x for j, x in target.items() if x}
         if not expected:  # without the quotient: every core row is tried, then refused
             assert lattice_solve(rows, n, target, seed=trial) is None
+
+
+@pytest.mark.parametrize(("n", "moduli", "seed"), [(300, [2, 4, 360], 3)])
+def test_one_solver_for_many_targets(n: int, moduli: list[int], seed: int) -> None:
+    """The kept elimination and core system answer every target as a fresh solve would."""
+    rows, images = class_group_like(n, moduli, seed)
+    solver = LatticeSolver(rows, n, seed)
+    rng = random.Random(seed)
+    for trial in range(15):
+        target: Row = {}
+        if trial % 2 == 0:
+            for i in rng.sample(range(len(rows)), 5):
+                target = add(target, rows[i], rng.choice([1, -1, 3]))
+        else:
+            target = {j: rng.randint(-9, 9) for j in rng.sample(range(n), 6)}
+        found = solver.solve(target)
+        assert (found is not None) == member(images, moduli, target)
+        if found is not None:
+            assert combination(found, rows) == {j: x for j, x in target.items() if x}
 
 
 def test_edge_cases() -> None:
