@@ -24,7 +24,11 @@ from realquad.core.ideals import Ideal
 from realquad.core.orders import Order
 from realquad.errors import DomainError, InputError, RealquadError, TooLargeError
 from realquad.infrastructure.principal import principal_ideal_test
-from realquad.relations.principal import ColumnFactoring, principal_ideal_relations
+from realquad.relations.principal import (
+    ColumnFactoring,
+    PrincipalTest,
+    principal_ideal_relations,
+)
 from realquad.relations.system import index_calculus
 
 #: Fields near 10¹⁰ with h > 1 and regulators near 10⁴ (generators of a few thousand digits).
@@ -61,8 +65,9 @@ def test_generators_expand_into_the_ideal(small_field) -> None:
     D, found = small_field
     h = found.quotient.order
     principal = 0
+    tester = PrincipalTest(found)  # one lattice solver for all ten ideals
     for k, (a, b) in enumerate(ideals(D, 6, D, 1) + ideals(D, 4, D + 1, h)):
-        test = principal_ideal_relations(found, a, b)
+        test = tester(a, b)
         bsgs = principal_ideal_test(D, a, b)
         assert test.principal == bsgs.principal
         if k >= 6:
