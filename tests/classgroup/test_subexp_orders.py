@@ -163,3 +163,18 @@ def test_dispatch():
         class_group_subexp(
             Order(4 * 9 * (10**11 + 3))
         )  # class_group() finds h from the field first
+
+
+def test_class_of_locates_forms_of_an_order():
+    # reference: composition of the generators' powers against the form (reduced forms of D < 0)
+    D = field(-(10**10 + 19)).discriminant * 36
+    G = class_group_subexp(Order(D))
+    E = class_group_imaginary(Order(D))
+    assert E.generators and G.invariants == E.invariants
+    rng = random.Random(4)
+    for g in E.generators:
+        F = g.power(rng.randrange(2, 1000))
+        H = Form.identity(D)
+        for gen, e in zip(G.generators, G.class_of(F), strict=True):
+            H = H.compose(gen.power(e))
+        assert H.reduced() == F.reduced()

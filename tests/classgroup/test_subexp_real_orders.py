@@ -145,3 +145,17 @@ def test_dispatch():
     # beyond the cycle method an order goes to index calculus (baby-step giant-step takes fields)
     assert choose_class_group_method(Order(4 * 9 * (10**15 + 37))) == "subexp"
     assert choose_class_group_method(Order(4 * 9 * (10**12 + 39))) == "exact"
+
+
+def test_classes_and_principal_forms_of_a_real_order():
+    # reference: the cycle method's own coordinates (orders of the classes agree)
+    D = field(10**10 + 19).discriminant * 36
+    G = class_group(D, method="subexp")
+    E = class_group(D, method="exact")
+    assert E.generators and G.invariants == E.invariants
+    rng = random.Random(5)
+    for g in E.generators:
+        for k in (1, 2, rng.randrange(3, 100)):
+            F = g.power(k)
+            assert G.is_principal(F) == E.is_principal(F)
+            assert G.is_narrowly_principal(F) == E.is_narrowly_principal(F)
