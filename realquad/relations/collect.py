@@ -77,10 +77,11 @@ def factor_base_bound(D: int) -> int:
 
 #: The threshold's room for the large primes, in bits of one large prime (``log₂`` of the
 #: large-prime bound, times 0.9): once below 55 digits, 1.3 times from there (more values
-#: tried pays off), and from 72 digits 1.6 times, with two large primes allowed
-#: (docs/performance.md: 80 digits in 299 s against 446 s).
+#: tried pays off), and from 72 digits 1.9 times, with two large primes allowed
+#: (docs/performance.md: 80 digits in 280 s with 1.9, about 320 s with 1.6, over 400 s
+#: with 2.2 and 446 s with one large prime).
 ROOM_FROM, ROOM = 55, 1.3
-DOUBLE_FROM, DOUBLE_ROOM = 72, 1.6
+DOUBLE_FROM, DOUBLE_ROOM = 72, 1.9
 
 
 def sieve_parameters(D: int, bound: int) -> SieveParameters:
