@@ -154,7 +154,10 @@ class ClassLocator:
 
     def __call__(self, F: Form, narrow: bool = False, tries: int = 3_000_000) -> list[int]:
         rng = random.Random(F.a ^ F.b)
-        G, shift = self._prime_to_conductor(F.reduced()), dict[int, int]()
+        # the shifts below compose with it: reduced, and for an order with a first
+        # coefficient prime to the conductor
+        F = self._prime_to_conductor(F.reduced())
+        G, shift = F, dict[int, int]()
         for _ in range(tries):
             found = self.factoring.exponents(G.a, G.b)
             if found is not None:
