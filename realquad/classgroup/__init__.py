@@ -104,7 +104,7 @@ def choose_class_group_method(
     if D < 0 and method == "auto":
         if -D <= imaginary.MAX_DISCRIMINANT:
             return "exact"
-        if order.conductor != 1:  # baby-step giant-step takes fields only
+        if -D <= MAX_SUBEXP and order.conductor != 1:  # baby-step giant-step takes fields only
             return "subexp"
         return "bsgs" if -D < AUTO_SUBEXP_IMAGINARY else "subexp"
     if method != "auto":
@@ -117,7 +117,7 @@ def choose_class_group_method(
         return "exact"
     if within_reach and 2 * estimated_period(D, 20_000) <= min(AUTO_EXACT_FORMS, limit):
         return "exact"
-    if order.conductor != 1 and D >= MIN_SUBEXP:  # baby-step giant-step takes fields only
+    if MIN_SUBEXP <= D <= MAX_SUBEXP and order.conductor != 1:  # bsgs takes fields only
         return "subexp"
     return "bsgs"
 

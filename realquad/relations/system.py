@@ -82,7 +82,7 @@ from realquad.relations.store import RelationStore
 MIN_DISCRIMINANT = 10**10
 
 #: Largest ``|D|`` the method is started for (100 digits: the published frontier; 80 digits take
-#: hours on two cores, docs/performance.md).
+#: three to five minutes on two cores, docs/performance.md).
 MAX_DISCRIMINANT = 10**100
 
 #: ``|D|`` from which the sieving runs on every core by default (below, starting processes costs more).
@@ -267,7 +267,7 @@ def check_reach(D: int) -> None:
     if abs(D) > MAX_DISCRIMINANT:
         raise TooLargeError(
             f"D has {len(str(abs(D)))} digits: beyond reach of the sub-exponential method "
-            "(at most 100 digits; 80 take hours)"
+            "(at most 100 digits; 80 take minutes on two cores)"
         )
 
 
