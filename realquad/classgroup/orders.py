@@ -56,7 +56,7 @@ from realquad.core.progress import Progress
 from realquad.core.results import Proof
 from realquad.relations.system import MIN_DISCRIMINANT, index_calculus
 from realquad.units import fundamental_unit
-from realquad.units.orders import unit_group_index, unit_of_order
+from realquad.units.orders import lifted_unit, unit_group_index
 
 METHOD = (
     "index calculus: relations among the {n} prime ideals of norm ≤ {bound} prime to the "
@@ -91,12 +91,12 @@ def class_group_real_order(
             else class_group_bsgs(field_order)
         )
         field_unit = fundamental_unit(field_order)
-    unit = unit_of_order(order, field_unit)
+    unit, m = lifted_unit(order, field_unit)
     N = unit_group_index(order)
-    digits = len(str(N)) + 30
-    m = round(float(unit.regulator(digits).value / field_unit.regulator(digits).value))
-    if m < 1 or N % m or (K.class_number * N) % m:
-        raise ArithmeticError(f"internal check failed: unit index {m} does not divide N = {N}")
+    if (K.class_number * N) % m:
+        raise ArithmeticError(
+            f"internal check failed: h_K·N = {K.class_number * N} is not a multiple of m = {m}"
+        )
     h = K.class_number * N // m
     found = index_calculus(
         order,

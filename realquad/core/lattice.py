@@ -692,25 +692,13 @@ def lattice_solve(
     >>> lattice_solve([{0: 6}, {0: 10}], 1, {0: 3}) is None
     True
     """
-    goal = _goal(n, target)
-    if not goal or (quotient is not None and any(quotient.coordinates(goal))):
-        return {} if not goal else None
-    return LatticeSolver(rows, n, seed).solve(goal)
-
-
-def _goal(n: int, target: Mapping[int, int]) -> dict[int, int]:
-    if n < 0:
-        raise InputError(f"the number of columns must be ≥ 0, not {n}")
-    goal = {int(j): int(x) for j, x in target.items() if x}
-    for j in goal:
-        if not 0 <= j < n:
-            raise InputError(f"column {j} is outside 0 … {n - 1}")
-    return goal
+    return LatticeSolver(rows, n, seed).solve(target, quotient)
 
 
 class LatticeSolver:
     """:func:`lattice_solve` for many targets on the same rows: the structured
-    elimination, and the kernel system of its dense core, are computed once.
+    elimination, and the kernel system of its dense core, are computed once
+    (when a first target needs them).
 
     >>> S = LatticeSolver([{0: 6, 1: 1}, {0: 10}], 2)
     >>> S.solve({0: 2, 1: 2}), S.solve({0: 6, 1: 1}), S.solve({0: 2}) is None
@@ -718,22 +706,28 @@ class LatticeSolver:
     """
 
     def __init__(self, rows: Sequence[Mapping[int, int]], n: int, seed: int = 1) -> None:
-        _goal(n, {})
+        if n < 0:
+            raise InputError(f"the number of columns must be ≥ 0, not {n}")
         self.rows, self.n, self.seed = rows, n, seed
-        clean, self.origin, _ = normalised_rows(rows, n)
-        self.elimination = eliminate(clean, n, None)
+        self._elimination: tuple[list[int], Elimination] | None = None
         self._core: tuple[_Core, _KernelSystem | None] | None = None
 
     def solve(
         self, target: Mapping[int, int], quotient: LatticeQuotient | None = None
     ) -> dict[int, int] | None:
         """``c`` with ``Σ c[i]·rows[i] = target``, or ``None`` (:func:`lattice_solve`)."""
-        goal = _goal(self.n, target)
+        goal = {int(j): int(x) for j, x in target.items() if x}
+        for j in goal:
+            if not 0 <= j < self.n:
+                raise InputError(f"column {j} is outside 0 … {self.n - 1}")
         if not goal:
             return {}
         if quotient is not None and any(quotient.coordinates(goal)):
             return None
-        elimination = self.elimination
+        if self._elimination is None:
+            clean, origin, _ = normalised_rows(self.rows, self.n)
+            self._elimination = origin, eliminate(clean, self.n, None)
+        origin, elimination = self._elimination
         v = dict(goal)
         combination: dict[int, int] = {}  # rows after elimination ↦ coefficient
         for (c, pivot), (best, _) in zip(elimination.log, elimination.steps, strict=True):
@@ -762,7 +756,7 @@ class LatticeSolver:
                 row = core.index[i]
                 combination[row] = combination.get(row, 0) + x
         rewritten = replay(elimination.steps, [combination])[0]
-        out = {self.origin[i]: x for i, x in sorted(rewritten.items()) if x}
+        out = {origin[i]: x for i, x in sorted(rewritten.items()) if x}
         if _combination(out, self.rows) != goal:
             raise ArithmeticError("internal check failed: the combination found is not the target")
         return out

@@ -359,9 +359,7 @@ def _imaginary(
     lo, hi = class_number_range(order)
     if hi >= 2 * lo:  # pragma: no cover - the bound is far tighter at these sizes
         raise ArithmeticError(f"internal check failed: the interval [{lo}, {hi}] is too wide")
-    first = fb.generating_count
-    need = first + max(20, first // 20)
-    step = max(10, first // 20)
+    need, step = _row_targets(fb.generating_count)
     for matrix in _matrices(fb, collector, executor, workers, progress, need, step):
         found = lattice_quotient(matrix.rows, len(matrix.columns))
         if found is not None and found.order <= hi:
@@ -453,7 +451,7 @@ def _real(
 
 
 def _row_targets(first: int) -> tuple[int, int]:
-    """Rows wanted for the first matrix, and more for each next one (a class number known)."""
+    """Rows wanted for the first matrix, and more for each next one (no kernel needed)."""
     return first + max(20, first // 20), max(10, first // 20)
 
 

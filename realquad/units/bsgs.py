@@ -36,13 +36,10 @@ from realquad.infrastructure.regulator_search import (
     search_regulator,
 )
 from realquad.textio import about, shown
-from realquad.units.results import Regulator, Unit
+from realquad.units.results import MAX_EXPANDED_DIGITS, Regulator, Unit
 
 #: Largest number of giant steps the infrastructure search is started for (hours of work).
 MAX_GIANT_STEPS = 10**9
-
-#: Largest unit (decimal digits) :meth:`Unit.expand` writes out from a compact representation.
-MAX_EXPANDED_DIGITS = 50_000_000
 
 
 def check_reach(D: int) -> None:

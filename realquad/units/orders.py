@@ -33,7 +33,7 @@ from realquad.core.primes import factorize, kronecker
 from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import Factors, exact_principal_at, log_of_product
 from realquad.infrastructure.ideals import Cycle
-from realquad.units.results import Regulator, Unit
+from realquad.units.results import MAX_EXPANDED_DIGITS, Regulator, Unit
 
 #: Largest distance walked with binary64 distances (good to about ``10⁻¹²·x``); beyond,
 #: the walk carries ``mpmath`` distances.
@@ -58,9 +58,14 @@ def unit_group_index(order: Order) -> int:
 
 def unit_of_order(order: Order, field_unit: Unit) -> Unit:
     """The fundamental unit of ``order`` from ``field_unit``, that of its field (module notes)."""
+    return lifted_unit(order, field_unit)[0]
+
+
+def lifted_unit(order: Order, field_unit: Unit) -> tuple[Unit, int]:
+    """The fundamental unit of ``order`` and the unit index ``m = [O_K^× : O^×]`` (module notes)."""
     D = order.discriminant
     if order.conductor == 1:
-        return field_unit
+        return field_unit, 1
     N = unit_group_index(order)
     digits = len(str(N)) + len(str(int(field_unit.regulator(10).value))) + 25
     R_K = field_unit.regulator(digits).value
@@ -92,17 +97,18 @@ def unit_of_order(order: Order, field_unit: Unit) -> Unit:
         R = compact.log(digits)[0]
         return 1 if D % 2 == 0 or _power_in_order(4 * D, 1, R, digits) else 2
 
-    return Unit(
+    unit = Unit(
         order=order,
         norm=norm,
         period_length=None,
         method=method,
         proof=proof,
-        _expander=lambda: compact.expand(50_000_000),
+        _expander=lambda: compact.expand(MAX_EXPANDED_DIGITS),
         _regulator=regulator_to,
         _compact=lambda: compact,
         _denominator=denominator,
     )
+    return unit, m
 
 
 def _power_in_order(D: int, t: int, R: mpmath.mpf, digits: int) -> Factors | None:

@@ -119,6 +119,9 @@ def trace_digits(regulator: Regulator, norm: int, factor: Fraction) -> int | Non
 #: The most digits :meth:`Unit.to_latex` expands a unit to when every digit is asked for.
 EXPAND_LIMIT = 20_000_000
 
+#: Largest unit (decimal digits) :meth:`Unit.expand` writes out from a compact representation.
+MAX_EXPANDED_DIGITS = 50_000_000
+
 
 @dataclass(eq=False)
 class Unit(Display):

@@ -35,7 +35,7 @@ from realquad.infrastructure.compact import CompactRepresentation
 from realquad.infrastructure.distances import exact_principal_at
 from realquad.infrastructure.ideals import Cycle
 from realquad.relations.system import IndexCalculus, index_calculus
-from realquad.units.results import NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
+from realquad.units.results import MAX_EXPANDED_DIGITS, NO_UNIT_OF_INFINITE_ORDER, Regulator, Unit
 
 METHOD = (
     "index calculus: relations among the {n} prime ideals of norm ≤ {bound} from a "
@@ -46,9 +46,6 @@ METHOD = (
 #: Largest ``R`` whose doubling walk uses binary64 distances (good to about ``10⁻¹²·R``);
 #: beyond, the walk carries ``mpmath`` distances.
 INFRASTRUCTURE_LIMIT = 10**12
-
-#: Largest unit (decimal digits) :meth:`Unit.expand` writes out.
-MAX_EXPANDED_DIGITS = 50_000_000
 
 
 def method_of(found: IndexCalculus) -> str:

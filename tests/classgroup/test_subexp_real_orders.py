@@ -13,7 +13,6 @@ from __future__ import annotations
 import random
 from fractions import Fraction
 
-import gmpy2
 import mpmath
 import pytest
 
@@ -25,20 +24,7 @@ from realquad.core.orders import Order, field
 from realquad.core.primes import factorize, kronecker
 from realquad.units.orders import unit_group_index
 from tests.markers import HEAVY
-
-
-def _random_orders(seed: int, count: int, low: int, high: int) -> list[int]:
-    rng = random.Random(seed)
-    found: list[int] = []
-    while len(found) < count:
-        f = rng.choice([2, 3, 4, 5, 6, 7, 10, 12, 30, 60, rng.randrange(2, 300)])
-        r = rng.randrange(2, high // f**2 + 3)
-        if gmpy2.is_square(r):
-            continue
-        D = field(r).discriminant * f * f
-        if low <= D <= high:
-            found.append(D)
-    return found
+from tests.units.test_orders import random_real_orders
 
 
 def _assert_same(D: int) -> None:
@@ -50,13 +36,13 @@ def _assert_same(D: int) -> None:
     assert "prime to the conductor" in G.method
 
 
-@pytest.mark.parametrize("D", _random_orders(3, 16, 10**10, 10**12))
+@pytest.mark.parametrize("D", random_real_orders(3, 16, 10**10, 10**12))
 def test_agrees_with_the_cycle_method(D):
     _assert_same(D)
 
 
 @HEAVY
-@pytest.mark.parametrize("D", _random_orders(4, 12, 10**12, 2 * 10**12))
+@pytest.mark.parametrize("D", random_real_orders(4, 12, 10**12, 2 * 10**12))
 def test_agrees_with_the_cycle_method_larger(D):
     _assert_same(D)
 

@@ -22,7 +22,8 @@ from realquad.units.orders import unit_group_index, unit_of_order
 from tests.markers import HEAVY
 
 
-def _random_orders(seed: int, count: int, low: int, high: int) -> list[int]:
+def random_real_orders(seed: int, count: int, low: int, high: int) -> list[int]:
+    """Random real orders ``D₀·f²`` with ``low ≤ D ≤ high`` and ``f > 1`` (also for the class group tests)."""
     rng = random.Random(seed)
     found: list[int] = []
     while len(found) < count:
@@ -36,7 +37,7 @@ def _random_orders(seed: int, count: int, low: int, high: int) -> list[int]:
     return found
 
 
-@pytest.mark.parametrize("D", _random_orders(5, 30, 10**10, 10**13))
+@pytest.mark.parametrize("D", random_real_orders(5, 30, 10**10, 10**13))
 def test_agrees_with_the_continued_fraction_of_the_order(D):
     order = Order(D)
     assert order.conductor > 1
@@ -48,7 +49,7 @@ def test_agrees_with_the_continued_fraction_of_the_order(D):
     assert "least power of the field's unit" in found.method
 
 
-@pytest.mark.parametrize("D", _random_orders(8, 30, 50, 10**6))
+@pytest.mark.parametrize("D", random_real_orders(8, 30, 50, 10**6))
 def test_small_orders_from_the_field_unit(D):
     # below the sieve's reach the lift itself still serves any field unit
     order = Order(D)
